@@ -1,0 +1,35 @@
+"""isosieve: isomers, point groups and stretching-band counts for ligand
+substitution on metal centres.
+
+The import package is ``enumerator``; the console command is ``isosieve``.
+The core (geometry, group, isomers, spectroscopy) is pure: it never prints,
+reads files behind the caller's back, or exits.
+
+>>> from enumerator import load_rules, parse_abstract, enumerate_isomers
+>>> s = enumerate_isomers(parse_abstract("Ma3b3"), load_rules().geometry("OC-6"))
+>>> [i.point_group for i in s.isomers]
+['C3v', 'C2v']
+"""
+
+from __future__ import annotations
+
+__version__ = "0.1.0"
+
+from .errors import CapacityError, InputError, IsosieveError, RuleError
+from .formula import parse_abstract
+from .isomers import Isomer, IsomerSet, enumerate_isomers, generate
+from .rules import load_rules
+
+__all__ = [
+    "__version__",
+    "IsosieveError",
+    "InputError",
+    "RuleError",
+    "CapacityError",
+    "load_rules",
+    "parse_abstract",
+    "enumerate_isomers",
+    "generate",
+    "Isomer",
+    "IsomerSet",
+]

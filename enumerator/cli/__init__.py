@@ -1,0 +1,101 @@
+"""The ``isosieve`` command line: thin click commands over the library.
+
+Each command lives in its own module and is imported only when run, so
+``isosieve --help`` stays fast.  Errors in the user's input print one line
+and exit with status 2; internal errors exit with status 1; ``--debug``
+shows the traceback.
+"""
+
+from __future__ import annotations
+
+import importlib
+import os
+import sys
+
+import click
+
+__all__ = ["cli", "main", "COMMANDS"]
+
+#: command name -> (module, function, one-line help).  Add a command here.
+COMMANDS: dict[str, tuple[str, str, str]] = {
+    "isomers": ("enumerator.cli.isomers_cmd", "isomers", "List every isomer of a formula with its point group."),
+    "geometries": ("enumerator.cli.geometries_cmd", "geometries", "List the coordination geometries and their symmetry groups."),
+}
+
+
+class LazyGroup(click.Group):
+    """A click group whose sub-commands are imported on first use."""
+
+    def list_commands(self, ctx: click.Context) -> list[str]:
+        return sorted(COMMANDS)
+
+    def get_command(self, ctx: click.Context, name: str):
+        if name not in COMMANDS:
+            return None
+        module, attr, _ = COMMANDS[name]
+        return getattr(importlib.import_module(module), attr)
+
+    def format_commands(self, ctx: click.Context, formatter: click.HelpFormatter) -> None:
+        rows = [(name, COMMANDS[name][2]) for name in sorted(COMMANDS)]
+        with formatter.section("Commands"):
+            formatter.write_dl(rows)
+
+
+@click.group(cls=LazyGroup, context_settings={"help_option_names": ["-h", "--help"], "max_content_width": 100})
+@click.version_option(package_name="isosieve", prog_name="isosieve")
+@click.option("--rules", "rules", multiple=True, type=click.Path(file_okay=False), metavar="DIR",
+              help="Extra rule folder (geometries/, ligands.toml, ...); repeatable.")
+@click.option("--debug", is_flag=True, help="Show the full traceback of any error.")
+@click.pass_context
+def cli(ctx: click.Context, rules: tuple[str, ...], debug: bool) -> None:
+    """isosieve: which isomers a ligand substitution can give, their point
+    groups, and which of them IR, Raman or NMR can tell apart.
+
+    \b
+    Examples:
+      isosieve isomers Ma2b2c2
+      isosieve isomers "M(AA)2b2" --json
+      isosieve geometries
+    """
+    ctx.ensure_object(dict)
+    ctx.obj["rules"] = rules
+    ctx.obj["debug"] = debug
+
+
+def main(argv: list[str] | None = None) -> None:
+    """Console entry point with the project's exit-status contract."""
+    from ..errors import IsosieveError
+
+    args = list(sys.argv[1:] if argv is None else argv)
+    debug = "--debug" in args or os.environ.get("ISOSIEVE_DEBUG") == "1"
+    try:
+        cli.main(args=args, prog_name="isosieve", standalone_mode=False)
+    except click.exceptions.Exit as exc:
+        sys.exit(exc.exit_code)
+    except click.ClickException as exc:
+        if debug:
+            raise
+        exc.show()
+        sys.exit(exc.exit_code)
+    except click.Abort:
+        click.echo("isosieve: interrupted", err=True)
+        sys.exit(130)
+    except KeyboardInterrupt:
+        click.echo("isosieve: interrupted", err=True)
+        sys.exit(130)
+    except IsosieveError as exc:
+        if debug:
+            raise
+        click.echo(f"isosieve: error: {exc.line()}", err=True)
+        sys.exit(exc.exit_status)
+    except BrokenPipeError:
+        sys.exit(0)
+    except Exception as exc:  # internal error
+        if debug:
+            raise
+        msg = str(exc).splitlines()[0] if str(exc) else ""
+        click.echo(
+            f"isosieve: internal error: {type(exc).__name__}: {msg} (rerun with --debug for the traceback, and please report it)",
+            err=True,
+        )
+        sys.exit(1)

@@ -1,0 +1,54 @@
+"""Options and helpers shared by several commands."""
+
+from __future__ import annotations
+
+import os
+import tempfile
+from pathlib import Path
+
+import click
+
+from ..errors import InputError
+
+__all__ = ["pairs_option", "parse_pairs", "emit", "write_atomic", "rules_of"]
+
+
+def parse_pairs(values: tuple[str, ...], option: str, example: str) -> tuple[tuple[str, str], ...]:
+    """'NAME=VALUE' strings -> pairs, with a clear error for a bad one."""
+    out = []
+    for v in values:
+        name, sep, val = v.partition("=")
+        if not sep or not name.strip() or not val.strip():
+            raise InputError(f"{option} '{v}' is not NAME=VALUE", f"write e.g. {option} {example}")
+        out.append((name.strip(), val.strip()))
+    return tuple(out)
+
+
+def rules_of(ctx: click.Context) -> tuple[str, ...]:
+    return tuple((ctx.find_root().obj or {}).get("rules", ()))
+
+
+def write_atomic(path: str | os.PathLike[str], text: str) -> None:
+    """Write a whole file or nothing: a temporary file beside it, then a rename."""
+    p = Path(path)
+    if p.parent and not p.parent.exists():
+        raise InputError(f"folder '{p.parent}' does not exist", "create it first or choose another --out")
+    fd, tmp = tempfile.mkstemp(prefix=f".{p.name}.", dir=p.parent or ".")
+    try:
+        with os.fdopen(fd, "w", encoding="utf-8", newline="\n") as fh:
+            fh.write(text)
+        os.replace(tmp, p)
+    except BaseException:
+        try:
+            os.unlink(tmp)
+        except OSError:
+            pass
+        raise
+
+
+def emit(text: str, out: str | None) -> None:
+    """Print to standard output, or write atomically to --out."""
+    if out:
+        write_atomic(out, text)
+    else:
+        click.echo(text, nl=False)

@@ -1,0 +1,98 @@
+"""From request to :class:`~enumerator.result.Result`: the one place that
+strings the stages together.  The CLI calls this; so may any script.
+
+>>> r = analyse("Ma4b2", geometry="OC-6")
+>>> r.isomer_set.geometric_isomers
+2
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from typing import Mapping, Sequence
+
+from .composition import Composition
+from .errors import InputError
+from .formula import looks_abstract, parse_abstract
+from .isomers import enumerate_isomers
+from .result import Result
+from .rules import RuleSet, load_rules
+
+__all__ = ["Request", "analyse", "parse_formula", "apply_settings", "choose_geometry"]
+
+
+@dataclass(frozen=True)
+class Request:
+    """Everything one analysis needs, as plain values (hashable)."""
+
+    formula: str
+    geometry: str | None = None
+    spans: tuple[tuple[str, str], ...] = ()
+    arrangements: tuple[tuple[str, str], ...] = ()
+    reporters: tuple[tuple[str, str], ...] = ()
+    limit: int | None = None
+    rules: tuple[str, ...] = ()
+
+
+def parse_formula(text: str, rules: RuleSet) -> Composition:
+    """Parse the abstract letter notation or a condensed formula."""
+    if not text or not text.strip():
+        raise InputError("empty formula", "give a formula such as Ma4b2 or [RuCl2(CO)2(PPh3)2]")
+    if looks_abstract(text):
+        return parse_abstract(text)
+    try:
+        from .condensed import parse_condensed  # real formulas (ligand catalogue)
+    except ImportError:  # pragma: no cover - until the catalogue lands
+        raise InputError(
+            f"'{text}' is not in the abstract notation (M followed by ligand letters)",
+            "write e.g. Ma2b2c2 or M(AA)2b2",
+        ) from None
+    return parse_condensed(text, rules)
+
+
+def apply_settings(
+    comp: Composition,
+    spans: Sequence[tuple[str, str]] = (),
+    arrangements: Sequence[tuple[str, str]] = (),
+    reporters: Sequence[tuple[str, str]] = (),
+) -> Composition:
+    """Per-ligand settings from the command line or a job file."""
+    from dataclasses import replace
+
+    for name, span in spans:
+        comp = comp.replace_kind(name, comp.kind(name).with_span(span))
+    for name, arr in arrangements:
+        comp = comp.replace_kind(name, comp.kind(name).with_arrangements(arr.split(",")))
+    for name, cls in reporters:
+        comp = comp.replace_kind(name, replace(comp.kind(name), reporter=cls))
+    return comp
+
+
+def choose_geometry(comp: Composition, rules: RuleSet, symbol: str | None) -> tuple[str, str]:
+    """The geometry symbol and the reason for it."""
+    if symbol:
+        g = rules.geometry(symbol)
+        return g.symbol, f"{g.symbol} as requested"
+    g = rules.default_geometry(comp.donor_count)
+    return g.symbol, (
+        f"{g.symbol}: the default {g.name} for coordination number {comp.donor_count} "
+        "(an abstract centre has no d-electron count; use --geometry to choose another)"
+    )
+
+
+def analyse(formula: str, geometry: str | None = None, **options) -> Result:
+    """Run the whole analysis for one formula; options as in :class:`Request`."""
+    return run(Request(formula=formula, geometry=geometry, **options))
+
+
+def run(req: Request) -> Result:
+    rules = load_rules(req.rules)
+    comp = parse_formula(req.formula, rules)
+    comp = apply_settings(comp, req.spans, req.arrangements, req.reporters)
+    symbol, reason = choose_geometry(comp, rules, req.geometry)
+    geo = rules.geometry(symbol)
+    iso = enumerate_isomers(comp, geo, limit=req.limit)
+    notes = []
+    if not iso.complete:
+        notes.append(f"only the first {len(iso.isomers)} stereoisomers are listed (--limit)")
+    return Result(composition=comp, geometry=geo, geometry_reason=reason, isomer_set=iso, notes=tuple(notes))

@@ -1,0 +1,70 @@
+"""Tables for people: plain monospaced text for the terminal."""
+
+from __future__ import annotations
+
+from collections import defaultdict
+from typing import Sequence
+
+from ..isomers import Isomer
+from ..result import Result
+
+__all__ = ["table", "isomer_table", "occupancy"]
+
+
+def table(header: Sequence[str], rows: Sequence[Sequence[str]], indent: str = "") -> str:
+    """Left-aligned columns separated by two spaces, with a rule under the header."""
+    widths = [len(h) for h in header]
+    for r in rows:
+        for k, cell in enumerate(r):
+            widths[k] = max(widths[k], len(cell))
+    line = lambda cells: indent + "  ".join(c.ljust(w) for c, w in zip(cells, widths)).rstrip()
+    out = [line(header), indent + "  ".join("-" * w for w in widths)]
+    out += [line(r) for r in rows]
+    return "\n".join(out)
+
+
+def occupancy(iso: Isomer) -> str:
+    """Which sites (1-based) each ligand holds, chelates as linked site tuples."""
+    by_unit: dict[int, list] = defaultdict(list)
+    for s in iso.sites:
+        by_unit[s.unit].append(s)
+    groups: dict[str, list[str]] = defaultdict(list)
+    order: list[str] = []
+    for unit in sorted(by_unit):
+        sites = sorted(by_unit[unit], key=lambda s: s.donor_index)
+        name = sites[0].ligand
+        if name not in groups:
+            order.append(name)
+        if len(sites) == 1:
+            groups[name].append(str(sites[0].index + 1))
+        else:
+            groups[name].append("(" + "-".join(str(s.index + 1) for s in sites) + ")")
+    return " ".join(f"{n}:{','.join(groups[n])}" for n in order)
+
+
+def isomer_table(res: Result) -> str:
+    rows = []
+    for iso in res.isomers:
+        rows.append([
+            iso.id,
+            iso.point_group,
+            "yes" if iso.chiral else "no",
+            iso.enantiomer or "-",
+            occupancy(iso),
+        ])
+    return table(["isomer", "point group", "chiral", "enantiomer", "sites (ligand:site numbers)"], rows)
+
+
+def render(res: Result) -> str:
+    iso = res.isomer_set
+    head = [
+        f"{res.composition.formula} on {res.geometry.symbol} ({res.geometry.name})",
+        f"geometry: {res.geometry_reason}",
+        f"{iso.geometric_isomers} geometric isomer(s), {iso.stereoisomers} stereoisomer(s)"
+        + ("" if iso.complete else " listed so far (--limit reached)"),
+        "",
+        isomer_table(res),
+    ]
+    for n in res.notes:
+        head.append(f"note: {n}")
+    return "\n".join(head) + "\n"
