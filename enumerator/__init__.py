@@ -16,9 +16,25 @@ from __future__ import annotations
 __version__ = "0.1.0"
 
 from .errors import CapacityError, InputError, IsosieveError, RuleError
-from .formula import parse_abstract
-from .isomers import Isomer, IsomerSet, enumerate_isomers, generate
-from .rules import load_rules
+
+# The rest loads on first use, so that the command line starts fast.
+_LAZY = {
+    "load_rules": "rules",
+    "parse_abstract": "formula",
+    "enumerate_isomers": "isomers",
+    "generate": "isomers",
+    "Isomer": "isomers",
+    "IsomerSet": "isomers",
+    "analyse": "pipeline",
+}
+
+
+def __getattr__(name: str):
+    if name in _LAZY:
+        import importlib
+
+        return getattr(importlib.import_module(f".{_LAZY[name]}", __name__), name)
+    raise AttributeError(f"module 'enumerator' has no attribute {name!r}")
 
 __all__ = [
     "__version__",
@@ -32,4 +48,5 @@ __all__ = [
     "generate",
     "Isomer",
     "IsomerSet",
+    "analyse",
 ]

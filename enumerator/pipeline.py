@@ -8,7 +8,8 @@ strings the stages together.  The CLI calls this; so may any script.
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+import importlib
+from dataclasses import dataclass, field, replace
 from typing import Mapping, Sequence
 
 from .composition import Composition
@@ -18,7 +19,7 @@ from .isomers import enumerate_isomers
 from .result import Result
 from .rules import RuleSet, load_rules
 
-__all__ = ["Request", "analyse", "parse_formula", "apply_settings", "choose_geometry"]
+__all__ = ["Request", "STAGES", "analyse", "run", "parse_formula", "apply_settings", "choose_geometry"]
 
 
 @dataclass(frozen=True)
@@ -32,6 +33,20 @@ class Request:
     reporters: tuple[tuple[str, str], ...] = ()
     limit: int | None = None
     rules: tuple[str, ...] = ()
+    #: further stage options as (name, value) pairs, e.g. ("ring_size", "5")
+    options: tuple[tuple[str, str], ...] = ()
+
+    def option(self, name: str, default: str | None = None) -> str | None:
+        for k, v in self.options:
+            if k == name:
+                return v
+        return default
+
+
+#: The analysis stages, in order: "module:function".  Each function takes
+#: (Result, Request) and returns an Analysis (or None to add nothing).
+#: A stage sees the analyses of the stages before it in ``result.analyses``.
+STAGES: tuple[str, ...] = ()
 
 
 def parse_formula(text: str, rules: RuleSet) -> Composition:
@@ -95,4 +110,11 @@ def run(req: Request) -> Result:
     notes = []
     if not iso.complete:
         notes.append(f"only the first {len(iso.isomers)} stereoisomers are listed (--limit)")
-    return Result(composition=comp, geometry=geo, geometry_reason=reason, isomer_set=iso, notes=tuple(notes))
+    res = Result(composition=comp, geometry=geo, geometry_reason=reason, isomer_set=iso, notes=tuple(notes))
+    for stage in STAGES:
+        module, _, func = stage.partition(":")
+        step = getattr(importlib.import_module(module), func)
+        added = step(res, req)
+        if added is not None:
+            res = replace(res, analyses=res.analyses + (added,))
+    return res

@@ -17,26 +17,44 @@ import click
 __all__ = ["cli", "main", "COMMANDS"]
 
 #: command name -> (module, function, one-line help).  Add a command here.
+#: A command whose module is not present is not listed.
 COMMANDS: dict[str, tuple[str, str, str]] = {
-    "isomers": ("enumerator.cli.isomers_cmd", "isomers", "List every isomer of a formula with its point group."),
+    "isomers": ("enumerator.cli.isomers_cmd", "isomers", "List every isomer of a formula with its point group and analyses."),
     "geometries": ("enumerator.cli.geometries_cmd", "geometries", "List the coordination geometries and their symmetry groups."),
+    "chartable": ("enumerator.cli.chartable_cmd", "chartable", "Print the computed character table of a point group or an isomer."),
+    "ligands": ("enumerator.cli.ligands_cmd", "ligands", "List the ligand catalogue."),
+    "batch": ("enumerator.cli.batch_cmd", "batch", "Screen many formulas from a file, one result row each."),
+    "job": ("enumerator.cli.job_cmd", "job", "Run a TOML job file of several complexes."),
+    "match": ("enumerator.cli.match_cmd", "match", "Rank candidate isomers against measured stretching bands."),
+    "bands": ("enumerator.cli.bands_cmd", "bands", "Predict stretching bands and intensities; fit force constants."),
+    "route": ("enumerator.cli.route_cmd", "route", "Plan orders of ligand addition that reach a target isomer."),
+    "network": ("enumerator.cli.network_cmd", "network", "Build the substitution network between two compositions."),
+    "report": ("enumerator.cli.report_cmd", "report", "Write an HTML report with structures, spectra and tables."),
+    "structures": ("enumerator.cli.structures_cmd", "structures", "Write XYZ / SDF starting structures for each isomer."),
+    "count": ("enumerator.cli.count_cmd", "count", "Count isomers up front (Burnside) without listing them."),
 }
+
+
+def _present(module: str) -> bool:
+    import importlib.util
+
+    return importlib.util.find_spec(module) is not None
 
 
 class LazyGroup(click.Group):
     """A click group whose sub-commands are imported on first use."""
 
     def list_commands(self, ctx: click.Context) -> list[str]:
-        return sorted(COMMANDS)
+        return sorted(n for n, (m, _, _) in COMMANDS.items() if _present(m))
 
     def get_command(self, ctx: click.Context, name: str):
-        if name not in COMMANDS:
+        if name not in COMMANDS or not _present(COMMANDS[name][0]):
             return None
         module, attr, _ = COMMANDS[name]
         return getattr(importlib.import_module(module), attr)
 
     def format_commands(self, ctx: click.Context, formatter: click.HelpFormatter) -> None:
-        rows = [(name, COMMANDS[name][2]) for name in sorted(COMMANDS)]
+        rows = [(name, COMMANDS[name][2]) for name in self.list_commands(ctx)]
         with formatter.section("Commands"):
             formatter.write_dl(rows)
 

@@ -57,6 +57,10 @@ def result_to_dict(res: Result) -> dict[str, Any]:
         "isomers": [isomer_to_dict(i) for i in iso.isomers],
         "notes": list(res.notes),
     }
+    for a in res.analyses:
+        for d, i in zip(doc["isomers"], iso.isomers):
+            d.update(a.isomer_json(i.id))
+        doc.update(a.top_json())
     return doc
 
 

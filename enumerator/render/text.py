@@ -43,6 +43,7 @@ def occupancy(iso: Isomer) -> str:
 
 
 def isomer_table(res: Result) -> str:
+    extra = [c for a in res.analyses for c in a.columns()]
     rows = []
     for iso in res.isomers:
         rows.append([
@@ -50,9 +51,11 @@ def isomer_table(res: Result) -> str:
             iso.point_group,
             "yes" if iso.chiral else "no",
             iso.enantiomer or "-",
+            *[c.values.get(iso.id, "") for c in extra],
             occupancy(iso),
         ])
-    return table(["isomer", "point group", "chiral", "enantiomer", "sites (ligand:site numbers)"], rows)
+    header = ["isomer", "point group", "chiral", "enantiomer", *[c.header for c in extra], "sites (ligand:site numbers)"]
+    return table(header, rows)
 
 
 def render(res: Result) -> str:
@@ -65,6 +68,9 @@ def render(res: Result) -> str:
         "",
         isomer_table(res),
     ]
+    for a in res.analyses:
+        for sec in a.sections():
+            head += ["", sec.title, sec.text]
     for n in res.notes:
         head.append(f"note: {n}")
     return "\n".join(head) + "\n"
