@@ -11,13 +11,14 @@ from .common import emit, parse_pairs, rules_of
 @click.argument("formula")
 @click.option("-g", "--geometry", metavar="SYMBOL", help="Polyhedral symbol, e.g. OC-6, TBPY-5, SP-4 (default: chosen from the formula).")
 @click.option("--json", "as_json", is_flag=True, help="Print one JSON document (schema in the README).")
-@click.option("--format", "fmt", type=click.Choice(["table", "json"]), default="table", show_default=True, help="Output format.")
+@click.option("--format", "fmt", type=click.Choice(["table", "markdown", "csv", "latex", "json"]), default="table", show_default=True, help="Output format.")
 @click.option("--out", type=click.Path(dir_okay=False), help="Write to this file (atomically) instead of standard output.")
 @click.option("--span", "spans", multiple=True, metavar="LIGAND=SPAN", help="Chelate span: edge, cis, trans or any; repeatable.")
 @click.option("--arrangement", "arrangements", multiple=True, metavar="LIGAND=fac|mer", help="Limit a tridentate to fac, mer or 'fac,mer'.")
+@click.option("--reporter", "reporters", multiple=True, metavar="LETTER=CLASS", help="Treat a ligand as a stretch reporter, e.g. a=CO; repeatable.")
 @click.option("--limit", type=click.IntRange(min=1), help="Stop after this many stereoisomers.")
 @click.pass_context
-def isomers(ctx, formula, geometry, as_json, fmt, out, spans, arrangements, limit):
+def isomers(ctx, formula, geometry, as_json, fmt, out, spans, arrangements, reporters, limit):
     """List every isomer of FORMULA with its point group.
 
     FORMULA is the abstract notation (lowercase letters for monodentate
@@ -38,6 +39,7 @@ def isomers(ctx, formula, geometry, as_json, fmt, out, spans, arrangements, limi
         geometry=geometry,
         spans=parse_pairs(spans, "--span", "AA=trans"),
         arrangements=parse_pairs(arrangements, "--arrangement", "AAA=fac"),
+        reporters=parse_pairs(reporters, "--reporter", "a=CO"),
         limit=limit,
         rules=rules_of(ctx),
     )
@@ -46,7 +48,11 @@ def isomers(ctx, formula, geometry, as_json, fmt, out, spans, arrangements, limi
         from ..render.jsonout import dumps, result_to_dict
 
         emit(dumps(result_to_dict(res)), out)
-    else:
+    elif fmt == "table":
         from ..render.text import render
 
         emit(render(res), out)
+    else:
+        from ..render import tables
+
+        emit(getattr(tables, fmt)(res), out)
