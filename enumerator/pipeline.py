@@ -10,16 +10,17 @@ from __future__ import annotations
 
 import importlib
 from dataclasses import dataclass, field, replace
-from typing import Mapping, Sequence
+from typing import Callable, Mapping, Sequence
 
 from .composition import Composition
 from .errors import InputError
 from .formula import looks_abstract, parse_abstract
-from .isomers import enumerate_isomers
+from .geometry import Geometry
+from .isomers import Isomer, IsomerSet, enumerate_isomers, generate
 from .result import Result
 from .rules import RuleSet, load_rules
 
-__all__ = ["Request", "STAGES", "analyse", "run", "parse_formula", "apply_settings", "choose_geometry"]
+__all__ = ["Request", "STAGES", "analyse", "run", "prepare", "parse_formula", "apply_settings", "choose_geometry"]
 
 
 @dataclass(frozen=True)
@@ -100,16 +101,59 @@ def analyse(formula: str, geometry: str | None = None, **options) -> Result:
     return run(Request(formula=formula, geometry=geometry, **options))
 
 
-def run(req: Request) -> Result:
+def prepare(req: Request) -> tuple[Composition, Geometry, str]:
+    """The composition (settings applied), the geometry and the reason for
+    it: everything :func:`run` decides before enumerating.  Callers use it
+    to count up front (:mod:`enumerator.counting`) before a long run."""
     rules = load_rules(req.rules)
     comp = parse_formula(req.formula, rules)
     comp = apply_settings(comp, req.spans, req.arrangements, req.reporters)
     symbol, reason = choose_geometry(comp, rules, req.geometry)
-    geo = rules.geometry(symbol)
-    iso = enumerate_isomers(comp, geo, limit=req.limit)
+    return comp, rules.geometry(symbol), reason
+
+
+def _enumerate(comp: Composition, geo: Geometry, limit: int | None, on_isomer: Callable[[Isomer], None]) -> IsomerSet:
+    found = []
+    complete = True
+    for k, iso in enumerate(generate(comp, geo, limit=None if limit is None else limit + 1)):
+        if limit is not None and k >= limit:
+            complete = False
+            break
+        on_isomer(iso)
+        found.append(iso)
+    if not found:
+        return enumerate_isomers(comp, geo, limit=1)  # raises its own "cannot be placed" error
+    return IsomerSet(comp, geo, tuple(found), complete)
+
+
+def run(
+    req: Request,
+    *,
+    on_isomer: Callable[[Isomer], None] | None = None,
+    isomers: IsomerSet | None = None,
+) -> Result:
+    """Enumerate and run every stage.
+
+    ``on_isomer`` is called with each stereoisomer as the lazy enumeration
+    yields it (a progress bar, or a caller that keeps what was found so far
+    if it is interrupted).  ``isomers`` skips enumeration and analyses the
+    given, possibly incomplete, set instead (e.g. the part found before an
+    interruption); its composition and geometry must come from
+    :func:`prepare` of the same request.
+    """
+    comp, geo, reason = prepare(req)
+    if isomers is not None:
+        iso = isomers
+    elif on_isomer is not None:
+        iso = _enumerate(comp, geo, req.limit, on_isomer)
+    else:
+        iso = enumerate_isomers(comp, geo, limit=req.limit)
     notes = []
     if not iso.complete:
-        notes.append(f"only the first {len(iso.isomers)} stereoisomers are listed (--limit)")
+        if req.limit is not None and len(iso.isomers) >= req.limit:
+            notes.append(f"only the first {len(iso.isomers)} stereoisomers are listed (--limit)")
+        else:
+            notes.append(f"only the first {len(iso.isomers)} stereoisomers are listed (the enumeration was interrupted)")
     res = Result(composition=comp, geometry=geo, geometry_reason=reason, isomer_set=iso, notes=tuple(notes))
     for stage in STAGES:
         module, _, func = stage.partition(":")
