@@ -6,6 +6,60 @@ import click
 
 from .common import emit, parse_pairs, rules_of
 
+#: Refuse to list more stereoisomers than this at once unless --limit is given.
+SIZE_CAP = 200_000
+#: Show a progress bar on a terminal when more stereoisomers than this are expected.
+PROGRESS_MIN = 2_000
+
+
+def check_size(total: int | None, limit: int | None, formula: str, symbol: str, cap: int = SIZE_CAP) -> None:
+    """Raise CapacityError when the up-front count is over ``cap`` and no --limit is given."""
+    if total is None or limit is not None or total <= cap:
+        return
+    from ..errors import CapacityError
+
+    raise CapacityError(
+        f"{formula} on {symbol} has {total:,} stereoisomers (Burnside count), more than the {cap:,} listed at once",
+        "give --limit N to list the first N, or run 'isosieve count' for the numbers alone",
+    )
+
+
+def want_progress(expected: int | None, stream) -> bool:
+    """A progress bar only on a terminal, and only for a long run."""
+    isatty = getattr(stream, "isatty", None)
+    return expected is not None and expected > PROGRESS_MIN and bool(isatty and isatty())
+
+
+def _run(req, partial: bool):
+    """(result, interrupted).  Counts up front, guards the size, shows
+    progress; on Ctrl-C returns the part found so far when ``partial``."""
+    import sys
+
+    from ..counting import burnside_counts
+    from ..isomers import IsomerSet
+    from ..pipeline import prepare, run
+
+    comp, geo, _ = prepare(req)
+    counts = burnside_counts(comp, geo)
+    total = counts[1] if counts else None
+    check_size(total, req.limit, comp.formula, geo.symbol)
+    expected = None if total is None else (total if req.limit is None else min(total, req.limit))
+    found: list = []
+    try:
+        if want_progress(expected, sys.stderr):
+            with click.progressbar(length=expected, label="enumerating", file=sys.stderr) as bar:
+
+                def step(iso) -> None:
+                    found.append(iso)
+                    bar.update(1)
+
+                return run(req, on_isomer=step), False
+        return run(req, on_isomer=found.append), False
+    except KeyboardInterrupt:
+        if not partial or not found:
+            raise
+    return run(req, isomers=IsomerSet(comp, geo, tuple(found), complete=False)), True
+
 
 @click.command("isomers")
 @click.argument("formula")
@@ -17,8 +71,9 @@ from .common import emit, parse_pairs, rules_of
 @click.option("--arrangement", "arrangements", multiple=True, metavar="LIGAND=fac|mer", help="Limit a tridentate to fac, mer or 'fac,mer'.")
 @click.option("--reporter", "reporters", multiple=True, metavar="LETTER=CLASS", help="Treat a ligand as a stretch reporter, e.g. a=CO; repeatable.")
 @click.option("--limit", type=click.IntRange(min=1), help="Stop after this many stereoisomers.")
+@click.option("--partial", is_flag=True, help='On Ctrl-C, write the isomers found so far (marked "complete": false) instead of nothing.')
 @click.pass_context
-def isomers(ctx, formula, geometry, as_json, fmt, out, spans, arrangements, reporters, limit):
+def isomers(ctx, formula, geometry, as_json, fmt, out, spans, arrangements, reporters, limit, partial):
     """List every isomer of FORMULA with its point group.
 
     FORMULA is the abstract notation (lowercase letters for monodentate
@@ -31,8 +86,15 @@ def isomers(ctx, formula, geometry, as_json, fmt, out, spans, arrangements, repo
       isosieve isomers Ma4b2 --geometry TPR-6
       isosieve isomers "M(AA)b4" --span AA=trans
       isosieve isomers "M(AAA)b3" --arrangement AAA=mer
+      isosieve isomers Mabcdefghijkl --geometry IC-12 --limit 100 --partial --json
+
+    The size is counted first (Burnside's lemma, as 'isosieve count' does);
+    more than 200,000 stereoisomers need --limit.  Ctrl-C stops with exit
+    status 130 and writes nothing, unless --partial is given.
     """
-    from ..pipeline import Request, run
+    import sys
+
+    from ..pipeline import Request
 
     req = Request(
         formula=formula,
@@ -43,16 +105,24 @@ def isomers(ctx, formula, geometry, as_json, fmt, out, spans, arrangements, repo
         limit=limit,
         rules=rules_of(ctx),
     )
-    res = run(req)
-    if as_json or fmt == "json":
-        from ..render.jsonout import dumps, result_to_dict
+    try:
+        res, interrupted = _run(req, partial)
+        if as_json or fmt == "json":
+            from ..render.jsonout import dumps, result_to_dict
 
-        emit(dumps(result_to_dict(res)), out)
-    elif fmt == "table":
-        from ..render.text import render
+            emit(dumps(result_to_dict(res)), out)
+        elif fmt == "table":
+            from ..render.text import render
 
-        emit(render(res), out)
-    else:
-        from ..render import tables
+            emit(render(res), out)
+        else:
+            from ..render import tables
 
-        emit(getattr(tables, fmt)(res), out)
+            emit(getattr(tables, fmt)(res), out)
+    except KeyboardInterrupt:
+        click.echo("isosieve: interrupted; nothing written (give --partial to keep what was found)", err=True)
+        sys.exit(130)
+    if interrupted:
+        n = len(res.isomer_set.isomers)
+        click.echo(f'isosieve: interrupted; wrote the {n} stereoisomers found so far, marked "complete": false', err=True)
+        sys.exit(130)
