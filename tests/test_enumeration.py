@@ -1,0 +1,291 @@
+"""Isomer counts against counts made outside the enumerator.
+
+1. Burnside's lemma (W. Burnside, Theory of Groups of Finite Order, 1897;
+   in the form of Pólya's theorem, Acta Math. 68 (1937) 145) implemented
+   here from scratch, without calling the enumerator: for every composition
+   of monodentate ligands on every geometry up to CN 8, and selected CN-12
+   ones.  Chelate compositions are counted by Burnside over decorations
+   listed by brute force.
+2. The classic counts as textbooks give them.
+"""
+
+from __future__ import annotations
+
+import itertools
+from collections import Counter
+from fractions import Fraction
+
+import pytest
+
+from enumerator.counting import burnside_counts
+from enumerator.formula import parse_abstract
+from enumerator.isomers import enumerate_isomers, generate
+from enumerator.rules import load_rules
+
+LETTERS = "abcdefghijkl"
+
+
+def _partitions(n, largest=None):
+    largest = largest or n
+    if n == 0:
+        yield ()
+        return
+    for k in range(min(n, largest), 0, -1):
+        for rest in _partitions(n - k, k):
+            yield (k,) + rest
+
+
+def _formula(parts):
+    return "M" + "".join(LETTERS[i] + (str(c) if c > 1 else "") for i, c in enumerate(parts))
+
+
+def _cycles(perm):
+    seen, out = set(), []
+    for i in range(len(perm)):
+        if i in seen:
+            continue
+        j, n = i, 0
+        while j not in seen:
+            seen.add(j)
+            j = perm[j]
+            n += 1
+        out.append(n)
+    return out
+
+
+def _fixed_colourings(perm, counts):
+    """Coefficient of x1^c1 ... xk^ck in prod over cycles of (x1^L + ... + xk^L),
+    by multivariate polynomial multiplication (Pólya)."""
+    poly = {tuple(0 for _ in counts): 1}
+    for length in _cycles(perm):
+        nxt = Counter()
+        for mono, coef in poly.items():
+            for k in range(len(counts)):
+                m = list(mono)
+                m[k] += length
+                if m[k] <= counts[k]:
+                    nxt[tuple(m)] += coef
+        poly = nxt
+    return poly.get(tuple(counts), 0)
+
+
+def _burnside(ops, counts):
+    total = sum(_fixed_colourings(op.perm, counts) for op in ops)
+    f = Fraction(total, len(ops))
+    assert f.denominator == 1
+    return int(f)
+
+
+SMALL = ["TP-3", "T-4", "SP-4", "TBPY-5", "SPY-5", "OC-6", "TPR-6", "HP-6", "PBPY-7", "CU-8", "SAPR-8", "HBPY-8"]
+
+
+@pytest.mark.parametrize("symbol", SMALL)
+def test_every_monodentate_composition_matches_burnside(rules, symbol):
+    g = rules.geometry(symbol)
+    n = g.coordination_number
+    for parts in _partitions(n):
+        if symbol in ("CU-8", "SAPR-8", "HBPY-8") and len(parts) == 8:
+            continue  # all-different CN 8 is covered below with the cycle index only
+        comp = parse_abstract(_formula(parts))
+        s = enumerate_isomers(comp, g)
+        geo = _burnside(g.operations, parts)
+        stereo = _burnside(g.proper_operations, parts)
+        assert (s.geometric_isomers, s.stereoisomers) == (geo, stereo), _formula(parts)
+
+
+@pytest.mark.parametrize("symbol", ["CU-8", "SAPR-8", "HBPY-8"])
+def test_all_different_cn8(rules, symbol):
+    g = rules.geometry(symbol)
+    parts = (1,) * 8
+    comp = parse_abstract(_formula(parts))
+    stereo = sum(1 for _ in generate(comp, g))
+    assert stereo == _burnside(g.proper_operations, parts)
+
+
+@pytest.mark.parametrize("formula", ["Ma10b2", "Ma9b3", "Ma6b6", "Ma4b4c4", "Ma3b3c3d3", "Ma8b2c2", "Ma6b3c3"])
+def test_icosahedral_compositions(rules, formula):
+    g = rules.geometry("IC-12")
+    comp = parse_abstract(formula)
+    counts = tuple(n for _, n in comp.parts)
+    s = enumerate_isomers(comp, g)
+    assert s.geometric_isomers == _burnside(g.operations, counts)
+    assert s.stereoisomers == _burnside(g.proper_operations, counts)
+
+
+def test_library_burnside_agrees(rules):
+    # the library's up-front count (used before long runs) against this file's
+    g = rules.geometry("IC-12")
+    for parts in [(3, 3, 3, 3), (6, 6), (1,) * 12]:
+        comp = parse_abstract(_formula(parts))
+        assert burnside_counts(comp, g) == (_burnside(g.operations, parts), _burnside(g.proper_operations, parts))
+
+
+# --- chelates: Burnside over decorations listed by brute force ------------------
+
+
+def _chelate_decorations(g, kinds):
+    """All labelled decorations: for each kind (donors, count, span, ring,
+    arrangement) a set of disjoint placements; listed without the enumerator."""
+    n = g.coordination_number
+    edges = g.edges
+
+    def ok(kind, t):
+        donors, _, span, ring, arr = kind
+        if ring:
+            return all((min(a, b), max(a, b)) in edges for a, b in itertools.combinations(t, 2))
+        for a, b in zip(t, t[1:]):
+            trans = g.angles[a, b] > 179
+            if span == "edge" and (min(a, b), max(a, b)) not in edges:
+                return False
+            if span == "trans" and not trans:
+                return False
+            if span == "cis" and trans:
+                return False
+        if len(t) == 3 and arr:
+            shape = "mer" if g.angles[t[0], t[2]] > 179 else "fac"
+            if shape not in arr:
+                return False
+        return True
+
+    def norm(kind, t):
+        donors, _, _, ring, _ = kind
+        if ring:
+            return tuple(sorted(t))
+        return min(t, t[::-1]) if donors == donors[::-1] else t
+
+    per_kind = []
+    for kind in kinds:
+        d = len(kind[0])
+        per_kind.append(sorted({norm(kind, t) for t in itertools.permutations(range(n), d) if ok(kind, t)}))
+
+    out = []
+
+    def rec(k, used, acc):
+        if k == len(kinds):
+            out.append(tuple(acc))
+            return
+        cnt = kinds[k][1]
+        for combo in itertools.combinations(per_kind[k], cnt):
+            sites = [x for t in combo for x in t]
+            if len(set(sites)) != len(sites) or used & set(sites):
+                continue
+            acc.append(frozenset(combo))
+            rec(k + 1, used | set(sites), acc)
+            acc.pop()
+
+    rec(0, frozenset(), [])
+    return out, norm
+
+
+def _orbits_by_burnside(g, kinds, ops):
+    decs, norm = _chelate_decorations(g, kinds)
+    total = 0
+    for op in ops:
+        p = op.perm
+        for dec in decs:
+            img = tuple(frozenset(norm(kinds[k], tuple(p[x] for x in t)) for t in piece) for k, piece in enumerate(dec))
+            total += img == dec
+    f = Fraction(total, len(ops))
+    assert f.denominator == 1
+    return int(f)
+
+
+CHELATE_CASES = [
+    # formula, geometry, kinds as (donors, count, span, ring, arrangements), options
+    ("M(AA)3", "OC-6", [("AA", 3, "edge", False, ())], {}),
+    ("M(AA)2b2", "OC-6", [("AA", 2, "edge", False, ()), ("b", 2, "edge", False, ())], {}),
+    ("M(AB)3", "OC-6", [("AB", 3, "edge", False, ())], {}),
+    ("M(AB)2b2", "OC-6", [("AB", 2, "edge", False, ()), ("b", 2, "edge", False, ())], {}),
+    ("M(AB)2bc", "OC-6", [("AB", 2, "edge", False, ()), ("b", 1, "edge", False, ()), ("c", 1, "edge", False, ())], {}),
+    ("M(AA)b2c2", "OC-6", [("AA", 1, "edge", False, ()), ("b", 2, "edge", False, ()), ("c", 2, "edge", False, ())], {}),
+    ("M(AAA)b3", "OC-6", [("AAA", 1, "edge", False, ()), ("b", 3, "edge", False, ())], {}),
+    ("M(ABA)bcd", "OC-6", [("ABA", 1, "edge", False, ()), ("b", 1, "edge", False, ()), ("c", 1, "edge", False, ()), ("d", 1, "edge", False, ())], {}),
+    ("M(ABC)2", "OC-6", [("ABC", 2, "edge", False, ())], {}),
+    ("M(AAA)2", "OC-6", [("AAA", 2, "edge", False, ("fac",))], {"arrangements": [("AAA", "fac")]}),
+    ("M(ring)a2b", "OC-6", [("RRR", 1, "edge", True, ()), ("a", 2, "edge", False, ()), ("b", 1, "edge", False, ())], {}),
+    ("M(AA)b4", "OC-6", [("AA", 1, "trans", False, ()), ("b", 4, "edge", False, ())], {"spans": [("AA", "trans")]}),
+    ("M(AA)b2c", "TBPY-5", [("AA", 1, "edge", False, ()), ("b", 2, "edge", False, ()), ("c", 1, "edge", False, ())], {}),
+    ("M(AB)b2c", "SPY-5", [("AB", 1, "edge", False, ()), ("b", 2, "edge", False, ()), ("c", 1, "edge", False, ())], {}),
+    ("M(AB)2", "SP-4", [("AB", 2, "edge", False, ())], {}),
+    ("M(AB)ab", "T-4", [("AB", 1, "edge", False, ()), ("a", 1, "edge", False, ()), ("b", 1, "edge", False, ())], {}),
+    ("M(AA)3", "TPR-6", [("AA", 3, "edge", False, ())], {}),
+    ("M(AB)a3b2", "PBPY-7", [("AB", 1, "edge", False, ()), ("a", 3, "edge", False, ()), ("b", 2, "edge", False, ())], {}),
+    ("M(AA)4", "SAPR-8", [("AA", 4, "edge", False, ())], {}),
+    ("M(AB)2a2b2", "CU-8", [("AB", 2, "edge", False, ()), ("a", 2, "edge", False, ()), ("b", 2, "edge", False, ())], {}),
+]
+
+
+@pytest.mark.parametrize("formula,symbol,kinds,opts", CHELATE_CASES, ids=[f"{c[0]}@{c[1]}" for c in CHELATE_CASES])
+def test_chelate_counts_match_burnside(rules, formula, symbol, kinds, opts):
+    from enumerator.pipeline import apply_settings
+
+    g = rules.geometry(symbol)
+    comp = apply_settings(parse_abstract(formula), opts.get("spans", ()), opts.get("arrangements", ()))
+    s = enumerate_isomers(comp, g)
+    assert s.geometric_isomers == _orbits_by_burnside(g, kinds, g.operations)
+    assert s.stereoisomers == _orbits_by_burnside(g, kinds, g.proper_operations)
+
+
+# --- the classic counts ---------------------------------------------------------
+
+CLASSIC = [
+    # formula, geometry, geometric isomers, stereoisomers, source
+    ("Ma4b2", "OC-6", 2, 2, "cis/trans; Miessler, Fischer & Tarr, Inorganic Chemistry, 5th ed., sec. 9.3 (from memory)"),
+    ("Ma3b3", "OC-6", 2, 2, "fac/mer; Miessler, Fischer & Tarr, sec. 9.3 (from memory)"),
+    ("Ma2b2c2", "OC-6", 5, 6, "Miessler, Fischer & Tarr, sec. 9.3, isomer table (from memory)"),
+    ("Mabcdef", "OC-6", 15, 30, "Miessler, Fischer & Tarr, sec. 9.3, isomer table (from memory)"),
+    ("M(AA)3", "OC-6", 1, 2, "Delta/Lambda tris-chelates; Miessler, Fischer & Tarr, sec. 9.3 (from memory)"),
+    ("M(AA)2b2", "OC-6", 2, 3, "trans plus the cis enantiomers, as in [Co(en)2Cl2]+ (Werner 1911; from memory)"),
+    ("Ma2b2", "SP-4", 2, 2, "cis/trans-platin type (common practice)"),
+    ("Ma2b2", "T-4", 1, 1, "tetrahedral Ma2b2 has no isomers (common practice)"),
+    ("Mabcd", "T-4", 1, 2, "a stereogenic tetrahedral centre (common practice)"),
+    ("Ma3b2", "TBPY-5", 3, 3, "b axial-axial, axial-equatorial, equatorial-equatorial (common practice)"),
+]
+
+
+@pytest.mark.parametrize("formula,symbol,geo,stereo,source", CLASSIC)
+def test_classic_counts(rules, formula, symbol, geo, stereo, source):
+    s = enumerate_isomers(parse_abstract(formula), rules.geometry(symbol))
+    assert (s.geometric_isomers, s.stereoisomers) == (geo, stereo), source
+
+
+def test_werner_ma4b2_polyhedra(rules):
+    # Werner's argument: octahedral, trigonal-prismatic and hexagonal-planar
+    # Ma4b2 would give 2, 3 and 3 isomers (Greenwood & Earnshaw, Chemistry of
+    # the Elements, 2nd ed., ch. 19; from memory)
+    counts = {sym: enumerate_isomers(parse_abstract("Ma4b2"), rules.geometry(sym)).geometric_isomers for sym in ("OC-6", "TPR-6", "HP-6")}
+    assert counts == {"OC-6": 2, "TPR-6": 3, "HP-6": 3}
+
+
+def test_dicarba_dodecaborane_isomers(rules):
+    # closo-C2B10H12 exists as 1,2- (ortho), 1,7- (meta) and 1,12- (para) isomers
+    # (Greenwood & Earnshaw, Chemistry of the Elements, 2nd ed., ch. 6; from memory)
+    s = enumerate_isomers(parse_abstract("Ma10b2"), rules.geometry("IC-12"))
+    assert s.geometric_isomers == 3 and s.stereoisomers == 3
+    # para is D5d, ortho and meta C2v (Greenwood & Earnshaw; from memory)
+    assert sorted(i.point_group for i in s.isomers) == ["C2v", "C2v", "D5d"]
+
+
+def test_ids_are_stable_and_enantiomers_paired(rules):
+    g = rules.geometry("OC-6")
+    comp = parse_abstract("M(AB)2b2")
+    a = [(i.id, i.point_group, i.sites) for i in generate(comp, g)]
+    b = [(i.id, i.point_group, i.sites) for i in generate(comp, g)]
+    assert a == b
+    s = enumerate_isomers(comp, g)
+    for iso in s.isomers:
+        if iso.chiral:
+            other = s.get(iso.enantiomer)
+            assert other.enantiomer == iso.id and other.point_group == iso.point_group
+            assert other.number == iso.number
+        else:
+            assert iso.enantiomer is None
+
+
+def test_limit_streams(rules):
+    g = rules.geometry("IC-12")
+    comp = parse_abstract("Mabcdefghijkl")  # 7,983,360 stereoisomers: must stream
+    first = list(itertools.islice(generate(comp, g), 5))
+    assert len(first) == 5 and all(i.point_group == "C1" for i in first)
+    s = enumerate_isomers(comp, g, limit=3)
+    assert not s.complete and len(s.isomers) == 3

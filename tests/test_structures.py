@@ -1,0 +1,149 @@
+"""Starting structures: geometry of the coordination sphere, full ligands, files."""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+import pytest
+from click.testing import CliRunner
+
+from enumerator.composition import Composition, LigandKind
+from enumerator.isomers import enumerate_isomers
+from enumerator.rules import load_rules
+from enumerator.structures import bond_length, build_structure, to_sdf, to_xyz
+
+# Hand-built catalogue-style kinds (contract 3: donor atoms carry atom maps 1..denticity).
+# SMILES written from the ligands' structures (common practice); CO as the
+# charge-separated [C-]#[O+] that RDKit sanitises.
+CO = LigandKind("CO", ("C",), reporter="CO", meta=(("smiles", "[C-:1]#[O+]"),))
+NH3 = LigandKind("NH3", ("N",), meta=(("smiles", "[NH3:1]"),))
+CL = LigandKind("Cl", ("Cl",), meta=(("charge", -1), ("smiles", "[Cl-:1]")))
+PPH3 = LigandKind("PPh3", ("P",), meta=(("smiles", "[P:1](c1ccccc1)(c1ccccc1)c1ccccc1"),))
+EN = LigandKind("en", ("N", "N"), meta=(("smiles", "[NH2:1]CC[NH2:2]"),))
+CP = LigandKind("Cp", ("C", "C", "C"), ring=True, meta=(("hapticity", 5), ("smiles", "[cH-]1cccc1")))
+
+
+def _oc():
+    return load_rules().geometry("OC-6")
+
+
+def _isomers(comp):
+    return enumerate_isomers(comp, _oc()).isomers
+
+
+def _pmg_group(symbols, coords):
+    from pymatgen.core import Molecule
+    from pymatgen.symmetry.analyzer import PointGroupAnalyzer
+
+    return PointGroupAnalyzer(Molecule(list(symbols), list(coords))).sch_symbol
+
+
+def test_bond_length_is_sum_of_rdkit_covalent_radii():
+    from rdkit import Chem
+
+    pt = Chem.GetPeriodicTable()  # reference library: RDKit's periodic table
+    assert bond_length("Ru", "P") == pytest.approx(pt.GetRcovalent("Ru") + pt.GetRcovalent("P"))
+    assert bond_length("M", "a") == 2.0  # placeholder distance, common practice
+
+
+def test_core_point_groups_agree_with_pymatgen():
+    # Donor-only cores of [RuCl2(CO)2(NH3)2]-type isomers (no SMILES given -> core).
+    # pymatgen's PointGroupAnalyzer is the outside reference for each isomer's group.
+    bare = [LigandKind(k.name, k.donors) for k in (CL, CO, NH3)]
+    comp = Composition("[RuCl2(CO)2(NH3)2]", tuple((k, 2) for k in bare), metal="Ru")
+    seen = set()
+    for iso in _isomers(comp):
+        s = build_structure(iso, comp)
+        assert s.kind == "core" and s.title.startswith("DONOR-ONLY CORE")
+        pg = _pmg_group(s.symbols, s.coords)
+        # pymatgen writes C*v / D*h for linear; none here
+        assert pg == iso.point_group, (iso.id, pg, iso.point_group)
+        seen.add(pg)
+    assert seen == {"C1", "C2v", "D2h"}  # Ma2b2c2: 5 geometric isomers, groups C1, C2v x3, D2h (common practice)
+
+
+def test_core_angles_are_ideal_octahedral():
+    comp = Composition("Mo(CO)6-core", ((LigandKind("CO", ("C",)), 6),), metal="Mo")
+    s = build_structure(_isomers(comp)[0], comp)
+    v = np.array(s.coords[1:])
+    cosang = (v @ v.T) / np.outer(np.linalg.norm(v, axis=1), np.linalg.norm(v, axis=1))
+    angles = sorted({round(math.degrees(math.acos(np.clip(c, -1, 1)))) for c in cosang[np.triu_indices(6, 1)]})
+    assert angles == [90, 180]  # ideal octahedron: cis 90 deg, trans 180 deg (fact of the trade)
+
+
+def test_full_ligands_formula_and_fixed_donors():
+    from rdkit import Chem
+    from rdkit.Chem.rdMolDescriptors import CalcMolFormula
+
+    comp = Composition("[RuCl2(CO)2(PPh3)2]", ((CL, 2), (CO, 2), (PPH3, 2)), metal="Ru")
+    iso = _isomers(comp)[-1]  # the all-trans isomer (D2h)
+    s = build_structure(iso, comp, label="OC-6-11")
+    assert s.kind == "full" and "DONOR-ONLY" not in s.title and "OC-6-11" in s.title
+    mol = Chem.MolFromMolBlock(s.molblock, removeHs=False)
+    assert mol is not None
+    # RuCl2(CO)2(PPh3)2 is C38H30Cl2O2P2Ru (formula of the known complex, fact of the trade)
+    assert CalcMolFormula(mol) == "C38H30Cl2O2P2Ru"
+    pos = mol.GetConformer().GetPositions()
+    assert np.allclose(pos[0], 0.0, atol=1e-4)  # metal at the origin
+    for site in iso.sites:  # each donor sits on its site vector at the covalent distance
+        d = bond_length("Ru", site.donor)
+        hits = [k for k, a in enumerate(mol.GetAtoms()) if np.allclose(pos[k], d * np.array(site.position), atol=1e-3)]
+        assert len(hits) == 1 and mol.GetAtomWithIdx(hits[0]).GetSymbol() == site.donor
+    # no two atoms closer than 0.9 A (C-H 1.09 A is the shortest bond here; common practice)
+    dist = np.linalg.norm(pos[:, None] - pos[None], axis=-1) + np.eye(len(pos)) * 9
+    assert dist.min() > 0.9
+
+
+def test_carbonyls_are_near_linear_and_output_deterministic():
+    comp = Composition("[Mo(CO)4(NH3)2]", ((CO, 4), (NH3, 2)), metal="Mo")
+    iso = _isomers(comp)[0]
+    a, b = build_structure(iso, comp), build_structure(iso, comp)
+    assert to_xyz(a) == to_xyz(b) and a.molblock == b.molblock  # same input, same bytes
+    pos = np.array(a.coords)
+    for k, sym in enumerate(a.symbols):
+        if sym == "O":  # its carbon is the nearest C
+            c = min((j for j, s in enumerate(a.symbols) if s == "C"), key=lambda j: np.linalg.norm(pos[j] - pos[k]))
+            u, w = pos[0] - pos[c], pos[k] - pos[c]
+            ang = math.degrees(math.acos(u @ w / np.linalg.norm(u) / np.linalg.norm(w)))
+            assert ang > 165  # terminal M-C-O is close to linear (fact of the trade)
+            assert 1.05 < np.linalg.norm(w) < 1.25  # C-O of a carbonyl ~1.13-1.15 A (from memory)
+
+
+def test_chelate_and_ring_ligands():
+    from rdkit import Chem
+
+    comp = Composition("[Co(en)3]3+", ((EN, 3),), metal="Co", charge=3)
+    s = build_structure(_isomers(comp)[0], comp)
+    assert s.kind == "full" and len(s.symbols) == 1 + 3 * 12  # Co + 3 x C2H8N2
+    mol = Chem.MolFromMolBlock(s.molblock, removeHs=False)
+    assert Chem.GetFormalCharge(mol) == 3
+    comp = Composition("CpMn(CO)3", ((CP, 1), (CO, 3)), metal="Mn")
+    s = build_structure(_isomers(comp)[0], comp)
+    assert s.kind == "full"
+    pos = np.array(s.coords)
+    ring = pos[[k for k, sym in enumerate(s.symbols) if sym == "C"][:5]]
+    centroid_distance = np.linalg.norm(ring.mean(axis=0))
+    assert 1.6 < centroid_distance < 1.95  # M-Cp(centroid) ~1.7-1.8 A in CpMn(CO)3 (from memory)
+
+
+def test_unusable_smiles_falls_back_to_marked_core():
+    bad = LigandKind("L", ("P",), meta=(("smiles", "P(C)(C)C"),))  # no atom map on the donor
+    comp = Composition("[NiL4]", ((bad, 4),), metal="Ni")
+    s = build_structure(_isomers(Composition("x", ((bad, 6),), metal="Ni"))[0], Composition("x", ((bad, 6),), metal="Ni"))
+    assert s.kind == "core" and "atom" in s.note and s.title.startswith("DONOR-ONLY CORE")
+    assert comp.formula == "[NiL4]"
+
+
+def test_cli_writes_files(tmp_path):
+    from enumerator.cli import cli
+
+    r = CliRunner().invoke(cli, ["structures", "Ma4b2", "--out", str(tmp_path / "o")])
+    assert r.exit_code == 0, r.output
+    files = sorted(p.name for p in (tmp_path / "o").iterdir())
+    assert files == ["Ma4b2_1.xyz", "Ma4b2_2.xyz"]  # Ma4b2: trans and cis (fact of the trade)
+    text = (tmp_path / "o" / "Ma4b2_1.xyz").read_text()
+    assert text.splitlines()[0] == "7" and "DONOR-ONLY CORE" in text.splitlines()[1]
+    r = CliRunner().invoke(cli, ["structures", "Ma4b2", "--out", str(tmp_path / "s"), "--format", "sdf"])
+    assert r.exit_code == 0 and (tmp_path / "s" / "Ma4b2.sdf").read_text().count("$$$$") == 2
+    assert to_sdf([]) == ""
