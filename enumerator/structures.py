@@ -1,0 +1,386 @@
+"""Starting structures (XYZ, SDF) of each isomer's idealised coordination sphere.
+
+These are *starting geometries* for a quantum-chemical optimisation, not
+optimised structures.  The metal sits at the origin and every donor atom on
+its site vector of the ideal polyhedron, at the sum of the covalent radii of
+metal and donor element (RDKit's periodic table, ``GetRcovalent``; these are
+single-bond radii, so M-CO comes out some 0.2-0.3 A long, which an optimiser
+fixes in a few steps).  An eta-ring (Cp, arene) is placed as a regular
+polygon of ring bond 1.40 A centred on the axis of its three facial sites,
+each ring carbon at the same M-C covalent distance.
+
+Two kinds of structure come out:
+
+* ``full`` -- every ligand has a SMILES in the catalogue (``meta['smiles']``,
+  donor atoms carrying atom-map numbers 1..denticity in chain order).  The
+  whole complex is built as one RDKit molecule (donor -> metal dative bonds,
+  explicit hydrogens) and embedded by distance geometry (ETKDG) with the
+  metal and donor positions held fixed (RDKit ``coordMap``) and a fixed
+  random-number start value, so the file is the same on every run.
+* ``core`` -- otherwise (abstract letters, a ligand without SMILES, an
+  embedding failure): the metal and the donor atoms only.  The title/comment
+  line then begins ``DONOR-ONLY CORE`` and says why.  Labels that are not
+  element symbols (abstract 'a', 'b', 'M') become dummy atoms: ``X`` in XYZ,
+  atomic number 0 in SDF.
+
+>>> from enumerator.pipeline import analyse
+>>> r = analyse("Ma4b2", geometry="OC-6")
+>>> s = build_structure(r.isomers[0], r.composition)
+>>> s.kind, len(s.symbols)
+('core', 7)
+>>> to_xyz(s).splitlines()[1].startswith("DONOR-ONLY CORE")
+True
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+from functools import lru_cache
+from typing import Iterable, Sequence
+
+from .composition import Composition, LigandKind
+from .isomers import Isomer
+
+__all__ = [
+    "Structure",
+    "build_structure",
+    "structures_for",
+    "to_xyz",
+    "to_sdf",
+    "bond_length",
+    "element_or_none",
+    "DUMMY_DISTANCE",
+    "RING_BOND",
+]
+
+#: M-donor distance (A) when either label is not an element (abstract formulas).
+DUMMY_DISTANCE = 2.0  # common practice: a typical M-L distance for a placeholder
+#: C-C bond of a planar eta-ring (A).
+RING_BOND = 1.40  # from memory: aromatic C-C in benzene 1.39-1.40 A, Cp 1.40-1.43 A
+#: Fixed start value of RDKit's random-number stream for the embedding.
+_RNG_START = 61453
+#: Largest deviation (A) of a fixed atom from its target before a full
+#: structure is rejected in favour of the donor-only core.
+_FIT_TOL = 0.05
+
+Vec = tuple[float, float, float]
+
+
+@dataclass(frozen=True)
+class Structure:
+    """One isomer's starting structure.
+
+    ``kind`` is 'full' or 'core'; ``title`` is the one-line description
+    written as the XYZ comment and the SDF title; ``symbols``/``coords`` are
+    the atoms (metal first) in angstrom; ``molblock`` the SDF record (without
+    the ``$$$$`` terminator); ``note`` says why a core was written.
+    """
+
+    isomer_id: str
+    kind: str
+    title: str
+    symbols: tuple[str, ...]
+    coords: tuple[Vec, ...]
+    charge: int
+    note: str
+    molblock: str
+
+
+def element_or_none(label: str) -> str | None:
+    """The element symbol if ``label`` is one (exact case), else None.
+
+    >>> element_or_none("Ru"), element_or_none("a"), element_or_none("M")
+    ('Ru', None, None)
+    """
+    if not label or not label[0].isupper():
+        return None
+    return label if _atomic_number(label) else None
+
+
+@lru_cache(maxsize=None)
+def _atomic_number(symbol: str) -> int:
+    from rdkit import Chem, rdBase
+
+    with rdBase.BlockLogs():
+        try:
+            return int(Chem.GetPeriodicTable().GetAtomicNumber(symbol))
+        except Exception:
+            return 0
+
+
+@lru_cache(maxsize=None)
+def bond_length(metal: str, donor: str) -> float:
+    """Metal-donor starting distance: the sum of RDKit's covalent radii, or
+    :data:`DUMMY_DISTANCE` when either is not an element.
+
+    >>> bond_length("Ru", "C")  # 1.46 + 0.76, RDKit GetRcovalent
+    2.22
+    """
+    if not element_or_none(metal) or not element_or_none(donor):
+        return DUMMY_DISTANCE
+    from rdkit import Chem
+
+    pt = Chem.GetPeriodicTable()
+    return round(pt.GetRcovalent(metal) + pt.GetRcovalent(donor), 4)
+
+
+def _round(x: float) -> float:
+    v = round(float(x), 5)
+    return 0.0 if v == 0 else v
+
+
+def _meta(kind: LigandKind, key: str, default=None):
+    for k, v in kind.meta:
+        if k == key:
+            return v
+    return default
+
+
+def _norm(v: Sequence[float]) -> Vec:
+    n = math.sqrt(sum(c * c for c in v))
+    return tuple(c / n for c in v)  # type: ignore[return-value]
+
+
+def _ring_positions(site_vectors: Sequence[Vec], size: int, metal: str, element: str) -> list[Vec]:
+    """A regular ring of ``size`` atoms centred on the axis of the sites it caps."""
+    import numpy as np
+
+    u = np.array(_norm(np.sum(np.array(site_vectors), axis=0)))
+    radius = RING_BOND / (2 * math.sin(math.pi / size))
+    mc = bond_length(metal, element)
+    h = math.sqrt(max(mc * mc - radius * radius, 0.25))
+    # in-plane frame: e1 toward the first capped site, projected
+    first = np.array(site_vectors[0], dtype=float)
+    e1 = first - (first @ u) * u
+    if np.linalg.norm(e1) < 1e-6:  # pragma: no cover - sites on the axis
+        e1 = np.cross(u, [1.0, 0.0, 0.0]) if abs(u[0]) < 0.9 else np.cross(u, [0.0, 1.0, 0.0])
+    e1 = e1 / np.linalg.norm(e1)
+    e2 = np.cross(u, e1)
+    out = []
+    for k in range(size):
+        t = 2 * math.pi * k / size
+        p = h * u + radius * (math.cos(t) * e1 + math.sin(t) * e2)
+        out.append(tuple(float(c) for c in p))
+    return out
+
+
+def _title(isomer: Isomer, comp: Composition, kind: str, note: str, extra: str = "") -> str:
+    base = f"{comp.formula} isomer {isomer.id} ({isomer.point_group}{', ' + extra if extra else ''}) on {isomer.geometry.symbol}"
+    if kind == "core":
+        return f"DONOR-ONLY CORE (ligands not built: {note}): {base}; idealised starting geometry, charge {comp.charge}"
+    return f"{base}; full ligands, RDKit ETKDG with donors fixed; idealised starting geometry, charge {comp.charge}"
+
+
+def build_structure(isomer: Isomer, composition: Composition, *, label: str = "") -> Structure:
+    """The starting structure of one isomer: full ligands if possible, else
+    the donor-only core.  ``label`` (e.g. the IUPAC descriptor) is added to
+    the title line."""
+    reason = _why_not_full(composition)
+    if not reason:
+        try:
+            return _full(isomer, composition, label)
+        except _EmbedFailed as exc:
+            reason = str(exc)
+    return _core(isomer, composition, reason, label)
+
+
+def structures_for(result, labels: dict[str, str] | None = None) -> tuple[Structure, ...]:
+    """One structure per isomer of a :class:`~enumerator.result.Result`."""
+    labels = labels or {}
+    return tuple(build_structure(i, result.composition, label=labels.get(i.id, "")) for i in result.isomers)
+
+
+class _EmbedFailed(Exception):
+    pass
+
+
+def _why_not_full(comp: Composition) -> str:
+    if not element_or_none(comp.metal):
+        return f"metal '{comp.metal}' is not an element"
+    for k in comp.kinds:
+        if not _meta(k, "smiles"):
+            return f"no SMILES for ligand '{k.name}'"
+    return ""
+
+
+def _core(isomer: Isomer, comp: Composition, reason: str, label: str) -> Structure:
+    from rdkit import Chem
+    from rdkit.Geometry import Point3D
+
+    metal = comp.metal
+    symbols = [element_or_none(metal) or "X"]
+    coords: list[Vec] = [(0.0, 0.0, 0.0)]
+    for s in isomer.sites:
+        d = bond_length(metal, s.donor)
+        symbols.append(element_or_none(s.donor) or "X")
+        coords.append(tuple(_round(d * c) for c in s.position))  # type: ignore[arg-type]
+    title = _title(isomer, comp, "core", reason, label)
+    rw = Chem.RWMol()
+    for sym in symbols:
+        rw.AddAtom(Chem.Atom(0 if sym == "X" else _atomic_number(sym)))
+    for k in range(1, len(symbols)):
+        rw.AddBond(0, k, Chem.BondType.SINGLE)
+    conf = Chem.Conformer(len(symbols))
+    for k, c in enumerate(coords):
+        conf.SetAtomPosition(k, Point3D(*c))
+    mol = rw.GetMol()
+    mol.AddConformer(conf, assignId=True)
+    block = _molblock(mol, title, isomer, comp, "core")
+    return Structure(isomer.id, "core", title, tuple(symbols), tuple(coords), comp.charge, reason, block)
+
+
+def _ligand_mol(kind: LigandKind):
+    from rdkit import Chem
+
+    smi = str(_meta(kind, "smiles"))
+    m = Chem.MolFromSmiles(smi)
+    if m is None:
+        raise _EmbedFailed(f"RDKit cannot read the SMILES of '{kind.name}' ({smi})")
+    maps = sorted(a.GetAtomMapNum() for a in m.GetAtoms() if a.GetAtomMapNum())
+    if not kind.ring and maps != list(range(1, kind.denticity + 1)):
+        raise _EmbedFailed(f"the SMILES of '{kind.name}' does not number its {kind.denticity} donor atom(s) :1..:{kind.denticity}")
+    return m
+
+
+def _ring_atoms(m, kind: LigandKind) -> list[int]:
+    """The atoms of an eta-ring bound to the metal, in ring order."""
+    size = int(_meta(kind, "hapticity", 0) or 0)
+    mapped = {a.GetIdx() for a in m.GetAtoms() if a.GetAtomMapNum()}
+    for ring in m.GetRingInfo().AtomRings():
+        if (not size or len(ring) == size) and (not mapped or mapped <= set(ring) or mapped & set(ring)):
+            return list(ring)
+    raise _EmbedFailed(f"no {size or ''}-membered ring found in the SMILES of '{kind.name}'")
+
+
+def _full(isomer: Isomer, comp: Composition, label: str) -> Structure:
+    import numpy as np
+    from rdkit import Chem, rdBase
+    from rdkit.Chem import AllChem
+    from rdkit.Geometry import Point3D
+
+    metal = comp.metal
+    rw = Chem.RWMol()
+    m_idx = rw.AddAtom(Chem.Atom(metal))
+    fixed: dict[int, Vec] = {m_idx: (0.0, 0.0, 0.0)}
+    by_unit: dict[int, list] = {}
+    for s in isomer.sites:
+        by_unit.setdefault(s.unit, []).append(s)
+    lig_charge = 0
+    hapto: list[int] = []
+    for unit in sorted(by_unit):
+        sites = sorted(by_unit[unit], key=lambda s: s.donor_index)
+        kind = comp.kind(sites[0].ligand)
+        m = _ligand_mol(kind)
+        off = rw.GetNumAtoms()
+        for a in m.GetAtoms():
+            rw.AddAtom(a)
+            lig_charge += a.GetFormalCharge()
+        for b in m.GetBonds():
+            rw.AddBond(b.GetBeginAtomIdx() + off, b.GetEndAtomIdx() + off, b.GetBondType())
+        if kind.ring:
+            ring = _ring_atoms(m, kind)
+            el = m.GetAtomWithIdx(ring[0]).GetSymbol()
+            pos = _ring_positions([s.position for s in sites], len(ring), metal, el)
+            # one ring atom is bonded to the metal for the embedding (a
+            # fully hapto-bonded ring defeats RDKit's bounds builder); the
+            # other M-C bonds are added afterwards
+            rw.AddBond(ring[0] + off, m_idx, Chem.BondType.DATIVE)
+            for a, p in zip(ring, pos):
+                if a != ring[0]:
+                    hapto.append(a + off)
+                fixed[a + off] = p
+        else:
+            donors = {a.GetAtomMapNum(): a.GetIdx() for a in m.GetAtoms() if a.GetAtomMapNum()}
+            for s in sites:
+                a = donors[s.donor_index + 1]
+                el = m.GetAtomWithIdx(a).GetSymbol()
+                d = bond_length(metal, el)
+                rw.AddBond(a + off, m_idx, Chem.BondType.DATIVE)
+                fixed[a + off] = tuple(d * c for c in s.position)  # type: ignore[assignment]
+    for a in rw.GetAtoms():
+        a.SetAtomMapNum(0)
+    rw.GetAtomWithIdx(m_idx).SetFormalCharge(comp.charge - lig_charge)
+    rw.GetAtomWithIdx(m_idx).SetNoImplicit(True)
+    mol = rw.GetMol()
+    with rdBase.BlockLogs():
+        try:
+            Chem.SanitizeMol(mol)
+            mol = Chem.AddHs(mol)
+        except Exception as exc:  # valence problems in a catalogue SMILES
+            raise _EmbedFailed(f"RDKit rejects the assembled complex ({str(exc).splitlines()[0]})") from None
+        cmap = {i: Point3D(*p) for i, p in fixed.items()}
+        try:
+            cid = AllChem.EmbedMolecule(mol, coordMap=cmap, randomSeed=_RNG_START, useRandomCoords=True, maxAttempts=20)
+        except (RuntimeError, IndexError) as exc:
+            raise _EmbedFailed(f"RDKit could not embed the ligands ({str(exc).strip().splitlines()[0]})") from None
+    if cid < 0:
+        raise _EmbedFailed("RDKit could not embed the ligands with the donor positions fixed")
+    pos = np.array(mol.GetConformer(cid).GetPositions())
+    pos = _align(pos, fixed)
+    dev = max(float(np.linalg.norm(pos[i] - np.array(p))) for i, p in fixed.items())
+    if dev > _FIT_TOL:
+        raise _EmbedFailed(f"the embedded donors sit {dev:.2f} A off their sites")
+    for i, p in fixed.items():  # exact ideal positions for the fixed atoms
+        pos[i] = p
+    conf = mol.GetConformer(cid)
+    coords = []
+    for k in range(mol.GetNumAtoms()):
+        c = tuple(_round(x) for x in pos[k])
+        coords.append(c)
+        conf.SetAtomPosition(k, Point3D(*c))
+    if hapto:
+        rw2 = Chem.RWMol(mol)
+        for a in hapto:
+            rw2.AddBond(a, m_idx, Chem.BondType.DATIVE)
+        mol = rw2.GetMol()
+    symbols = tuple(a.GetSymbol() for a in mol.GetAtoms())
+    title = _title(isomer, comp, "full", "", label)
+    block = _molblock(mol, title, isomer, comp, "full")
+    return Structure(isomer.id, "full", title, symbols, tuple(coords), comp.charge, "", block)  # type: ignore[arg-type]
+
+
+def _align(pos, fixed: dict[int, Vec]):
+    """Rotate (proper rotation only, so chirality is kept) and translate the
+    embedded coordinates onto the fixed targets (Kabsch)."""
+    import numpy as np
+
+    idx = sorted(fixed)
+    p = pos[idx]
+    q = np.array([fixed[i] for i in idx], dtype=float)
+    pc, qc = p.mean(axis=0), q.mean(axis=0)
+    h = (p - pc).T @ (q - qc)
+    u, _, vt = np.linalg.svd(h)
+    d = np.sign(np.linalg.det(vt.T @ u.T)) or 1.0
+    r = vt.T @ np.diag([1.0, 1.0, d]) @ u.T
+    return (pos - pc) @ r.T + qc
+
+
+def _molblock(mol, title: str, isomer: Isomer, comp: Composition, kind: str) -> str:
+    from rdkit import Chem
+
+    mol.SetProp("_Name", title[:200])
+    block = Chem.MolToMolBlock(mol)
+    props = [
+        ("formula", comp.formula),
+        ("isomer", isomer.id),
+        ("point_group", isomer.point_group),
+        ("geometry", isomer.geometry.symbol),
+        ("structure", "full ligands" if kind == "full" else "DONOR-ONLY CORE"),
+        ("charge", str(comp.charge)),
+    ]
+    tail = "".join(f">  <{k}>\n{v}\n\n" for k, v in props)
+    return block + tail
+
+
+def to_xyz(structure: Structure) -> str:
+    """One XYZ block: atom count, the title line, then 'El x y z' in angstrom."""
+    lines = [str(len(structure.symbols)), structure.title.replace("\n", " ")]
+    for sym, (x, y, z) in zip(structure.symbols, structure.coords):
+        lines.append(f"{sym:<2} {x:12.6f} {y:12.6f} {z:12.6f}".replace("-0.000000", " 0.000000"))
+    return "\n".join(lines) + "\n"
+
+
+def to_sdf(structures: Iterable[Structure]) -> str:
+    """An SD file of the given structures, one record each."""
+    return "".join(s.molblock + "$$$$\n" for s in structures)
