@@ -1,0 +1,87 @@
+"""``isosieve count``: how many isomers a formula has, before listing any.
+
+The numbers come from Burnside's lemma (:mod:`enumerator.counting`): an
+average over the symmetry operations of the decorations each one fixes.
+Nothing is enumerated, so even a 12-vertex centre with twelve different
+ligands answers at once.
+"""
+
+from __future__ import annotations
+
+import click
+
+from .common import emit, parse_pairs, rules_of
+
+
+@click.command("count")
+@click.argument("formula")
+@click.option("-g", "--geometry", metavar="SYMBOL", help="Polyhedral symbol, e.g. OC-6, IC-12 (default: chosen from the formula).")
+@click.option("--all", "every", is_flag=True, help="Count on every geometry with the formula's coordination number.")
+@click.option("--span", "spans", multiple=True, metavar="LIGAND=SPAN", help="Chelate span: edge, cis, trans or any; repeatable.")
+@click.option("--arrangement", "arrangements", multiple=True, metavar="LIGAND=fac|mer", help="Limit a tridentate to fac, mer or 'fac,mer'.")
+@click.option("--json", "as_json", is_flag=True, help="Print one JSON document.")
+@click.option("--out", type=click.Path(dir_okay=False), help="Write to this file (atomically) instead of standard output.")
+@click.pass_context
+def count(ctx, formula, geometry, every, spans, arrangements, as_json, out):
+    """Count the geometric isomers and stereoisomers of FORMULA up front
+    (Burnside's lemma), without listing them.
+
+    Monodentate letters, chelates (AA)/(AB)/(ABA)/(ABC), fac/mer limits,
+    span settings and (ring) ligands are all counted exactly.
+
+    \b
+    Examples:
+      isosieve count Mabcdefghijkl --geometry IC-12
+      isosieve count "M(AA)2b2"
+      isosieve count Ma4b2 --all
+      isosieve count "M(AA)b4" --span AA=trans --json
+    """
+    from ..counting import burnside_counts
+    from ..isomers import generate
+    from ..pipeline import Request, prepare
+    from ..rules import load_rules
+
+    req = Request(
+        formula=formula,
+        geometry=geometry,
+        spans=parse_pairs(spans, "--span", "AA=trans"),
+        arrangements=parse_pairs(arrangements, "--arrangement", "AAA=fac"),
+        rules=rules_of(ctx),
+    )
+    comp, geo, reason = prepare(req)
+    if every:
+        if geometry:
+            from ..errors import InputError
+
+            raise InputError("--all and --geometry both given", "give one of them")
+        rules = load_rules(req.rules)
+        geos = sorted(
+            (g for g in rules.geometries.values() if g.coordination_number == comp.donor_count),
+            key=lambda g: g.symbol,
+        )
+    else:
+        geos = [geo]
+    rows = []
+    for g in geos:
+        generate(comp, g)  # the enumerator's own checks (donor count, placeable ligands), nothing listed
+        n_geo, n_stereo = burnside_counts(comp, g) or (0, 0)
+        rows.append({"geometry": g.symbol, "name": g.name, "geometric_isomers": n_geo, "stereoisomers": n_stereo})
+    if as_json:
+        from ..render.jsonout import dumps
+
+        doc = {"formula": comp.formula, "method": "Burnside's lemma", "counts": rows}
+        if not every:
+            doc["geometry_reason"] = reason
+        emit(dumps(doc), out)
+        return
+    lines = []
+    for r in rows:
+        lines.append(
+            f"{comp.formula} on {r['geometry']} ({r['name']}): "
+            f"{r['geometric_isomers']:,} geometric isomer(s), {r['stereoisomers']:,} stereoisomer(s)"
+            + (" (the ligands cannot all be placed together; allow wider chelate spans with --span)" if not r["stereoisomers"] else "")
+        )
+    if not every:
+        lines.append(f"geometry: {reason}")
+    lines.append("counted by Burnside's lemma; nothing was enumerated (list them with 'isosieve isomers')")
+    emit("\n".join(lines) + "\n", out)
