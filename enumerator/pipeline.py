@@ -55,7 +55,19 @@ def parse_formula(text: str, rules: RuleSet) -> Composition:
     if not text or not text.strip():
         raise InputError("empty formula", "give a formula such as Ma4b2 or [RuCl2(CO)2(PPh3)2]")
     if looks_abstract(text):
-        return parse_abstract(text)
+        try:
+            return parse_abstract(text)
+        except InputError as abstract_error:
+            # 'Mn', 'Mo', 'Mg' ... also start like the abstract notation: a
+            # text that is not valid letters may still be a real formula.
+            try:
+                from .condensed import parse_condensed
+            except ImportError:  # pragma: no cover - until the catalogue lands
+                raise abstract_error from None
+            try:
+                return parse_condensed(text, rules)
+            except InputError:
+                raise abstract_error from None
     try:
         from .condensed import parse_condensed  # real formulas (ligand catalogue)
     except ImportError:  # pragma: no cover - until the catalogue lands
