@@ -47,7 +47,11 @@ class Request:
 #: The analysis stages, in order: "module:function".  Each function takes
 #: (Result, Request) and returns an Analysis (or None to add nothing).
 #: A stage sees the analyses of the stages before it in ``result.analyses``.
-STAGES: tuple[str, ...] = ()
+STAGES: tuple[str, ...] = (
+    "enumerator.centre:stage",
+    "enumerator.safety:stage",
+    "enumerator.nomenclature:descriptor_stage",
+)
 
 
 def parse_formula(text: str, rules: RuleSet) -> Composition:
@@ -98,6 +102,10 @@ def apply_settings(
 
 def choose_geometry(comp: Composition, rules: RuleSet, symbol: str | None) -> tuple[str, str]:
     """The geometry symbol and the reason for it."""
+    if comp.metal != "M":  # a real centre: from the coordination number and the d-electron count
+        from .centre import choose_geometry as centre_choice
+
+        return centre_choice(comp, rules, symbol)
     if symbol:
         g = rules.geometry(symbol)
         return g.symbol, f"{g.symbol} as requested"
