@@ -72,8 +72,9 @@ def _run(req, partial: bool):
 @click.option("--reporter", "reporters", multiple=True, metavar="LETTER=CLASS", help="Treat a ligand as a stretch reporter, e.g. a=CO; repeatable.")
 @click.option("--limit", type=click.IntRange(min=1), help="Stop after this many stereoisomers.")
 @click.option("--partial", is_flag=True, help='On Ctrl-C, write the isomers found so far (marked "complete": false) instead of nothing.')
+@click.option("--pick", metavar="DESCRIPTOR", help="Keep only the isomers with this IUPAC descriptor: OC-6-32-C, OC-6-32, 32, cis, trans, fac or mer.")
 @click.pass_context
-def isomers(ctx, formula, geometry, as_json, fmt, out, spans, arrangements, reporters, limit, partial):
+def isomers(ctx, formula, geometry, as_json, fmt, out, spans, arrangements, reporters, limit, partial, pick):
     """List every isomer of FORMULA with its point group.
 
     FORMULA is the abstract notation (lowercase letters for monodentate
@@ -87,6 +88,8 @@ def isomers(ctx, formula, geometry, as_json, fmt, out, spans, arrangements, repo
       isosieve isomers "M(AA)b4" --span AA=trans
       isosieve isomers "M(AAA)b3" --arrangement AAA=mer
       isosieve isomers Mabcdefghijkl --geometry IC-12 --limit 100 --partial --json
+      isosieve isomers "[Co(NH3)3(NO2)3]" --pick mer
+      isosieve isomers Ma2b2c2 --pick OC-6-32-C
 
     The size is counted first (Burnside's lemma, as 'isosieve count' does);
     more than 200,000 stereoisomers need --limit.  Ctrl-C stops with exit
@@ -104,9 +107,14 @@ def isomers(ctx, formula, geometry, as_json, fmt, out, spans, arrangements, repo
         reporters=parse_pairs(reporters, "--reporter", "a=CO"),
         limit=limit,
         rules=rules_of(ctx),
+        options=(("pick", pick),) if pick else (),
     )
     try:
         res, interrupted = _run(req, partial)
+        if pick:
+            from ..nomenclature import select_isomers
+
+            res = select_isomers(res, pick)
         if as_json or fmt == "json":
             from ..render.jsonout import dumps, result_to_dict
 
