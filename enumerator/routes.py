@@ -58,6 +58,7 @@ __all__ = [
     "SiteChoice",
     "Prediction",
     "predict",
+    "predict_step",
     "Space",
     "Network",
     "build_network",
@@ -384,19 +385,26 @@ def _index(comp: Composition, geometry: Geometry) -> dict[Decoration, str]:
 
 def everyday_prefix(iso: Isomer, comp: Composition) -> str | None:
     """cis/trans/fac/mer from site relations, when every monodentate ligand
-    present twice (cis/trans) or three times on six sites (fac/mer) agrees;
-    None otherwise.  (Full IUPAC descriptors come from enumerator.nomenclature.)"""
+    present twice (cis/trans) or three times on six sites (fac/mer) agrees,
+    or, failing those, how the only two single ligands sit (Ma4bc); None
+    otherwise.  (Full IUPAC descriptors come from enumerator.nomenclature.)"""
     geo = iso.geometry
     labels: set[str] = set()
+    singles: list[int] = []
     for kind, n in comp.parts:
         if kind.denticity != 1:
             continue
         sites = iso.sites_of(kind.name)
-        if n == 2 and geo.coordination_number >= 4:
+        if n == 1:
+            singles.extend(sites)
+        elif n == 2 and geo.coordination_number >= 4:
             labels.add(geo.relation(sites[0], sites[1]))
         elif n == 3 and geo.coordination_number == 6:
             trans = any(geo.relation(a, b) == "trans" for a, b in itertools.combinations(sites, 2))
             labels.add("mer" if trans else "fac")
+    if not labels and len(singles) == 2 and geo.coordination_number >= 4:
+        # Ma4bc, Ma2bc: the everyday prefix tells how the two odd ligands sit
+        labels.add(geo.relation(singles[0], singles[1]))
     if len(labels) == 1:
         return labels.pop()
     return None
@@ -596,6 +604,7 @@ class Prediction:
     major: Product | None
     decided_by: str
     reason: str
+    rules_reason: str = ""
 
     def by_geometric_isomer(self, which: str = "selected") -> list[tuple[Product, Fraction]]:
         """Shares summed over enantiomers, largest first (ties by formula and number)."""
@@ -712,7 +721,8 @@ def _predict(space: Space, sp: Species, iso: Isomer, entering: str, leaving: Seq
 
 def _rule_reason(rules: SubstitutionRules, picked, final, padded, chosen, geo: Geometry) -> str:
     first = picked[0]
-    where = f"the {first.leaving} {rules.labilises} to {_list_names(first.labilisers)}"
+    article = "the" if len(picked) == 1 else "any"
+    where = f"{article} {first.leaving} {rules.labilises} to {_list_names(first.labilisers)}"
     others = [k for k in padded if k not in chosen]
     runner = min(padded[k] for k in others)
     best = padded[chosen[0]]
@@ -756,16 +766,8 @@ def predict(
     one the rule picks, with the reason.
     """
     rs = ruleset or load_rules()
-    ek = entering if isinstance(entering, LigandKind) else None
-    name = entering.name if isinstance(entering, LigandKind) else entering
-    if ek is None:
-        try:
-            ek = composition.kind(name)
-        except InputError:
-            from .pipeline import parse_formula
-
-            probe = parse_formula(f"[{composition.metal}{name}]" if not _is_abstract(composition) else f"M{name}", rs)
-            ek = probe.kinds[0]
+    ek = entering if isinstance(entering, LigandKind) else _entering_kind(entering, composition, rs)
+    name = ek.name
     space = Space(composition, isomer.geometry, rs, kinds=(ek,))
     sp = space.species(space.counts(composition))
     if leaving is None:
@@ -774,11 +776,74 @@ def predict(
     return _predict(space, sp, isomer, name, tuple(leaving), rules)
 
 
+def _entering_kind(name: str, composition: Composition, ruleset: RuleSet) -> LigandKind:
+    """The ligand kind of an entering ligand: one already present, a letter
+    of the abstract notation, or a catalogued ligand."""
+    for k in composition.kinds:
+        if k.name == name:
+            return k
+    if _is_abstract(composition):
+        if re.fullmatch(r"[a-z]", name):
+            return LigandKind(name=name, donors=(name,))
+        raise InputError(f"entering ligand '{name}' is not a letter of the abstract notation", "write one lowercase letter, e.g. --add b")
+    from .ligands import find_ligand
+
+    return find_ligand(ruleset, name).kind()
+
+
+def predict_step(
+    start_text: str, entering: str, *, leaving: Sequence[str] | None = None, geometry: str | None = None,
+    rule_set: str | None = None, rules: Sequence[str] = (),
+) -> Prediction:
+    """:func:`predict` from text: START (a formula, with a descriptor when it
+    has several isomers) plus one entering ligand, under the named rule set
+    or the applicable one of highest priority."""
+    from .pipeline import choose_geometry, parse_formula
+
+    ruleset = load_rules(rules)
+    formula, desc = parse_species(start_text)
+    comp = parse_formula(formula, ruleset)
+    symbol, _ = choose_geometry(comp, ruleset, geometry)
+    geo = ruleset.geometry(symbol)
+    isos = resolve_species(enumerate_isomers_cached(comp, geo), comp, desc, role="start")
+    ek = _entering_kind(entering, comp, ruleset)
+    available = load_substitution_rules(ruleset)
+    if leaving is None:
+        present = [k.name for k in comp.kinds if k.name != ek.name and k.denticity == 1 and not k.ring]
+        if len(present) > 1 and rule_set is None:
+            selective = [r for r in available.values() if r.leaving and r.covers_geometry(geo.symbol) and set(r.leaving) & set(present)]
+            if not selective:
+                raise InputError(f"{comp.formula} has more than one ligand that could leave ({', '.join(present)})", "say which with --leaving LIGAND")
+        leav_guess = present
+    else:
+        leav_guess = list(leaving)
+    ligands = [k.name for k in comp.kinds] + [ek.name]
+    chosen, reason = choose_rule_set(available, geo.symbol, ligands, [n for n in leav_guess], rule_set) if leaving is not None else \
+        _choose_for_step(available, geo.symbol, ligands, leav_guess, rule_set)
+    p = predict(isos[0], comp, ek, chosen, leaving=leaving, ruleset=ruleset)
+    return replace(p, rules_reason=reason)
+
+
+def _choose_for_step(available, geometry: str, ligands, present, name):
+    """Rule choice when the leaving ligand is not given: a rule set that
+    names its leaving ligands applies if one of them is present."""
+    if name:
+        return choose_rule_set(available, geometry, ligands, [], name)
+    for r in sorted(available.values(), key=lambda r: (-r.priority, r.name)):
+        leav = [n for n in present if n in r.leaving] if r.leaving else present
+        if not leav:
+            continue
+        ok, _ = r.applies(geometry, ligands, leav)
+        if ok and (r.leaving or len(present) == 1 or r.statistical):
+            return choose_rule_set(available, geometry, ligands, leav, None)
+    return choose_rule_set(available, geometry, ligands, present, None)
+
+
 def prediction_json(p: Prediction) -> dict[str, Any]:
     return {
         "start": p.start.json(),
         "entering": p.entering,
-        "rule_set": p.rules.name,
+        "rule_set": dict(p.rules.describe(), reason=p.rules_reason),
         "decided_by": p.decided_by,
         "reason": p.reason,
         "major": p.major.json() if p.major else None,
@@ -826,7 +891,7 @@ def resolve_species(iset: IsomerSet, comp: Composition, descriptor: str | None, 
         ids = ", ".join(i.id for i in iset.isomers)
         raise InputError(
             f"{comp.formula} has {iset.geometric_isomers} geometric isomers; the {role} needs a descriptor",
-            f"write e.g. cis-{comp.formula}, trans-..., fac-/mer- or a configuration index like (2)-{comp.formula} (isomer ids: {ids})",
+            f"write e.g. cis-{comp.formula}, trans-..., fac-/mer- or a configuration index like (OC-6-22)-FORMULA (see `isosieve isomers \"{comp.formula}\"`)",
         )
     found: list[Isomer] | None = None
     try:
@@ -835,9 +900,9 @@ def resolve_species(iset: IsomerSet, comp: Composition, descriptor: str | None, 
         find_by_descriptor = None  # type: ignore[assignment]
     if find_by_descriptor is not None:
         found = list(find_by_descriptor(iset, comp, descriptor))
-    elif descriptor in ("cis", "trans", "fac", "mer"):
+    if not found and descriptor in ("cis", "trans", "fac", "mer"):
         found = [i for i in iset.isomers if everyday_prefix(i, comp) == descriptor]
-    else:
+    elif find_by_descriptor is None:
         raise InputError(f"cannot read the descriptor '{descriptor}' without the nomenclature module", "use cis/trans/fac/mer")
     if not found:
         raise InputError(f"no isomer of {comp.formula} is '{descriptor}'", f"see `isosieve isomers \"{comp.formula}\"` for the isomers and their descriptors")
