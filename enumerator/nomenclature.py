@@ -108,6 +108,7 @@ __all__ = [
     "select_isomers",
     "descriptor_stage",
     "skew_lines_sense",
+    "rs_symbol",
     "SUPPORTED",
 ]
 
@@ -325,9 +326,19 @@ def _rs(g: Geometry, r: Mapping[int, Rank]) -> str | None:
     if len(set(r.values())) != 4:
         return None
     s1, s2, s3, s4 = sorted(r, key=lambda s: r[s])
-    v1, v2, v3, v4 = (_vec(g, s) for s in (s1, s2, s3, s4))
+    return rs_symbol(*(_vec(g, s) for s in (s1, s2, s3, s4)))
+
+
+def rs_symbol(v1, v2, v3, v4) -> str:
+    """R or S for bond vectors (from the centre) of the priority-1..4 atoms:
+    seen with atom 4 pointing away, 1 -> 2 -> 3 clockwise is R.
+
+    >>> rs_symbol([1, 1, 1], [1, -1, -1], [-1, 1, -1], [-1, -1, 1])
+    'S'
+    """
+    v1, v2, v3, v4 = (np.asarray(v, dtype=float) for v in (v1, v2, v3, v4))
     normal = np.cross(v2 - v1, v3 - v1)
-    # seen from the side away from 4 (viewer at -v4), 1->2->3 is clockwise iff normal . v4 > 0
+    # the viewer sits opposite atom 4; 1->2->3 looks clockwise to it iff normal . v4 > 0
     return "R" if float(np.dot(normal, v4)) > 0 else "S"
 
 
