@@ -51,6 +51,7 @@ STAGES: tuple[str, ...] = (
     "enumerator.centre:stage",
     "enumerator.safety:stage",
     "enumerator.nomenclature:descriptor_stage",
+    "enumerator.spectroscopy:stage",
 )
 
 
