@@ -43,9 +43,8 @@ def load_requests(path: str, rules: tuple[str, ...]):
         jobfile = None
     if jobfile is not None and hasattr(jobfile, "load_job"):
         job = jobfile.load_job(path, rules=rules)
-        reqs = list(getattr(job, "requests", ()) or ())
-        if reqs:
-            return str(getattr(job, "title", "") or Path(path).stem), reqs
+        reqs = [e.request for e in job.entries]
+        return str(job.title or Path(path).stem), reqs
     p = Path(path)
     if not p.is_file():
         raise InputError(f"job file '{path}' not found", "give the path of a TOML job file")

@@ -63,11 +63,14 @@ th{background:#eee}
 .meta{color:#333;font-size:.9rem}
 .caution{border:3px solid #000;background:#fff3cd;padding:.4rem .8rem;margin:.8rem 0}
 .caution h3::before{content:"\\26A0  "}
-.cards{display:flex;flex-wrap:wrap;gap:.8rem}
-.card{border:1px solid #666;border-radius:4px;padding:.5rem;width:23rem;break-inside:avoid}
-.card dl{display:grid;grid-template-columns:max-content 1fr;gap:.1rem .6rem;margin:.3rem 0;font-size:.88rem}
-.card dt{font-weight:600}.card dd{margin:0}
-.spec img,.spec svg{width:100%;height:auto}
+.cards{display:block}
+.card{border:1px solid #666;border-radius:4px;padding:.5rem;margin:.8rem 0;display:grid;grid-template-columns:250px minmax(0,1fr);gap:.4rem 1rem;break-inside:avoid}
+.card h3{grid-column:1/-1}
+.card dl{display:grid;grid-template-columns:max-content minmax(0,1fr);gap:.1rem .6rem;margin:0;font-size:.88rem}
+.card dt{font-weight:600}.card dd{margin:0;overflow-x:auto;overflow-wrap:break-word}
+.card dd table th,.card dd table td{font-size:.78rem;padding:.05rem .3rem}
+.specs{grid-column:1/-1;display:flex;flex-wrap:wrap;gap:1rem}
+.spec{width:24rem}.spec img,.spec svg{width:100%;height:auto}
 pre{white-space:pre-wrap;font-size:.85rem;background:#f6f6f6;padding:.4rem;border:1px solid #ddd}
 code{font-size:.85rem}
 .grid td{text-align:center;min-width:4.2rem;font-size:.8rem}
@@ -75,7 +78,7 @@ code{font-size:.85rem}
 .grid .d1{background:#fde0c5}
 .grid .d2{background:#f59e5a}
 .grid .d3{background:#a4471a;color:#fff}
-.grid .self{background:#333;color:#fff}
+.grid .self{background:#fff;color:#000}
 .grid .na{background:#fff;color:#555}
 .legend span{display:inline-block;border:1px solid #888;padding:0 .4rem;margin-right:.4rem;font-size:.8rem}
 footer{margin-top:2rem;font-size:.8rem;color:#333}
@@ -146,9 +149,9 @@ def polyhedron_svg(isomer: Isomer, kinds: Sequence[str] = (), metal: str = "M", 
         return f'<line x1="{_num(c)}" y1="{_num(c)}" x2="{_num(x)}" y2="{_num(y)}" stroke="#222" stroke-width="2"/>'
 
     out += [bond(s) for s in far]
+    out += [bond(s) for s in near]
     out.append(f'<circle cx="{_num(c)}" cy="{_num(c)}" r="13" fill="#444" stroke="#000"/>')
     out.append(f'<text x="{_num(c)}" y="{_num(c + 4)}" text-anchor="middle" font-size="11" font-weight="700" fill="#fff">{_e(metal[:3])}</text>')
-    out += [bond(s) for s in near]
     # chelate and ring links: thick curves bulging away from the metal
     for a, b, name in isomer.links():
         (x1, y1), (x2, y2) = xy[a], xy[b]
@@ -351,7 +354,7 @@ def _distinguishers(entry: Mapping[str, Any]) -> list[str]:
         if k in ("a", "b", "pair", "isomers", "ids", "first", "second", "isomer_a", "isomer_b", "i", "j"):
             continue
         if isinstance(v, bool) and v:
-            out.append(k)
+            out.append(k[: -len("_distinct")] if k.endswith("_distinct") else k)
         elif isinstance(v, Mapping):
             flag = v.get("distinguishable", v.get("distinct", v.get("differs")))
             if flag is True:
@@ -405,6 +408,8 @@ def pair_grid_html(ids: Sequence[str], pairs: Any) -> str:
                 continue
             cls = f"d{min(len(d), 3)}"
             text = " + ".join(d) if d else "none"
+            if not d and (a, b) in notes:
+                text += f" ({notes[(a, b)]})"
             tip = f' title="{_e(notes[(a, b)])}"' if (a, b) in notes else ""
             tds.append(f'<td class="{cls}"{tip}>{_e(text)}</td>')
         rows.append(f"<tr><th>{_e(a)}</th>{''.join(tds)}</tr>")
@@ -521,7 +526,7 @@ def _complex_html(n: int, res: Result, rules) -> tuple[str, list[str]]:
             f'<div class="card" id="c{n}-isomer-{_e(iso.id)}"><h3>isomer {_e(iso.id)}</h3>'
             + polyhedron_svg(iso, kinds, comp.metal)
             + f"<dl>{body}</dl>"
-            + _spectra_html(iso, rules)
+            + f'<div class="specs">{_spectra_html(iso, rules)}</div>'
             + "</div>"
         )
     out.append("</div>")

@@ -1,0 +1,104 @@
+"""The HTML report and its tables (the browser run is in test_browser.py)."""
+
+from __future__ import annotations
+
+import csv
+import io
+import re
+import xml.etree.ElementTree as ET
+
+from click.testing import CliRunner
+
+from enumerator.cli import main
+from enumerator.composition import Composition, LigandKind
+from enumerator.isomers import enumerate_isomers
+from enumerator.pipeline import analyse
+from enumerator.render.report import pair_grid_html, polyhedron_svg, render_report, tables_csv, tables_latex
+from enumerator.result import Result
+from enumerator.rules import load_rules
+
+HOSTILE = "<script>alert(1)</script>"
+
+
+def _hostile():
+    bad = LigandKind(HOSTILE, ('"><b onmouseover=x>',))
+    comp = Composition(f"M{HOSTILE}6", ((bad, 6),))
+    geo = load_rules().geometry("OC-6")
+    return Result(comp, geo, "OC-6 as requested", enumerate_isomers(comp, geo), notes=(HOSTILE,))
+
+
+def test_user_strings_are_escaped():
+    page = render_report([_hostile()], title=HOSTILE)
+    assert "<script" not in page and "<b onmouseover" not in page
+    assert "&lt;script&gt;alert(1)&lt;/script&gt;" in page
+    assert "&quot;&gt;&lt;b onmouseover=x&gt;" in page
+
+
+def test_page_is_self_contained_and_deterministic():
+    results = [analyse("[RuCl2(CO)2(PPh3)2]"), analyse("M(AA)2b2")]
+    a, b = render_report(results), render_report(results)
+    assert a == b  # same input, same bytes
+    urls = set(re.findall(r"https?://[^\s\"'<>)]+", a))
+    assert urls <= {"http://www.w3.org/2000/svg"}  # only the SVG namespace name, never fetched
+    for bad in ("<link", "<script", "@import", "<iframe", "src=\"http"):
+        assert bad not in a
+    assert "Safety" in a and "Carbon monoxide" in a  # the cautions of the safety module
+    assert a.count('class="card"') == 6 + 3  # Ma2b2c2-type 5 geometric/6 stereo; M(AA)2b2: trans + cis pair (common practice)
+
+
+def test_polyhedron_drawing_is_valid_svg_with_links():
+    iso = analyse("M(AA)3").isomers[0]
+    svg = polyhedron_svg(iso, ["AA"], "M")
+    root = ET.fromstring(svg)  # well-formed XML
+    ns = "{http://www.w3.org/2000/svg}"
+    assert len(root.findall(f"{ns}circle")) == 6 + 1  # six donors and the metal
+    assert len(root.findall(f"{ns}path")) == 3  # three chelate links in M(AA)3
+    assert len(root.findall(f"{ns}line")) >= 12 + 6  # 12 octahedron edges, 6 M-donor bonds
+
+
+def test_pair_grid_cis_trans_tetracarbonyl():
+    # cis-M(CO)4L2 (C2v): 4 IR-active CO stretches; trans (D4h): 1 (Eu).
+    # F. A. Cotton, Chemical Applications of Group Theory, 3rd ed. (1990), ch. 10 (from memory).
+    res = analyse("Ma4b2", geometry="OC-6", reporters=(("a", "CO"),))
+    top = {}
+    for a in res.analyses:
+        top.update(a.top_json())
+    grid = pair_grid_html([i.id for i in res.isomers], top["pairs"])
+    assert "IR" in grid and "none" not in grid.replace("none (hatched)", "")
+
+
+def test_pair_grid_marks_indistinct_pairs_with_text_and_pattern():
+    grid = pair_grid_html(["1a", "1b"], [{"a": "1a", "b": "1b", "ir_distinct": False, "raman_distinct": False, "note": "enantiomers"}])
+    assert 'class="d0"' in grid and "none (enantiomers)" in grid  # text, not colour alone
+
+
+def test_tables_csv_and_latex():
+    res = analyse("[RuCl2(CO)2(PPh3)2]")
+    rows = list(csv.reader(io.StringIO(tables_csv(res))))
+    assert rows[0][:2] == ["isomer", "point group"] and len(rows) == 1 + 6
+    tex = tables_latex(res)
+    assert "\\begin{tabular}" in tex and "\\bottomrule" in tex
+    res = _hostile()
+    assert "M<script>alert(1)</script>6" in tables_latex(res)  # LaTeX needs no HTML escaping
+
+
+def test_report_command(tmp_path, capsys):
+    job = tmp_path / "job.toml"
+    job.write_text('title = "t"\n[[complex]]\nformula = "Ma4b2"\nreporters = { a = "CO" }\n', encoding="utf-8")
+    out = tmp_path / "si"
+    try:
+        main(["report", str(job), "--out", str(out)])
+    except SystemExit as exc:
+        assert exc.code in (0, None)
+    assert sorted(p.name for p in out.iterdir()) == ["01_Ma4b2.csv", "01_Ma4b2.tex", "report.html"]
+    assert "<!DOCTYPE html>" in (out / "report.html").read_text()
+    bad = tmp_path / "bad.toml"
+    bad.write_text("[[complex]]\ngeometry = 'OC-6'\n", encoding="utf-8")
+    try:
+        main(["report", str(bad), "--out", str(tmp_path / "x")])
+        code = 0
+    except SystemExit as exc:
+        code = exc.code
+    err = capsys.readouterr().err
+    assert code == 2 and err.count("\n") == 1 and "formula" in err
+    assert not (tmp_path / "x" / "report.html").exists()
