@@ -59,6 +59,7 @@ __all__ = [
     "Prediction",
     "predict",
     "predict_step",
+    "safety_lines",
     "Space",
     "Network",
     "build_network",
@@ -423,6 +424,16 @@ def _descriptor_text(iso: Isomer, comp: Composition) -> tuple[str | None, str | 
     return (d.prefix or everyday_prefix(iso, comp)), d.text
 
 
+def safety_lines(kinds: Iterable[LigandKind]) -> tuple[str, ...]:
+    """The usual cautions (enumerator.safety) for every ligand met on the way."""
+    try:
+        from .safety import cautions
+    except ImportError:  # pragma: no cover - the safety module ships with the package
+        return ()
+    uniq = {k.name: k for k in kinds}
+    return cautions(Composition(formula="", parts=tuple((uniq[n], 1) for n in sorted(uniq))))
+
+
 # --------------------------------------------------------------------------
 # compositions between a start and a target
 
@@ -605,6 +616,7 @@ class Prediction:
     decided_by: str
     reason: str
     rules_reason: str = ""
+    safety: tuple[str, ...] = ()
 
     def by_geometric_isomer(self, which: str = "selected") -> list[tuple[Product, Fraction]]:
         """Shares summed over enantiomers, largest first (ties by formula and number)."""
@@ -821,7 +833,7 @@ def predict_step(
     chosen, reason = choose_rule_set(available, geo.symbol, ligands, [n for n in leav_guess], rule_set) if leaving is not None else \
         _choose_for_step(available, geo.symbol, ligands, leav_guess, rule_set)
     p = predict(isos[0], comp, ek, chosen, leaving=leaving, ruleset=ruleset)
-    return replace(p, rules_reason=reason)
+    return replace(p, rules_reason=reason, safety=safety_lines((*comp.kinds, ek)))
 
 
 def _choose_for_step(available, geometry: str, ligands, present, name):
@@ -844,6 +856,7 @@ def prediction_json(p: Prediction) -> dict[str, Any]:
         "start": p.start.json(),
         "entering": p.entering,
         "rule_set": dict(p.rules.describe(), reason=p.rules_reason),
+        "safety": list(p.safety),
         "decided_by": p.decided_by,
         "reason": p.reason,
         "major": p.major.json() if p.major else None,
@@ -891,7 +904,7 @@ def resolve_species(iset: IsomerSet, comp: Composition, descriptor: str | None, 
         ids = ", ".join(i.id for i in iset.isomers)
         raise InputError(
             f"{comp.formula} has {iset.geometric_isomers} geometric isomers; the {role} needs a descriptor",
-            f"write e.g. cis-{comp.formula}, trans-..., fac-/mer- or a configuration index like (OC-6-22)-FORMULA (see `isosieve isomers \"{comp.formula}\"`)",
+            f"write e.g. cis-{comp.formula}, trans-..., fac-/mer- or a configuration index as in ({iset.geometry.symbol}-<index>)-{comp.formula} (see `isosieve isomers \"{comp.formula}\"`)",
         )
     found: list[Isomer] | None = None
     try:
@@ -934,6 +947,7 @@ class Network:
     nodes: tuple[tuple[str, tuple[tuple[str, Any], ...]], ...]
     edges: tuple[tuple[str, str, tuple[tuple[str, Any], ...]], ...]
     compositions: tuple[tuple[str, int], ...]  # formula -> number of stereoisomers
+    safety: tuple[str, ...] = ()
 
 
 def _node_id(formula: str, iso_id: str) -> str:
@@ -1033,7 +1047,7 @@ def build_network(start_text: str, target_text: str, *, geometry: str | None = N
                                 ("share", str(Fraction(len(per[pid]), len(p.sites)))),
                                 ("sites", ",".join(str(s + 1) for s in sorted(per[pid]))),
                             )))
-    return Network(geo.symbol, start.formula, target.formula, tuple(nodes), tuple(edges), tuple(comps))
+    return Network(geo.symbol, start.formula, target.formula, tuple(nodes), tuple(edges), tuple(comps), safety_lines(space.kinds.values()))
 
 
 def network_graph(net: Network):
@@ -1054,6 +1068,7 @@ def network_json(net: Network) -> dict[str, Any]:
 
     doc = nx.node_link_data(network_graph(net), edges="edges")
     doc["compositions"] = [{"formula": f, "stereoisomers": n} for f, n in net.compositions]
+    doc["safety"] = list(net.safety)
     return doc
 
 
@@ -1150,6 +1165,7 @@ class RoutePlan:
     leaving: tuple[tuple[str, int], ...]
     routes: tuple[Route, ...]
     notes: tuple[str, ...] = ()
+    safety: tuple[str, ...] = ()
 
     @property
     def reaching(self) -> tuple[Route, ...]:
@@ -1238,13 +1254,15 @@ def plan_routes(start_text: str, target_text: str, *, geometry: str | None = Non
         if not outcome:
             outcome = "reaches the target" if reached else f"ends on {steps[-1].product.label()}, not the target"  # type: ignore[union-attr]
         routes.append(Route(order, tuple(steps), reached, outcome))
+        if any(st.product is not None and st.product.chiral for st in steps) and not any("racemate" in n for n in notes):
+            notes.append("a chiral product formed from an achiral precursor is the racemate; routes follow one enantiomer (the other mirrors it)")
     start_p = _product(s_sp, s_iso.id)
     target_p = _product(t_sp, t_isos[0].id)
     return RoutePlan(
         geometry=geo.symbol, geometry_reason=geo_reason, rules=rules_obj, rules_reason=rules_reason,
         start=start_p, target=target_p, target_isomers=tuple(i.id for i in t_isos),
         entering=tuple(sorted(entering.items())), leaving=tuple(sorted(leaving.items())),
-        routes=tuple(routes), notes=tuple(notes),
+        routes=tuple(routes), notes=tuple(notes), safety=safety_lines(space.kinds.values()),
     )
 
 
@@ -1285,4 +1303,5 @@ def route_json(plan: RoutePlan) -> dict[str, Any]:
         "routes": [route(r) for r in plan.reaching],
         "other_orders": [route(r) for r in plan.routes if not r.reaches_target],
         "notes": list(plan.notes),
+        "safety": list(plan.safety),
     }

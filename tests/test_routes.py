@@ -132,6 +132,15 @@ def test_cli_route_text_and_json(capsys):
     assert step["to"]["prefix"] == "cis" and step["decided_by"] == "rule" and step["replaced_sites"]
 
 
+def test_carbonyl_routes_carry_cautions(capsys):
+    # project rule: outputs involving CO, CN or NO carry the usual cautions (common practice)
+    main(["route", "[MnBr(CO)5]", "--target", "cis-[MnBr(CO)4(PPh3)]", "--json"])
+    doc = json.loads(capsys.readouterr().out)
+    assert any("carbon monoxide" in line.lower() for line in doc["safety"])
+    assert network_json(build_network("[Cr(CO)6]", "[Cr(CO)5(PPh3)]"))["safety"]
+    assert plan_routes("Ma4", "cis-Ma2b2", geometry="SP-4").safety == ()
+
+
 def test_cli_route_no_route_message(capsys):
     main(["route", "[PtCl4]2-", "--target", "trans-[PtCl2(NH3)2]"])
     assert "No order of addition reaches trans-[PtCl2(NH3)2]" in capsys.readouterr().out  # as above

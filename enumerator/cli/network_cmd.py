@@ -105,4 +105,6 @@ def _text(net) -> str:
         e = dict(attrs)
         rows.append([a, b, f"+{e['entering']} -{e['leaving']}", str(e["weight"]), e["share"], e["sites"]])
     lines.append(table(["from", "to", "replacement", "weight", "share", "leaving sites"], rows))
+    if net.safety:
+        lines += ["", "Safety:"] + [f"- {x}" for x in net.safety]
     return "\n".join(lines) + "\n"

@@ -93,7 +93,12 @@ def _prediction_text(p) -> str:
     else:
         lines.append("Major product: none (the step is undecided under this rule set)")
     lines.append(f"Why: {p.reason}")
+    lines.extend(_safety(p.safety))
     return "\n".join(lines) + "\n"
+
+
+def _safety(lines) -> list[str]:
+    return (["", "Safety:"] + [f"- {x}" for x in lines]) if lines else []
 
 
 def _plan_text(plan) -> str:
@@ -123,6 +128,7 @@ def _plan_text(plan) -> str:
         lines.append("")
     for n in plan.notes:
         lines.append(f"Note: {n}")
+    lines.extend(_safety(plan.safety))
     return "\n".join(lines).rstrip("\n") + "\n"
 
 
