@@ -30,7 +30,7 @@ from .text import occupancy
 __all__ = ["markdown", "csv", "latex", "rows", "latex_symbol", "latex_species", "latex_escape", "markdown_symbol"]
 
 _GROUP = re.compile(r"^(Dinf|Cinf|[CDSTOI])(\d*)([a-z]*)$")
-_IRREP = re.compile(r"^(Sigma|Delta|Pi|Phi|[ABETGH])(\d*)([gu]?)((?:'{1,2})?)([+-]?)$")
+_IRREP = re.compile(r"^(Sigma|Delta|Pi|Phi|[ABETGH])_?(\d*)([gu]?)((?:'{1,2})?)([+-]?)$")
 _GREEK = {"Sigma": r"\Sigma", "Pi": r"\Pi", "Delta": r"\Delta", "Phi": r"\Phi"}
 
 
