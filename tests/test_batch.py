@@ -1,0 +1,51 @@
+"""Batch screening: order, pattern cache, bad rows, workers, CLI."""
+
+from __future__ import annotations
+
+import json
+import subprocess
+import sys
+
+from enumerator.batch import pattern_key, screen
+from enumerator.condensed import parse_condensed
+from enumerator.rules import load_rules
+
+FORMULAS = ["[RuCl2(CO)2(PPh3)2]", "[Co(NH3)4Cl2]+", "[Xx(CO)6]", "[OsBr2(CO)2(PMe3)2]", "Ma4b2", "[Fe(CN)5(NO)]2-",
+            "[Co(en)2Cl2]+"]
+
+
+def test_order_errors_and_cache():
+    rows = list(screen(FORMULAS))
+    assert [r.formula for r in rows] == FORMULAS
+    assert rows[2].error and "Xx" in rows[2].error and rows[3].error is None
+    # same pattern (MA2B2C2 with distinct reporters) -> served from the cache, identical answer
+    assert rows[3].cached and rows[3].point_groups == rows[0].point_groups
+    assert (rows[0].geometric_isomers, rows[0].stereoisomers) == (5, 6)  # from memory: MA2B2C2
+    assert rows[4].cached  # Ma4b2 shares the pattern of [Co(NH3)4Cl2]+
+    assert (rows[6].geometric_isomers, rows[6].stereoisomers) == (2, 3)  # Werner: cis pair + trans
+
+
+def test_workers_same_output():
+    one = list(screen(FORMULAS, workers=1))
+    two = list(screen(FORMULAS, workers=2))
+    assert one == two
+
+
+def test_pattern_key_ignores_names_not_shape():
+    rs = load_rules()
+    a = pattern_key(parse_condensed("[RuCl2(CO)2(PPh3)2]", rs), "OC-6")
+    b = pattern_key(parse_condensed("[OsBr2(CO)2(PMe3)2]", rs), "OC-6")
+    c = pattern_key(parse_condensed("[RuCl2(CO)2(dppe)]", rs), "OC-6")
+    assert a == b and a != c
+
+
+def test_cli_csv_input(tmp_path):
+    src = tmp_path / "in.csv"
+    src.write_text("label,formula\nA,[Co(NH3)4Cl2]+\nB,[Fe(CO)99\nC,Ni(CO)4\n", encoding="utf-8")
+    out = tmp_path / "out.json"
+    p = subprocess.run([sys.executable, "-m", "enumerator", "batch", str(src), "--format", "json", "--out", str(out)],
+                       capture_output=True, text=True)
+    assert p.returncode == 2 and "1 of 3 rows" in p.stderr and "Traceback" not in p.stderr
+    doc = json.loads(out.read_text(encoding="utf-8"))
+    assert [r["label"] for r in doc["rows"]] == ["A", "B", "C"]
+    assert doc["rows"][1]["error"] and doc["rows"][2]["geometry"] == "T-4"
