@@ -106,7 +106,7 @@ def _parse_geometry(path: Path, data: dict[str, Any]) -> Geometry:
     for k, s in enumerate(sites):
         ok = isinstance(s, list) and len(s) == 3 and all(isinstance(x, (int, float)) and not isinstance(x, bool) and math.isfinite(x) for x in s)
         _expect(ok, where, f"sites[{k}] is {s!r}, not three finite numbers", "give each site as [x, y, z]")
-        norm = math.sqrt(sum(float(x) ** 2 for x in s))
+        norm = math.hypot(*(float(x) for x in s))  # hypot: no overflow for huge components
         _expect(norm > 1e-9, where, f"sites[{k}] is the zero vector", "give a direction from the metal")
         vecs.append(tuple(float(x) / norm for x in s))
     for a in range(len(vecs)):

@@ -1,0 +1,340 @@
+"""Bad input never crashes: property-based fuzzing (hypothesis) of the
+formula parsers, the rule-file loaders and the command line.
+
+The property everywhere: a call either succeeds or raises an
+:class:`~enumerator.errors.IsosieveError` (InputError, RuleError,
+CapacityError), never any other exception; through the CLI, an error is one
+line on stderr, exit status 2 for usage/input errors, 1 for internal errors,
+and no traceback unless --debug (the project's error contract; common
+practice for command-line tools).  Example counts are kept modest so the
+file runs in well under a minute.
+"""
+
+from __future__ import annotations
+
+import io
+import itertools
+import math
+import os
+import shutil
+import tempfile
+from contextlib import redirect_stderr, redirect_stdout
+from pathlib import Path
+
+import pytest
+from hypothesis import HealthCheck, assume, given, settings
+from hypothesis import strategies as st
+
+from enumerator.cli import main
+from enumerator.errors import IsosieveError, RuleError
+from enumerator.formula import parse_abstract
+from enumerator.isomers import enumerate_isomers
+from enumerator.pipeline import parse_formula, run, Request
+from enumerator.rules import load_rules
+
+RULES = load_rules()
+#: ISOSIEVE_FUZZ_SCALE=20 runs twenty times the examples (a deep run, not for the suite)
+SCALE = max(1, int(os.environ.get("ISOSIEVE_FUZZ_SCALE", "1") or 1))
+FAST = settings(max_examples=150 * SCALE, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+SLOW = settings(max_examples=50 * SCALE, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+
+# characters a chemist (or a bad paste) may type into a formula
+FORMULA_CHARS = "Mabcdefxyz ABCR()[]{}0123456789+-−·.,;η⁵'\"\\/\t_*#=@CNOPHClBrFeRuMonrig"
+
+
+def _one_line(text: str) -> str:
+    """Drop line-break characters: an input that holds one is echoed in the
+    message and breaks the one-line rule (a known gap, see the xfail test)."""
+    return "".join(c for c in text if len(("a" + c + "a").splitlines()) == 1)
+
+
+formula_text = (st.text(alphabet=FORMULA_CHARS, max_size=24) | st.text(max_size=12)).map(_one_line)
+
+# well-formed-looking abstract tokens, to reach the enumerator
+TOKENS = ["a", "b", "c", "d", "(AA)", "(AB)", "(ABA)", "(ABC)", "(AAA)", "(ring)", "2", "3", "(A)", "(", ")", "0", "10"]
+abstract_like = st.lists(st.sampled_from(TOKENS), min_size=0, max_size=7).map(lambda ts: "M" + "".join(ts))
+
+
+def _ok_or_isosieve(fn, *args, **kwargs):
+    try:
+        return fn(*args, **kwargs)
+    except IsosieveError as exc:
+        line = exc.line()
+        assert line and len(line.splitlines()) == 1, repr(line)  # one line that names the problem
+        return None
+
+
+@FAST
+@given(formula_text)
+def test_abstract_parser_never_crashes(text):
+    _ok_or_isosieve(parse_abstract, text)
+
+
+@FAST
+@given(formula_text)
+def test_formula_dispatch_never_crashes(text):
+    # abstract notation, else the condensed parser of real formulas
+    _ok_or_isosieve(parse_formula, text, RULES)
+
+
+CONDENSED_PARTS = ["[", "]", "(", ")", "Ru", "Fe", "Mo", "Mn", "Co", "CO", "Cl", "PPh3", "NO", "CN", "Cp", "η5-", "eta5-",
+                   "en", "bpy", "acac", "2", "3", "6", "2-", "+", "−", "C5H5", "NH3", "py", "X", "Zz", "(NO)2", "dppe"]
+condensed_like = st.lists(st.sampled_from(CONDENSED_PARTS), min_size=0, max_size=9).map("".join)
+
+
+@FAST
+@given(condensed_like)
+def test_condensed_parser_never_crashes(text):
+    condensed = pytest.importorskip("enumerator.condensed")
+    # a hapticity prefix at the very end is a known crash: see the xfail test below
+    assume(not text.endswith(("η5-", "eta5-")))
+    _ok_or_isosieve(condensed.parse_condensed, text, RULES)
+    _ok_or_isosieve(parse_formula, text, RULES)
+
+
+@pytest.mark.xfail(reason="condensed.py line ~117 indexes past the end after a trailing hapticity prefix "
+                          "(IndexError) - found by this fuzzer, reported to the lead / issue-4 engineer", strict=False)
+@pytest.mark.parametrize("text", ["η5-", "Ruη5-"])
+def test_trailing_hapticity_prefix_is_an_input_error(text):
+    condensed = pytest.importorskip("enumerator.condensed")
+    with pytest.raises(IsosieveError):
+        condensed.parse_condensed(text, RULES)
+
+
+SMALL_GEOMETRIES = ["T-4", "SP-4", "TBPY-5", "SPY-5", "OC-6", "TPR-6", "HP-6", "PBPY-7", "CU-8", "SAPR-8"]
+
+
+@SLOW
+@given(abstract_like, st.sampled_from(SMALL_GEOMETRIES + [None]), st.integers(min_value=1, max_value=4))
+def test_abstract_formulas_through_the_enumerator(text, symbol, limit):
+    comp = _ok_or_isosieve(parse_abstract, text)
+    assume(comp is not None and comp.donor_count <= 8)
+    _ok_or_isosieve(run, Request(formula=text, geometry=symbol, limit=limit))
+
+
+# --------------------------------------------------------------------------- rule files
+
+
+def _toml_value(v) -> str:
+    if isinstance(v, bool):
+        return "true" if v else "false"
+    if isinstance(v, (int, float)):
+        if isinstance(v, float) and not math.isfinite(v):
+            return "nan" if math.isnan(v) else ("inf" if v > 0 else "-inf")
+        return repr(v)
+    if isinstance(v, str):
+        return '"' + v.replace("\\", "\\\\").replace('"', '\\"').replace("\n", "\\n") + '"'
+    if isinstance(v, list):
+        return "[" + ", ".join(_toml_value(x) for x in v) + "]"
+    raise TypeError(v)
+
+
+def _toml(d: dict) -> str:
+    return "".join(f"{k} = {_toml_value(v)}\n" for k, v in d.items())
+
+
+VALID_OC6 = {
+    "symbol": "XO-6",
+    "name": "test octahedron",
+    "sites": [[0.0, 0.0, 1.0], [1.0, 0.0, 0.0], [0.0, 1.0, 0.0], [-1.0, 0.0, 0.0], [0.0, -1.0, 0.0], [0.0, 0.0, -1.0]],
+}
+KEYS = ["symbol", "name", "sites", "coordination_number", "default_span", "fluxional", "note", "default_for_abstract", "source", "site", "Symbol"]
+scalar = st.one_of(
+    st.integers(min_value=-10**20, max_value=10**20),
+    st.floats(allow_nan=True, allow_infinity=True),
+    st.booleans(),
+    st.text(max_size=8),
+    st.sampled_from(["OC-6", "edge", "trans", "XO-6", ""]),
+)
+value = st.recursive(scalar, lambda inner: st.lists(inner, max_size=7), max_leaves=25)
+site = st.lists(st.one_of(st.floats(min_value=-1e3, max_value=1e3), st.integers(-3, 3), st.sampled_from([1e308, -1e308, 1e-320])), min_size=2, max_size=4)
+
+
+@st.composite
+def geometry_tables(draw):
+    d = dict(VALID_OC6)
+    for _ in range(draw(st.integers(min_value=0, max_value=3))):
+        action = draw(st.sampled_from(["drop", "set", "sites", "site"]))
+        if action == "drop" and d:
+            d.pop(draw(st.sampled_from(sorted(d))))
+        elif action == "set":
+            d[draw(st.sampled_from(KEYS))] = draw(value)
+        elif action == "sites":
+            d["sites"] = draw(st.lists(site, min_size=0, max_size=9))
+        elif action == "site" and isinstance(d.get("sites"), list) and d["sites"]:
+            sites = list(d["sites"])
+            sites[draw(st.integers(0, len(sites) - 1))] = draw(site)
+            d["sites"] = sites
+    return _toml(d)
+
+
+raw_toml = st.one_of(
+    geometry_tables(),
+    st.text(alphabet='abc=[]{}"\'#\n 0123.,-+xyz', max_size=60),
+    st.binary(max_size=40).map(lambda b: b.decode("latin-1")),
+)
+
+
+def _with_rules(files: dict[str, str]):
+    folder = Path(tempfile.mkdtemp(prefix="isosieve-fuzz-"))
+    for rel, text in files.items():
+        p = folder / rel
+        p.parent.mkdir(parents=True, exist_ok=True)
+        p.write_text(text, encoding="utf-8", errors="surrogateescape")
+    return folder
+
+
+BUILTIN_SYMBOLS = sorted(RULES.geometries)
+
+
+@SLOW
+@given(raw_toml)
+def test_geometry_loader_never_crashes(text):
+    folder = _with_rules({"geometries/X.toml": text})
+    try:
+        rs = _ok_or_isosieve(load_rules, [folder])
+        if rs is not None:
+            geos = _ok_or_isosieve(lambda: rs.geometries)
+            if geos is not None and "XO-6" in geos:
+                g = geos["XO-6"]
+                _ok_or_isosieve(lambda: (g.operations, g.point_group, g.edges))
+        # the defaults are never touched by a user folder (issue 9, item 4)
+        assert sorted(load_rules().geometries) == BUILTIN_SYMBOLS
+    finally:
+        shutil.rmtree(folder, ignore_errors=True)
+
+
+LIGAND_ENTRY = '[[ligand]]\nname = "Zq"\nlabel = "test"\nsmiles = "[Cl-:1]"\ndonors = ["Cl"]\ndenticity = 1\ncharge = -1\nelectrons_covalent = 1\nelectrons_ionic = 2\n'
+ligand_text = st.one_of(
+    raw_toml,
+    st.lists(st.sampled_from(LIGAND_ENTRY.splitlines(keepends=True)), max_size=10).map("".join),
+    st.builds(lambda k, v: LIGAND_ENTRY.replace(k, v), st.sampled_from(["\"Zq\"", "\"[Cl-:1]\"", "[\"Cl\"]", "= 1\n", "= -1\n"]),
+              st.sampled_from(["\"\"", "\"C1CC\"", "[]", "= \"x\"\n", "= 99\n", "[1, 2]", "\"[C:1]#[O:1]\""])),
+)
+
+
+@SLOW
+@given(ligand_text)
+def test_ligand_catalogue_loader_never_crashes(text):
+    ligands = pytest.importorskip("enumerator.ligands")
+    folder = _with_rules({"ligands.toml": text})
+    try:
+        rs = _ok_or_isosieve(load_rules, [folder])
+        if rs is not None:
+            _ok_or_isosieve(ligands.load_ligands, rs)
+        assert "CO" in ligands.load_ligands(load_rules())  # defaults intact
+    finally:
+        shutil.rmtree(folder, ignore_errors=True)
+
+
+# --------------------------------------------------------------------------- the command line
+
+
+def cli(args):
+    """(exit status, stdout, stderr) of the console entry point, in process."""
+    out, err = io.StringIO(), io.StringIO()
+    code = 0
+    with redirect_stdout(out), redirect_stderr(err):
+        try:
+            main(list(args))
+        except SystemExit as exc:
+            code = exc.code if isinstance(exc.code, int) else (0 if exc.code is None else 1)
+    return code, out.getvalue(), err.getvalue()
+
+
+OPTION_VALUES = {
+    "--geometry": ["OC-6", "oc-6", "XX-9", "", "IC-12", "L-2", "TP-3"],
+    "--span": ["AA=trans", "AA", "=x", "b=trans", "AA=wide", "AA=any"],
+    "--arrangement": ["AAA=fac", "ABA=mer", "b=fac", "AAA=zig", "AAA="],
+    "--reporter": ["a=CO", "a", "q=CO", "a=", "a=co"],
+    "--limit": ["1", "0", "-3", "x", "2"],
+    "--format": ["table", "json", "csv", "yaml"],
+}
+
+
+@st.composite
+def isomers_args(draw):
+    args = ["isomers", draw(st.one_of(abstract_like, condensed_like, formula_text))]
+    for _ in range(draw(st.integers(0, 3))):
+        opt = draw(st.sampled_from(sorted(OPTION_VALUES)))
+        args += [opt, draw(st.sampled_from(OPTION_VALUES[opt]))]
+    if draw(st.booleans()):
+        args.append("--json")
+    return args
+
+
+@SLOW
+@given(isomers_args())
+def test_cli_errors_are_one_line_with_status_2(args):
+    assume(not args[1].endswith(("η5-", "eta5-")))  # known crash, see test_trailing_hapticity_prefix_is_an_input_error
+    code, out, err = cli(args)
+    assert code in (0, 2), (args, code, err)
+    assert "Traceback" not in err
+    if code == 2:
+        lines = err.strip().splitlines()
+        if err.startswith("isosieve: error:"):
+            assert len(lines) == 1, err  # a library error: exactly one line
+        else:  # a click usage error (bad option value): ends with click's 'Error: ...' line
+            assert lines and lines[-1].startswith("Error:"), err
+
+
+@pytest.mark.parametrize(
+    "args",
+    [
+        ["isomers"],
+        ["isomers", "Ma6", "--nonsense"],
+        ["isomers", "Ma6", "--limit", "0"],
+        ["nosuchcommand"],
+    ],
+)
+def test_usage_errors_exit_2_without_traceback(args):
+    code, out, err = cli(args)
+    assert code == 2 and "Traceback" not in err and out == ""
+
+
+@pytest.mark.xfail(reason="click prints usage errors on three lines (Usage/Try/Error); enumerator.cli.main "
+                          "would have to print exc.format_message() itself - reported to the lead", strict=False)
+def test_usage_errors_are_one_line():
+    code, out, err = cli(["isomers", "Ma6", "--nonsense"])
+    assert code == 2 and len(err.strip().splitlines()) == 1
+
+
+@pytest.mark.xfail(reason="a formula holding a line break is echoed verbatim in the message; IsosieveError.line() "
+                          "(or cli.main) should escape control characters - reported to the lead", strict=False)
+def test_input_with_a_line_break_still_gives_one_line():
+    code, out, err = cli(["isomers", "Ma4\nb2"])
+    assert code == 2 and len(err.strip().splitlines()) == 1
+
+
+def test_internal_error_exit_1_one_line_and_traceback_only_with_debug(monkeypatch):
+    import enumerator.pipeline as pipeline
+
+    def boom(req, **kw):
+        raise ZeroDivisionError("synthetic failure\nsecond line")
+
+    monkeypatch.setattr(pipeline, "run", boom)
+    code, out, err = cli(["isomers", "Ma6"])
+    assert code == 1 and len(err.strip().splitlines()) == 1 and "internal error" in err and "Traceback" not in err
+    with pytest.raises(ZeroDivisionError):  # --debug lets the traceback through
+        cli(["--debug", "isomers", "Ma6"])
+
+
+@pytest.mark.parametrize(
+    "files,needle",
+    [
+        ({"geometries/bad.toml": "symbol = 'OC-6'\nname = 'x'\nsites = [[0,0,1], [0,0,1]]\n"}, "point the same way"),
+        ({"geometries/bad.toml": "symbol = 'Q-2'\nname = 'x'\nsites = [[0,0,1], [1,0,0]]\nspan = 'edge'\n"}, "unknown key 'span'"),
+        ({"geometries/bad.toml": "symbol = \n"}, "TOML syntax error"),
+        ({"geometries/bad.toml": "symbol = 'Q-2'\nname = 'x'\nsites = [[0, 0, 1e-320], [1, 0, 0]]\n"}, "sites[0] is the zero vector"),
+        ({"geometries/bad.toml": "symbol = 'Q-2'\nname = 'x'\nsites = [[0, 0, 1], [1, 0, nan]]\n"}, "sites[1]"),
+    ],
+)
+def test_cli_rule_errors_name_the_file(files, needle):
+    # before the fix in rules.py, huge components ([1e308, 1e308, 0]) overflowed into an internal error
+    folder = _with_rules(files)
+    try:
+        code, out, err = cli(["--rules", str(folder), "isomers", "Ma6"])
+        assert code == 2 and len(err.strip().splitlines()) == 1, err
+        assert "bad.toml" in err and needle in err, err
+    finally:
+        shutil.rmtree(folder, ignore_errors=True)
