@@ -253,26 +253,24 @@ def _ring_atoms(m, kind: LigandKind) -> list[int]:
     raise _EmbedFailed(f"no {size or ''}-membered ring found in the SMILES of '{kind.name}'")
 
 
-def _full(isomer: Isomer, comp: Composition, label: str) -> Structure:
-    import numpy as np
+def _assemble(units: list, comp: Composition):
+    """One RDKit molecule of the metal and the given ligand units (each a
+    list of sites), with the fixed positions, the eta-ring atoms still to be
+    bonded and each unit's (offset, heavy-atom count)."""
     from rdkit import Chem, rdBase
-    from rdkit.Chem import AllChem
-    from rdkit.Geometry import Point3D
 
     metal = comp.metal
     rw = Chem.RWMol()
     m_idx = rw.AddAtom(Chem.Atom(metal))
     fixed: dict[int, Vec] = {m_idx: (0.0, 0.0, 0.0)}
-    by_unit: dict[int, list] = {}
-    for s in isomer.sites:
-        by_unit.setdefault(s.unit, []).append(s)
     lig_charge = 0
     hapto: list[int] = []
-    for unit in sorted(by_unit):
-        sites = sorted(by_unit[unit], key=lambda s: s.donor_index)
+    spans: list[tuple[int, int]] = []
+    for sites in units:
         kind = comp.kind(sites[0].ligand)
         m = _ligand_mol(kind)
         off = rw.GetNumAtoms()
+        spans.append((off, m.GetNumAtoms()))
         for a in m.GetAtoms():
             rw.AddAtom(a)
             lig_charge += a.GetFormalCharge()
@@ -309,6 +307,17 @@ def _full(isomer: Isomer, comp: Composition, label: str) -> Structure:
             mol = Chem.AddHs(mol)
         except Exception as exc:  # valence problems in a catalogue SMILES
             raise _EmbedFailed(f"RDKit rejects the assembled complex ({str(exc).splitlines()[0]})") from None
+    return mol, fixed, hapto, spans
+
+
+def _embed(mol, fixed: dict[int, Vec]):
+    """Embedded coordinates (numpy, aligned onto the fixed atoms)."""
+    import numpy as np
+    from rdkit import rdBase
+    from rdkit.Chem import AllChem
+    from rdkit.Geometry import Point3D
+
+    with rdBase.BlockLogs():
         cmap = {i: Point3D(*p) for i, p in fixed.items()}
         try:
             cid = AllChem.EmbedMolecule(mol, coordMap=cmap, randomSeed=_RNG_START, useRandomCoords=True, maxAttempts=20)
@@ -316,11 +325,56 @@ def _full(isomer: Isomer, comp: Composition, label: str) -> Structure:
             raise _EmbedFailed(f"RDKit could not embed the ligands ({str(exc).strip().splitlines()[0]})") from None
     if cid < 0:
         raise _EmbedFailed("RDKit could not embed the ligands with the donor positions fixed")
-    pos = np.array(mol.GetConformer(cid).GetPositions())
-    pos = _align(pos, fixed)
+    pos = _align(np.array(mol.GetConformer(cid).GetPositions()), fixed)
     dev = max(float(np.linalg.norm(pos[i] - np.array(p))) for i, p in fixed.items())
     if dev > _FIT_TOL:
         raise _EmbedFailed(f"the embedded donors sit {dev:.2f} A off their sites")
+    return pos
+
+
+def _hydrogens_by_unit(mol, spans) -> list[list[int]]:
+    out: list[list[int]] = [[] for _ in spans]
+    for a in mol.GetAtoms():
+        if a.GetAtomicNum() == 1 and a.GetIdx() >= spans[-1][0] + spans[-1][1]:
+            nb = a.GetNeighbors()[0].GetIdx()
+            for k, (off, n) in enumerate(spans):
+                if off <= nb < off + n:
+                    out[k].append(a.GetIdx())
+    return out
+
+
+def _full(isomer: Isomer, comp: Composition, label: str) -> Structure:
+    """The whole complex embedded at once; if RDKit fails on that, each
+    ligand embedded on its own against the metal and its fixed donors, then
+    put together (ligands may then need a clash check by the optimiser)."""
+    import numpy as np
+    from rdkit import Chem
+    from rdkit.Geometry import Point3D
+
+    by_unit: dict[int, list] = {}
+    for s in isomer.sites:
+        by_unit.setdefault(s.unit, []).append(s)
+    units = [sorted(by_unit[u], key=lambda s: s.donor_index) for u in sorted(by_unit)]
+    mol, fixed, hapto, spans = _assemble(units, comp)
+    m_idx = 0
+    how = "RDKit ETKDG with donors fixed"
+    try:
+        pos = _embed(mol, fixed)
+    except _EmbedFailed:
+        pos = np.zeros((mol.GetNumAtoms(), 3))
+        h_whole = _hydrogens_by_unit(mol, spans)
+        for k, sites in enumerate(units):
+            mu, fu, _, su = _assemble([sites], comp)
+            pu = _embed(mu, fu)
+            off, n = spans[k]
+            pos[off:off + n] = pu[1:1 + n]
+            for hw, hu in zip(h_whole[k], _hydrogens_by_unit(mu, su)[0]):
+                pos[hw] = pu[hu]
+        how = "RDKit ETKDG per ligand with donors fixed"
+    mol.RemoveAllConformers()
+    conf0 = Chem.Conformer(mol.GetNumAtoms())
+    mol.AddConformer(conf0, assignId=True)
+    cid = 0
     for i, p in fixed.items():  # exact ideal positions for the fixed atoms
         pos[i] = p
     conf = mol.GetConformer(cid)
@@ -335,7 +389,7 @@ def _full(isomer: Isomer, comp: Composition, label: str) -> Structure:
             rw2.AddBond(a, m_idx, Chem.BondType.DATIVE)
         mol = rw2.GetMol()
     symbols = tuple(a.GetSymbol() for a in mol.GetAtoms())
-    title = _title(isomer, comp, "full", "", label)
+    title = _title(isomer, comp, "full", "", label).replace("RDKit ETKDG with donors fixed", how)
     block = _molblock(mol, title, isomer, comp, "full")
     return Structure(isomer.id, "full", title, symbols, tuple(coords), comp.charge, "", block)  # type: ignore[arg-type]
 

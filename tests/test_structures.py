@@ -147,3 +147,20 @@ def test_cli_writes_files(tmp_path):
     r = CliRunner().invoke(cli, ["structures", "Ma4b2", "--out", str(tmp_path / "s"), "--format", "sdf"])
     assert r.exit_code == 0 and (tmp_path / "s" / "Ma4b2.sdf").read_text().count("$$$$") == 2
     assert to_sdf([]) == ""
+
+
+def test_per_ligand_fallback_on_trigonal_bipyramid():
+    # Fe(CO)5 (TBPY-5): the one-piece embedding fails in RDKit, each CO is then
+    # embedded on its own against the fixed metal and donor.  Formula Fe(CO)5 =
+    # C5FeO5 (fact of the trade); M-C-O near linear.
+    from enumerator.pipeline import analyse
+
+    r = analyse("[Fe(CO)5]")
+    s = build_structure(r.isomers[0], r.composition)
+    assert s.kind == "full" and sorted(s.symbols) == sorted(["Fe"] + ["C"] * 5 + ["O"] * 5)
+    pos = np.array(s.coords)
+    for k, sym in enumerate(s.symbols):
+        if sym == "O":
+            c = min((j for j, t in enumerate(s.symbols) if t == "C"), key=lambda j: np.linalg.norm(pos[j] - pos[k]))
+            u, w = pos[0] - pos[c], pos[k] - pos[c]
+            assert math.degrees(math.acos(u @ w / np.linalg.norm(u) / np.linalg.norm(w))) > 165

@@ -249,7 +249,7 @@ def _spectra_html(iso: Isomer, rules) -> str:
             svg = plots.stick_spectrum(bands, fmt="svg")
             data = base64.b64encode(svg if isinstance(svg, bytes) else str(svg).encode()).decode("ascii")
             img = f'<img alt="predicted {_e(cls)} stick spectrum of isomer {_e(iso.id)}" src="data:image/svg+xml;base64,{data}">'
-        except ImportError:
+        except (ImportError, AttributeError):  # plots module not (yet) present
             img = spectrum_svg(bands, f"({cls})")
         rows = "".join(
             f"<tr><td>{_num(b.wavenumber, 0)}</td><td>{_e(b.species or '-')}</td><td>{_num(b.intensity, 2)}</td></tr>" for b in bands
