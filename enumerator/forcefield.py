@@ -44,8 +44,8 @@ oscillator along its metal–ligand site direction.
 >>> from enumerator.isomers import enumerate_isomers
 >>> comp = apply_settings(parse_abstract("Ma6"), reporters=[("a", "CO")])
 >>> iso = enumerate_isomers(comp, load_rules().geometry("OC-6")).isomers[0]
->>> [round(b.wavenumber) for b in predict_bands(iso, "CO", {"k": 16.4, "kc": 0.3, "kt": 0.6})]
-[2123, 2015, 1978]
+>>> [(round(b.wavenumber), b.species, b.intensity) for b in predict_bands(iso, "CO", {"k": 16.4, "kc": 0.3, "kt": 0.6})]
+[(2123, 'A1g', 0.0), (2015, 'Eg', 0.0), (1978, 'T1u', 1.0)]
 """
 
 from __future__ import annotations
@@ -531,6 +531,8 @@ class _Block:
     label: str | None
     dimension: int  # irrep dimension
     basis: np.ndarray = field(compare=False)  # n x m orthonormal columns
+    ir_allowed: bool | None = None
+    raman_allowed: bool | None = None
 
 
 def _perm_matrices(isomer: Isomer, sites: Sequence[int]) -> dict[int, np.ndarray]:
@@ -546,31 +548,53 @@ def _perm_matrices(isomer: Isomer, sites: Sequence[int]) -> dict[int, np.ndarray
     return out
 
 
+def _table(isomer: Isomer):
+    """(table, op index -> class position, label map, IR set, Raman set).
+
+    A linear centre's group is infinite; its stabiliser is carried by a
+    finite D2h / C2v proxy whose species are correlated to D∞h / C∞v
+    (the correlation is the one of :mod:`enumerator.spectroscopy`)."""
+    from . import chartable
+
+    geo = isomer.geometry
+    if not geo.linear:
+        table = chartable.table_for_isomer(isomer)
+        op_class = dict(zip(table.op_indices, table.class_of))
+        return table, op_class, None, None, None
+    from .spectroscopy import _LINEAR_CORRELATION, _LINEAR_IR, _LINEAR_RAMAN
+
+    ops = geo.operations
+    proxy = chartable.table_from_matrices([ops[k].array for k in isomer.stabiliser], geo.vectors)
+    op_class = {k: proxy.class_of[pos] for pos, k in enumerate(isomer.stabiliser)}
+    group = "Dinfh" if proxy.group == "D2h" else "Cinfv"
+    return proxy, op_class, _LINEAR_CORRELATION[group], _LINEAR_IR, _LINEAR_RAMAN
+
+
 def _symmetry_blocks(isomer: Isomer, sites: tuple[int, ...]) -> tuple[tuple[_Block, ...], str | None, str | None]:
     """Split the oscillator space into one block per species; returns the
     blocks, the species string ('2A1 + B1 + B2') and a note when no labels
     could be given."""
     n = len(sites)
     try:
-        from . import chartable
+        table, op_class, corr, lin_ir, lin_raman = _table(isomer)
     except ImportError:
         return (_Block(None, 1, np.eye(n)),), None, "symmetry species not given: the character-table module is not available"
-    try:
-        table = chartable.table_for_isomer(isomer)
     except IsosieveError as exc:
         return (_Block(None, 1, np.eye(n)),), None, f"symmetry species not given: {exc.line()}"
     mats = _perm_matrices(isomer, sites)
     chars = {k: float(np.trace(p)) for k, p in mats.items()}
-    mult = table.reduce(chars)
-    op_class: dict[int, int] = {}
-    for ci, cl in enumerate(table.classes):
-        for m in cl.members:
-            op_class[m] = ci
+    if corr is None:
+        mult = table.reduce(chars)
+    else:
+        mult = table.reduce([chars[k] for k in isomer.stabiliser])
     blocks = []
+    labels = []
     for irrep in table.irreps:
         count = mult.get(irrep.label, 0)
         if not count:
             continue
+        if corr is not None and irrep.label not in corr:
+            return (_Block(None, 1, np.eye(n)),), None, f"symmetry species not given: {table.group} species {irrep.label} has no unique linear partner"
         proj = np.zeros((n, n))
         for k, p in mats.items():
             proj += float(irrep.characters[op_class[k]]) * p
@@ -581,8 +605,14 @@ def _symmetry_blocks(isomer: Isomer, sites: tuple[int, ...]) -> tuple[tuple[_Blo
         want = count * int(irrep.dimension)
         if cols.shape[1] != want:  # pragma: no cover - a broken table
             raise RuntimeError(f"projection onto {irrep.label} gave {cols.shape[1]} dimensions, expected {want}")
-        blocks.append(_Block(irrep.label, int(irrep.dimension), cols))
-    species = table.species_string(mult)
+        if corr is None:
+            label, ir_ok, ra_ok = irrep.label, irrep.ir_active, irrep.raman_active
+        else:
+            label = corr[irrep.label]
+            ir_ok, ra_ok = label in lin_ir, label in lin_raman
+        blocks.append(_Block(label, int(irrep.dimension), cols, ir_ok, ra_ok))
+        labels.append(label if count == 1 else f"{count}{label}")
+    species = table.species_string(mult) if corr is None else " + ".join(labels)
     return tuple(blocks), species, None
 
 
@@ -612,10 +642,22 @@ class Band:
     order: int = 1
     raw_intensity: float = field(default=0.0, compare=False)
     eigenvalue: float = field(default=0.0, compare=False)
+    #: IR / Raman allowed by the species (None without a character table)
+    ir_allowed: bool | None = None
+    raman_allowed: bool | None = None
 
     @property
     def ir_active(self) -> bool:
+        """Non-zero intensity in the bond-dipole model."""
         return self.intensity > ZERO_INTENSITY
+
+    @property
+    def dipole_forbidden(self) -> bool:
+        """Allowed by symmetry, yet of zero intensity in the bond-dipole
+        model: the mode moves only trans pairs of oscillators in phase, so
+        their bond dipoles cancel (a locally centrosymmetric unit).  Expect it
+        weak in a real spectrum."""
+        return bool(self.ir_allowed) and not self.ir_active
 
     @property
     def name(self) -> str:
@@ -645,7 +687,7 @@ def _solve_modes(
         f = model.f_matrix(values)
     a = gh[:, None] * f * gh[None, :]
     e = np.array([isomer.geometry.vectors[s] for s in model.sites])
-    raw: list[tuple[float, float, str | None, int, np.ndarray]] = []
+    raw: list[tuple[float, float, str | None, int, np.ndarray, _Block]] = []
     for blk in blocks:
         w = blk.basis
         sub = w.T @ a @ w
@@ -669,7 +711,7 @@ def _solve_modes(
             ell = gh[:, None] * y
             dip = e.T @ ell  # 3 x d
             inten = float(np.sum(dip**2))
-            raw.append((lval, inten, blk.label, j - k, y))
+            raw.append((lval, inten, blk.label, j - k, y, blk))
             k = j
     for lval, *_ in raw:
         if lval <= 0:
@@ -680,7 +722,7 @@ def _solve_modes(
     top = max((r[1] for r in raw), default=0.0)
     modes = []
     counters: dict[str | None, int] = {}
-    for lval, inten, label, deg, y in sorted(raw, key=lambda r: (-r[0], r[2] or "")):
+    for lval, inten, label, deg, y, blk in sorted(raw, key=lambda r: (-r[0], r[2] or "")):
         counters[label] = counters.get(label, 0) + 1
         rel = inten / top if top > 0 else 0.0
         if rel < ZERO_INTENSITY:
@@ -693,6 +735,8 @@ def _solve_modes(
             order=counters[label],
             raw_intensity=inten,
             eigenvalue=lval,
+            ir_allowed=blk.ir_allowed,
+            raman_allowed=blk.raman_allowed,
         )
         modes.append(_Mode(band, y))
     return modes, species, note
@@ -746,6 +790,8 @@ def _band_json(b: Band) -> dict:
         "species": b.species,
         "degeneracy": b.degeneracy,
         "ir_active": b.ir_active,
+        "ir_allowed": b.ir_allowed,
+        "raman_allowed": b.raman_allowed,
     }
 
 
@@ -770,6 +816,12 @@ def band_pattern(
     values = model.resolve(params)
     modes, species, note = _solve_modes(model, isomer, values)
     notes = [note] if note else []
+    quiet = [m.band.name for m in modes if m.band.dipole_forbidden]
+    if quiet:
+        notes.append(
+            f"{', '.join(quiet)}: IR-allowed by symmetry but of zero intensity in the bond-dipole model "
+            "(trans oscillators moving in phase): expect weak band(s)"
+        )
     lo, hi = model.field.range
     out = [m.band for m in modes if m.band.ir_active and not lo <= m.band.wavenumber <= hi]
     if out:
