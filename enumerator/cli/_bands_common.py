@@ -1,0 +1,64 @@
+"""Shared helpers of the bands and match commands."""
+
+from __future__ import annotations
+
+from ..errors import InputError
+
+
+def load_set(formula, geometry, reporters, rules):
+    from ..isomers import enumerate_isomers
+    from ..pipeline import Request, prepare
+
+    req = Request(formula=formula, geometry=geometry, reporters=reporters, rules=rules)
+    comp, geo, reason = prepare(req)
+    return comp, enumerate_isomers(comp, geo), reason
+
+
+def descriptors(comp, iso_set):
+    try:
+        from ..nomenclature import describe_isomer
+    except ImportError:  # pragma: no cover
+        return {}
+    out = {}
+    for i in iso_set.isomers:
+        try:
+            d = describe_isomer(i, comp)
+            out[i.id] = " ".join(x for x in (d.prefix, d.text) if x)
+        except Exception:  # noqa: BLE001 - a name is a courtesy here
+            pass
+    return out
+
+
+def cautions(comp):
+    try:
+        from ..safety import cautions as c
+    except ImportError:  # pragma: no cover
+        return ()
+    return c(comp)
+
+
+def write_plot(path, panels, measured, width):
+    from ..render.plots import spectra_figure
+    from pathlib import Path
+
+    fmt = Path(path).suffix.lower().lstrip(".")
+    if fmt not in ("svg", "png"):
+        raise InputError(f"--plot '{path}' is not .svg or .png", "name the file e.g. spectra.svg")
+    data = spectra_figure(panels, measured=measured, fmt=fmt, width_cm1=width)
+    import os
+    import tempfile
+
+    p = Path(path)
+    if not p.parent.exists():
+        raise InputError(f"folder '{p.parent}' does not exist", "create it first")
+    fd, tmp = tempfile.mkstemp(prefix=f".{p.name}.", dir=p.parent)
+    try:
+        with os.fdopen(fd, "wb") as fh:
+            fh.write(data)
+        os.replace(tmp, p)
+    except BaseException:
+        try:
+            os.unlink(tmp)
+        except OSError:
+            pass
+        raise
