@@ -281,7 +281,14 @@ def _explain(c: Candidate, reporter_class: str, n_measured: int, tolerance: floa
     who = "isomer " + "/".join(c.isomers)
     tag = ", ".join(x for x in (c.descriptor, c.point_group) if x)
     ir = [b for b in c.predicted if b.ir_active]
-    species = " + ".join(b.species for b in ir) if all(b.species for b in ir) else None
+    species = None
+    if ir and all(b.species for b in ir):
+        counts: dict[str, int] = {}
+        for b in ir:
+            counts[b.species] = counts.get(b.species, 0) + 1  # type: ignore[index]
+        order = [t.lstrip("0123456789") for t in (c.species or "").split(" + ")]
+        labs = sorted(counts, key=lambda x: order.index(x) if x in order else len(order))
+        species = " + ".join(x if counts[x] == 1 else f"{counts[x]}{x}" for x in labs)
     parts = [f"#{c.rank} {who} ({tag}): {len(ir)} IR-active {reporter_class} band{'s' if len(ir) != 1 else ''} predicted"
              + (f" ({c.species} in all; IR: {species})" if c.species and species else "")
              + f", {n_measured} measured."]

@@ -60,7 +60,14 @@ def bands(ctx, formula, geometry, reporters, klass, isomer_id, constants, fit, f
         name = iso.id + (f"/{iso.enantiomer}" if iso.enantiomer and not isomer_id else "")
         entry = {"id": iso.id, "point_group": iso.point_group, "descriptor": desc.get(iso.id), "patterns": []}
         for c in classes:
-            pat = band_pattern(iso, c, params, rules=rules)
+            use = params
+            if params and not isomer_id:
+                # set names k1, k2, ... differ between isomers: apply those this isomer has
+                from ..forcefield import build_model
+
+                names = set(build_model(iso, c, rules).parameter_names) | {"k", "kc", "kt"}
+                use = {n: v for n, v in params.items() if n in names or not (n[:1] == "k" and n[1:].isdigit())}
+            pat = band_pattern(iso, c, use, rules=rules)
             pj = pat.to_json()
             lines.append(f"isomer {name} ({', '.join(x for x in (desc.get(iso.id), iso.point_group) if x)}), {c}: {pat.species or 'species not given'}")
             lines.append("  constants (mdyn/Å): " + ", ".join(f"{k} = {v:.3f}" for k, v in pat.constants))
