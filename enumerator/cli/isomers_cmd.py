@@ -78,7 +78,11 @@ def isomers(ctx, formula, geometry, as_json, fmt, out, spans, arrangements, repo
     """List every isomer of FORMULA with its point group.
 
     FORMULA is the abstract notation (lowercase letters for monodentate
-    ligands, (AA)/(AB)/(ABA) for chelates, (ring) for a face-capping ring).
+    ligands, (AA)/(AB)/(ABA) for chelates, (ring) for a face-capping ring)
+    or a real condensed formula such as "[RuCl2(CO)2(PPh3)2]" or
+    "[Fe(CN)5(NO)]2-" (ligand names: isosieve ligands); a real formula
+    also gets its oxidation state, d count and electron count, and a
+    default geometry chosen from them.
 
     \b
     Examples:
@@ -87,6 +91,7 @@ def isomers(ctx, formula, geometry, as_json, fmt, out, spans, arrangements, repo
       isosieve isomers Ma4b2 --geometry TPR-6
       isosieve isomers "M(AA)b4" --span AA=trans
       isosieve isomers "M(AAA)b3" --arrangement AAA=mer
+      isosieve isomers "[RuCl2(CO)2(PPh3)2]" --format latex --out si.tex
       isosieve isomers Mabcdefghijkl --geometry IC-12 --limit 100 --partial --json
       isosieve isomers "[Co(NH3)3(NO2)3]" --pick mer
       isosieve isomers Ma2b2c2 --pick OC-6-32-C
