@@ -620,14 +620,18 @@ class Prediction:
 
     def by_geometric_isomer(self, which: str = "selected") -> list[tuple[Product, Fraction]]:
         """Shares summed over enantiomers, largest first (ties by formula and number)."""
-        acc: dict[tuple[str, int], list] = {}
-        for prod, share in (self.selected if which == "selected" else self.statistical):
-            key = (prod.formula, prod.number)
-            if key in acc:
-                acc[key][1] += share
-            else:
-                acc[key] = [prod, share]
-        return sorted(((p, s) for p, s in acc.values()), key=lambda x: (-x[1], x[0].formula, x[0].number))
+        return _by_geometric(self.selected if which == "selected" else self.statistical)
+
+
+def _by_geometric(shares: Iterable[tuple[Product, Fraction]]) -> list[tuple[Product, Fraction]]:
+    acc: dict[tuple[str, int], list] = {}
+    for prod, share in shares:
+        key = (prod.formula, prod.number)
+        if key in acc:
+            acc[key][1] += share
+        else:
+            acc[key] = [prod, share]
+    return sorted(((p, s) for p, s in acc.values()), key=lambda x: (-x[1], x[0].formula, x[0].number))
 
 
 def _shares(choices: Sequence[SiteChoice]) -> tuple[tuple[Product, Fraction], ...]:
@@ -702,14 +706,14 @@ def _predict(space: Space, sp: Species, iso: Isomer, entering: str, leaving: Seq
     selected = _shares(picked)
     geo_products = {(c.product.formula, c.product.number) for c in picked}
     all_products = {(c.product.formula, c.product.number) for c in final}
-    by_geo = Prediction(start, entering, rules, final, statistical, selected, None, "", "").by_geometric_isomer()
+    by_geo = _by_geometric(selected)
     leaving_names = sorted({c.leaving for c in picked})
     if len(all_products) == 1:
         major, how = picked[0].product, "single"
         reason = f"every replaceable {'/'.join(sorted({c.leaving for c in final}))} site gives the same product"
     elif len(geo_products) == 1 and not rules.statistical:
         major, how = picked[0].product, "rule"
-        reason = _rule_reason(rules, picked, final, padded, chosen, geo)
+        reason = _rule_reason(rules, picked, final, padded, chosen)
     else:
         top = by_geo[0][1]
         leaders = [p for p, s in by_geo if s == top]
@@ -731,7 +735,8 @@ def _predict(space: Space, sp: Species, iso: Isomer, entering: str, leaving: Seq
     return Prediction(start, entering, rules, final, statistical, selected, major, how, reason)
 
 
-def _rule_reason(rules: SubstitutionRules, picked, final, padded, chosen, geo: Geometry) -> str:
+def _rule_reason(rules: SubstitutionRules, picked, final, padded, chosen) -> str:
+    """Words for a decision of the rule: the picked site and the first rank at which it beats the runner-up."""
     first = picked[0]
     article = "the" if len(picked) == 1 else "any"
     where = f"{article} {first.leaving} {rules.labilises} to {_list_names(first.labilisers)}"
@@ -739,8 +744,7 @@ def _rule_reason(rules: SubstitutionRules, picked, final, padded, chosen, geo: G
     runner = min(padded[k] for k in others)
     best = padded[chosen[0]]
     pos = next(i for i, (a, b) in enumerate(zip(best, runner)) if a != b)
-    strong = rules.series[best[pos]][0] if best[pos] < len(rules.series) else "nothing"
-    strong = _name_at(first.labilisers, best[pos], rules) or strong
+    strong = _name_at(first.labilisers, best[pos], rules) or rules.series[best[pos]][0]
     k_runner = next(k for k in others if padded[k] == runner)
     weak = _name_at(final[k_runner].labilisers, runner[pos], rules) or "no ligand"
     if rules.labilises == "trans":
@@ -1011,6 +1015,8 @@ def build_network(start_text: str, target_text: str, *, geometry: str | None = N
             for n, y in zip(ent_names, ys):
                 c[n] = c.get(n, 0) + y
             levels.setdefault(sum(xs), []).append(c)
+    from .render.text import occupancy
+
     nodes: list[tuple[str, tuple[tuple[str, Any], ...]]] = []
     edges: list[tuple[str, str, tuple[tuple[str, Any], ...]]] = []
     comps: list[tuple[str, int]] = []
@@ -1021,8 +1027,6 @@ def build_network(start_text: str, target_text: str, *, geometry: str | None = N
             comps.append((sp.formula, sp.isomer_set.stereoisomers))
             for iso in sp.isomer_set.isomers:
                 prefix, desc = _descriptor_text(iso, sp.composition)
-                from .render.text import occupancy
-
                 nodes.append((_node_id(sp.formula, iso.id), (
                     ("formula", sp.formula), ("isomer", iso.id), ("geometric_isomer", iso.number),
                     ("point_group", iso.point_group), ("chiral", iso.chiral), ("prefix", prefix or ""),
