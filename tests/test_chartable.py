@@ -350,6 +350,6 @@ def test_chartable_command(capsys):
     assert _run(["chartable", "D4h"]) == 0
     out = capsys.readouterr().out
     assert "B1g" in out and "x2-y2" in out and "C2'" in out
-    assert _run(["chartable", "Ma2b2c2", "--isomer", "1", "--json"]) == 0
+    assert _run(["chartable", "Ma2b2c2", "--isomer", "2", "--json"]) == 0
     assert '"axes"' in capsys.readouterr().out
     assert _run(["chartable", "Q7x"]) == 2
