@@ -58,7 +58,7 @@ class Geometry:
     def coordination_number(self) -> int:
         return len(self.vectors)
 
-    @property
+    @cached_property
     def linear(self) -> bool:
         """All sites on one line: the group is infinite (D∞h or C∞v)."""
         return _is_collinear(self.vectors)

@@ -17,7 +17,7 @@ The generator is lazy, so huge cases stream and a ``limit`` stops early:
 >>> from enumerator.formula import parse_abstract
 >>> oc = load_rules().geometry("OC-6")
 >>> [(i.id, i.point_group) for i in generate(parse_abstract("Ma4b2"), oc)]
-[('1', 'D4h'), ('2', 'C2v')]
+[('1', 'C2v'), ('2', 'D4h')]
 >>> s = enumerate_isomers(parse_abstract("M(AA)3"), oc)
 >>> s.geometric_isomers, s.stereoisomers, [i.id for i in s.isomers]
 (1, 2, ['1a', '1b'])
