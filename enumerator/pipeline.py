@@ -55,21 +55,33 @@ STAGES: tuple[str, ...] = (
 )
 
 
+#: Element symbols that begin like the abstract notation's 'M' + a letter.
+_M_ELEMENTS = frozenset({"Mn", "Mo", "Mg", "Mt", "Md", "Mc"})
+
+
 def parse_formula(text: str, rules: RuleSet) -> Composition:
     """Parse the abstract letter notation or a condensed formula."""
     if not text or not text.strip():
         raise InputError("empty formula", "give a formula such as Ma4b2 or [RuCl2(CO)2(PPh3)2]")
     if looks_abstract(text):
+        # 'Mn', 'Mo', 'Mg', ... also start like the abstract notation
+        # ("Mo(CO)6" reads as M + o + a chelate (CO)): a text that the ligand
+        # catalogue reads as a real formula is taken as one; otherwise it is
+        # the letter notation.
+        head = text.strip().lstrip("[")[:2]
+        if head in _M_ELEMENTS:
+            try:
+                from .condensed import parse_condensed
+
+                return parse_condensed(text, rules)
+            except InputError:
+                pass
         try:
             return parse_abstract(text)
         except InputError as abstract_error:
-            # 'Mn', 'Mo', 'Mg' ... also start like the abstract notation: a
-            # text that is not valid letters may still be a real formula.
             try:
                 from .condensed import parse_condensed
-            except ImportError:  # pragma: no cover - until the catalogue lands
-                raise abstract_error from None
-            try:
+
                 return parse_condensed(text, rules)
             except InputError:
                 raise abstract_error from None
