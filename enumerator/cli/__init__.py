@@ -93,7 +93,11 @@ def main(argv: list[str] | None = None) -> None:
     except click.ClickException as exc:
         if debug:
             raise
-        exc.show()
+        hint = ""
+        if isinstance(exc, click.UsageError):
+            cmd = exc.ctx.command_path if exc.ctx is not None else "isosieve"
+            hint = f"; see '{cmd} --help'"
+        click.echo(f"isosieve: error: {exc.format_message().rstrip('.')}{hint}", err=True)
         sys.exit(exc.exit_code)
     except click.Abort:
         click.echo("isosieve: interrupted", err=True)

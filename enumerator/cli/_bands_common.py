@@ -45,20 +45,6 @@ def write_plot(path, panels, measured, width):
     if fmt not in ("svg", "png"):
         raise InputError(f"--plot '{path}' is not .svg or .png", "name the file e.g. spectra.svg")
     data = spectra_figure(panels, measured=measured, fmt=fmt, width_cm1=width)
-    import os
-    import tempfile
+    from .common import write_atomic_bytes
 
-    p = Path(path)
-    if not p.parent.exists():
-        raise InputError(f"folder '{p.parent}' does not exist", "create it first")
-    fd, tmp = tempfile.mkstemp(prefix=f".{p.name}.", dir=p.parent)
-    try:
-        with os.fdopen(fd, "wb") as fh:
-            fh.write(data)
-        os.replace(tmp, p)
-    except BaseException:
-        try:
-            os.unlink(tmp)
-        except OSError:
-            pass
-        raise
+    write_atomic_bytes(path, data)

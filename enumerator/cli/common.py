@@ -10,7 +10,7 @@ import click
 
 from ..errors import InputError
 
-__all__ = ["pairs_option", "parse_pairs", "emit", "write_atomic", "rules_of"]
+__all__ = ["parse_pairs", "emit", "write_atomic", "write_atomic_bytes", "rules_of"]
 
 
 def parse_pairs(values: tuple[str, ...], option: str, example: str) -> tuple[tuple[str, str], ...]:
@@ -29,14 +29,19 @@ def rules_of(ctx: click.Context) -> tuple[str, ...]:
 
 
 def write_atomic(path: str | os.PathLike[str], text: str) -> None:
+    """Write a whole text file or nothing (UTF-8, newline '\\n')."""
+    write_atomic_bytes(path, text.encode("utf-8"))
+
+
+def write_atomic_bytes(path: str | os.PathLike[str], data: bytes) -> None:
     """Write a whole file or nothing: a temporary file beside it, then a rename."""
     p = Path(path)
     if p.parent and not p.parent.exists():
         raise InputError(f"folder '{p.parent}' does not exist", "create it first or choose another --out")
     fd, tmp = tempfile.mkstemp(prefix=f".{p.name}.", dir=p.parent or ".")
     try:
-        with os.fdopen(fd, "w", encoding="utf-8", newline="\n") as fh:
-            fh.write(text)
+        with os.fdopen(fd, "wb") as fh:
+            fh.write(data)
         os.replace(tmp, p)
     except BaseException:
         try:

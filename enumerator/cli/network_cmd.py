@@ -2,13 +2,12 @@
 
 from __future__ import annotations
 
-import os
-import tempfile
+
 from pathlib import Path
 
 import click
 
-from .common import emit, rules_of
+from .common import emit, rules_of, write_atomic_bytes
 
 _FORMATS = ("text", "json", "graphml", "svg", "png")
 
@@ -64,28 +63,9 @@ def network(ctx, start, target, geometry, fmt, as_json, out):
     elif fmt == "png":
         from ..routes import network_picture
 
-        _write_bytes_atomic(out, network_picture(net, "png"))
+        write_atomic_bytes(out, network_picture(net, "png"))
     else:
         emit(_text(net), out)
-
-
-def _write_bytes_atomic(path: str, data: bytes) -> None:
-    from ..errors import InputError
-
-    p = Path(path)
-    if p.parent and not p.parent.exists():
-        raise InputError(f"folder '{p.parent}' does not exist", "create it first or choose another --out")
-    fd, tmp = tempfile.mkstemp(prefix=f".{p.name}.", dir=p.parent or ".")
-    try:
-        with os.fdopen(fd, "wb") as fh:
-            fh.write(data)
-        os.replace(tmp, p)
-    except BaseException:
-        try:
-            os.unlink(tmp)
-        except OSError:
-            pass
-        raise
 
 
 def _text(net) -> str:
