@@ -198,7 +198,13 @@ def character_table(geometry, op_indices: tuple[int, ...], ranks: tuple[int, ...
             f"{geometry.symbol} is linear: its group (D∞h or C∞v) is infinite and has no finite character table",
             "stretch species of a linear centre are given by correlation from D2h / C2v (see `isosieve isomers ... --geometry L-2`)",
         )
-    return _geometry_table(geometry.vectors, tuple(int(k) for k in op_indices), tuple(ranks) if ranks else None)
+    ops = tuple(int(k) for k in op_indices)
+    # groups of order 1 or 2 (C1, Cs, Ci, C2) have one labelling whatever the
+    # in-plane axis: the tie-break cannot change them, so they share one
+    # cached table instead of one per isomer
+    if len(ops) <= 2:
+        ranks = None
+    return _geometry_table(geometry.vectors, ops, tuple(ranks) if ranks else None)
 
 
 def table_for_isomer(isomer) -> CharacterTable:

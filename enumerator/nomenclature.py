@@ -659,7 +659,13 @@ class DescriptorAnalysis:
             "rule": d.rule,
         }
         if shared:
-            detail["shared_with"] = [i for i in shared if i != isomer_id]
+            others = [i for i in shared if i != isomer_id]
+            detail["shared_count"] = len(others)
+            # the list is linear per isomer (quadratic overall): give it only
+            # where it is informative, not when every isomer shares a bare
+            # polyhedral symbol
+            if d.configuration_index is not None or len(others) <= 50:
+                detail["shared_with"] = others
         return {
             "descriptor": d.text,
             "priorities": {str(i + 1): p for i, p in d.priority_pairs},

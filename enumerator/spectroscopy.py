@@ -258,6 +258,11 @@ def _class_chars(table, chars: Mapping[int, float]) -> tuple[float, ...]:
 # the analysis
 
 
+#: Above this many isomer pairs the JSON gives the tally, not the list
+#: (2,000,000 pairs is about 2,000 isomers and a 400 MB document).
+MAX_LISTED_PAIRS = 2_000_000
+
+
 @dataclass(frozen=True)
 class Pair:
     a: str
@@ -351,7 +356,7 @@ class StretchAnalysis:
             notes.append(_FLUX.format(geo=self.geometry))
         notes.append(_ENANT)
         return {
-            "pairs": [p.to_dict() for p in self.pairs()],
+            **self._pairs_json(),
             "reporter_classes": {
                 c.key: {"name": c.name, "bond": c.bond, "nucleus": c.nucleus, "ir_window_cm1": list(c.window), "window_source": c.source}
                 for c in self.info
@@ -359,6 +364,22 @@ class StretchAnalysis:
             "technique_cost_order": list(COST_ORDER),
             "spectroscopy_notes": notes,
         }
+
+    def _pairs_json(self) -> dict[str, Any]:
+        n = len(self.ids)
+        total = n * (n - 1) // 2
+        doc: dict[str, Any] = {"pair_tally": self.pair_tally()}
+        if total > MAX_LISTED_PAIRS:
+            doc["pairs"] = []
+            doc["pairs_listed"] = False
+            doc["pairs_note"] = (
+                f"{total} pairs are too many to list (more than {MAX_LISTED_PAIRS}); "
+                "'pair_tally' counts them; use --limit or --pick to list the pairs of fewer isomers"
+            )
+        else:
+            doc["pairs"] = [p.to_dict() for p in self.pairs()]
+            doc["pairs_listed"] = True
+        return doc
 
     def columns(self) -> Sequence[Column]:
         cols = []
@@ -397,9 +418,54 @@ class StretchAnalysis:
             out.append(Section("Spectroscopy notes", "\n".join(notes)))
         return out
 
-    def _matrix_text(self) -> str:
-        pairs = self.pairs()
+    def pair_tally(self) -> dict[str, int]:
+        """How many pairs each technique tells apart first ('IR', 'Raman',
+        'NMR', '--' for none, 'en' for enantiomers), counted over classes of
+        isomers with equal count signatures: no pair is listed, so this stays
+        cheap for thousands of isomers."""
+        ir, ra, nm = self._signatures()
+        classes: dict[tuple[int, int, int], int] = {}
+        for t in zip(ir, ra, nm):
+            classes[t] = classes.get(t, 0) + 1
+        keys = sorted(classes)
+        tally: dict[str, int] = {}
+
+        def add(name: str, k: int) -> None:
+            if k:
+                tally[name] = tally.get(name, 0) + k
+
+        for x, a in enumerate(keys):
+            na = classes[a]
+            add("--", na * (na - 1) // 2)
+            for b in keys[x + 1 :]:
+                name = "IR" if a[0] != b[0] else "Raman" if a[1] != b[1] else "NMR"
+                add(name, na * classes[b])
+        # enantiomer pairs share every signature: move them from '--' to 'en'
+        pos = {i: k for k, i in enumerate(self.ids)}
+        en = sum(1 for k, e in enumerate(self.enantiomer) if e is not None and pos.get(e, -1) > k)
+        if en:
+            tally["--"] -= en
+            if not tally["--"]:
+                del tally["--"]
+            tally["en"] = en
+        return tally
+
+    def _tally_text(self) -> str:
         n = len(self.ids)
+        tally = self.pair_tally()
+        total = n * (n - 1) // 2
+        body = f"{n} isomers, {total} pairs (list in --json 'pairs'): " + ", ".join(f"{k} {v}" for k, v in sorted(tally.items()))
+        legend = (
+            "first technique whose counts differ (cost order IR < Raman < NMR); "
+            "-- = same counts by all three; en = enantiomers (same by IR, Raman and NMR in achiral media: use CD or X-ray)"
+        )
+        return "\n".join([body, legend])
+
+    def _matrix_text(self) -> str:
+        n = len(self.ids)
+        if n > 24:
+            return self._tally_text()
+        pairs = self.pairs()
         if n < 2:
             return "only one isomer: nothing to tell apart"
         code = {"IR": "IR", "Raman": "Ra", "NMR": "NMR"}
@@ -411,6 +477,8 @@ class StretchAnalysis:
             "cell = cheapest technique whose counts differ (cost order IR < Raman < NMR); "
             "-- = same counts by all three; en = enantiomers (same by IR, Raman and NMR in achiral media: use CD or X-ray)"
         )
+        if n > 24:
+            return self._tally_text()
         if n <= 24:
             w = max(3, max(len(i) for i in self.ids))
             head = " " * w + " " + " ".join(i.rjust(w) for i in self.ids)

@@ -165,3 +165,17 @@ def test_pairs_stay_fast_for_hundreds_of_isomers():
     n = len(an.ids)
     assert len(pairs) == n * (n - 1) // 2
     assert dt < 2.0
+
+
+def test_pair_tally_equals_counting_every_pair():
+    # the tally over count-signature classes must equal a pair-by-pair count
+    # (common practice: plain counting)
+    from collections import Counter
+
+    from enumerator.pipeline import analyse
+    from enumerator.spectroscopy import StretchAnalysis
+
+    for formula, geo, rep, limit in [("Ma2b2c2", "OC-6", "a", None), ("Ma2b2c2d2e2f2", "IC-12", "a", 300), ("M(AB)2b2", "OC-6", "b", None)]:
+        a = analyse(formula, geometry=geo, reporters=((rep, "CO"),), limit=limit).analysis(StretchAnalysis)
+        brute = Counter("en" if p.note else (p.cheapest or "--") for p in a.pairs())
+        assert a.pair_tally() == dict(brute), formula
