@@ -113,6 +113,8 @@ class _Parser:
         return None
 
     def unknown(self, i: int, end: int) -> InputError:
+        if i >= len(self.text):
+            return _err(self.text, i, "the formula ends where a ligand should follow", "write the ligand after the prefix, e.g. η5-Cp")
         m = _WORD.match(self.text, i, end)
         word = m.group(0) if m else self.text[i]
         near = closest_names(word, self.exact)

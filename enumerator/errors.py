@@ -22,8 +22,10 @@ class IsosieveError(Exception):
         super().__init__(self.line())
 
     def line(self) -> str:
-        """The one-line message shown to the user."""
-        return f"{self.what}; {self.fix}" if self.fix else self.what
+        """The one-line message shown to the user (control characters such as
+        a line break in an echoed formula are shown escaped)."""
+        text = f"{self.what}; {self.fix}" if self.fix else self.what
+        return "".join(ch if ch.isprintable() else repr(ch)[1:-1] for ch in text)
 
 
 class InputError(IsosieveError):

@@ -44,7 +44,7 @@ FORMULA_CHARS = "Mabcdefxyz ABCR()[]{}0123456789+-−·.,;η⁵'\"\\/\t_*#=@CNOP
 
 def _one_line(text: str) -> str:
     """Drop line-break characters: an input that holds one is echoed in the
-    message and breaks the one-line rule (a known gap, see the xfail test)."""
+    message escaped, so the one-line rule holds (tested below)."""
     return "".join(c for c in text if len(("a" + c + "a").splitlines()) == 1)
 
 
@@ -86,14 +86,10 @@ condensed_like = st.lists(st.sampled_from(CONDENSED_PARTS), min_size=0, max_size
 @given(condensed_like)
 def test_condensed_parser_never_crashes(text):
     condensed = pytest.importorskip("enumerator.condensed")
-    # a hapticity prefix at the very end is a known crash: see the xfail test below
-    assume(not text.endswith(("η5-", "eta5-")))
     _ok_or_isosieve(condensed.parse_condensed, text, RULES)
     _ok_or_isosieve(parse_formula, text, RULES)
 
 
-@pytest.mark.xfail(reason="condensed.py line ~117 indexes past the end after a trailing hapticity prefix "
-                          "(IndexError) - found by this fuzzer, reported to the lead / issue-4 engineer", strict=False)
 @pytest.mark.parametrize("text", ["η5-", "Ruη5-"])
 def test_trailing_hapticity_prefix_is_an_input_error(text):
     condensed = pytest.importorskip("enumerator.condensed")
@@ -292,15 +288,11 @@ def test_usage_errors_exit_2_without_traceback(args):
     assert code == 2 and "Traceback" not in err and out == ""
 
 
-@pytest.mark.xfail(reason="click prints usage errors on three lines (Usage/Try/Error); enumerator.cli.main "
-                          "would have to print exc.format_message() itself - reported to the lead", strict=False)
 def test_usage_errors_are_one_line():
     code, out, err = cli(["isomers", "Ma6", "--nonsense"])
     assert code == 2 and len(err.strip().splitlines()) == 1
 
 
-@pytest.mark.xfail(reason="a formula holding a line break is echoed verbatim in the message; IsosieveError.line() "
-                          "(or cli.main) should escape control characters - reported to the lead", strict=False)
 def test_input_with_a_line_break_still_gives_one_line():
     code, out, err = cli(["isomers", "Ma4\nb2"])
     assert code == 2 and len(err.strip().splitlines()) == 1
