@@ -45,6 +45,7 @@ __all__ = [
     "enumerate_isomers",
     "placements_for",
     "group_tables",
+    "canonical_placement",
 ]
 
 Placement = tuple[int, ...]
@@ -167,7 +168,9 @@ def _tables(vectors) -> _Tables:
     return _Tables(perms, mult, inverse, proper)
 
 
-def _canon(kind: LigandKind, t: Placement) -> Placement:
+def canonical_placement(kind: LigandKind, t: Placement) -> Placement:
+    """One spelling per placement: a ring's sites sorted, a palindromic chain
+    read from its lower end."""
     if kind.ring:
         return tuple(sorted(t))
     if kind.palindromic:
@@ -196,7 +199,7 @@ def placements_for(kind: LigandKind, geometry: Geometry) -> list[Placement]:
             shape = "mer" if geometry.relation(t[0], t[2]) == "trans" else "fac"
             if shape not in kind.arrangements:
                 continue
-        out.add(_canon(kind, t))
+        out.add(canonical_placement(kind, t))
     return sorted(out)
 
 
@@ -221,7 +224,7 @@ def _pieces(cands: Sequence[Placement], masks: Sequence[int], count: int, used: 
 
 
 def _image(kind: LigandKind, piece: Piece, perm: np.ndarray) -> Piece:
-    return tuple(sorted(_canon(kind, tuple(int(perm[x]) for x in t)) for t in piece))
+    return tuple(sorted(canonical_placement(kind, tuple(int(perm[x]) for x in t)) for t in piece))
 
 
 def _mask(t: Placement) -> int:

@@ -43,7 +43,7 @@ from typing import Any, Iterable, Mapping, Sequence
 from .composition import Composition, LigandKind
 from .errors import CapacityError, InputError, IsosieveError, RuleError
 from .geometry import Geometry
-from .isomers import Isomer, IsomerSet, enumerate_isomers, group_tables
+from .isomers import Isomer, IsomerSet, canonical_placement, enumerate_isomers, group_tables
 from .rules import RuleSet, check_keys, closest_names, load_rules, read_toml
 
 __all__ = [
@@ -315,13 +315,8 @@ Placement = tuple[int, ...]
 Decoration = tuple[tuple[str, tuple[Placement, ...]], ...]
 
 
-def _canon(kind: LigandKind, t: Placement) -> Placement:
-    if kind.ring:
-        return tuple(sorted(t))
-    if kind.palindromic:
-        r = t[::-1]
-        return r if r < t else t
-    return t
+
+_canon = canonical_placement
 
 
 def _decoration(iso: Isomer) -> Decoration:

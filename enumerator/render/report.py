@@ -264,21 +264,9 @@ def _spectra_html(iso: Isomer, rules) -> str:
 # ---------------------------------------------------------------- tables
 def table_rows(res: Result) -> tuple[list[str], list[list[str]]]:
     """The isomer table shown in the report (also written as CSV / LaTeX)."""
-    from .text import occupancy
+    from .text import isomer_rows
 
-    extra = [col for a in res.analyses for col in a.columns()]
-    header = ["isomer", "point group", "chiral", "enantiomer", *[col.header for col in extra], "sites (ligand:site numbers)"]
-    rows = []
-    for iso in res.isomers:
-        rows.append([
-            iso.id,
-            iso.point_group,
-            "yes" if iso.chiral else "no",
-            iso.enantiomer or "-",
-            *[str(col.values.get(iso.id, "")) for col in extra],
-            occupancy(iso),
-        ])
-    return header, rows
+    return isomer_rows(res)
 
 
 def tables_csv(res: Result) -> str:

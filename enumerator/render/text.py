@@ -8,7 +8,7 @@ from typing import Sequence
 from ..isomers import Isomer
 from ..result import Result
 
-__all__ = ["table", "isomer_table", "occupancy"]
+__all__ = ["table", "isomer_table", "isomer_rows", "occupancy", "render"]
 
 
 def table(header: Sequence[str], rows: Sequence[Sequence[str]], indent: str = "") -> str:
@@ -42,8 +42,11 @@ def occupancy(iso: Isomer) -> str:
     return " ".join(f"{n}:{','.join(groups[n])}" for n in order)
 
 
-def isomer_table(res: Result) -> str:
+def isomer_rows(res: Result) -> tuple[list[str], list[list[str]]]:
+    """Header and rows of the isomer table, every analysis's columns included
+    (shared by the terminal table and the report)."""
     extra = [c for a in res.analyses for c in a.columns()]
+    header = ["isomer", "point group", "chiral", "enantiomer", *[c.header for c in extra], "sites (ligand:site numbers)"]
     rows = []
     for iso in res.isomers:
         rows.append([
@@ -51,11 +54,14 @@ def isomer_table(res: Result) -> str:
             iso.point_group,
             "yes" if iso.chiral else "no",
             iso.enantiomer or "-",
-            *[c.values.get(iso.id, "") for c in extra],
+            *[str(c.values.get(iso.id, "")) for c in extra],
             occupancy(iso),
         ])
-    header = ["isomer", "point group", "chiral", "enantiomer", *[c.header for c in extra], "sites (ligand:site numbers)"]
-    return table(header, rows)
+    return header, rows
+
+
+def isomer_table(res: Result) -> str:
+    return table(*isomer_rows(res))
 
 
 def render(res: Result) -> str:
