@@ -12,23 +12,18 @@ file runs in well under a minute.
 
 from __future__ import annotations
 
-import io
-import itertools
 import math
 import os
 import shutil
 import tempfile
-from contextlib import redirect_stderr, redirect_stdout
 from pathlib import Path
 
 import pytest
 from hypothesis import HealthCheck, assume, given, settings
 from hypothesis import strategies as st
 
-from enumerator.cli import main
-from enumerator.errors import IsosieveError, RuleError
+from enumerator.errors import IsosieveError
 from enumerator.formula import parse_abstract
-from enumerator.isomers import enumerate_isomers
 from enumerator.pipeline import parse_formula, run, Request
 from enumerator.rules import load_rules
 
@@ -226,16 +221,7 @@ def test_ligand_catalogue_loader_never_crashes(text):
 # --------------------------------------------------------------------------- the command line
 
 
-def cli(args):
-    """(exit status, stdout, stderr) of the console entry point, in process."""
-    out, err = io.StringIO(), io.StringIO()
-    code = 0
-    with redirect_stdout(out), redirect_stderr(err):
-        try:
-            main(list(args))
-        except SystemExit as exc:
-            code = exc.code if isinstance(exc.code, int) else (0 if exc.code is None else 1)
-    return code, out.getvalue(), err.getvalue()
+from _cli import cli  # noqa: E402  (tests/ is on sys.path under pytest)
 
 
 OPTION_VALUES = {

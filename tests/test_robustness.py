@@ -10,17 +10,14 @@ from __future__ import annotations
 import io
 import json
 import os
-import shutil
 import signal
 import subprocess
 import sys
 import time
-from contextlib import redirect_stderr, redirect_stdout
 from pathlib import Path
 
 import pytest
 
-from enumerator.cli import main
 from enumerator.cli.isomers_cmd import PROGRESS_MIN, SIZE_CAP, check_size, want_progress
 from enumerator.errors import CapacityError, RuleError
 from enumerator.pipeline import Request, run
@@ -29,15 +26,7 @@ from enumerator.rules import load_rules
 CMD = [sys.executable, "-m", "enumerator"]
 
 
-def cli(args):
-    out, err = io.StringIO(), io.StringIO()
-    code = 0
-    with redirect_stdout(out), redirect_stderr(err):
-        try:
-            main(list(args))
-        except SystemExit as exc:
-            code = exc.code if isinstance(exc.code, int) else (0 if exc.code is None else 1)
-    return code, out.getvalue(), err.getvalue()
+from _cli import cli  # noqa: E402  (tests/ is on sys.path under pytest)
 
 
 # --------------------------------------------------------------------------- determinism
