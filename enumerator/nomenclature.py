@@ -225,6 +225,11 @@ def _sp4(g: Geometry, r: Mapping[int, Rank]) -> list[_Choice]:
 
 
 def _oc6(g: Geometry, r: Mapping[int, Rank]) -> list[_Choice]:
+    """One choice per admissible reference axis (a priority-1 atom and its
+    trans partner).  The second digit is the largest number trans to any
+    highest-priority atom of the plane (IR-9.3.4.8, Example 5: OC-6-24, not
+    23); C/A reads the plane from every such atom (the same example is A
+    only that way)."""
     t = _trans(g)
     out = []
     m1 = min(r.values())
@@ -234,9 +239,10 @@ def _oc6(g: Geometry, r: Mapping[int, Rank]) -> list[_Choice]:
         x = t[a]
         plane = [s for s in sorted(r) if s not in (a, x)]
         m2 = min(r[s] for s in plane)
-        for b in plane:
-            if r[b] == m2:
-                out.append(_Choice((r[x], r[t[b]]), _seqs(g, r, _vec(g, a), plane, b)))
+        starts = [b for b in plane if r[b] == m2]
+        second = max(r[t[b]] for b in starts)
+        seqs = tuple(sq for b in starts for sq in _seqs(g, r, _vec(g, a), plane, b))
+        out.append(_Choice((r[x], second), seqs))
     return out
 
 
@@ -245,7 +251,9 @@ def _spy5(g: Geometry, r: Mapping[int, Rank]) -> list[_Choice]:
     apex = next(s for s in sorted(r) if s not in t)
     basal = [s for s in sorted(r) if s != apex]
     m = min(r[s] for s in basal)
-    return [_Choice((r[apex], r[t[b]]), _seqs(g, r, _vec(g, apex), basal, b)) for b in basal if r[b] == m]
+    starts = [b for b in basal if r[b] == m]
+    seqs = tuple(sq for b in starts for sq in _seqs(g, r, _vec(g, apex), basal, b))
+    return [_Choice((r[apex], max(r[t[b]] for b in starts)), seqs)]
 
 
 def _bipyramid(g: Geometry, r: Mapping[int, Rank]) -> list[_Choice]:
@@ -285,6 +293,14 @@ def _prism_faces(g: Geometry) -> tuple[tuple[int, ...], ...]:
 
 
 def _tpr6(g: Geometry, r: Mapping[int, Rank]) -> list[_Choice]:
+    """IR-9.3.4.9: the preferred triangular face holds more of the
+    highest-priority atoms (here: its sorted priority numbers are lowest);
+    the index is derived from the atoms opposite it, cited in the order of
+    the preferred-face atoms they eclipse (the order is this tool's
+    completion; the Red Book prints no TPR-6 index).  C/A: seen from above
+    the preferred face, the direction of the priority sequence round the
+    opposite face, started at its highest-priority atom (ties: the
+    preferred-face partners decide)."""
     faces = _prism_faces(g)
     if len(faces) != 2:
         return []
@@ -299,11 +315,13 @@ def _tpr6(g: Geometry, r: Mapping[int, Rank]) -> list[_Choice]:
         if tuple(sorted(r[s] for s in f)) != low:
             continue
         view = sum(_vec(g, s) for s in f)
+        back = [partner[s] for s in f]
+        m = min(r[s] for s in back)
+        seqs = tuple(sq for u in back if r[u] == m for sq in _seqs(g, r, view, back, u, tail=partner))
         for order in itertools.permutations(f):
             if [r[s] for s in order] != sorted(r[s] for s in f):
                 continue
-            key = tuple(r[partner[s]] for s in order)
-            out.append(_Choice(key, _seqs(g, r, view, f, order[0], tail=partner)))
+            out.append(_Choice(tuple(r[partner[s]] for s in order), seqs))
     return out
 
 
@@ -316,7 +334,7 @@ _RULE_TEXT = {
     "TBPY-5": "IR-9.3.3 (bipyramids): the two axial priority numbers, lower first",
     "PBPY-7": "IR-9.3.3 (bipyramids): the two axial priority numbers, lower first",
     "HBPY-8": "IR-9.3.3 (bipyramids): the two axial priority numbers, lower first",
-    "TPR-6": "tool convention for TPR-6 (partners of the reference face), modelled on IR-9.3.3",
+    "TPR-6": "IR-9.3.4.9 (TPR-6): atoms opposite the preferred face, cited in the order of the face (order: tool completion)",
     "T-4": "IR-9.3.4 (T-4): R/S from the CIP priorities",
 }
 
