@@ -127,11 +127,10 @@ def describe(m: np.ndarray) -> OpInfo:
     det = float(np.linalg.det(m))
     tr = float(np.trace(m))
     if det > 0:
-        if abs(tr - 3) < 1e-6:
+        theta = _turn(m, (tr - 1) / 2)
+        if theta < _ANGLE_TOL:
             return OpInfo("E", 1, 1, None)
         axis = _eigvec(m, 1.0)
-        cos_t = max(-1.0, min(1.0, (tr - 1) / 2))
-        theta = math.acos(cos_t)
         # orient the axis so that the rotation is counter-clockwise about it
         s = _rotation_sense(m, axis)
         if s < 0:
@@ -145,9 +144,8 @@ def describe(m: np.ndarray) -> OpInfo:
     if abs(tr + 3) < 1e-6:
         return OpInfo("i", 2, 1, None)
     axis = _eigvec(m, -1.0)
-    cos_t = max(-1.0, min(1.0, (tr + 1) / 2))
-    theta = math.acos(cos_t)
-    if theta < 1e-6:
+    theta = _turn(m, (tr + 1) / 2)
+    if theta < _ANGLE_TOL:
         return OpInfo("s", 2, 1, axis_key(axis))
     s = _rotation_sense(m @ _householder(axis), axis)
     if s < 0:
@@ -157,6 +155,20 @@ def describe(m: np.ndarray) -> OpInfo:
     if np.dot(key, axis) < 0:
         k = n - k
     return OpInfo("S", n, k, key)
+
+
+#: Rotation angles below this (radians) count as none: matrices are compared
+#: after rounding to 6 decimals, and the smallest true angle here is 2pi/60.
+_ANGLE_TOL = 1e-4
+
+
+def _turn(m: np.ndarray, cos_t: float) -> float:
+    """The rotation angle in [0, pi] of a proper rotation, or of the
+    rotation part of an improper one, from its cosine and the skew part of m
+    (atan2 stays accurate near 0 and pi, where acos of a rounded trace does
+    not; a reflection along the axis adds nothing to the skew part)."""
+    w = np.array([m[2, 1] - m[1, 2], m[0, 2] - m[2, 0], m[1, 0] - m[0, 1]]) / 2
+    return math.atan2(float(np.linalg.norm(w)), max(-1.0, min(1.0, cos_t)))
 
 
 def _householder(a: np.ndarray) -> np.ndarray:

@@ -23,6 +23,8 @@ from enumerator.rules import load_rules
 # groups; edge counts are Euler's V - E + F = 2 for each polyhedron (common practice)
 EXPECTED = [
     ("TP-3", "D3h", 12, 3),
+    ("TS-3", "C2v", 4, 3),
+    ("SS-4", "C2v", 4, 6),
     ("T-4", "Td", 24, 6),
     ("SP-4", "D4h", 16, 4),
     ("TBPY-5", "D3h", 12, 9),
@@ -160,3 +162,15 @@ def test_bad_geometry_files_are_named(tmp_path, text, needle):
 def test_unknown_geometry_suggests(rules):
     with pytest.raises(InputError, match="did you mean"):
         rules.geometry("OC-5")
+
+
+def test_bent_pair_of_general_directions_is_c2v(tmp_path):
+    # two bonds at a general angle (here arccos(1/3)) span C2v, like H2O
+    # (common practice).  Found by fuzzing: the operations are compared after
+    # rounding to 6 decimals, and an angle taken with acos from the rounded
+    # trace came out as 0.06 degrees instead of 0 for the in-plane mirror.
+    d = tmp_path / "geometries"
+    d.mkdir()
+    (d / "X.toml").write_text('symbol = "XB-2"\nname = "bent pair"\nsites = [[0.0, 0.0, 1.0], [1.0, 1.0, 0.5]]\n')
+    g = load_rules([tmp_path]).geometry("XB-2")
+    assert g.point_group == "C2v" and len(g.operations) == 4
