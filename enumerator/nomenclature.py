@@ -115,7 +115,7 @@ __all__ = [
 Rank = tuple[int, int]  # (priority number, primes): smaller = higher priority
 
 #: Polyhedra with a configuration-index rule here (see the module docstring).
-SUPPORTED = ("SP-4", "T-4", "OC-6", "SPY-5", "TBPY-5", "PBPY-7", "HBPY-8", "TPR-6")
+SUPPORTED = ("TS-3", "SP-4", "SS-4", "T-4", "OC-6", "SPY-5", "TBPY-5", "PBPY-7", "HBPY-8", "TPR-6")
 _BIPYRAMIDS = ("TBPY-5", "PBPY-7", "HBPY-8")
 _PREFIX_GEOMETRIES = ("SP-4", "OC-6")
 _SYMBOL_TEXT = {"Delta": "Δ", "Lambda": "Λ"}
@@ -325,7 +325,35 @@ def _tpr6(g: Geometry, r: Mapping[int, Rank]) -> list[_Choice]:
     return out
 
 
-_RULES = {"SP-4": _sp4, "OC-6": _oc6, "SPY-5": _spy5, "TPR-6": _tpr6, **{b: _bipyramid for b in _BIPYRAMIDS}}
+def _ss4(g: Geometry, r: Mapping[int, Rank]) -> list[_Choice]:
+    """IR-9.3.3.8: the two atoms separated by the largest angle, the lower
+    number first.  C/A (IR-9.3.4.7): seen from the higher-priority atom of
+    that pair, the turn from the higher- to the lower-priority of the other
+    two atoms through the smaller angle; no symbol where either pair ties."""
+    t = _trans(g)
+    axial = sorted(t)
+    if len(axial) != 2:
+        return []
+    p, q = axial
+    key = tuple(sorted((r[p], r[q])))
+    e1, e2 = sorted((s for s in r if s not in t), key=lambda s: (r[s], s))
+    seqs = []
+    if r[e1] != r[e2]:
+        for a in axial:
+            if r[a] == key[0]:
+                turn = float(np.dot(_vec(g, a), np.cross(_vec(g, e1), _vec(g, e2))))
+                seqs.append(((), "A" if turn > 0 else "C"))
+    return [_Choice(key, tuple(seqs))]
+
+
+def _ts3(g: Geometry, r: Mapping[int, Rank]) -> list[_Choice]:
+    """IR-9.3.3.7: one digit, the priority number of the atom on the stem."""
+    t = _trans(g)
+    stem = [s for s in r if s not in t]
+    return [_Choice((r[stem[0]],))] if len(stem) == 1 else []
+
+
+_RULES = {"SP-4": _sp4, "SS-4": _ss4, "TS-3": _ts3, "OC-6": _oc6, "SPY-5": _spy5, "TPR-6": _tpr6, **{b: _bipyramid for b in _BIPYRAMIDS}}
 
 _RULE_TEXT = {
     "SP-4": "IR-9.3.3 (SP-4): trans to priority 1, maximum difference",
@@ -336,6 +364,8 @@ _RULE_TEXT = {
     "HBPY-8": "IR-9.3.3 (bipyramids): the two axial priority numbers, lower first",
     "TPR-6": "IR-9.3.4.9 (TPR-6): atoms opposite the preferred face, cited in the order of the face (order: tool completion)",
     "T-4": "IR-9.3.4 (T-4): R/S from the CIP priorities",
+    "SS-4": "IR-9.3.3.8 (SS-4): the two atoms at the largest angle, lower first",
+    "TS-3": "IR-9.3.3.7 (TS-3): the atom on the stem of the T",
 }
 
 
@@ -515,7 +545,9 @@ def _describe(isomer: Isomer, composition: Composition, primed: bool) -> Descrip
     base = _base_ranks(isomer, composition)
     maps = _primed_maps(isomer, composition, base) if primed else [base]
     key, ca, rs = _evaluate(isomer, maps)
-    skew = _skew(isomer)
+    # IR-9.3.4.1: the skew-lines convention is applied to octahedral centres;
+    # elsewhere C/A (or R/S) with priming where needed
+    skew = _skew(isomer) if g.symbol == "OC-6" else None
     if not isomer.chiral:
         ca = rs = skew = None
     chirality = rs or skew or ca

@@ -235,6 +235,8 @@ def test_cyclopentadienyl_piano_stool():
 BROAD = {
     "SP-4": ["Ma3b", "Ma2b2", "Ma2bc", "Mabcd", "M(AA)b2", "M(AB)2", "M(AB)bc"],
     "T-4": ["Ma2bc", "Mabcd", "M(AB)2", "M(AB)bc"],
+    "TS-3": ["Ma2b", "Mabc"],
+    "SS-4": ["Ma3b", "Ma2b2", "Ma2bc", "Mabcd", "M(AA)bc", "M(AB)2", "M(AB)bc"],
     "TBPY-5": ["Ma4b", "Ma3b2", "Ma2b2c", "Ma2bcd", "Mabcde", "M(AA)bcd", "M(AA)2b", "M(AB)2c"],
     "SPY-5": ["Ma4b", "Ma3b2", "Ma2b2c", "Mabcde", "M(AB)bcd", "M(AA)2b", "M(AB)2c"],
     "OC-6": [

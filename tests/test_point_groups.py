@@ -61,6 +61,8 @@ CASES = [
     *[(f, "SP-4", {}) for f in ["Ma4", "Ma3b", "Ma2b2", "Ma2bc", "Mabcd"]],
     *[(f, "T-4", {}) for f in ["Ma3b", "Ma2b2", "Ma2bc", "Mabcd"]],
     *[(f, "TP-3", {}) for f in ["Ma2b", "Mabc"]],
+    *[(f, "TS-3", {}) for f in ["Ma3", "Ma2b", "Mabc"]],
+    *[(f, "SS-4", {}) for f in ["Ma4", "Ma3b", "Ma2b2", "Ma2bc", "Mabcd", "M(AA)b2", "M(AB)2"]],
     *[(f, "L-2", {}) for f in ["Ma2", "Mab"]],
     *[(f, "TBPY-5", {}) for f in ["Ma5", "Ma4b", "Ma3b2", "Ma3bc", "Ma2b2c", "Mabcde"]],
     *[(f, "SPY-5", {}) for f in ["Ma4b", "Ma3b2", "Ma2b2c", "Ma2bcd"]],

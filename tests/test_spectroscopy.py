@@ -59,6 +59,11 @@ def _one(formula, geometry, group, **kw):
         ("Ma4b", "TBPY-5", "C3v", "2A1 + E", 3, 3, 2),
         # equatorial M(CO)4L (C2v): 2A1 + B1 + B2, four IR bands (Cotton 10.2; Nakamoto)
         ("Ma4b", "TBPY-5", "C2v", "2A1 + B1 + B2", 4, 4, 2),
+        # see-saw M(CO)4 (C2v): 2A1 + B1 + B2, four IR bands (group theory, common
+        # practice; the C2v Fe(CO)4 fragment in matrices shows four, from memory)
+        ("Ma4", "SS-4", "C2v", "2A1 + B1 + B2", 4, 4, 2),
+        # T-shaped M(CO)3 (C2v): 2A1 + B, three IR bands (group theory, common practice)
+        ("Ma3", "TS-3", "C2v", None, 3, 3, 2),
         # tetrahedral M(CO)4: A1 + T2, one IR band (H&S 4.7; Nakamoto)
         ("Ma4", "T-4", "Td", "A1 + T2", 1, 2, 1),
         # square-pyramidal M(CO)5: 2A1 + B1 + E, three IR bands (Nakamoto; from memory)
