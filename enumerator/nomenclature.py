@@ -8,67 +8,77 @@ letter order a > b > c ... for abstract ones), then applies the rule of the
 polyhedron.  Priority numbers are written 1, 2, 3 ...; primed numbers
 (1', 1'') come from the priming convention (below) and rank 1 > 1' > 1'' > 2.
 
-Configuration index (IR-9.3.3), as applied here:
+Configuration index (IR-9.3.3), as applied here.  The rules were checked
+against the printed text of IR-9.3.3 and IR-9.3.4; where the book is
+silent the completion used here is marked "(completion)".
 
-* **SP-4**: one digit, the priority number of the ligating atom trans to
-  the priority-1 atom.  Where several atoms have priority 1, the one whose
-  trans partner has the largest number is the reference (the
-  trans-maximum-difference rule).  cis-[PtCl2(NH3)2] is SP-4-2, trans is
-  SP-4-1.
-* **OC-6**: two digits.  The first is the priority number of the atom trans
-  to the priority-1 atom; these two define the reference axis.  The second
-  is the priority number of the atom trans to the highest-priority atom of
-  the plane perpendicular to that axis.  Where there is a choice (several
-  priority-1 atoms; several highest-priority atoms in the plane), the
-  trans-maximum-difference rule picks the choice whose trans partner has
-  the largest number, first for the axis, then in the plane — here: the
-  lexicographic maximum of the digit pair over all admissible choices.
-  fac-[Co(NH3)3(NO2)3] is OC-6-22, mer is OC-6-21.
-* **SPY-5**: two digits: the apical atom's priority number, then the number
-  of the basal atom trans to the highest-priority basal atom (maximum
-  difference where there is a choice).
-* **TBPY-5** (and the other bipyramids, **PBPY-7**, **HBPY-8**): the
-  priority numbers of the two atoms on the principal axis, the lower first.
-  For PBPY-7 and HBPY-8 these digits do not fix the arrangement round the
-  equator; isomers that share a descriptor are reported as such.
+* **TS-3** (IR-9.3.3.7): one digit, the atom on the stem of the T.
+* **SP-4** (IR-9.3.3.3): one digit, the priority number of the atom trans
+  to the priority-1 atom; where several atoms have priority 1, the largest
+  such number (the "highest numerical value" rule of IR-9.3.3.4, applied
+  alike).  trans-[PtCl2(NCMe)(py)] is SP-4-1.
+* **SS-4** (IR-9.3.3.8): two digits, the atoms separated by the largest
+  angle, the lower first.
+* **OC-6** (IR-9.3.3.4): two digits.  The first is the priority number of
+  the atom trans to the priority-1 atom, the largest one where several
+  atoms have priority 1; these two define the reference axis.  The second
+  is the largest priority number trans to a highest-priority atom of the
+  plane perpendicular to that axis (IR-9.3.4.8, Example 5: OC-6-24).  Where
+  several axes give the same first digit, the one giving the larger second
+  digit is taken (completion).  fac-[Co(NH3)3(NO2)3] is OC-6-22, mer OC-6-21.
+* **SPY-5** (IR-9.3.3.5): the apical atom's priority number, then the
+  largest number trans to a highest-priority basal atom.
+* **TBPY-5, PBPY-7, HBPY-8** (IR-9.3.3.6): the priority numbers of the
+  two atoms on the principal axis, the lower first; for PBPY-7 and HBPY-8
+  a second segment, after a hyphen: the equatorial atoms from the
+  lowest-numbered one round the ring in the direction giving the lower
+  sequence (PBPY-7-34-12342, not 12432).
 * **T-4**: no index; the chirality symbol R or S (IR-9.3.4.2) is given
   from the CIP priorities: viewed with the lowest-priority atom pointing
-  away, 1 -> 2 -> 3 clockwise is R.
-* **TPR-6** (a tool convention modelled on the rules above, from memory,
-  not checked against the Red Book's own text): the reference face is the
-  triangular face whose priority numbers, sorted, are lowest; the index is
-  the three priority numbers of the atoms of the other face that eclipse
-  the reference-face atoms, taken in the order of the reference-face
-  atoms' priorities (maximum difference among ties).
+  away, 1 -> 2 -> 3 clockwise is R (checked against RDKit's CIP labeller).
+* **TPR-6** (IR-9.3.4.9): the preferred triangular face holds more of the
+  highest-priority atoms (its sorted priority numbers are lowest: the
+  tie-break is a completion); the index is derived from the atoms opposite
+  it, cited in the order of the preferred-face atoms they eclipse, largest
+  numbers first among ties (completion: the book prints no TPR-6 index).
 * The other polyhedra (L-2, TP-3, HP-6, CU-8, SAPR-8, IC-12) get their
-  polyhedral symbol only.
+  polyhedral symbol only: IR-9.3.3 gives them no configuration index (an
+  IUPAC Technical Report, Pure Appl. Chem. 2007, 79, 1779, treats CN 7-9;
+  its rules are not implemented here).
 
 Chirality symbols (IR-9.3.4), as applied here:
 
-* **C/A** (OC-6, SPY-5, bipyramids, TPR-6): the centre is viewed from the
-  reference atom on the axis (OC-6: the priority-1 atom of the index;
-  SPY-5: the apical atom; bipyramids: the axial atom of higher priority;
-  TPR-6: the reference face) towards the metal.  Starting at the
-  highest-priority atom of the perpendicular plane (the one used for the
-  index), the atoms of the plane are read clockwise and anticlockwise; the
-  direction whose sequence of priority numbers is lower at the first point
-  of difference is the direction of the sequence: clockwise C,
-  anticlockwise A.  Where the admissible choices give the same lowest
-  sequence both ways, no C/A symbol applies (the centre is then achiral).
-* **Δ/Λ** (IR-9.3.4.11 onwards, the skew-lines convention; section number
-  from memory): two chelate rings are represented by the lines joining
-  their ligating atoms.  When these lines are skew and not orthogonal, one
-  defines the axis of a helix and the other a tangent to it at their
-  common normal; a right-handed helix is Δ, a left-handed one Λ.  It is
-  given for bis- and tris-chelates when every such pair of rings agrees.
+* **C/A** (IR-9.3.4.4 to IR-9.3.4.10): the centre is viewed along the
+  reference axis from its higher-priority atom (OC-6: the priority-1 atom of
+  the index; SPY-5: the apical atom; bipyramids: the axial atom of higher
+  priority).  From *every* highest-priority atom of the perpendicular plane
+  the plane is read clockwise and anticlockwise; the direction whose
+  sequence of priority numbers is lower at the first point of difference
+  gives the symbol: clockwise C, anticlockwise A (IR-9.3.4.8, Example 5
+  is A only when both tied P atoms are tried as the start).  TPR-6: seen
+  from above the preferred face, the sequence round the opposite face.
+  SS-4 (IR-9.3.4.7): seen from the higher-priority atom of the
+  largest-angle pair, the turn from the higher- to the lower-priority of
+  the other two through the smaller angle.  Where the lowest sequence is
+  reached both ways, no C/A symbol applies.
+* **Δ/Λ** (IR-9.3.4.11 to IR-9.3.4.13, the skew-lines convention): two
+  chelate rings are represented by the lines joining their ligating atoms.
+  When these lines are skew and not orthogonal, one defines the axis of a
+  helix and the other a tangent to it at their common normal; a
+  right-handed helix is Δ, a left-handed one Λ.  It is given on OC-6 only
+  (IR-9.3.4.1: the convention is applied to octahedral complexes), for bis-
+  and tris-chelates when every pair of rings agrees; otherwise C/A.
 * The descriptor carries one symbol: R/S on T-4, else Δ/Λ where the
   skew-lines convention applies, else C/A.  All are kept in the detail.
 
-Priming convention (IR-9.3.5; applied as far as recalled): when identical
-polydentate ligands would leave two diastereomers with the same descriptor,
-or a chiral isomer without a symbol, the ligating atoms of one such ligand
-keep their numbers, those of the next are primed, and so on; every
-assignment of primes is tried and the index chosen as above.
+Priming convention (IR-9.3.5.1: primes mark which donor atoms belong to one
+polydentate ligand; an unprimed number outranks the primed one, 2 > 2',
+IR-9.3.4.8): when identical polydentate ligands would leave two
+diastereomers with the same descriptor, or a chiral isomer without a
+symbol, the ligating atoms of one such ligand keep their numbers, those of
+the next are primed, and so on; every assignment of primes is tried and the
+index chosen as above (the detailed IR-9.3.5 priming rules were not
+available to check this against).
 
 Everyday prefixes (SP-4 and OC-6): a set of two identical ligating atoms
 is cis or trans, a set of three on OC-6 fac or mer, a tridentate chelate

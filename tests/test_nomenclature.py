@@ -2,9 +2,11 @@
 
 Source: Nomenclature of Inorganic Chemistry, IUPAC Recommendations 2005
 ("Red Book"), IR-9.3.3 (configuration index) and IR-9.3.4 (chirality
-symbols).  The Red Book text was not at hand: where an example is recalled
-its comment says 'from memory'; where a value is worked by hand from the
-stated rule the comment says 'hand-worked'.
+symbols).  The rules were checked against the printed text; the printed
+worked examples are in tests/test_redbook_examples.py.  Here, where a value
+is worked by hand from the printed rule the comment says 'hand-worked';
+where an example compound or a rule detail is recalled, not read, it says
+'from memory'.
 """
 
 from __future__ import annotations
@@ -66,14 +68,15 @@ def _find(formula: str, geometry: str, placement: dict[str, tuple[int, ...]]):
 
 
 def test_sp4_cis_trans_platin():
-    # IR-9.3.3.2, square planar: cis-[PtCl2(NH3)2] is SP-4-2, trans is SP-4-1 (from memory)
+    # IR-9.3.3.3 rule (section text not read; as for OC-6), hand-worked:
+    # cis-[PtCl2(NH3)2] is SP-4-2, trans is SP-4-1 (the values also from memory)
     d = _real("[PtCl2(NH3)2]", "SP-4")
     got = {x.prefix: x.text for x in d.values()}
     assert got == {"cis": "SP-4-2", "trans": "SP-4-1"}
 
 
 def test_sp4_four_different_ligands():
-    # IR-9.3.3.2: [PtBrCl(NH3)(py)], priorities Br 1 > Cl 2 > py 3 > NH3 4
+    # IR-9.3.3.3: [PtBrCl(NH3)(py)], priorities Br 1 > Cl 2 > py 3 > NH3 4
     # (CIP, hand-worked); the three isomers are SP-4-2, -3, -4 (hand-worked;
     # the example composition is from memory)
     d = _real("[PtBrCl(NH3)(py)]", "SP-4")
@@ -81,8 +84,8 @@ def test_sp4_four_different_ligands():
 
 
 def test_oc6_fac_mer_co_nh3_no2():
-    # IR-9.3.3.4, octahedral: fac-[Co(NH3)3(NO2)3] OC-6-22, mer OC-6-21
-    # (from memory; NO2 (N-bound) priority 1, NH3 2 by CIP)
+    # IR-9.3.3.4, Examples 2 and 3: fac-[Co(NH3)3(NO2)3] OC-6-22, mer OC-6-21
+    # (NO2 (N-bound) priority 1, NH3 2 by CIP)
     d = _real("[Co(NH3)3(NO2)3]", "OC-6")
     got = {x.prefix: x.text for x in d.values()}
     assert got == {"fac": "OC-6-22", "mer": "OC-6-21"}
@@ -90,8 +93,8 @@ def test_oc6_fac_mer_co_nh3_no2():
 
 
 def test_oc6_cis_trans_dichlorobis_en():
-    # IR-9.3.3.4: trans-[CoCl2(en)2]+ OC-6-12; cis OC-6-22 (from memory), the
-    # cis pair Δ/Λ by the skew-lines convention (IR-9.3.4, from memory)
+    # IR-9.3.3.4 rule, hand-worked: trans-[CoCl2(en)2]+ OC-6-12; cis OC-6-22,
+    # the cis pair Δ/Λ by the skew-lines convention (IR-9.3.4.11-13)
     d = _real("[CoCl2(en)2]+", "OC-6")
     texts = sorted(x.text for x in d.values())
     assert texts == ["OC-6-12", "OC-6-22-Δ", "OC-6-22-Λ"]
@@ -106,7 +109,7 @@ def test_oc6_ma2b2c2_all_five_diastereomers():
 
 
 def test_oc6_maximum_difference_rule():
-    # IR-9.3.3.4 trans-maximum-difference: mer-Ma3b3 has an a trans a and an
+    # IR-9.3.3.4 "highest numerical value" rule: mer-Ma3b3 has an a trans a and an
     # a trans b; the reference a is the one trans to b, so 2, then 1 (hand-worked)
     assert _texts("Ma3b3", "OC-6") == ["OC-6-22", "OC-6-21"]
     # Ma4bc: a trans b and a trans c available in the cis isomer: c (3) is chosen
@@ -114,21 +117,21 @@ def test_oc6_maximum_difference_rule():
 
 
 def test_tbpy5_axial_pair():
-    # IR-9.3.3 bipyramids: the two axial priority numbers, lower first
-    # (from memory); [Fe(CO)4(PPh3)]: P 1 > C 2 (CIP): axial PPh3 12, equatorial 22
+    # IR-9.3.3.6 bipyramids: the two axial priority numbers, lower first;
+    # hand-worked for [Fe(CO)4(PPh3)]: P 1 > C 2 (CIP): axial PPh3 12, equatorial 22
     d = _real("[Fe(CO)4(PPh3)]", "TBPY-5")
     assert sorted(x.text for x in d.values()) == ["TBPY-5-12", "TBPY-5-22"]
 
 
 def test_spy5_apical_then_basal():
-    # IR-9.3.3 square pyramid: apical, then trans to the highest basal (from memory):
+    # IR-9.3.3.5 square pyramid: apical, then trans to the highest basal:
     # Ma4b: b basal -> SPY-5-12, b apical -> SPY-5-21 (hand-worked)
     assert sorted(_texts("Ma4b", "SPY-5")) == ["SPY-5-12", "SPY-5-21"]
 
 
 def test_pbpy7_axial_and_equatorial_sequence():
-    # bipyramid rule with the equatorial sequence read from the highest priority
-    # the lower way round (from memory); Ma5b2 hand-worked: b2 axial 22, one axial 12,
+    # IR-9.3.3.6: the equatorial sequence read from the highest priority the
+    # lower way round; Ma5b2 hand-worked: b2 axial 22, one axial 12,
     # both equatorial adjacent 11-11122 or apart 11-11212
     assert sorted(_texts("Ma5b2", "PBPY-7")) == ["PBPY-7-11-11122", "PBPY-7-11-11212", "PBPY-7-12-11112", "PBPY-7-22-11111"]
 
@@ -137,7 +140,7 @@ def test_pbpy7_axial_and_equatorial_sequence():
 
 
 def test_ca_hand_worked_octahedron():
-    # IR-9.3.4 C/A rule (from memory): a on +z and +x, b on +y and -x, c on -y
+    # IR-9.3.4.8 C/A rule, hand-worked: a on +z and +x, b on +y and -x, c on -y
     # and -z.  Axis a(+z) trans c -> 3; in the plane a(+x) trans b -> 2; viewed
     # from +z, +x -> +y (b, the lower number of the two neighbours) is
     # anticlockwise: OC-6-32-A (hand-worked).  Its mirror image is OC-6-32-C.
@@ -185,7 +188,7 @@ def test_t4_r_s_against_rdkit():
 
 
 def test_skew_lines_definition():
-    # IR-9.3.4 skew-lines convention (from memory): axis line and a tangent of a
+    # IR-9.3.4.11, Fig. IR-9.1: one line the helix axis, the other a tangent of a
     # right-handed helix r(t) = (cos t, sin t, t) at t = 0 -> Δ; left-handed -> Λ
     assert skew_lines_sense([0, 0, -1], [0, 0, 1], [1, 0, 0], [1, 1, 1]) == "Delta"
     assert skew_lines_sense([0, 0, -1], [0, 0, 1], [1, 0, 0], [1, 1, -1]) == "Lambda"
@@ -197,7 +200,8 @@ def test_skew_lines_definition():
 
 
 def test_tris_chelate_delta_lambda():
-    # [Co(en)3]3+: one diastereomer OC-6-11, its enantiomers Δ and Λ (from memory)
+    # IR-9.3.4.12 (any two of the three rings decide), hand-worked: [Co(en)3]3+
+    # has one diastereomer OC-6-11 and its enantiomers Δ and Λ
     d = _real("[Co(en)3]3+", "OC-6")
     assert sorted(x.text for x in d.values()) == ["OC-6-11-Δ", "OC-6-11-Λ"]
     # hand-worked: chelates on (+z,+x), (+y,-z)... every pair of chelate lines
@@ -212,7 +216,7 @@ def test_tris_chelate_delta_lambda():
 
 
 def test_bis_dien_priming():
-    # IR-9.3.5 priming convention (from memory): [Co(dien)2]3+ has mer, s-fac
+    # IR-9.3.5.1 priming convention (details from memory): [Co(dien)2]3+ has mer, s-fac
     # and u-fac (chiral) isomers, all told apart (CIP: central NH 1, terminal NH2 2)
     d = _real("[Co(dien)2]3+", "OC-6")
     stereo_free = {x.stereo_free for x in d.values()}
