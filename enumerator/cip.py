@@ -298,10 +298,20 @@ def ring_key(z_sum: int, mass_sum: float) -> BranchKey:
     return BranchKey(((z_sum,), (z_sum,)), ((mass_sum,), (mass_sum,)))
 
 
-def letter_key(letter: str, chelate: bool) -> tuple:
+def letter_key(letter: str, chelate: bool, chain_neighbours: int = 0) -> tuple:
     """Sort key of an abstract ligand letter: smaller = higher priority
-    (a > b > ...; a chelate's A just above the monodentate a)."""
-    return (letter.lower(), 0 if chelate else 1)
+    (a > b > ...; a chelate's A just above the monodentate a; within one
+    letter of a chelate chain, a donor with two chain neighbours above a
+    terminal one, as CIP ranks the NH of dien above its NH2)."""
+    return (letter.lower(), 0 if chelate else 1, -chain_neighbours)
+
+
+def _chain_neighbours(kind: LigandKind, i: int) -> int:
+    """Chain neighbours of donor i of an abstract chelate (donors in chain
+    order; a ring ligand has none that matter)."""
+    if kind.denticity < 2 or kind.ring:
+        return 0
+    return (i > 0) + (i < kind.denticity - 1)
 
 
 def dense_ranks(values: Sequence, *, larger_first: bool = True) -> tuple[int, ...]:
@@ -375,7 +385,7 @@ def _donor_priorities(composition: Composition) -> tuple[tuple[tuple[str, int], 
         for kind in composition.kinds:
             for i, d in enumerate(kind.donors):
                 labels.append((kind.name, i))
-                values.append(letter_key(d, kind.denticity > 1))
+                values.append(letter_key(d, kind.denticity > 1, _chain_neighbours(kind, i)))
         ranks = dense_ranks(values, larger_first=False)
     else:
         keys: list[BranchKey] = []

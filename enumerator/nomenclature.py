@@ -430,8 +430,9 @@ def _skew(isomer: Isomer) -> str | None:
     senses = set()
     g = isomer.geometry
     for (a, b), (c, d) in itertools.combinations(links, 2):
-        if unit[a] == unit[c]:
-            continue
+        if {a, b} & {c, d}:
+            continue  # rings sharing a donor meet: their lines are not skew
+        # rings of one ligand count too (cis-alpha-trien: the two outer rings)
         s = skew_lines_sense(g.vectors[a], g.vectors[b], g.vectors[c], g.vectors[d])
         if s:
             senses.add(s)
@@ -695,6 +696,8 @@ class DescriptorAnalysis:
     primed: bool
     shared: tuple[tuple[str, tuple[str, ...]], ...] = ()
     error: str | None = None
+    #: chiral isomers for which no chirality symbol could be decided
+    no_symbol: tuple[str, ...] = ()
 
     def get(self, isomer_id: str) -> Descriptor | None:
         for k, d in self.descriptors:
@@ -742,6 +745,8 @@ class DescriptorAnalysis:
         }
         if self.error:
             doc["descriptor_rules"]["error"] = self.error
+        if self.no_symbol:
+            doc["descriptor_rules"]["chiral_without_symbol"] = list(self.no_symbol)
         return doc
 
     def columns(self) -> Sequence[Column]:
@@ -766,6 +771,11 @@ class DescriptorAnalysis:
             lines.append(f"IUPAC 2005 IR-9.3; priority numbers from {self.basis}" + ("; priming convention applied" if self.primed else ""))
         for desc, ids in self.shared:
             lines.append(f"{desc} is shared by isomers {', '.join(ids)}: the configuration index does not tell them apart")
+        if self.no_symbol:
+            lines.append(
+                f"isomers {', '.join(self.no_symbol)} are chiral, but neither C/A nor the skew-lines convention decides a "
+                "symbol for them: tell the enantiomers apart by isomer id"
+            )
         return [Section("Descriptors", "\n".join(lines))]
 
 
@@ -786,7 +796,8 @@ def _analysis(isomer_set: IsomerSet) -> DescriptorAnalysis:
         ids.setdefault(key, []).append(iso.id)
     shared = tuple((k, tuple(ids[k])) for k in sorted(by) if len(by[k]) > 1)
     primed = any(d.primed for d in ds.values())
-    return DescriptorAnalysis(tuple((i.id, ds[i.id]) for i in isomer_set.isomers), basis, primed, shared)
+    no_symbol = tuple(i.id for i in isomer_set.isomers if i.chiral and ds[i.id].chirality is None)
+    return DescriptorAnalysis(tuple((i.id, ds[i.id]) for i in isomer_set.isomers), basis, primed, shared, None, no_symbol)
 
 
 def descriptor_stage(res: Result, req) -> DescriptorAnalysis:

@@ -246,7 +246,7 @@ BROAD = {
     "OC-6": [
         "Ma5b", "Ma4b2", "Ma3b3", "Ma3b2c", "Ma2b2c2", "Ma2b2cd", "Ma2bcde", "Mabcdef",
         "M(AA)2b2", "M(AA)3", "M(AB)3", "M(AA)2bc", "M(AB)2c2", "M(AB)2cd", "M(AA)(BC)de",
-        "M(AAA)b3", "M(ABA)b3", "M(ABC)def", "M(ABA)2", "M(ABC)2", "M(AA)(AB)cd", "M(AB)(CD)ef",
+        "M(AAA)b3", "M(ABA)b3", "M(ABC)def", "M(ABA)2", "M(ABC)2", "M(AAA)2", "M(AAAA)b2", "M(AA)(AB)cd", "M(AB)(CD)ef",
         "M(ring)abc",
     ],
     "TPR-6": ["Ma4b2", "Ma3b3", "Ma2b2c2", "Mabcdef", "M(AA)3", "M(AA)2b2", "M(AB)3"],
@@ -276,15 +276,23 @@ def test_round_trip(geometry, formula):
 
 
 def test_limits_are_reported_not_hidden():
-    # abstract (AAA): its three donors carry one letter, so u-fac and s-fac
-    # cannot be ranked apart (the real [Co(dien)2]3+ can, above); the analysis
-    # must say the descriptor is shared
-    res = analyse("M(AAA)2", geometry="OC-6")
+    # polyhedra without a configuration-index rule get the polyhedral symbol
+    # only, and the analysis says the descriptor is shared
+    assert set(_texts("Ma6b2", "CU-8")) == {"CU-8"}
+    res = analyse("Ma6b2", geometry="CU-8")
     a = res.analysis(DescriptorAnalysis)
     assert a.shared
     assert "shared" in a.sections()[0].text
-    # polyhedra without a configuration-index rule get the polyhedral symbol only
-    assert set(_texts("Ma6b2", "CU-8")) == {"CU-8"}
+
+
+def test_abstract_tridentate_ranks_like_dien():
+    # letter convention (this tool's): within one letter of a chelate chain a
+    # donor with two chain neighbours ranks above a terminal one, as CIP ranks
+    # the NH of dien above its NH2; so M(AAA)2 gets the descriptors the CIP
+    # rules give [Co(dien)2]3+ (test_bis_dien_priming)
+    letters = sorted(_texts("M(AAA)2", "OC-6"))
+    real = sorted(d.text for d in _real("[Co(dien)2]3+", "OC-6").values())
+    assert letters == real and len(set(letters)) == 4
 
 
 # ------------------------------------------------------------ look-up, JSON, CLI
@@ -376,3 +384,28 @@ def test_isotopologue_is_ranked_by_rule_two():
     d = _real("[Mn(CO)4(13CO)Br]", "OC-6")
     assert sorted(x.text for x in d.values()) == ["OC-6-23", "OC-6-33"]
     assert {"1", "2", "3"} == set(next(iter(d.values())).priorities.values())
+
+
+def test_trien_outer_rings_give_delta_lambda():
+    # IR-9.3.4.8: the skew-lines convention covers bis(bidentate) and closely
+    # related systems; in cis-alpha-[CoCl2(trien)]+ the two outer chelate rings
+    # of the one tetradentate ligand are skew, and its enantiomers are named
+    # Δ and Λ in the literature (from memory).  Rings sharing a donor never count.
+    d = _real("[Co(trien)Cl2]+", "OC-6")
+    chiral = sorted(x.text for x in d.values() if x.chirality)
+    assert len(chiral) == 4 and {t[-1] for t in chiral} == {"Δ", "Λ"}
+    assert len({x.stereo_free for x in d.values()}) == 3  # cis-alpha, cis-beta, trans
+
+
+def test_chiral_without_symbol_is_reported():
+    # one linear hexadentate chain of identical letters: some chiral isomers
+    # get no C/A (tied sequences) and no consistent skew-lines sense; the
+    # analysis must say so rather than print a bare descriptor silently
+    res = analyse("M(AAAAAA)", geometry="OC-6")
+    a = res.analysis(DescriptorAnalysis)
+    chiral = {i.id for i in res.isomer_set.isomers if i.chiral}
+    assert a.no_symbol and set(a.no_symbol) <= chiral
+    assert "chiral_without_symbol" in a.top_json()["descriptor_rules"]
+    assert "tell the enantiomers apart by isomer id" in a.sections()[0].text
+    # and nothing is reported where every chiral isomer has its symbol
+    assert not analyse("[Co(en)3]3+", geometry="OC-6").analysis(DescriptorAnalysis).no_symbol
