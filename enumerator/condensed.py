@@ -73,9 +73,10 @@ def _spellings_by_length(rules: RuleSet) -> tuple[tuple[str, str], ...]:
 
 
 class _Parser:
-    def __init__(self, text: str, rules: RuleSet) -> None:
+    def __init__(self, text: str, rules: RuleSet, suggest: bool = True) -> None:
         self.text = text
         self.rules = rules
+        self.suggest = suggest
         self.entries = load_ligands(rules)
         self.spellings = _spellings_by_length(rules)
         self.exact = all_spellings(rules)
@@ -117,7 +118,7 @@ class _Parser:
             return _err(self.text, i, "the formula ends where a ligand should follow", "write the ligand after the prefix, e.g. η5-Cp")
         m = _WORD.match(self.text, i, end)
         word = m.group(0) if m else self.text[i]
-        near = closest_names(word, self.exact)
+        near = closest_names(word, self.exact) if self.suggest else []
         hint = f"did you mean {', '.join(near)}?" if near else "see the catalogue with: isosieve ligands"
         return _err(self.text, i, f"unknown ligand '{word}'", hint + " (add your own in a ligands.toml under --rules DIR)")
 
@@ -220,12 +221,16 @@ def _split_charge(text: str) -> tuple[int, int, int]:
     return start + 1, close, charge
 
 
-def parse_condensed(text: str, rules: RuleSet) -> Composition:
-    """Parse a condensed formula of a mononuclear complex (see module docstring)."""
+def parse_condensed(text: str, rules: RuleSet, suggest: bool = True) -> Composition:
+    """Parse a condensed formula of a mononuclear complex (see module docstring).
+
+    ``suggest=False`` leaves the "did you mean" names out of an unknown-ligand
+    error: for a caller that only tries the condensed reading and discards
+    the error (the fuzzy match costs far more than the parse)."""
     if not text or not text.strip():
         raise InputError("empty formula", "give a formula such as [RuCl2(CO)2(PPh3)2]")
     start, stop, charge = _split_charge(text)
-    p = _Parser(text.replace("−", "-"), rules)
+    p = _Parser(text.replace("−", "-"), rules, suggest)
     toks = p.sequence(start, stop, top=True)
     metals = [t for t in toks if t.metal]
     if not metals:

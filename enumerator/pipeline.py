@@ -57,6 +57,8 @@ STAGES: tuple[str, ...] = (
 
 #: Element symbols that begin like the abstract notation's 'M' + a letter.
 _M_ELEMENTS = frozenset({"Mn", "Mo", "Mg", "Mt", "Md", "Mc"})
+#: Of those, the ones a real formula is likely to start with.
+_COMMON_M_ELEMENTS = frozenset({"Mn", "Mo", "Mg"})
 
 
 def parse_formula(text: str, rules: RuleSet) -> Composition:
@@ -69,20 +71,22 @@ def parse_formula(text: str, rules: RuleSet) -> Composition:
         # catalogue reads as a real formula is taken as one; otherwise it is
         # the letter notation.
         head = text.strip().lstrip("[")[:2]
+        from .condensed import parse_condensed
+
         if head in _M_ELEMENTS:
             try:
-                from .condensed import parse_condensed
-
-                return parse_condensed(text, rules)
+                return parse_condensed(text, rules, suggest=False)
             except InputError:
                 pass
         try:
             return parse_abstract(text)
         except InputError as abstract_error:
-            try:
-                from .condensed import parse_condensed
-
+            if head in _COMMON_M_ELEMENTS:
+                # neither reading works: for Mn/Mo/Mg the real formula is the
+                # likely intent, so its error (with suggestions) is the useful one
                 return parse_condensed(text, rules)
+            try:
+                return parse_condensed(text, rules, suggest=False)
             except InputError:
                 raise abstract_error from None
     try:
