@@ -44,7 +44,7 @@ __all__ = ["LigandEntry", "load_ligands", "find_ligand", "all_spellings", "REPOR
 REPORTER_NAME = re.compile(r"^[A-Z][A-Za-z0-9]{0,7}$")
 
 _REQUIRED = ("name", "label", "smiles", "donors", "denticity", "charge", "electrons_covalent", "electrons_ionic")
-_OPTIONAL = ("aliases", "hapticity", "ring", "spans", "arrangements", "reporter", "nitrosyl", "note", "source")
+_OPTIONAL = ("aliases", "hapticity", "ring", "spans", "arrangements", "reporter", "nitrosyl", "note", "source", "iupac", "enclose")
 _NAME = re.compile(r"^[^\s\[\]]{1,32}$")
 
 
@@ -69,6 +69,9 @@ class LigandEntry:
     nitrosyl: str | None = None
     note: str = ""
     source: str = ""
+    #: name in an IUPAC additive name (None: not nameable) and whether it is enclosed
+    iupac: str | None = None
+    enclose: bool = False
 
     @property
     def bound_atoms(self) -> int:
@@ -89,6 +92,9 @@ class LigandEntry:
             d["hapticity"] = self.hapticity
         if self.nitrosyl:
             d["nitrosyl"] = self.nitrosyl
+        if self.iupac:
+            d["iupac"] = self.iupac
+            d["enclose"] = self.enclose
         return tuple(sorted(d.items()))
 
     def kind(self) -> LigandKind:
@@ -207,6 +213,14 @@ def _parse_entry(data: Mapping[str, Any], where: str) -> LigandEntry:
     note = data.get("note", "")
     if not isinstance(note, str):
         raise _fail(where, "'note' must be a string", "quote it")
+    iupac = data.get("iupac")
+    if iupac is not None and (not isinstance(iupac, str) or not iupac.strip() or iupac != iupac.strip()):
+        raise _fail(where, "'iupac' must be a non-empty name without surrounding spaces", 'write e.g. iupac = "triphenylphosphane"')
+    enclose = data.get("enclose", False)
+    if not isinstance(enclose, bool):
+        raise _fail(where, "'enclose' must be true or false", "write enclose = true")
+    if enclose and iupac is None:
+        raise _fail(where, "'enclose' without 'iupac'", 'give the name too, e.g. iupac = "pyridine"')
     smiles = data["smiles"]
     if not isinstance(smiles, str) or not smiles.strip():
         raise _fail(where, "'smiles' must be a non-empty string", 'write e.g. smiles = "[C-:1]#[O+]"')
@@ -214,7 +228,7 @@ def _parse_entry(data: Mapping[str, Any], where: str) -> LigandEntry:
         name=name, label=label.strip(), smiles=smiles.strip(), donors=donors, denticity=dent, charge=charge,
         electrons_covalent=e_cov, electrons_ionic=e_ion, aliases=aliases, hapticity=hapticity, ring=ring,
         spans=spans, arrangements=tuple(sorted(arr)), reporter=reporter, nitrosyl=nitrosyl, note=note,
-        source=str(data.get("source", "")),
+        source=str(data.get("source", "")), iupac=iupac, enclose=enclose,
     )
     check_smiles(entry, where)
     return entry

@@ -698,6 +698,9 @@ class DescriptorAnalysis:
     error: str | None = None
     #: chiral isomers for which no chirality symbol could be decided
     no_symbol: tuple[str, ...] = ()
+    #: IUPAC additive names by isomer id (real formulas), or why there are none
+    names: tuple[tuple[str, str], ...] = ()
+    name_note: str | None = None
 
     def get(self, isomer_id: str) -> Descriptor | None:
         for k, d in self.descriptors:
@@ -733,6 +736,7 @@ class DescriptorAnalysis:
             "descriptor": d.text,
             "priorities": {str(i + 1): p for i, p in d.priority_pairs},
             "descriptor_detail": detail,
+            "name": dict(self.names).get(isomer_id),
         }
 
     def top_json(self) -> Mapping[str, Any]:
@@ -747,6 +751,8 @@ class DescriptorAnalysis:
             doc["descriptor_rules"]["error"] = self.error
         if self.no_symbol:
             doc["descriptor_rules"]["chiral_without_symbol"] = list(self.no_symbol)
+        if self.name_note:
+            doc["descriptor_rules"]["names"] = self.name_note
         return doc
 
     def columns(self) -> Sequence[Column]:
@@ -761,6 +767,11 @@ class DescriptorAnalysis:
         cols = [Column("descriptor", values, latex)]
         if any(d.prefix for _, d in self.descriptors):
             cols.append(Column("prefix", {k: d.prefix or "-" for k, d in self.descriptors}))
+        if self.names:
+            from .render.tables import latex_escape
+
+            names = dict(self.names)
+            cols.append(Column("IUPAC name", names, {k: latex_escape(v) for k, v in names.items()}, wide=True))
         return cols
 
     def sections(self) -> Sequence[Section]:
@@ -776,7 +787,13 @@ class DescriptorAnalysis:
                 f"isomers {', '.join(self.no_symbol)} are chiral, but neither C/A nor the skew-lines convention decides a "
                 "symbol for them: tell the enantiomers apart by isomer id"
             )
-        return [Section("Descriptors", "\n".join(lines))]
+        out = [Section("Descriptors", "\n".join(lines))]
+        if self.names:
+            width = max(len(k) for k, _ in self.names)
+            out.append(Section("IUPAC names (IR-9.2, descriptor of IR-9.3 in front)", "\n".join(f"{k:<{width}}  {v}" for k, v in self.names)))
+        elif self.name_note:
+            out.append(Section("IUPAC names", f"not given: {self.name_note}"))
+        return out
 
 
 def _analysis(isomer_set: IsomerSet) -> DescriptorAnalysis:
@@ -800,11 +817,30 @@ def _analysis(isomer_set: IsomerSet) -> DescriptorAnalysis:
     return DescriptorAnalysis(tuple((i.id, ds[i.id]) for i in isomer_set.isomers), basis, primed, shared, None, no_symbol)
 
 
+def _with_names(a: DescriptorAnalysis, res: Result, req) -> DescriptorAnalysis:
+    """Add the additive names (real formulas only; see enumerator.naming)."""
+    from .naming import additive_name
+    from .rules import load_rules
+
+    comp = res.composition
+    if comp.metal == "M" or a.error or not a.descriptors:
+        return a
+    rules = load_rules(getattr(req, "rules", ()) or ())
+    several = res.isomer_set.stereoisomers > 1
+    names = []
+    for k, d in a.descriptors:
+        n = additive_name(comp, rules, d.text if several else None)
+        if n.name is None:
+            return replace(a, name_note=n.reason)
+        names.append((k, n.name))
+    return replace(a, names=tuple(names))
+
+
 def descriptor_stage(res: Result, req) -> DescriptorAnalysis:
     """Pipeline stage: descriptors for every isomer.  With the request
     option ``pick`` it checks that some isomer matches (InputError listing
     the descriptors present otherwise); :func:`select_isomers` then keeps them."""
-    a = _analysis(res.isomer_set)
+    a = _with_names(_analysis(res.isomer_set), res, req)
     pick = req.option("pick") if hasattr(req, "option") else None
     if pick:
         _picked(a, res, pick)

@@ -27,11 +27,13 @@ class Column:
     """One extra table column: a header and a cell per isomer id.
 
     ``latex`` optionally gives the cells typeset for LaTeX (else they are
-    escaped as plain text)."""
+    escaped as plain text).  A ``wide`` column (a full name) is left out of
+    the terminal table and kept in the written tables and the report."""
 
     header: str
     values: Mapping[str, str]
     latex: Mapping[str, str] | None = None
+    wide: bool = False
 
 
 @dataclass(frozen=True)

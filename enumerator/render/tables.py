@@ -37,7 +37,8 @@ _GREEK = {"Sigma": r"\Sigma", "Pi": r"\Pi", "Delta": r"\Delta", "Phi": r"\Phi"}
 def latex_escape(text: str) -> str:
     """Plain text made safe for LaTeX."""
     rep = {"\\": r"\textbackslash{}", "&": r"\&", "%": r"\%", "$": r"\$", "#": r"\#", "_": r"\_",
-           "{": r"\{", "}": r"\}", "~": r"\textasciitilde{}", "^": r"\textasciicircum{}", "η": r"$\eta$", "×": r"$\times$"}
+           "{": r"\{", "}": r"\}", "~": r"\textasciitilde{}", "^": r"\textasciicircum{}", "η": r"$\eta$", "×": r"$\times$",
+           "κ": r"$\kappa$", "′": r"$'$", "″": r"$''$", "Δ": r"$\Delta$", "Λ": r"$\Lambda$", "−": r"$-$"}
     return "".join(rep.get(ch, ch) for ch in text)
 
 

@@ -42,10 +42,11 @@ def occupancy(iso: Isomer) -> str:
     return " ".join(f"{n}:{','.join(groups[n])}" for n in order)
 
 
-def isomer_rows(res: Result) -> tuple[list[str], list[list[str]]]:
+def isomer_rows(res: Result, wide: bool = True) -> tuple[list[str], list[list[str]]]:
     """Header and rows of the isomer table, every analysis's columns included
-    (shared by the terminal table and the report)."""
-    extra = [c for a in res.analyses for c in a.columns()]
+    (shared by the terminal table and the report; ``wide=False`` leaves out
+    the wide columns, for the terminal)."""
+    extra = [c for a in res.analyses for c in a.columns() if wide or not c.wide]
     header = ["isomer", "point group", "chiral", "enantiomer", *[c.header for c in extra], "sites (ligand:site numbers)"]
     rows = []
     for iso in res.isomers:
@@ -61,7 +62,7 @@ def isomer_rows(res: Result) -> tuple[list[str], list[list[str]]]:
 
 
 def isomer_table(res: Result) -> str:
-    return table(*isomer_rows(res))
+    return table(*isomer_rows(res, wide=False))
 
 
 def render(res: Result) -> str:
