@@ -366,15 +366,15 @@ def _ts3(g: Geometry, r: Mapping[int, Rank]) -> list[_Choice]:
 _RULES = {"SP-4": _sp4, "SS-4": _ss4, "TS-3": _ts3, "OC-6": _oc6, "SPY-5": _spy5, "TPR-6": _tpr6, **{b: _bipyramid for b in _BIPYRAMIDS}}
 
 _RULE_TEXT = {
-    "SP-4": "IR-9.3.3 (SP-4): trans to priority 1, maximum difference",
-    "OC-6": "IR-9.3.3 (OC-6): trans to priority 1, then trans to the highest in the perpendicular plane, maximum difference",
-    "SPY-5": "IR-9.3.3 (SPY-5): apical, then trans to the highest basal, maximum difference",
-    "TBPY-5": "IR-9.3.3 (bipyramids): the two axial priority numbers, lower first",
-    "PBPY-7": "IR-9.3.3 (bipyramids): the two axial priority numbers, lower first",
-    "HBPY-8": "IR-9.3.3 (bipyramids): the two axial priority numbers, lower first",
+    "SP-4": "IR-9.3.3.3 (SP-4): the atom trans to priority 1, the highest number where there is a choice",
+    "OC-6": "IR-9.3.3.4 (OC-6): trans to priority 1, then trans to the highest in the perpendicular plane, the highest number where there is a choice; C/A IR-9.3.4.8",
+    "SPY-5": "IR-9.3.3.5 (SPY-5): apical, then trans to the highest basal, the highest number where there is a choice; C/A IR-9.3.4.6",
+    "TBPY-5": "IR-9.3.3.6 (bipyramids): the two axial priority numbers, lower first; C/A IR-9.3.4.5",
+    "PBPY-7": "IR-9.3.3.6 (bipyramids): the two axial priority numbers, lower first, then the equatorial sequence, lower way round; C/A IR-9.3.4.10",
+    "HBPY-8": "IR-9.3.3.6 (bipyramids): the two axial priority numbers, lower first, then the equatorial sequence, lower way round; C/A IR-9.3.4.10",
     "TPR-6": "IR-9.3.4.9 (TPR-6): atoms opposite the preferred face, cited in the order of the face (order: tool completion)",
-    "T-4": "IR-9.3.4 (T-4): R/S from the CIP priorities",
-    "SS-4": "IR-9.3.3.8 (SS-4): the two atoms at the largest angle, lower first",
+    "T-4": "IR-9.3.4.2 (T-4): R/S from the CIP priorities",
+    "SS-4": "IR-9.3.3.8 (SS-4): the two atoms at the largest angle, lower first; C/A IR-9.3.4.7",
     "TS-3": "IR-9.3.3.7 (TS-3): the atom on the stem of the T",
 }
 
