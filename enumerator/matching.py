@@ -18,10 +18,19 @@ method).  Then:
    (within ``tolerance`` of a matched band, so the two would appear as
    one).  Each strong, separate predicted band that is not seen, and each
    measured band with no predicted partner, is a count problem.
-3. **Rank.**  Candidates sort by count problems, then by the RMS residual
-   after the shift; ties keep isomer order.  Each ranking is explained in
-   words, and when the bands are enough a full force-constant fit (kt = 2 kc)
-   is added.
+3. **Intensities** (when the measured bands carry them, as written in a
+   paper: ``2045 (s), 1980 (vs), 1932 (m)``).  Over the assigned bands, the
+   measured and the predicted (bond-dipole) intensities are each scaled to
+   their strongest band, and the misfit is the mean absolute difference.
+   Words map to numbers by common practice: vs 1.0, s 0.75, m 0.5, w 0.25,
+   vw 0.1 (sh alone 0.25; br ignored); a number is taken as it is.
+4. **Rank.**  Candidates sort by count problems, then by the score
+   RMS/tolerance + misfit/0.25 (without intensities: the RMS alone), so a
+   difference of 0.25 in relative intensity weighs as much as one
+   tolerance of position residual (a tool convention: solution IR
+   intensities are semi-quantitative); ties keep isomer order.  Each ranking
+   is explained in words, and when the bands are enough a full
+   force-constant fit (kt = 2 kc) is added.
 
 The default constants are typical values, so the absolute positions are
 rough; the explanation says how large a shift was needed.
@@ -41,6 +50,7 @@ from __future__ import annotations
 
 import itertools
 import math
+import re
 from dataclasses import dataclass
 from typing import Sequence
 
@@ -51,7 +61,7 @@ from .forcefield import Band, BandPattern, band_pattern, reporter_classes
 from .isomers import Isomer, IsomerSet
 from .rules import RuleSet
 
-__all__ = ["Candidate", "MatchResult", "match_bands", "DEFAULT_TOLERANCE", "DEFAULT_WEAK"]
+__all__ = ["Candidate", "MatchResult", "match_bands", "parse_measured", "DEFAULT_TOLERANCE", "DEFAULT_WEAK", "INTENSITY_WORDS"]
 
 #: cm^-1: bands closer than this are taken as coincident, and a match within it as good
 #: (common practice: solution IR bands of carbonyls are some 5-15 cm-1 wide).
@@ -60,6 +70,72 @@ DEFAULT_TOLERANCE = 10.0
 DEFAULT_WEAK = 0.05
 
 _MAX_TRIES = 5040
+#: Relative intensity of the words used in papers (common practice; semi-quantitative).
+INTENSITY_WORDS = {"vs": 1.0, "s": 0.75, "m": 0.5, "w": 0.25, "vw": 0.1, "sh": 0.25}
+#: A difference of this much in relative intensity weighs as one tolerance of residual.
+INTENSITY_WEIGHT = 0.25
+
+
+def _split_outside_parentheses(text: str) -> list[str]:
+    out, depth, cur = [], 0, ""
+    for ch in text:
+        if ch == "(":
+            depth += 1
+        elif ch == ")":
+            depth = max(0, depth - 1)
+        if ch in ",;" and depth == 0:
+            out.append(cur)
+            cur = ""
+        else:
+            cur += ch
+    out.append(cur)
+    return [p.strip() for p in out if p.strip()]
+
+
+def parse_measured(text: str, option: str = "--bands") -> tuple[tuple[float, float | None], ...]:
+    """Measured bands as written in a paper, with optional intensities:
+    '2045 (s), 1980 (vs), 1932 (m, br)' or '2045(0.8),1980' or plain
+    '2045,1980,1932' -> ((wavenumber, relative intensity or None), ...).
+
+    >>> parse_measured("2045 (s), 1980 (vs), 1932 (m, br), 1900")
+    ((2045.0, 0.75), (1980.0, 1.0), (1932.0, 0.5), (1900.0, None))
+    """
+    out = []
+    for part in _split_outside_parentheses(text):
+        m = re.fullmatch(r"(\d+(?:\.\d*)?)\s*(?:\(([^()]*)\)|([A-Za-z]+))?\s*(?:cm-1|cm−1)?", part)
+        if not m:
+            raise InputError(f"{option}: '{part}' is not a wavenumber with an optional intensity",
+                             f"write e.g. {option} \"2045 (s), 1980 (vs), 1932 (m)\" or {option} 2045,1980,1932")
+        v = float(m.group(1))
+        if not math.isfinite(v) or v <= 0:
+            raise InputError(f"{option}: '{part}' is not a wavenumber", f"write e.g. {option} 2045,1980,1932")
+        words = m.group(2) if m.group(2) is not None else m.group(3)
+        out.append((v, _intensity(words, part, option)))
+    if not out:
+        raise InputError(f"{option}: no wavenumbers given", f"write e.g. {option} 2045,1980,1932")
+    return tuple(out)
+
+
+def _intensity(words: str | None, part: str, option: str) -> float | None:
+    if words is None or not words.strip():
+        return None
+    toks = [t for t in re.split(r"[\s,]+", words.strip().lower()) if t]
+    try:
+        x = float(toks[0])
+    except ValueError:
+        x = None
+    if x is not None:
+        if len(toks) > 1 or not math.isfinite(x) or x <= 0:
+            raise InputError(f"{option}: '{part}': the intensity must be one positive number or words", "write e.g. 1980 (0.8) or 1980 (s)")
+        return x
+    known = [INTENSITY_WORDS[t] for t in toks if t in INTENSITY_WORDS and t != "sh"]
+    other = [t for t in toks if t not in INTENSITY_WORDS and t not in ("br", "b")]
+    if other:
+        raise InputError(f"{option}: '{part}': unknown intensity word '{other[0]}'",
+                         "use vs, s, m, w, vw (and sh, br), or a number")
+    if known:
+        return known[0]
+    return INTENSITY_WORDS["sh"] if "sh" in toks else None
 
 
 @dataclass(frozen=True)
@@ -84,6 +160,11 @@ class Candidate:
     fit: dict | None
     fit_note: str | None
     explanation: str
+    #: mean |measured - predicted| relative intensity over the assigned bands (None: not given)
+    intensity_misfit: float | None = None
+    #: (measured, measured relative intensity, predicted relative intensity) per assigned band
+    intensities: tuple[tuple[float, float, float], ...] = ()
+    score: float = 0.0
 
     def to_json(self) -> dict:
         return {
@@ -111,6 +192,12 @@ class Candidate:
             "count_problems": self.problems,
             "fit": self.fit,
             "fit_note": self.fit_note,
+            "intensity_misfit": None if self.intensity_misfit is None else round(self.intensity_misfit, 3),
+            "intensities": [
+                {"measured": round(m, 1), "measured_relative": round(a, 3), "predicted_relative": round(b, 3)}
+                for m, a, b in self.intensities
+            ],
+            "score": round(self.score, 3),
             "explanation": self.explanation,
         }
 
@@ -123,11 +210,13 @@ class MatchResult:
     weak: float
     candidates: tuple[Candidate, ...]
     notes: tuple[str, ...] = ()
+    measured_intensity: tuple[float | None, ...] = ()
 
     def to_json(self) -> dict:
         return {
             "reporter_class": self.reporter_class,
             "measured": [round(x, 1) for x in self.measured],
+            "measured_intensity": [None if x is None else round(x, 3) for x in self.measured_intensity] or [None] * len(self.measured),
             "tolerance": self.tolerance,
             "weak_threshold": self.weak,
             "candidates": [c.to_json() for c in self.candidates],
@@ -307,6 +396,12 @@ def _explain(c: Candidate, reporter_class: str, n_measured: int, tolerance: floa
     if c.extra_measured:
         xs = ", ".join(f"{x:g}" for x in c.extra_measured)
         parts.append(f"Measured band{'s' if len(c.extra_measured) > 1 else ''} {xs} cm-1 {'have' if len(c.extra_measured) > 1 else 'has'} no partner: this isomer has too few IR-active bands (unless {'they are' if len(c.extra_measured) > 1 else 'it is'} from an impurity, an overtone, a 13CO satellite or another species).")
+    if c.intensity_misfit is not None:
+        rel = ", ".join(f"{m:g} {a:.2f}/{b:.2f}" for m, a, b in c.intensities)
+        parts.append(
+            f"Relative intensities, measured/predicted (strongest = 1): {rel}; mean difference {c.intensity_misfit:.2f}"
+            f" (adds {c.intensity_misfit / INTENSITY_WEIGHT:.1f} to the score)."
+        )
     if c.problems == 0:
         parts.append("Count: consistent.")
     else:
@@ -331,9 +426,12 @@ def match_bands(
     weak: float = DEFAULT_WEAK,
     rules: RuleSet | None = None,
     descriptors: dict[str, str] | None = None,
+    intensities: Sequence[float | None] | None = None,
 ) -> MatchResult:
     """Rank the geometric isomers of ``isomer_set`` against measured
-    wavenumbers of one reporter class (None: the only class present)."""
+    wavenumbers of one reporter class (None: the only class present);
+    ``intensities`` optionally gives each measured band's relative
+    intensity (None where unknown), in the order of ``measured``."""
     if not measured:
         raise InputError("no measured bands", "give e.g. --bands 2045,1980,1932")
     if tolerance <= 0:
@@ -349,7 +447,13 @@ def match_bands(
         reporter_class = classes[0]
     elif reporter_class not in classes:
         raise InputError(f"{isomer_set.composition.formula} has no {reporter_class} reporter", f"reporters here: {', '.join(classes) or 'none'}")
-    meas = tuple(sorted((float(x) for x in measured), reverse=True))
+    if intensities is not None and len(intensities) != len(measured):
+        raise InputError(f"{len(intensities)} intensities for {len(measured)} bands", "give one intensity (or none) per band")
+    pairs = sorted(zip((float(x) for x in measured), intensities or [None] * len(measured)), key=lambda p: -p[0])
+    meas = tuple(p[0] for p in pairs)
+    meas_int = tuple(None if p[1] is None else float(p[1]) for p in pairs)
+    if any(x is not None and (not math.isfinite(x) or x <= 0) for x in meas_int):
+        raise InputError("a measured intensity is not a positive number", "give e.g. 2045 (s) or 2045 (0.8)")
     groups: dict[int, list[Isomer]] = {}
     for iso in isomer_set.isomers:
         groups.setdefault(iso.number, []).append(iso)
@@ -358,18 +462,43 @@ def match_bands(
         isos = groups[number]
         desc = (descriptors or {}).get(isos[0].id)
         cands.append(_evaluate_candidate(isos, reporter_class, meas, tolerance, weak, desc, rules))
-    order = sorted(range(len(cands)), key=lambda k: (cands[k].problems, round(cands[k].rms, 3), k))
-    ranked = []
     from dataclasses import replace
 
+    cands = [_with_intensities(c, meas, meas_int, tolerance) for c in cands]
+    order = sorted(range(len(cands)), key=lambda k: (cands[k].problems, round(cands[k].score, 3), k))
+    ranked = []
     for r, k in enumerate(order, start=1):
         c = replace(cands[k], rank=r)
         ranked.append(replace(c, explanation=_explain(c, reporter_class, len(meas), tolerance)))
     notes = []
-    if len(ranked) > 1 and ranked[0].problems == ranked[1].problems and abs(ranked[0].rms - ranked[1].rms) < tolerance / 2:
+    given = any(x is not None for x in meas_int)
+    if len(ranked) > 1 and ranked[0].problems == ranked[1].problems and abs(ranked[0].score - ranked[1].score) < 0.5:
         notes.append(
-            f"the top two candidates ({'/'.join(ranked[0].isomers)} and {'/'.join(ranked[1].isomers)}) agree about equally well: "
-            "band intensities, other reporters, Raman or NMR may decide"
+            f"the top two candidates ({'/'.join(ranked[0].isomers)} and {'/'.join(ranked[1].isomers)}) agree about equally well"
+            + (" (intensities included): other reporters, Raman or NMR may decide" if given else
+               ": the measured intensities (e.g. --bands \"2045 (s), 1980 (vs)\"), other reporters, Raman or NMR may decide")
         )
     notes.append("positions come from typical default constants (rules/forcefields.toml); the common shift absorbs the overall level")
-    return MatchResult(reporter_class, meas, float(tolerance), float(weak), tuple(ranked), tuple(notes))
+    return MatchResult(reporter_class, meas, float(tolerance), float(weak), tuple(ranked), tuple(notes), meas_int)
+
+
+def _with_intensities(c: Candidate, meas: Sequence[float], meas_int: Sequence[float | None], tolerance: float) -> Candidate:
+    """The candidate with its intensity misfit and ranking score (module docstring, steps 3-4)."""
+    from dataclasses import replace
+
+    pool: dict[float, list[float | None]] = {}
+    for v, x in zip(meas, meas_int):
+        pool.setdefault(v, []).append(x)
+    pred = {b.name: b.intensity for b in c.predicted}
+    rows = []
+    for m, name, _, _ in c.assignment:
+        x = pool.get(m, [None]).pop(0) if pool.get(m) else None
+        if x is not None and pred.get(name) is not None:
+            rows.append((m, x, float(pred[name])))
+    misfit, shown = None, ()
+    if len(rows) >= 2 and max(r[2] for r in rows) > 0:
+        top_m, top_p = max(r[1] for r in rows), max(r[2] for r in rows)
+        shown = tuple((m, a / top_m, b / top_p) for m, a, b in rows)
+        misfit = sum(abs(a - b) for _, a, b in shown) / len(shown)
+    score = c.rms / tolerance + (misfit / INTENSITY_WEIGHT if misfit is not None else 0.0)
+    return replace(c, intensity_misfit=misfit, intensities=shown, score=score)

@@ -9,7 +9,8 @@ from .common import emit, parse_pairs, rules_of
 
 @click.command("match")
 @click.argument("formula")
-@click.option("--bands", "bands_text", required=True, metavar="CM-1,...", help="Measured band positions, e.g. 2045,1980,1932.")
+@click.option("--bands", "bands_text", required=True, metavar="CM-1,...",
+              help='Measured bands, optionally with intensities as written in a paper: 2045,1980,1932 or "2045 (s), 1980 (vs), 1932 (m)" (vs s m w vw sh br, or a number).')
 @click.option("--tolerance", type=click.FloatRange(min=0.1), default=10.0, show_default=True, help="Bands closer than this (cm-1) count as coincident; a match within it as good.")
 @click.option("--weak", type=click.FloatRange(min=0.0, max=0.99), default=0.05, show_default=True, help="Predicted bands below this relative intensity may go unseen.")
 @click.option("-g", "--geometry", metavar="SYMBOL", help="Polyhedral symbol, e.g. OC-6 (default: chosen from the formula).")
@@ -22,28 +23,30 @@ from .common import emit, parse_pairs, rules_of
 def match(ctx, formula, bands_text, tolerance, weak, geometry, reporters, klass, plot, as_json, out):
     """Rank the isomers of FORMULA by how well they explain measured
     stretching bands: band count (allowing weak or coincident bands) and
-    pattern fit after one common shift of the stretching constants.
+    pattern fit after one common shift of the stretching constants, and,
+    when the bands carry intensities, how well the relative intensities agree.
 
     \b
     Examples:
       isosieve match "[Mo(CO)3(PPh3)3]" --bands 1950,1860,1840
       isosieve match Ma3b3 --reporter a=CO --bands 2050,1975,1947 --json
       isosieve match Ma4b2 --reporter a=CO --bands 2030,1940,1915 --tolerance 15 --plot match.svg
+      isosieve match "[Mo(CO)3(PPh3)3]" --bands "1950 (m), 1860 (vs), 1840 (s)"
     """
     from ..errors import InputError
-    from ..fitting import parse_bands
-    from ..matching import match_bands
+    from ..matching import match_bands, parse_measured
     from ..render.jsonout import dumps
     from ..rules import load_rules
     from . import _bands_common as bc
 
-    obs = parse_bands(bands_text, "--bands")
-    if any(o.label for o in obs):
+    if ":" in bands_text:
         raise InputError("match does not take species labels", "give plain wavenumbers, e.g. --bands 2045,1980,1932")
+    obs = parse_measured(bands_text, "--bands")
     comp, iso_set, reason = bc.load_set(formula, geometry, parse_pairs(reporters, "--reporter", "a=CO"), rules_of(ctx))
     rules = load_rules(rules_of(ctx))
     desc = bc.descriptors(comp, iso_set)
-    res = match_bands(iso_set, klass, [o.wavenumber for o in obs], tolerance=tolerance, weak=weak, rules=rules, descriptors=desc)
+    res = match_bands(iso_set, klass, [v for v, _ in obs], tolerance=tolerance, weak=weak, rules=rules, descriptors=desc,
+                      intensities=[x for _, x in obs])
     safety = list(bc.cautions(comp))
     if plot:
         from ..forcefield import band_pattern
@@ -66,7 +69,7 @@ def match(ctx, formula, bands_text, tolerance, weak, geometry, reporters, klass,
         return
     lines = [
         f"{comp.formula} on {iso_set.geometry.symbol}: {len(res.candidates)} candidate(s) for "
-        f"{res.reporter_class} bands at {', '.join(f'{x:g}' for x in res.measured)} cm-1 (tolerance {tolerance:g} cm-1)",
+        f"{res.reporter_class} bands at {_bands_text(res)} cm-1 (tolerance {tolerance:g} cm-1)",
         "",
     ]
     for c in res.candidates:
@@ -76,3 +79,10 @@ def match(ctx, formula, bands_text, tolerance, weak, geometry, reporters, klass,
     if safety:
         lines += ["", "Safety"] + [f"- {s}" for s in safety]
     emit("\n".join(lines).rstrip() + "\n", out)
+
+
+def _bands_text(res) -> str:
+    out = []
+    for v, x in zip(res.measured, res.measured_intensity or [None] * len(res.measured)):
+        out.append(f"{v:g}" + (f" ({x:g})" if x is not None else ""))
+    return ", ".join(out)
