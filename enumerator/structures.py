@@ -52,6 +52,8 @@ __all__ = [
     "element_or_none",
     "DUMMY_DISTANCE",
     "RING_BOND",
+    "CLASH_FRACTION",
+    "closest_contact",
 ]
 
 #: M-donor distance (A) when either label is not an element (abstract formulas).
@@ -63,6 +65,11 @@ _RNG_START = 61453
 #: Largest deviation (A) of a fixed atom from its target before a full
 #: structure is rejected in favour of the donor-only core.
 _FIT_TOL = 0.05
+#: Atoms of two different ligands closer than this fraction of the sum of
+#: their van der Waals radii (RDKit's table) are reported as a clash
+#: (common practice: non-bonded contacts below ~70-75% of the vdW sum are
+#: unphysical and must be optimised away before use).
+CLASH_FRACTION = 0.7
 
 Vec = tuple[float, float, float]
 
@@ -233,8 +240,11 @@ def _core(isomer: Isomer, comp: Composition, reason: str, label: str) -> Structu
 def _ligand_mol(kind: LigandKind):
     from rdkit import Chem
 
+    from rdkit import rdBase
+
     smi = str(_meta(kind, "smiles"))
-    m = Chem.MolFromSmiles(smi)
+    with rdBase.BlockLogs():  # '[H-:1]' (hydride) draws a warning about a lone H
+        m = Chem.MolFromSmiles(smi)
     if m is None:
         raise _EmbedFailed(f"RDKit cannot read the SMILES of '{kind.name}' ({smi})")
     maps = sorted(a.GetAtomMapNum() for a in m.GetAtoms() if a.GetAtomMapNum())
@@ -371,6 +381,15 @@ def _full(isomer: Isomer, comp: Composition, label: str) -> Structure:
             for hw, hu in zip(h_whole[k], _hydrogens_by_unit(mu, su)[0]):
                 pos[hw] = pu[hu]
         how = "RDKit ETKDG per ligand with donors fixed"
+    pos, turned = _relieve_clashes(mol, pos, fixed)
+    if turned:
+        how += f", {turned} monodentate ligand(s) turned about the M-donor axis to relieve contacts"
+    contact = closest_contact(mol, pos)
+    if contact is not None and contact[0] < contact[3]:
+        relaxed = _uff_relax(mol, pos, fixed)
+        if relaxed is not None:
+            pos = relaxed
+            how += ", then UFF-relaxed with the metal and donor atoms held"
     mol.RemoveAllConformers()
     conf0 = Chem.Conformer(mol.GetNumAtoms())
     mol.AddConformer(conf0, assignId=True)
@@ -390,8 +409,164 @@ def _full(isomer: Isomer, comp: Composition, label: str) -> Structure:
         mol = rw2.GetMol()
     symbols = tuple(a.GetSymbol() for a in mol.GetAtoms())
     title = _title(isomer, comp, "full", "", label).replace("RDKit ETKDG with donors fixed", how)
-    block = _molblock(mol, title, isomer, comp, "full")
-    return Structure(isomer.id, "full", title, symbols, tuple(coords), comp.charge, "", block)  # type: ignore[arg-type]
+    note = ""
+    contact = closest_contact(mol, coords)
+    if contact is not None:
+        d, i, j, limit = contact
+        if d < limit:
+            note = (f"clash: {symbols[i]}{i + 1}...{symbols[j]}{j + 1} of two ligands {d:.2f} A apart "
+                    f"(below {CLASH_FRACTION:g} x the vdW sum, {limit:.2f} A); optimise before use")
+            title += f"; WARNING {note}"
+    block = _molblock(mol, title, isomer, comp, "full", note)
+    return Structure(isomer.id, "full", title, symbols, tuple(coords), comp.charge, note, block)  # type: ignore[arg-type]
+
+
+#: UFF steps for relieving clashes (the metal and donor atoms are held fixed).
+_UFF_STEPS = 2000
+
+
+def _uff_relax(mol, pos, fixed):
+    """Ligand atoms relaxed with RDKit's UFF, the metal and every fixed
+    (donor or ring) atom held in place, so the polyhedron and the isomer
+    are unchanged; None where UFF lacks parameters."""
+    import numpy as np
+    from rdkit import Chem, rdBase
+    from rdkit.Chem import AllChem
+    from rdkit.Geometry import Point3D
+
+    m = Chem.Mol(mol)
+    m.RemoveAllConformers()
+    conf = Chem.Conformer(m.GetNumAtoms())
+    for k, p in enumerate(pos):
+        conf.SetAtomPosition(k, Point3D(*map(float, p)))
+    m.AddConformer(conf, assignId=True)
+    with rdBase.BlockLogs():
+        if not AllChem.UFFHasAllMoleculeParams(m):
+            return None
+        ff = AllChem.UFFGetMoleculeForceField(m, ignoreInterfragInteractions=False)
+        if ff is None:
+            return None
+        for i in fixed:
+            ff.AddFixedPoint(int(i))
+        ff.Initialize()
+        ff.Minimize(maxIts=_UFF_STEPS)
+    out = np.array(m.GetConformer().GetPositions())
+    for i, p in fixed.items():
+        out[i] = p
+    return out
+
+
+def _fragments(mol) -> list[int]:
+    """Ligand number of every atom (0 for the metal, atom 0): the pieces
+    left when the metal's bonds are cut."""
+    from rdkit import Chem
+
+    rw = Chem.RWMol(mol)
+    for b in list(rw.GetAtomWithIdx(0).GetBonds()):
+        rw.RemoveBond(b.GetBeginAtomIdx(), b.GetEndAtomIdx())
+    frag = [0] * mol.GetNumAtoms()
+    for k, atoms in enumerate(Chem.GetMolFrags(rw.GetMol(), sanitizeFrags=False)):
+        for a in atoms:
+            frag[a] = k
+    return frag
+
+
+def _vdw(mol):
+    import numpy as np
+    from rdkit import Chem
+
+    pt = Chem.GetPeriodicTable()
+    return np.array([pt.GetRvdw(a.GetAtomicNum()) if a.GetAtomicNum() else 1.5 for a in mol.GetAtoms()])
+
+
+#: Rotor search: angles tried per ligand and passes over the ligands.
+_ROTOR_STEPS = 36
+_ROTOR_PASSES = 3
+
+
+def _relieve_clashes(mol, pos, fixed):
+    """Turn each monodentate ligand about its M-donor axis (its donor and
+    the metal stay put) to the angle that makes its worst contact with the
+    other ligands least bad (distance / vdW sum), a few greedy passes; only
+    while some contact is below the clash limit.  Returns (positions,
+    number of ligands turned)."""
+    import numpy as np
+
+    frag = _fragments(mol)
+    rv = _vdw(mol)
+    n = len(frag)
+    members: dict[int, list[int]] = {}
+    for i in range(1, n):
+        members.setdefault(frag[i], []).append(i)
+    metal_nb = {nb.GetIdx() for nb in mol.GetAtomWithIdx(0).GetNeighbors()}
+    rotors = []
+    for f, atoms in sorted(members.items()):
+        donors = [a for a in atoms if a in metal_nb or a in fixed]
+        if len(donors) == 1 and len(atoms) > 1:
+            rotors.append((atoms, donors[0]))
+    pos = np.array(pos, dtype=float)
+
+    def worst(atoms, pts):
+        """Worst distance / clash limit between the ligand at ``pts`` and the rest."""
+        mask = np.ones(n, dtype=bool)
+        mask[atoms] = False
+        mask[0] = False
+        if not mask.any():
+            return np.inf
+        d = np.linalg.norm(pts[:, None, :] - pos[mask][None, :, :], axis=2)
+        lim = CLASH_FRACTION * (rv[atoms][:, None] + rv[mask][None, :])
+        return float(np.min(d / lim))
+
+    if not rotors or min(worst(a, pos[a]) for a, _ in rotors) >= 1.0:
+        return pos, 0
+    turned = set()
+    for _ in range(_ROTOR_PASSES):
+        changed = False
+        for atoms, donor in rotors:
+            axis = pos[donor] / np.linalg.norm(pos[donor])
+            base = pos[atoms]
+            best = (worst(atoms, base), 0)
+            for k in range(1, _ROTOR_STEPS):
+                t = 2 * np.pi * k / _ROTOR_STEPS
+                c, s_ = np.cos(t), np.sin(t)
+                rot = base * c + np.cross(axis, base) * s_ + np.outer(base @ axis, axis) * (1 - c)
+                w = worst(atoms, rot)
+                if w > best[0] + 1e-9:
+                    best = (w, k, rot)
+            if best[1]:
+                pos[atoms] = best[2]
+                turned.add(donor)
+                changed = True
+        if not changed:
+            break
+    return pos, len(turned)
+
+
+def closest_contact(mol, coords) -> tuple[float, int, int, float] | None:
+    """The closest pair of atoms of two different ligands (no path between
+    them that avoids the metal, atom 0), as (distance, i, j, clash limit
+    for that pair), the pair chosen by distance / limit; None with one ligand."""
+    import numpy as np
+
+    n = mol.GetNumAtoms()
+    if n < 3:
+        return None
+    frag = _fragments(mol)
+    xyz = np.array(coords, dtype=float)
+    rv = _vdw(mol)
+    best = None
+    for i in range(1, n):
+        for j in range(i + 1, n):
+            if frag[i] == frag[j]:
+                continue
+            d = float(np.linalg.norm(xyz[i] - xyz[j]))
+            limit = CLASH_FRACTION * float(rv[i] + rv[j])
+            key = d / limit
+            if best is None or key < best[0]:
+                best = (key, d, i, j, limit)
+    if best is None:
+        return None
+    return best[1], best[2], best[3], best[4]
 
 
 def _align(pos, fixed: dict[int, Vec]):
@@ -410,7 +585,7 @@ def _align(pos, fixed: dict[int, Vec]):
     return (pos - pc) @ r.T + qc
 
 
-def _molblock(mol, title: str, isomer: Isomer, comp: Composition, kind: str) -> str:
+def _molblock(mol, title: str, isomer: Isomer, comp: Composition, kind: str, warning: str = "") -> str:
     from rdkit import Chem
 
     mol.SetProp("_Name", title[:200])
@@ -423,6 +598,8 @@ def _molblock(mol, title: str, isomer: Isomer, comp: Composition, kind: str) -> 
         ("structure", "full ligands" if kind == "full" else "DONOR-ONLY CORE"),
         ("charge", str(comp.charge)),
     ]
+    if warning:
+        props.append(("warning", warning))
     tail = "".join(f">  <{k}>\n{v}\n\n" for k, v in props)
     return block + tail
 

@@ -164,3 +164,42 @@ def test_per_ligand_fallback_on_trigonal_bipyramid():
             c = min((j for j, t in enumerate(s.symbols) if t == "C"), key=lambda j: np.linalg.norm(pos[j] - pos[k]))
             u, w = pos[0] - pos[c], pos[k] - pos[c]
             assert math.degrees(math.acos(u @ w / np.linalg.norm(u) / np.linalg.norm(w))) > 165
+
+
+def test_closest_contact_flags_overlapping_ligands():
+    # two chlorido ligands 0.5 A apart are a clash (non-bonded contact far
+    # below 70% of the vdW sum, common practice); on opposite sites they are not
+    from rdkit import Chem
+
+    from enumerator.structures import CLASH_FRACTION, closest_contact
+
+    mol = Chem.MolFromSmiles("[Mo](Cl)Cl", sanitize=False)
+    d, i, j, limit = closest_contact(mol, [(0, 0, 0), (2.4, 0, 0), (2.4, 0.5, 0)])
+    assert (i, j) == (1, 2) and abs(d - 0.5) < 1e-9 and d < limit
+    pt = Chem.GetPeriodicTable()
+    assert abs(limit - CLASH_FRACTION * 2 * pt.GetRvdw(17)) < 1e-9
+    d, *_rest, limit = closest_contact(mol, [(0, 0, 0), (2.4, 0, 0), (-2.4, 0, 0)])
+    assert d > limit
+
+
+@pytest.mark.parametrize("formula", ["[RuCl2(CO)2(PPh3)2]", "[Mo(CO)3(PPh3)3]", "[Cr(CO)3(PCy3)3]"])
+def test_written_structures_are_clash_free_or_say_so(formula):
+    # invariant: a full structure either has no inter-ligand contact below
+    # the clash limit, or its title, note and SDF record carry the warning
+    from rdkit import Chem
+
+    from enumerator.pipeline import analyse
+    from enumerator.structures import closest_contact, structures_for
+
+    res = analyse(formula, geometry="OC-6")
+    for s in structures_for(res):
+        if s.kind != "full":
+            continue
+        mol = Chem.MolFromMolBlock(s.molblock, removeHs=False, sanitize=False)
+        d, _, _, limit = closest_contact(mol, s.coords)
+        if d < limit:
+            assert s.note.startswith("clash") and "WARNING" in s.title and "<warning>" in s.molblock
+        else:
+            assert s.note == "" and "WARNING" not in s.title
+    if formula == "[RuCl2(CO)2(PPh3)2]":  # a known compound's isomers embed cleanly
+        assert all(s.note == "" for s in structures_for(res))

@@ -75,10 +75,16 @@ def structures(ctx, formula, out_dir, fmt, geometry, spans, arrangements, limit)
         path = folder / f"{stem}.sdf"
         write_atomic(path, to_sdf(built))
         for s in built:
-            lines.append(f"{path}  isomer {s.isomer_id}: {'full ligands' if s.kind == 'full' else 'DONOR-ONLY CORE (' + s.note + ')'}")
+            lines.append(f"{path}  isomer {s.isomer_id}: {_describe(s)}")
     else:
         for s in built:
             path = folder / f"{stem}_{_slug(s.isomer_id)}.xyz"
             write_atomic(path, to_xyz(s))
-            lines.append(f"{path}  isomer {s.isomer_id}: {'full ligands' if s.kind == 'full' else 'DONOR-ONLY CORE (' + s.note + ')'}")
+            lines.append(f"{path}  isomer {s.isomer_id}: {_describe(s)}")
     click.echo("\n".join(lines))
+
+
+def _describe(s) -> str:
+    if s.kind == "full":
+        return "full ligands" + (f" - WARNING {s.note}" if s.note else "")
+    return f"DONOR-ONLY CORE ({s.note})"
