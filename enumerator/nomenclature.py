@@ -266,13 +266,22 @@ def _spy5(g: Geometry, r: Mapping[int, Rank]) -> list[_Choice]:
     return [_Choice((r[apex], max(r[t[b]] for b in starts)), seqs)]
 
 
-def _bipyramid(g: Geometry, r: Mapping[int, Rank]) -> list[_Choice]:
-    t = _trans(g)
-    axial = sorted(t)
+def _axial_pair(g: Geometry, r: Mapping[int, Rank]):
+    """The two sites of the one trans pair and their priority numbers, the
+    lower first (the index of bipyramids and the see-saw); None otherwise."""
+    axial = sorted(_trans(g))
     if len(axial) != 2:
-        return []
+        return None
     p, q = axial
-    key = tuple(sorted((r[p], r[q])))
+    return axial, tuple(sorted((r[p], r[q])))
+
+
+def _bipyramid(g: Geometry, r: Mapping[int, Rank]) -> list[_Choice]:
+    pair = _axial_pair(g, r)
+    if pair is None:
+        return []
+    axial, key = pair
+    p, q = axial
     eq = [s for s in sorted(r) if s not in axial]
     m = min(r[s] for s in eq)
     top = min(r[p], r[q])
@@ -340,13 +349,11 @@ def _ss4(g: Geometry, r: Mapping[int, Rank]) -> list[_Choice]:
     number first.  C/A (IR-9.3.4.7): seen from the higher-priority atom of
     that pair, the turn from the higher- to the lower-priority of the other
     two atoms through the smaller angle; no symbol where either pair ties."""
-    t = _trans(g)
-    axial = sorted(t)
-    if len(axial) != 2:
+    pair = _axial_pair(g, r)
+    if pair is None:
         return []
-    p, q = axial
-    key = tuple(sorted((r[p], r[q])))
-    e1, e2 = sorted((s for s in r if s not in t), key=lambda s: (r[s], s))
+    axial, key = pair
+    e1, e2 = sorted((s for s in r if s not in axial), key=lambda s: (r[s], s))
     seqs = []
     if r[e1] != r[e2]:
         for a in axial:
