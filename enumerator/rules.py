@@ -42,9 +42,13 @@ __all__ = [
 ]
 
 #: The rules folder shipped with the package.
-BUILTIN_RULES = Path(__file__).resolve().parent.parent / "rules"
-if not BUILTIN_RULES.is_dir():  # installed as a wheel: rules ship inside the package
-    BUILTIN_RULES = Path(__file__).resolve().parent / "rules"
+#: In the source tree ``enumerator/builtin_rules`` is a link to the top-level
+#: ``rules/``; a wheel carries the files themselves there (pyproject package-data).
+#: The package's own copy comes first, so a stray ``rules`` folder beside an
+#: installed package is never read.
+BUILTIN_RULES = (Path(__file__).resolve().parent / "builtin_rules").resolve()
+if not BUILTIN_RULES.is_dir():  # a checkout where the link did not survive (e.g. no symlinks)
+    BUILTIN_RULES = Path(__file__).resolve().parent.parent / "rules"
 
 _SYMBOL = re.compile(r"^[A-Z]{1,5}-\d{1,2}$")
 
