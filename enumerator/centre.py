@@ -220,7 +220,10 @@ def default_geometry(comp: Composition, rules: RuleSet, ec: ElectronCount | None
     if cn == 2:
         return "L-2", f"L-2: {where}; two-coordinate centres (e.g. d10 Ag(I), Au(I)) are linear{note}", ()
     if cn == 3:
-        return "TP-3", f"TP-3: {where}; three-coordinate centres default to the trigonal plane{note}", ()
+        return "TP-3", (
+            f"TP-3: {where}; three-coordinate centres default to the trigonal plane; "
+            f"TS-3 (T-shape, e.g. 14-electron d8 fragments) is the alternative (--geometry TS-3){note}"
+        ), ("TS-3",)
     sym, reason = _abstract_reason(comp, rules)
     alts = tuple(sorted(g for g, geo in have.items() if geo.coordination_number == cn and g != sym))
     return sym, reason + f" ({ec.label}){note}; alternatives: {', '.join(alts) or 'none'}", alts

@@ -76,7 +76,7 @@ def _burnside(ops, counts):
     return int(f)
 
 
-SMALL = ["TP-3", "TS-3", "T-4", "SP-4", "SS-4", "TBPY-5", "SPY-5", "OC-6", "TPR-6", "HP-6", "PBPY-7", "CU-8", "SAPR-8", "HBPY-8"]
+SMALL = ["TP-3", "TS-3", "T-4", "SP-4", "SS-4", "TBPY-5", "SPY-5", "OC-6", "TPR-6", "HP-6", "PBPY-7", "CU-8", "SAPR-8", "HBPY-8", "DD-8"]
 
 
 @pytest.mark.parametrize("symbol", SMALL)
@@ -84,7 +84,7 @@ def test_every_monodentate_composition_matches_burnside(rules, symbol):
     g = rules.geometry(symbol)
     n = g.coordination_number
     for parts in _partitions(n):
-        if symbol in ("CU-8", "SAPR-8", "HBPY-8") and len(parts) == 8:
+        if symbol in ("CU-8", "SAPR-8", "HBPY-8", "DD-8") and len(parts) == 8:
             continue  # all-different CN 8 is covered below with the cycle index only
         comp = parse_abstract(_formula(parts))
         s = enumerate_isomers(comp, g)
@@ -93,7 +93,7 @@ def test_every_monodentate_composition_matches_burnside(rules, symbol):
         assert (s.geometric_isomers, s.stereoisomers) == (geo, stereo), _formula(parts)
 
 
-@pytest.mark.parametrize("symbol", ["CU-8", "SAPR-8", "HBPY-8"])
+@pytest.mark.parametrize("symbol", ["CU-8", "SAPR-8", "HBPY-8", "DD-8"])
 def test_all_different_cn8(rules, symbol):
     g = rules.geometry(symbol)
     parts = (1,) * 8

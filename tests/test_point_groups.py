@@ -70,7 +70,8 @@ CASES = [
     *[(f, "TPR-6", {}) for f in ["Ma4b2", "Ma3b3", "Ma2b2c2"]],
     *[(f, "HP-6", {}) for f in ["Ma4b2", "Ma3b3", "Ma2b2c2"]],
     *[(f, "PBPY-7", {}) for f in ["Ma5b2", "Ma4b3", "Ma3b2c2"]],
-    *[(f, sym, {}) for f in ["Ma6b2", "Ma4b4", "Ma4b2c2"] for sym in ("CU-8", "SAPR-8", "HBPY-8")],
+    *[(f, sym, {}) for f in ["Ma6b2", "Ma4b4", "Ma4b2c2"] for sym in ("CU-8", "SAPR-8", "HBPY-8", "DD-8")],
+    ("M(AA)4", "DD-8", {}),
     *[(f, "IC-12", {}) for f in ["Ma10b2", "Ma9b3", "Ma6b6"]],
     # chelates and rings
     *[(f, "OC-6", {}) for f in ["M(AA)3", "M(AA)2b2", "M(AA)2bc", "M(AB)3", "M(AB)2b2", "M(AA)b4", "M(AA)b2c2", "M(AB)b2c2",

@@ -85,6 +85,16 @@ def test_square_planar_tetracyanide():
     assert (m.species, m.ir, m.raman) == ("A1g + B1g + Eu", 1, 2)
 
 
+def test_octacyanide_dodecahedron_and_antiprism():
+    # [Mo(CN)8]4-: D2d dodecahedron 2A1 + 2B2 + 2E (4 IR, 6 Raman), D4d square
+    # antiprism A1 + B2 + E1 + E2 + E3 (2 IR, 3 Raman); the classic test between
+    # the two shapes (Nakamoto, Part B, octacyano complexes; from memory)
+    m = _one("[Mo(CN)8]4-", "DD-8", "D2d", reporters=(), cls="CN")
+    assert (m.species, m.ir, m.raman) == ("2A1 + 2B2 + 2E", 4, 6)
+    m = _one("[Mo(CN)8]4-", "SAPR-8", "D4d", reporters=(), cls="CN")
+    assert (m.species, m.ir, m.raman) == ("A1 + B2 + E1 + E2 + E3", 2, 3)
+
+
 def test_hexacyanide():
     # [M(CN)6]n-: A1g + Eg + T1u, one IR band (Nakamoto, cyano complexes)
     m = _one("Ma6", "OC-6", "Oh", reporters=(("a", "CN"),), cls="CN")
