@@ -29,7 +29,7 @@ CHELATES = [
     "M(AB)ab", "M(AA)ab", "M(ABC)(AB)ab", "M(AA)(AB)ab", "M(AB)(AB)", "M(AB)a", "M(AAA)(AB)abc",
     "M(AA)2", "M(AB)2a2b", "M(ABA)(AA)", "M(AA)a2b",
 ]
-GEOMETRIES = ["TP-3", "TS-3", "T-4", "SP-4", "SS-4", "TBPY-5", "SPY-5", "OC-6", "TPR-6", "HP-6", "PBPY-7", "CU-8", "SAPR-8", "HBPY-8", "DD-8"]
+GEOMETRIES = ["TP-3", "TS-3", "T-4", "SP-4", "SS-4", "TBPY-5", "SPY-5", "OC-6", "TPR-6", "HP-6", "PBPY-7", "OCF-7", "TPRS-7", "CU-8", "SAPR-8", "HBPY-8", "DD-8"]
 
 
 def _enumerated(comp, geo) -> tuple[int, int]:

@@ -76,7 +76,7 @@ def _burnside(ops, counts):
     return int(f)
 
 
-SMALL = ["TP-3", "TS-3", "T-4", "SP-4", "SS-4", "TBPY-5", "SPY-5", "OC-6", "TPR-6", "HP-6", "PBPY-7", "CU-8", "SAPR-8", "HBPY-8", "DD-8"]
+SMALL = ["TP-3", "TS-3", "T-4", "SP-4", "SS-4", "TBPY-5", "SPY-5", "OC-6", "TPR-6", "HP-6", "PBPY-7", "OCF-7", "TPRS-7", "CU-8", "SAPR-8", "HBPY-8", "DD-8"]
 
 
 @pytest.mark.parametrize("symbol", SMALL)

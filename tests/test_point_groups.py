@@ -70,6 +70,7 @@ CASES = [
     *[(f, "TPR-6", {}) for f in ["Ma4b2", "Ma3b3", "Ma2b2c2"]],
     *[(f, "HP-6", {}) for f in ["Ma4b2", "Ma3b3", "Ma2b2c2"]],
     *[(f, "PBPY-7", {}) for f in ["Ma5b2", "Ma4b3", "Ma3b2c2"]],
+    *[(f, sym, {}) for f in ["Ma5b2", "Ma4b3", "Ma3b2c2", "M(AA)a5"] for sym in ("OCF-7", "TPRS-7")],
     *[(f, sym, {}) for f in ["Ma6b2", "Ma4b4", "Ma4b2c2"] for sym in ("CU-8", "SAPR-8", "HBPY-8", "DD-8")],
     ("M(AA)4", "DD-8", {}),
     *[(f, "IC-12", {}) for f in ["Ma10b2", "Ma9b3", "Ma6b6"]],

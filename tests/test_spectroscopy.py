@@ -95,6 +95,16 @@ def test_octacyanide_dodecahedron_and_antiprism():
     assert (m.species, m.ir, m.raman) == ("A1 + B2 + E1 + E2 + E3", 2, 3)
 
 
+def test_seven_coordinate_heptacarbonyl_shapes():
+    # M(CO)7 on the capped octahedron (C3v; site orbits 1 + 3 + 3): 3A1 + 2E,
+    # 5 IR; on the capped trigonal prism (C2v; orbits 1 + 4 + 2): 3A1 + A2 +
+    # 2B + B, 6 IR (A2 is IR-inactive), 7 Raman (group theory, common practice)
+    m = _one("Ma7", "OCF-7", "C3v")
+    assert (m.species, m.ir, m.raman, m.nmr) == ("3A1 + 2E", 5, 5, 3)
+    m = _one("Ma7", "TPRS-7", "C2v")
+    assert (m.ir, m.raman, m.nmr) == (6, 7, 3) and m.species.startswith("3A1 + A2")
+
+
 def test_hexacyanide():
     # [M(CN)6]n-: A1g + Eg + T1u, one IR band (Nakamoto, cyano complexes)
     m = _one("Ma6", "OC-6", "Oh", reporters=(("a", "CN"),), cls="CN")
