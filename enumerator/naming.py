@@ -45,7 +45,7 @@ from functools import lru_cache
 from typing import Mapping
 
 from .composition import Composition
-from .errors import RuleError
+from .errors import IsosieveError, RuleError
 
 __all__ = ["ComplexName", "additive_name", "element_names", "ligand_sort_key"]
 
@@ -118,7 +118,7 @@ def _number(comp: Composition) -> str | None:
         return f"({abs(q)}{'+' if q > 0 else '−'})"
     try:
         ox = count_electrons(comp).oxidation_state
-    except Exception:  # noqa: BLE001 - an uncountable centre simply gets no name
+    except IsosieveError:  # an uncountable centre simply gets no name
         return None
     if ox is None:
         return None

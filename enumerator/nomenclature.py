@@ -97,7 +97,7 @@ sets), else the words per ligand, e.g. ``trans(a),cis(b)``.
 from __future__ import annotations
 
 import itertools
-from dataclasses import dataclass, field, replace
+from dataclasses import dataclass, replace
 from functools import lru_cache
 from typing import Any, Mapping, Sequence
 
@@ -431,7 +431,6 @@ def skew_lines_sense(p1, p2, q1, q2, tol: float = 1e-6) -> str | None:
 
 
 def _skew(isomer: Isomer) -> str | None:
-    unit = {s.index: s.unit for s in isomer.sites}
     ring = {s.index for s in isomer.sites if s.ring}
     links = [(a, b) for a, b, _ in isomer.links() if a not in ring]
     senses = set()

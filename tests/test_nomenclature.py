@@ -13,12 +13,10 @@ from __future__ import annotations
 
 import json
 
-import numpy as np
 import pytest
 from click.testing import CliRunner
 
 from enumerator.cli import cli, main
-from enumerator.errors import InputError
 from enumerator.formula import parse_abstract
 from enumerator.isomers import enumerate_isomers
 from enumerator.nomenclature import (
