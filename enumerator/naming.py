@@ -140,7 +140,7 @@ def _enclosed(name: str) -> str:
     return marks[0] + name + marks[1]
 
 
-def additive_name(comp: Composition, ruleset, descriptor: str | None, *, with_descriptor: bool = True) -> ComplexName:
+def additive_name(comp: Composition, ruleset, descriptor: str | None) -> ComplexName:
     """The additive name of ``comp`` with ``descriptor`` in front (see the
     module docstring)."""
     if comp.metal == "M":
@@ -158,18 +158,16 @@ def additive_name(comp: Composition, ruleset, descriptor: str | None, *, with_de
     number = _number(comp)
     if number is None:
         return ComplexName(None, f"the oxidation state of {comp.metal} cannot be computed here")
-    text = ""
+    pieces = []
     for _, name, enclose, count in sorted(parts):
         if count > 12:
             return ComplexName(None, f"{count} identical ligands: no multiplying prefix is tabulated here")
-        piece = (_ENCLOSED[count] + _enclosed(name)) if enclose else (_SIMPLE[count] + name)
+        pieces.append((_ENCLOSED[count] + _enclosed(name)) if enclose else (_SIMPLE[count] + name))
+    pieces.append(metals[comp.metal][1 if comp.charge < 0 else 0] + number)
+    text = ""
+    for piece in pieces:
         if text and _KAPPA_END.search(text) and piece[:1] not in "([{":
             text += "-"
         text += piece
-    centre = metals[comp.metal][1 if comp.charge < 0 else 0]
-    if text and _KAPPA_END.search(text):
-        text += "-"
-    full = text + centre + number
-    if with_descriptor and descriptor:
-        full = f"({descriptor.replace(chr(39), '′')})-{full}"
+    full = f"({descriptor.replace(chr(39), '′')})-{text}" if descriptor else text
     return ComplexName(full)
