@@ -15,17 +15,17 @@ from __future__ import annotations
 
 __version__ = "0.1.0"
 
-from .errors import CapacityError, InputError, IsosieveError, RuleError
+from enumerator.errors import CapacityError, InputError, IsosieveError, RuleError
 
 # The rest loads on first use, so that the command line starts fast.
 _LAZY = {
-    "load_rules": "rules",
-    "parse_abstract": "formula",
-    "enumerate_isomers": "isomers",
-    "generate": "isomers",
-    "Isomer": "isomers",
-    "IsomerSet": "isomers",
-    "analyse": "pipeline",
+    "load_rules": "rules.ruleset",
+    "parse_abstract": "parse.abstract",
+    "enumerate_isomers": "isomers.enumeration",
+    "generate": "isomers.enumeration",
+    "Isomer": "isomers.enumeration",
+    "IsomerSet": "isomers.enumeration",
+    "analyse": "workflow.pipeline",
 }
 
 

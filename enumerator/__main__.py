@@ -1,6 +1,6 @@
 """``python -m enumerator`` is the same as the ``isosieve`` command."""
 
-from .cli import main
+from enumerator.cli import main
 
 if __name__ == "__main__":  # pragma: no cover
     main()

@@ -90,7 +90,7 @@ BASELINE_BUDGET = 3_000_000
 
 
 def _labels(formula: str) -> list[str]:
-    from .formula import parse_abstract
+    from enumerator.parse.abstract import parse_abstract
 
     comp = parse_abstract(formula)
     if any(k.denticity != 1 for k in comp.kinds):
@@ -102,8 +102,8 @@ def naive_isomers(formula: str, symbol: str) -> dict[str, Any]:
     """Brute force: all n! permutations of the labelling, canonical form as
     the least image under the rotations, then the stabiliser and point
     group of each orbit representative without caching."""
-    from .group import schoenflies
-    from .rules import load_rules
+    from enumerator.symmetry.operations import schoenflies
+    from enumerator.rules.ruleset import load_rules
 
     geo = load_rules().geometry(symbol)
     ops = geo.operations
@@ -132,7 +132,7 @@ def naive_isomers(formula: str, symbol: str) -> dict[str, Any]:
 
 def baseline_work(formula: str, symbol: str) -> int:
     """n! x |rotations|: the image tuples the naive baseline builds."""
-    from .rules import load_rules
+    from enumerator.rules.ruleset import load_rules
 
     geo = load_rules().geometry(symbol)
     return math.factorial(geo.coordination_number) * len(geo.proper_operations)
@@ -149,10 +149,10 @@ def _worker(symbol: str, formula: str, warm: int) -> dict[str, Any]:
         except OSError:
             pass
     t0 = time.perf_counter()
-    from .counting import burnside_counts
-    from .formula import parse_abstract
-    from .isomers import enumerate_isomers
-    from .rules import load_rules
+    from enumerator.isomers.counting import burnside_counts
+    from enumerator.parse.abstract import parse_abstract
+    from enumerator.isomers.enumeration import enumerate_isomers
+    from enumerator.rules.ruleset import load_rules
 
     geo = load_rules().geometry(symbol)
     comp = parse_abstract(formula)
@@ -287,10 +287,10 @@ def condensed_library(size: int, rng: random.Random | None = None) -> list[str]:
 
 def _own_screen(formulas: Iterable[str], cache: dict | None = None) -> Iterator[tuple[str, Any]]:
     """Fallback screen with a cache by composition pattern + geometry."""
-    from .errors import IsosieveError
-    from .isomers import enumerate_isomers
-    from .pipeline import choose_geometry, parse_formula
-    from .rules import load_rules
+    from enumerator.errors import IsosieveError
+    from enumerator.isomers.enumeration import enumerate_isomers
+    from enumerator.workflow.pipeline import choose_geometry, parse_formula
+    from enumerator.rules.ruleset import load_rules
 
     rules = load_rules()
     cache = {} if cache is None else cache
@@ -310,19 +310,19 @@ def _own_screen(formulas: Iterable[str], cache: dict | None = None) -> Iterator[
 
 def _screen_function() -> tuple[Callable[..., Iterable[Any]], str]:
     try:
-        from .batch import screen  # contract 5 (issue-4 engineer)
+        from enumerator.workflow.batch import screen  # contract 5 (issue-4 engineer)
     except ImportError:
         shared: dict = {}
-        return (lambda formulas, workers=1: _own_screen(formulas, shared)), "own pattern cache (enumerator.batch not present)"
-    return screen, "enumerator.batch.screen"
+        return (lambda formulas, workers=1: _own_screen(formulas, shared)), "own pattern cache (enumerator.workflow.batch not present)"
+    return screen, "enumerator.workflow.batch.screen"
 
 
 def _parse_only(formulas: list[str]) -> float:
     """Seconds to parse every formula and choose its geometry: the floor a
     fully cached screen can reach."""
-    from .errors import IsosieveError
-    from .pipeline import choose_geometry, parse_formula
-    from .rules import load_rules
+    from enumerator.errors import IsosieveError
+    from enumerator.workflow.pipeline import choose_geometry, parse_formula
+    from enumerator.rules.ruleset import load_rules
 
     rules = load_rules()
     t = time.perf_counter()
@@ -335,9 +335,9 @@ def _parse_only(formulas: list[str]) -> float:
 
 
 def _patterns(formulas: list[str]) -> int:
-    from .errors import IsosieveError
-    from .pipeline import parse_formula
-    from .rules import load_rules
+    from enumerator.errors import IsosieveError
+    from enumerator.workflow.pipeline import parse_formula
+    from enumerator.rules.ruleset import load_rules
 
     rules = load_rules()
     out = set()
@@ -479,7 +479,7 @@ def run_all(quick: bool = False, log: Callable[[str], None] = lambda s: None) ->
     except Exception as exc:  # the condensed parser may be mid-development
         doc["batch_condensed"] = {"skipped": f"{type(exc).__name__}: {exc}"}
     screen, how = _screen_function()
-    if how == "enumerator.batch.screen" and (os.cpu_count() or 1) > 1 and not quick:
+    if how == "enumerator.workflow.batch.screen" and (os.cpu_count() or 1) > 1 and not quick:
         log("batch: parallel")
         doc["batch_parallel"] = screen_library(abstract_library(size), workers=min(4, os.cpu_count() or 1))
     log("cold start")

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import pytest
 
-from enumerator.rules import load_rules
+from enumerator.rules.ruleset import load_rules
 
 
 @pytest.fixture(scope="session")

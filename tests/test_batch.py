@@ -6,9 +6,9 @@ import json
 import subprocess
 import sys
 
-from enumerator.batch import pattern_key, screen
-from enumerator.condensed import parse_condensed
-from enumerator.rules import load_rules
+from enumerator.workflow.batch import pattern_key, screen
+from enumerator.parse.condensed import parse_condensed
+from enumerator.rules.ruleset import load_rules
 
 FORMULAS = ["[RuCl2(CO)2(PPh3)2]", "[Co(NH3)4Cl2]+", "[Xx(CO)6]", "[OsBr2(CO)2(PMe3)2]", "Ma4b2", "[Fe(CN)5(NO)]2-",
             "[Co(en)2Cl2]+"]

@@ -32,7 +32,7 @@ def test_quick_run_produces_a_complete_document():
     for key in ("machine", "enumeration", "baseline", "batch_abstract", "batch_condensed", "cold_start"):
         assert key in doc
     ic = next(r for r in doc["enumeration"] if r["geometry"] == "IC-12")
-    # a3b3c3d3 on IC-12: the enumerator must agree with Burnside's lemma (independent count in enumerator.counting)
+    # a3b3c3d3 on IC-12: the enumerator must agree with Burnside's lemma (independent count in enumerator.isomers.counting)
     assert ic["burnside_agrees"] is True
     assert all(r.get("agrees", True) for r in doc["baseline"])
     assert doc["cold_start"]["heavy_imports"]["rdkit"] is False

@@ -25,12 +25,12 @@ from pathlib import Path
 
 import pytest
 
-from enumerator.composition import Composition, LigandKind
-from enumerator.isomers import enumerate_isomers
-from enumerator.pipeline import analyse
+from enumerator.model.composition import Composition, LigandKind
+from enumerator.isomers.enumeration import enumerate_isomers
+from enumerator.workflow.pipeline import analyse
 from enumerator.render.report import render_report
-from enumerator.result import Result
-from enumerator.rules import load_rules
+from enumerator.workflow.result import Result
+from enumerator.rules.ruleset import load_rules
 
 HOSTILE = "<script>alert(1)</script>"
 HOSTILE_DONOR = '"><img src=x onerror=alert(2)>'

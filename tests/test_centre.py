@@ -4,10 +4,10 @@ from __future__ import annotations
 
 import pytest
 
-from enumerator.centre import choose_geometry, count_electrons, group_of
-from enumerator.condensed import parse_condensed
-from enumerator.pipeline import Request, run
-from enumerator.rules import load_rules
+from enumerator.analyses.centre import choose_geometry, count_electrons, group_of
+from enumerator.parse.condensed import parse_condensed
+from enumerator.workflow.pipeline import Request, run
+from enumerator.rules.ruleset import load_rules
 
 RS = load_rules()
 
@@ -73,7 +73,7 @@ def test_group_numbers_against_pymatgen():
     ],
 )
 def test_default_geometry(formula, sym, alt, why):
-    from enumerator.centre import default_geometry
+    from enumerator.analyses.centre import default_geometry
 
     s, reason, alts = default_geometry(parse_condensed(formula, RS), RS)
     assert s == sym and alt in alts and why in reason

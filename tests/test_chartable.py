@@ -19,11 +19,11 @@ import math
 import numpy as np
 import pytest
 
-from enumerator.chartable import character_table, format_character, named_table, table_for_isomer, table_from_matrices
+from enumerator.symmetry.chartable import character_table, format_character, named_table, table_for_isomer, table_from_matrices
 from enumerator.errors import InputError
-from enumerator.formula import parse_abstract
-from enumerator.isomers import enumerate_isomers
-from enumerator.rules import load_rules
+from enumerator.parse.abstract import parse_abstract
+from enumerator.isomers.enumeration import enumerate_isomers
+from enumerator.rules.ruleset import load_rules
 
 # --------------------------------------------------------------------------
 # phonopy: the 32 crystallographic point groups

@@ -1,4 +1,4 @@
-"""CIP priority numbers of ligating atoms (enumerator.cip).
+"""CIP priority numbers of ligating atoms (enumerator.analyses.cip).
 
 Sources: the sequence rules of Cahn, Ingold & Prelog, Angew. Chem. Int. Ed.
 Engl. 5 (1966) 385 and Prelog & Helmchen, Angew. Chem. Int. Ed. Engl. 21
@@ -13,11 +13,11 @@ from __future__ import annotations
 import numpy as np
 import pytest
 
-from enumerator.cip import dense_ranks, donor_priorities, rank_smiles
-from enumerator.composition import Composition, LigandKind
+from enumerator.analyses.cip import dense_ranks, donor_priorities, rank_smiles
+from enumerator.model.composition import Composition, LigandKind
 from enumerator.errors import InputError
-from enumerator.formula import parse_abstract
-from enumerator.nomenclature import rs_symbol
+from enumerator.parse.abstract import parse_abstract
+from enumerator.analyses.descriptors import rs_symbol
 
 PPH3 = "[P:1](c1ccccc1)(c1ccccc1)c1ccccc1"
 

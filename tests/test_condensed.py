@@ -4,9 +4,9 @@ from __future__ import annotations
 
 import pytest
 
-from enumerator.condensed import parse_condensed
+from enumerator.parse.condensed import parse_condensed
 from enumerator.errors import InputError
-from enumerator.rules import load_rules
+from enumerator.rules.ruleset import load_rules
 
 RS = load_rules()
 

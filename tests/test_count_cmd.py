@@ -1,4 +1,4 @@
-"""The up-front Burnside count (enumerator.counting) and `isosieve count`.
+"""The up-front Burnside count (enumerator.isomers.counting) and `isosieve count`.
 
 The chelate extension of the count (placement cycles + bit-mask DP) is
 checked against the enumerator, which works by a different method
@@ -14,12 +14,12 @@ from contextlib import redirect_stderr, redirect_stdout
 import pytest
 
 from enumerator.cli import main
-from enumerator.counting import burnside_counts
+from enumerator.isomers.counting import burnside_counts
 from enumerator.errors import InputError
-from enumerator.formula import parse_abstract
-from enumerator.isomers import enumerate_isomers
-from enumerator.pipeline import apply_settings
-from enumerator.rules import load_rules
+from enumerator.parse.abstract import parse_abstract
+from enumerator.isomers.enumeration import enumerate_isomers
+from enumerator.workflow.pipeline import apply_settings
+from enumerator.rules.ruleset import load_rules
 
 RULES = load_rules()
 

@@ -17,10 +17,10 @@ from fractions import Fraction
 
 import pytest
 
-from enumerator.counting import burnside_counts
-from enumerator.formula import parse_abstract
-from enumerator.isomers import enumerate_isomers, generate
-from enumerator.rules import load_rules
+from enumerator.isomers.counting import burnside_counts
+from enumerator.parse.abstract import parse_abstract
+from enumerator.isomers.enumeration import enumerate_isomers, generate
+from enumerator.rules.ruleset import load_rules
 
 LETTERS = "abcdefghijkl"
 
@@ -217,7 +217,7 @@ CHELATE_CASES = [
 
 @pytest.mark.parametrize("formula,symbol,kinds,opts", CHELATE_CASES, ids=[f"{c[0]}@{c[1]}" for c in CHELATE_CASES])
 def test_chelate_counts_match_burnside(rules, formula, symbol, kinds, opts):
-    from enumerator.pipeline import apply_settings
+    from enumerator.workflow.pipeline import apply_settings
 
     g = rules.geometry(symbol)
     comp = apply_settings(parse_abstract(formula), opts.get("spans", ()), opts.get("arrangements", ()))

@@ -10,9 +10,9 @@ from pathlib import Path
 
 import pytest
 
-from enumerator.batch import screen
+from enumerator.workflow.batch import screen
 from enumerator.cli.batch_cmd import read_formulas, render_rows
-from enumerator.jobfile import load_job, render_job, run_job
+from enumerator.workflow.job import load_job, render_job, run_job
 
 EX = Path(__file__).resolve().parent.parent / "examples"
 JOBS = sorted(EX.glob("*/*.toml"))

@@ -4,13 +4,13 @@ import math
 
 import pytest
 
-from enumerator.fitting import fit_constants
-from enumerator.forcefield import WAVENUMBER_FACTOR, band_pattern, predict_bands
-from enumerator.formula import parse_abstract
-from enumerator.isomers import enumerate_isomers
-from enumerator.pipeline import apply_settings
-from enumerator.rules import load_rules
-from enumerator.spectroscopy import stretch_modes
+from enumerator.vibrations.fitting import fit_constants
+from enumerator.vibrations.forcefield import WAVENUMBER_FACTOR, band_pattern, predict_bands
+from enumerator.parse.abstract import parse_abstract
+from enumerator.isomers.enumeration import enumerate_isomers
+from enumerator.workflow.pipeline import apply_settings
+from enumerator.rules.ruleset import load_rules
+from enumerator.analyses.stretch import stretch_modes
 
 # 12C16O: masses of the most common isotopes (RDKit periodic table; IUPAC values 12 and 15.9949)
 MU = 1 / 12.0 + 1 / 15.99491462
@@ -91,7 +91,7 @@ BROAD = [
 
 @pytest.mark.parametrize("formula,geometry", BROAD)
 def test_intense_modes_match_symmetry_count(formula, geometry):
-    # The IR-active count from the symmetry analysis (enumerator.spectroscopy, reduction formula) equals the number
+    # The IR-active count from the symmetry analysis (enumerator.analyses.stretch, reduction formula) equals the number
     # of bands with non-zero bond-dipole intensity, except symmetry-allowed modes that move only trans pairs in phase
     # (their bond dipoles cancel exactly; a known limit of the bond-dipole model, common practice).
     for iso in isomers(formula, geometry):
@@ -146,7 +146,7 @@ def test_default_bands_in_terminal_range():
 
 
 def test_isotopologue_masses_from_smiles():
-    from enumerator.pipeline import Request, run
+    from enumerator.workflow.pipeline import Request, run
 
     res = run(Request(formula="[Cr(CO)5(13CO)]"))
     (iso,) = res.isomers

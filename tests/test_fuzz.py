@@ -23,9 +23,9 @@ from hypothesis import HealthCheck, assume, given, settings
 from hypothesis import strategies as st
 
 from enumerator.errors import IsosieveError
-from enumerator.formula import parse_abstract
-from enumerator.pipeline import parse_formula, run, Request
-from enumerator.rules import load_rules
+from enumerator.parse.abstract import parse_abstract
+from enumerator.workflow.pipeline import parse_formula, run, Request
+from enumerator.rules.ruleset import load_rules
 
 RULES = load_rules()
 #: ISOSIEVE_FUZZ_SCALE=20 runs twenty times the examples (a deep run, not for the suite)
@@ -80,14 +80,14 @@ condensed_like = st.lists(st.sampled_from(CONDENSED_PARTS), min_size=0, max_size
 @FAST
 @given(condensed_like)
 def test_condensed_parser_never_crashes(text):
-    condensed = pytest.importorskip("enumerator.condensed")
+    condensed = pytest.importorskip("enumerator.parse.condensed")
     _ok_or_isosieve(condensed.parse_condensed, text, RULES)
     _ok_or_isosieve(parse_formula, text, RULES)
 
 
 @pytest.mark.parametrize("text", ["η5-", "Ruη5-"])
 def test_trailing_hapticity_prefix_is_an_input_error(text):
-    condensed = pytest.importorskip("enumerator.condensed")
+    condensed = pytest.importorskip("enumerator.parse.condensed")
     with pytest.raises(IsosieveError):
         condensed.parse_condensed(text, RULES)
 
@@ -207,7 +207,7 @@ ligand_text = st.one_of(
 @SLOW
 @given(ligand_text)
 def test_ligand_catalogue_loader_never_crashes(text):
-    ligands = pytest.importorskip("enumerator.ligands")
+    ligands = pytest.importorskip("enumerator.rules.ligands")
     folder = _with_rules({"ligands.toml": text})
     try:
         rs = _ok_or_isosieve(load_rules, [folder])
@@ -285,7 +285,7 @@ def test_input_with_a_line_break_still_gives_one_line():
 
 
 def test_internal_error_exit_1_one_line_and_traceback_only_with_debug(monkeypatch):
-    import enumerator.pipeline as pipeline
+    import enumerator.workflow.pipeline as pipeline
 
     def boom(req, **kw):
         raise ZeroDivisionError("synthetic failure\nsecond line")

@@ -17,7 +17,7 @@ import numpy as np
 import pytest
 
 from enumerator.errors import InputError, RuleError
-from enumerator.rules import load_rules
+from enumerator.rules.ruleset import load_rules
 
 # (symbol, Schoenflies group, order, polyhedron edges) -- Cotton 1990 for the
 # groups; edge counts are Euler's V - E + F = 2 for each polyhedron (common practice)

@@ -7,8 +7,8 @@ from rdkit import Chem
 from rdkit.Chem.rdMolDescriptors import CalcMolFormula
 
 from enumerator.errors import InputError, RuleError
-from enumerator.ligands import find_ligand, load_ligands
-from enumerator.rules import load_rules
+from enumerator.rules.ligands import find_ligand, load_ligands
+from enumerator.rules.ruleset import load_rules
 
 RS = load_rules()
 CAT = load_ligands(RS)

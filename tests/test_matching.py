@@ -3,12 +3,12 @@ import json
 from click.testing import CliRunner
 
 from enumerator.cli import cli
-from enumerator.forcefield import predict_bands
-from enumerator.formula import parse_abstract
-from enumerator.isomers import enumerate_isomers
-from enumerator.matching import match_bands
-from enumerator.pipeline import apply_settings
-from enumerator.rules import load_rules
+from enumerator.vibrations.forcefield import predict_bands
+from enumerator.parse.abstract import parse_abstract
+from enumerator.isomers.enumeration import enumerate_isomers
+from enumerator.vibrations.matching import match_bands
+from enumerator.workflow.pipeline import apply_settings
+from enumerator.rules.ruleset import load_rules
 
 
 def _set(formula):
@@ -50,7 +50,7 @@ def test_cli_json_and_errors():
 def test_parse_measured_as_written_in_papers():
     # intensity words of IR tables (common practice): vs > s > m > w > vw; sh, br qualifiers
     from enumerator.errors import InputError
-    from enumerator.matching import parse_measured
+    from enumerator.vibrations.matching import parse_measured
 
     assert parse_measured("2045 (s), 1980 (vs), 1932 (m, br), 1900 (sh), 1850") == (
         (2045.0, 0.75), (1980.0, 1.0), (1932.0, 0.5), (1900.0, 0.25), (1850.0, None))
@@ -87,7 +87,7 @@ def test_intensities_break_a_position_tie():
     # towards another candidate, are matched best by the true isomer once
     # intensities are given
     s = _set("Ma3b2c")
-    from enumerator.forcefield import band_pattern
+    from enumerator.vibrations.forcefield import band_pattern
 
     pats = {i.number: [b for b in band_pattern(i, "CO").bands if b.ir_active] for i in s.isomers}
     true, other = sorted(n for n, p in pats.items() if len(p) == 3)[:2]

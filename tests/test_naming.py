@@ -1,4 +1,4 @@
-"""IUPAC additive names (enumerator.naming) against printed names.
+"""IUPAC additive names (enumerator.analyses.names) against printed names.
 
 Sources: Nomenclature of Inorganic Chemistry, IUPAC Recommendations 2005
 ("Red Book"), read in a stored copy of the printed book, cited by section
@@ -15,11 +15,11 @@ import pytest
 from click.testing import CliRunner
 
 from enumerator.cli import cli as main_cli
-from enumerator.condensed import parse_condensed
-from enumerator.naming import additive_name, ligand_sort_key
-from enumerator.nomenclature import DescriptorAnalysis
-from enumerator.pipeline import analyse
-from enumerator.rules import load_rules
+from enumerator.parse.condensed import parse_condensed
+from enumerator.analyses.names import additive_name, ligand_sort_key
+from enumerator.analyses.descriptors import DescriptorAnalysis
+from enumerator.workflow.pipeline import analyse
+from enumerator.rules.ruleset import load_rules
 
 R = load_rules()
 

@@ -1,4 +1,4 @@
-"""IUPAC stereodescriptors (enumerator.nomenclature) against the Red Book.
+"""IUPAC stereodescriptors (enumerator.analyses.descriptors) against the Red Book.
 
 Source: Nomenclature of Inorganic Chemistry, IUPAC Recommendations 2005
 ("Red Book"), IR-9.3.3 (configuration index) and IR-9.3.4 (chirality
@@ -17,16 +17,16 @@ import pytest
 from click.testing import CliRunner
 
 from enumerator.cli import cli, main
-from enumerator.formula import parse_abstract
-from enumerator.isomers import enumerate_isomers
-from enumerator.nomenclature import (
+from enumerator.parse.abstract import parse_abstract
+from enumerator.isomers.enumeration import enumerate_isomers
+from enumerator.analyses.descriptors import (
     DescriptorAnalysis,
     describe_isomer,
     find_by_descriptor,
     skew_lines_sense,
 )
-from enumerator.pipeline import analyse
-from enumerator.rules import load_rules
+from enumerator.workflow.pipeline import analyse
+from enumerator.rules.ruleset import load_rules
 
 R = load_rules()
 

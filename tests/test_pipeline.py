@@ -1,6 +1,6 @@
 """Formulas whose metal symbol starts like the abstract 'M' notation."""
 
-from enumerator.pipeline import analyse
+from enumerator.workflow.pipeline import analyse
 
 
 def test_molybdenum_and_manganese_are_real_formulas():

@@ -1,4 +1,4 @@
-from enumerator.forcefield import Band
+from enumerator.vibrations.forcefield import Band
 from enumerator.render.plots import lorentzian_trace, stick_spectrum
 import numpy as np
 

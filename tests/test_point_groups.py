@@ -14,9 +14,9 @@ from __future__ import annotations
 import numpy as np
 import pytest
 
-from enumerator.formula import parse_abstract
-from enumerator.isomers import enumerate_isomers
-from enumerator.pipeline import apply_settings
+from enumerator.parse.abstract import parse_abstract
+from enumerator.isomers.enumeration import enumerate_isomers
+from enumerator.workflow.pipeline import apply_settings
 
 pytest.importorskip("pymatgen")
 from pymatgen.core import Molecule  # noqa: E402

@@ -21,11 +21,11 @@ Site directions used below (the geometry files put them there):
 
 from __future__ import annotations
 
-from enumerator.formula import parse_abstract
-from enumerator.isomers import enumerate_isomers
-from enumerator.nomenclature import DescriptorAnalysis, describe_isomer
-from enumerator.pipeline import analyse
-from enumerator.rules import load_rules
+from enumerator.parse.abstract import parse_abstract
+from enumerator.isomers.enumeration import enumerate_isomers
+from enumerator.analyses.descriptors import DescriptorAnalysis, describe_isomer
+from enumerator.workflow.pipeline import analyse
+from enumerator.rules.ruleset import load_rules
 
 R = load_rules()
 

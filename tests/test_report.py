@@ -10,12 +10,12 @@ import xml.etree.ElementTree as ET
 from click.testing import CliRunner
 
 from enumerator.cli import main
-from enumerator.composition import Composition, LigandKind
-from enumerator.isomers import enumerate_isomers
-from enumerator.pipeline import analyse
+from enumerator.model.composition import Composition, LigandKind
+from enumerator.isomers.enumeration import enumerate_isomers
+from enumerator.workflow.pipeline import analyse
 from enumerator.render.report import pair_grid_html, polyhedron_svg, render_report, tables_csv, tables_latex
-from enumerator.result import Result
-from enumerator.rules import load_rules
+from enumerator.workflow.result import Result
+from enumerator.rules.ruleset import load_rules
 
 HOSTILE = "<script>alert(1)</script>"
 

@@ -20,8 +20,8 @@ import pytest
 
 from enumerator.cli.isomers_cmd import PROGRESS_MIN, SIZE_CAP, check_size, want_progress
 from enumerator.errors import CapacityError, RuleError
-from enumerator.pipeline import Request, run
-from enumerator.rules import load_rules
+from enumerator.workflow.pipeline import Request, run
+from enumerator.rules.ruleset import load_rules
 
 CMD = [sys.executable, "-m", "enumerator"]
 
@@ -151,7 +151,7 @@ LONG = ["isomers", "Ma2b2c2d2e2f2", "--geometry", "IC-12", "--json"]  # 124,920 
 # The analysis stages run on the isomers found before the interruption; their
 # cost (the pair table is quadratic in the isomer count) is not what is under
 # test here, so the child runs the command with no stages.
-NO_STAGES = [sys.executable, "-c", "import sys, enumerator.pipeline as p; p.STAGES = (); from enumerator.cli import main; main(sys.argv[1:])"]
+NO_STAGES = [sys.executable, "-c", "import sys, enumerator.workflow.pipeline as p; p.STAGES = (); from enumerator.cli import main; main(sys.argv[1:])"]
 
 
 def _interrupt(args, wait: float = 2.0):

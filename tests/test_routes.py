@@ -13,11 +13,11 @@ from fractions import Fraction
 import pytest
 
 from enumerator.cli import main
-from enumerator.counting import burnside_counts
+from enumerator.isomers.counting import burnside_counts
 from enumerator.errors import InputError, RuleError
-from enumerator.formula import parse_abstract
-from enumerator.pipeline import parse_formula
-from enumerator.routes import (
+from enumerator.parse.abstract import parse_abstract
+from enumerator.workflow.pipeline import parse_formula
+from enumerator.routes.core import (
     build_network,
     canonical_key,
     enumerate_isomers_cached,
@@ -30,7 +30,7 @@ from enumerator.routes import (
     predict_step,
     route_json,
 )
-from enumerator.rules import load_rules
+from enumerator.rules.ruleset import load_rules
 
 
 def _geo_shares(p):

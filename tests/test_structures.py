@@ -8,10 +8,10 @@ import numpy as np
 import pytest
 from click.testing import CliRunner
 
-from enumerator.composition import Composition, LigandKind
-from enumerator.isomers import enumerate_isomers
-from enumerator.rules import load_rules
-from enumerator.structures import bond_length, build_structure, to_sdf, to_xyz
+from enumerator.model.composition import Composition, LigandKind
+from enumerator.isomers.enumeration import enumerate_isomers
+from enumerator.rules.ruleset import load_rules
+from enumerator.structures.build import bond_length, build_structure, to_sdf, to_xyz
 
 # Hand-built catalogue-style kinds (contract 3: donor atoms carry atom maps 1..denticity).
 # SMILES written from the ligands' structures (common practice); CO as the
@@ -153,7 +153,7 @@ def test_per_ligand_fallback_on_trigonal_bipyramid():
     # Fe(CO)5 (TBPY-5): the one-piece embedding fails in RDKit, each CO is then
     # embedded on its own against the fixed metal and donor.  Formula Fe(CO)5 =
     # C5FeO5 (fact of the trade); M-C-O near linear.
-    from enumerator.pipeline import analyse
+    from enumerator.workflow.pipeline import analyse
 
     r = analyse("[Fe(CO)5]")
     s = build_structure(r.isomers[0], r.composition)
@@ -171,7 +171,7 @@ def test_closest_contact_flags_overlapping_ligands():
     # below 70% of the vdW sum, common practice); on opposite sites they are not
     from rdkit import Chem
 
-    from enumerator.structures import CLASH_FRACTION, closest_contact
+    from enumerator.structures.build import CLASH_FRACTION, closest_contact
 
     mol = Chem.MolFromSmiles("[Mo](Cl)Cl", sanitize=False)
     d, i, j, limit = closest_contact(mol, [(0, 0, 0), (2.4, 0, 0), (2.4, 0.5, 0)])
@@ -188,8 +188,8 @@ def test_written_structures_are_clash_free_or_say_so(formula):
     # the clash limit, or its title, note and SDF record carry the warning
     from rdkit import Chem
 
-    from enumerator.pipeline import analyse
-    from enumerator.structures import closest_contact, structures_for
+    from enumerator.workflow.pipeline import analyse
+    from enumerator.structures.build import closest_contact, structures_for
 
     res = analyse(formula, geometry="OC-6")
     for s in structures_for(res):

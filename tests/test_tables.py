@@ -8,10 +8,10 @@ from dataclasses import dataclass, replace
 
 import pytest
 
-from enumerator.pipeline import Request, run
+from enumerator.workflow.pipeline import Request, run
 from enumerator.render.tables import csv as to_csv
 from enumerator.render.tables import latex, latex_species, latex_symbol, markdown
-from enumerator.result import Column
+from enumerator.workflow.result import Column
 
 
 @pytest.mark.parametrize(

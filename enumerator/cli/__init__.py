@@ -82,7 +82,7 @@ def cli(ctx: click.Context, rules: tuple[str, ...], debug: bool) -> None:
 
 def main(argv: list[str] | None = None) -> None:
     """Console entry point with the project's exit-status contract."""
-    from ..errors import IsosieveError
+    from enumerator.errors import IsosieveError
 
     args = list(sys.argv[1:] if argv is None else argv)
     debug = "--debug" in args or os.environ.get("ISOSIEVE_DEBUG") == "1"

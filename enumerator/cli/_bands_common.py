@@ -2,12 +2,12 @@
 
 from __future__ import annotations
 
-from ..errors import InputError
+from enumerator.errors import InputError
 
 
 def load_set(formula, geometry, reporters, rules):
-    from ..isomers import enumerate_isomers
-    from ..pipeline import Request, prepare
+    from enumerator.isomers.enumeration import enumerate_isomers
+    from enumerator.workflow.pipeline import Request, prepare
 
     req = Request(formula=formula, geometry=geometry, reporters=reporters, rules=rules)
     comp, geo, reason = prepare(req)
@@ -16,7 +16,7 @@ def load_set(formula, geometry, reporters, rules):
 
 def descriptors(comp, iso_set):
     try:
-        from ..nomenclature import describe_isomer
+        from enumerator.analyses.descriptors import describe_isomer
     except ImportError:  # pragma: no cover
         return {}
     out = {}
@@ -31,20 +31,20 @@ def descriptors(comp, iso_set):
 
 def cautions(comp):
     try:
-        from ..safety import cautions as c
+        from enumerator.analyses.safety import cautions as c
     except ImportError:  # pragma: no cover
         return ()
     return c(comp)
 
 
 def write_plot(path, panels, measured, width):
-    from ..render.plots import spectra_figure
+    from enumerator.render.plots import spectra_figure
     from pathlib import Path
 
     fmt = Path(path).suffix.lower().lstrip(".")
     if fmt not in ("svg", "png"):
         raise InputError(f"--plot '{path}' is not .svg or .png", "name the file e.g. spectra.svg")
     data = spectra_figure(panels, measured=measured, fmt=fmt, width_cm1=width)
-    from .common import write_atomic_bytes
+    from enumerator.cli.common import write_atomic_bytes
 
     write_atomic_bytes(path, data)

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import click
 
-from .common import emit, parse_pairs, rules_of
+from enumerator.cli.common import emit, parse_pairs, rules_of
 
 
 @click.command("bands")
@@ -35,14 +35,14 @@ def bands(ctx, formula, geometry, reporters, klass, isomer_id, constants, fit, f
       isosieve bands Ma4b2 --reporter a=CO --isomer 1 --fit 2030,1940,1915,1890 --ck
       isosieve bands "[Cr(CO)5(13CO)]" --plot spectra.svg
     """
-    from ..errors import InputError
-    from ..forcefield import band_pattern, parse_constants, reporter_classes
-    from ..render.jsonout import dumps
-    from ..render.text import table
-    from . import _bands_common as bc
+    from enumerator.errors import InputError
+    from enumerator.vibrations.forcefield import band_pattern, parse_constants, reporter_classes
+    from enumerator.render.jsonout import dumps
+    from enumerator.render.text import table
+    from enumerator.cli import _bands_common as bc
 
     comp, iso_set, reason = bc.load_set(formula, geometry, parse_pairs(reporters, "--reporter", "a=CO"), rules_of(ctx))
-    from ..rules import load_rules
+    from enumerator.rules.ruleset import load_rules
 
     rules = load_rules(rules_of(ctx))
     params = parse_constants(constants) if constants else None
@@ -63,7 +63,7 @@ def bands(ctx, formula, geometry, reporters, klass, isomer_id, constants, fit, f
             use = params
             if params and not isomer_id:
                 # set names k1, k2, ... differ between isomers: apply those this isomer has
-                from ..forcefield import build_model
+                from enumerator.vibrations.forcefield import build_model
 
                 names = set(build_model(iso, c, rules).parameter_names) | {"k", "kc", "kt"}
                 use = {n: v for n, v in params.items() if n in names or not (n[:1] == "k" and n[1:].isdigit())}
@@ -81,7 +81,7 @@ def bands(ctx, formula, geometry, reporters, klass, isomer_id, constants, fit, f
                 lines.append(f"  note: {n}")
             panels.append((f"isomer {name} ({iso.point_group}) {c}", pat.bands))
             if fit:
-                from ..fitting import fit_constants, parse_bands
+                from enumerator.vibrations.fitting import fit_constants, parse_bands
 
                 if not isomer_id and len(chosen) > 1:
                     raise InputError("--fit needs one isomer", f"add --isomer, one of {', '.join(i.id for i in chosen)}")
@@ -107,7 +107,7 @@ def bands(ctx, formula, geometry, reporters, klass, isomer_id, constants, fit, f
     if plot:
         meas = None
         if fit:
-            from ..fitting import parse_bands
+            from enumerator.vibrations.fitting import parse_bands
 
             meas = [o.wavenumber for o in parse_bands(fit, "--fit")]
         bc.write_plot(plot, panels, meas, width)

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import click
 
-from .common import emit, rules_of
+from enumerator.cli.common import emit, rules_of
 
 
 def read_formulas(path: str) -> list[tuple[str, str]]:
@@ -14,7 +14,7 @@ def read_formulas(path: str) -> list[tuple[str, str]]:
     import csv
     import io
 
-    from ..errors import InputError
+    from enumerator.errors import InputError
 
     try:
         with open(path, encoding="utf-8-sig", newline="") as fh:
@@ -38,15 +38,15 @@ def read_formulas(path: str) -> list[tuple[str, str]]:
 
 
 def render_rows(rows, fmt: str) -> str:
-    from ..batch import HEADER, row_cells, row_to_dict
+    from enumerator.workflow.batch import HEADER, row_cells, row_to_dict
 
     if fmt == "json":
-        from ..render.jsonout import dumps
+        from enumerator.render.jsonout import dumps
 
         return dumps({"rows": [row_to_dict(r) for r in rows]})
     cells = [row_cells(r) for r in rows]
     if fmt == "csv":
-        from ..render.tables import write_csv
+        from enumerator.render.tables import write_csv
 
         return write_csv(HEADER, cells)
     if fmt == "markdown":
@@ -54,7 +54,7 @@ def render_rows(rows, fmt: str) -> str:
         out = ["| " + " | ".join(HEADER) + " |", "|" + "|".join("---" for _ in HEADER) + "|"]
         out += ["| " + " | ".join(esc(c) for c in r) + " |" for r in cells]
         return "\n".join(out) + "\n"
-    from ..render.text import table
+    from enumerator.render.text import table
 
     return table(HEADER, cells) + "\n"
 
@@ -80,8 +80,8 @@ def batch(ctx, file, workers, geometry, fmt, out, limit):
       isosieve batch formulas.txt
       isosieve batch screen.csv --workers 2 --format csv --out results.csv
     """
-    from ..batch import screen
-    from ..errors import InputError
+    from enumerator.workflow.batch import screen
+    from enumerator.errors import InputError
 
     items = read_formulas(file)
     rows = list(screen(items, rules=rules_of(ctx), workers=workers, geometry=geometry, limit=limit))

@@ -4,12 +4,12 @@ from __future__ import annotations
 
 import click
 
-from .common import emit, parse_pairs, rules_of
+from enumerator.cli.common import emit, parse_pairs, rules_of
 
 
 def _render(t, title: str) -> str:
-    from ..chartable import format_character
-    from ..render.text import table
+    from enumerator.symmetry.chartable import format_character
+    from enumerator.render.text import table
 
     golden = t.group in ("I", "Ih")
     header = ["", *[c.label for c in t.classes], "linear, rotations", "quadratic"]
@@ -58,8 +58,8 @@ def chartable(ctx, what, isomer_id, geometry, spans, as_json, out):
       isosieve chartable "Ma2b2c2" --isomer 2
       isosieve chartable "M(AA)2b2" --geometry OC-6
     """
-    from ..chartable import GROUP_NAME, named_table, table_for_isomer
-    from ..render.jsonout import dumps
+    from enumerator.symmetry.chartable import GROUP_NAME, named_table, table_for_isomer
+    from enumerator.render.jsonout import dumps
 
     if GROUP_NAME.match(what) and not isomer_id and not geometry:
         t = named_table(what)
@@ -70,7 +70,7 @@ def chartable(ctx, what, isomer_id, geometry, spans, as_json, out):
         return
     if what in ("Dinfh", "Cinfv"):
         named_table(what)  # raises the explanation
-    from ..pipeline import Request, run
+    from enumerator.workflow.pipeline import Request, run
 
     res = run(Request(formula=what, geometry=geometry, spans=parse_pairs(spans, "--span", "AA=trans"), rules=rules_of(ctx)))
     isomers = [res.isomer_set.get(isomer_id)] if isomer_id else list(res.isomers)

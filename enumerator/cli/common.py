@@ -8,7 +8,7 @@ from pathlib import Path
 
 import click
 
-from ..errors import InputError
+from enumerator.errors import InputError
 
 __all__ = ["parse_pairs", "emit", "write_atomic", "write_atomic_bytes", "rules_of"]
 

@@ -1,6 +1,6 @@
 """``isosieve count``: how many isomers a formula has, before listing any.
 
-The numbers come from Burnside's lemma (:mod:`enumerator.counting`): an
+The numbers come from Burnside's lemma (:mod:`enumerator.isomers.counting`): an
 average over the symmetry operations of the decorations each one fixes.
 Nothing is enumerated, so even a 12-vertex centre with twelve different
 ligands answers at once.
@@ -10,7 +10,7 @@ from __future__ import annotations
 
 import click
 
-from .common import emit, parse_pairs, rules_of
+from enumerator.cli.common import emit, parse_pairs, rules_of
 
 
 @click.command("count")
@@ -36,10 +36,10 @@ def count(ctx, formula, geometry, every, spans, arrangements, as_json, out):
       isosieve count Ma4b2 --all
       isosieve count "M(AA)b4" --span AA=trans --json
     """
-    from ..counting import burnside_counts
-    from ..isomers import generate
-    from ..pipeline import Request, prepare
-    from ..rules import load_rules
+    from enumerator.isomers.counting import burnside_counts
+    from enumerator.isomers.enumeration import generate
+    from enumerator.workflow.pipeline import Request, prepare
+    from enumerator.rules.ruleset import load_rules
 
     req = Request(
         formula=formula,
@@ -51,7 +51,7 @@ def count(ctx, formula, geometry, every, spans, arrangements, as_json, out):
     comp, geo, reason = prepare(req)
     if every:
         if geometry:
-            from ..errors import InputError
+            from enumerator.errors import InputError
 
             raise InputError("--all and --geometry both given", "give one of them")
         rules = load_rules(req.rules)
@@ -67,7 +67,7 @@ def count(ctx, formula, geometry, every, spans, arrangements, as_json, out):
         n_geo, n_stereo = burnside_counts(comp, g) or (0, 0)
         rows.append({"geometry": g.symbol, "name": g.name, "geometric_isomers": n_geo, "stereoisomers": n_stereo})
     if as_json:
-        from ..render.jsonout import dumps
+        from enumerator.render.jsonout import dumps
 
         doc = {"formula": comp.formula, "method": "Burnside's lemma", "counts": rows}
         if not every:

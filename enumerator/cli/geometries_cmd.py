@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import click
 
-from .common import emit, rules_of
+from enumerator.cli.common import emit, rules_of
 
 
 @click.command("geometries")
@@ -18,9 +18,9 @@ def geometries(ctx, as_json):
       isosieve geometries
       isosieve --rules my_rules geometries
     """
-    from ..render.jsonout import dumps
-    from ..render.text import table
-    from ..rules import load_rules
+    from enumerator.render.jsonout import dumps
+    from enumerator.render.text import table
+    from enumerator.rules.ruleset import load_rules
 
     rs = load_rules(rules_of(ctx))
     geos = sorted(rs.geometries.values(), key=lambda g: (g.coordination_number, g.symbol))

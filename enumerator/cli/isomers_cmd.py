@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import click
 
-from .common import emit, parse_pairs, rules_of
+from enumerator.cli.common import emit, parse_pairs, rules_of
 
 #: Refuse to list more stereoisomers than this at once unless --limit is given.
 SIZE_CAP = 200_000
@@ -16,7 +16,7 @@ def check_size(total: int | None, limit: int | None, formula: str, symbol: str, 
     """Raise CapacityError when the up-front count is over ``cap`` and no --limit is given."""
     if total is None or limit is not None or total <= cap:
         return
-    from ..errors import CapacityError
+    from enumerator.errors import CapacityError
 
     raise CapacityError(
         f"{formula} on {symbol} has {total:,} stereoisomers (Burnside count), more than the {cap:,} listed at once",
@@ -35,9 +35,9 @@ def _run(req, partial: bool):
     progress; on Ctrl-C returns the part found so far when ``partial``."""
     import sys
 
-    from ..counting import burnside_counts
-    from ..isomers import IsomerSet
-    from ..pipeline import prepare, run
+    from enumerator.isomers.counting import burnside_counts
+    from enumerator.isomers.enumeration import IsomerSet
+    from enumerator.workflow.pipeline import prepare, run
 
     comp, geo, _ = prepare(req)
     counts = burnside_counts(comp, geo)
@@ -102,7 +102,7 @@ def isomers(ctx, formula, geometry, as_json, fmt, out, spans, arrangements, repo
     """
     import sys
 
-    from ..pipeline import Request
+    from enumerator.workflow.pipeline import Request
 
     req = Request(
         formula=formula,
@@ -117,19 +117,19 @@ def isomers(ctx, formula, geometry, as_json, fmt, out, spans, arrangements, repo
     try:
         res, interrupted = _run(req, partial)
         if pick:
-            from ..nomenclature import select_isomers
+            from enumerator.analyses.descriptors import select_isomers
 
             res = select_isomers(res, pick)
         if as_json or fmt == "json":
-            from ..render.jsonout import dumps, result_to_dict
+            from enumerator.render.jsonout import dumps, result_to_dict
 
             emit(dumps(result_to_dict(res)), out)
         elif fmt == "table":
-            from ..render.text import render
+            from enumerator.render.text import render
 
             emit(render(res), out)
         else:
-            from ..render import tables
+            from enumerator.render import tables
 
             emit(getattr(tables, fmt)(res), out)
     except KeyboardInterrupt:

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import click
 
-from .common import emit, rules_of, write_atomic
+from enumerator.cli.common import emit, rules_of, write_atomic
 
 
 @click.command("job")
@@ -24,13 +24,13 @@ def job(ctx, file, fmt, out, write_outputs):
     """
     from pathlib import Path
 
-    from ..jobfile import load_job, render_job, run_job
+    from enumerator.workflow.job import load_job, render_job, run_job
 
     j = load_job(file, rules_of(ctx))
     results = run_job(j)
     if write_outputs:
         if not j.outputs:
-            from ..errors import InputError
+            from enumerator.errors import InputError
 
             raise InputError(f"job file '{file}' lists no [[output]]", 'add [[output]] with format = "markdown" and file = "..."')
         for f, rel in j.outputs:

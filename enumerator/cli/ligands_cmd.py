@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import click
 
-from .common import emit, rules_of
+from enumerator.cli.common import emit, rules_of
 
 
 @click.command("ligands")
@@ -23,8 +23,8 @@ def ligands(ctx, name, as_json, fmt):
       isosieve ligands --format csv
       isosieve --rules my_rules ligands
     """
-    from ..ligands import find_ligand, load_ligands
-    from ..rules import load_rules
+    from enumerator.rules.ligands import find_ligand, load_ligands
+    from enumerator.rules.ruleset import load_rules
 
     rs = load_rules(rules_of(ctx))
     entries = [find_ligand(rs, name)] if name else sorted(load_ligands(rs).values(), key=lambda e: (e.denticity, e.name.lower()))
@@ -39,7 +39,7 @@ def ligands(ctx, name, as_json, fmt):
         }
 
     if as_json or fmt == "json":
-        from ..render.jsonout import dumps
+        from enumerator.render.jsonout import dumps
 
         emit(dumps(doc(entries[0]) if name else [doc(e) for e in entries]), None)
         return
@@ -51,11 +51,11 @@ def ligands(ctx, name, as_json, fmt):
                      f"{e.charge:+d}" if e.charge else "0", str(e.electrons_covalent), str(e.electrons_ionic),
                      e.reporter or "", place, ", ".join(e.aliases), e.smiles])
     if fmt == "csv":
-        from ..render.tables import write_csv
+        from enumerator.render.tables import write_csv
 
         emit(write_csv(header, rows), None)
         return
-    from ..render.text import table
+    from enumerator.render.text import table
 
     text = table(header, rows)
     if name and entries[0].note:

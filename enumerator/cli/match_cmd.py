@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import click
 
-from .common import emit, parse_pairs, rules_of
+from enumerator.cli.common import emit, parse_pairs, rules_of
 
 
 @click.command("match")
@@ -33,11 +33,11 @@ def match(ctx, formula, bands_text, tolerance, weak, geometry, reporters, klass,
       isosieve match Ma4b2 --reporter a=CO --bands 2030,1940,1915 --tolerance 15 --plot match.svg
       isosieve match "[Mo(CO)3(PPh3)3]" --bands "1950 (m), 1860 (vs), 1840 (s)"
     """
-    from ..errors import InputError
-    from ..matching import match_bands, parse_measured
-    from ..render.jsonout import dumps
-    from ..rules import load_rules
-    from . import _bands_common as bc
+    from enumerator.errors import InputError
+    from enumerator.vibrations.matching import match_bands, parse_measured
+    from enumerator.render.jsonout import dumps
+    from enumerator.rules.ruleset import load_rules
+    from enumerator.cli import _bands_common as bc
 
     if ":" in bands_text:
         raise InputError("match does not take species labels", "give plain wavenumbers, e.g. --bands 2045,1980,1932")
@@ -49,7 +49,7 @@ def match(ctx, formula, bands_text, tolerance, weak, geometry, reporters, klass,
                       intensities=[x for _, x in obs])
     safety = list(bc.cautions(comp))
     if plot:
-        from ..forcefield import band_pattern
+        from enumerator.vibrations.forcefield import band_pattern
 
         panels = []
         for c in res.candidates:

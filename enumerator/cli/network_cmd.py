@@ -7,7 +7,7 @@ from pathlib import Path
 
 import click
 
-from .common import emit, rules_of, write_atomic_bytes
+from enumerator.cli.common import emit, rules_of, write_atomic_bytes
 
 _FORMATS = ("text", "json", "graphml", "svg", "png")
 
@@ -36,8 +36,8 @@ def network(ctx, start, target, geometry, fmt, as_json, out):
       isosieve network Ma6 --target Ma4b2 --out net.graphml
       isosieve network Ma4 --target Ma2b2 --geometry SP-4 --out net.svg
     """
-    from ..errors import InputError
-    from ..routes import build_network
+    from enumerator.errors import InputError
+    from enumerator.routes.core import build_network
 
     if as_json:
         fmt = "json"
@@ -48,20 +48,20 @@ def network(ctx, start, target, geometry, fmt, as_json, out):
         raise InputError("PNG output is binary", "give --out FILE.png (or use --format svg)")
     net = build_network(start, target, geometry=geometry, rules=rules_of(ctx))
     if fmt == "json":
-        from ..render.jsonout import dumps
-        from ..routes import network_json
+        from enumerator.render.jsonout import dumps
+        from enumerator.routes.core import network_json
 
         emit(dumps(network_json(net)), out)
     elif fmt == "graphml":
-        from ..routes import network_graphml
+        from enumerator.routes.core import network_graphml
 
         emit(network_graphml(net), out)
     elif fmt == "svg":
-        from ..routes import network_picture
+        from enumerator.routes.core import network_picture
 
         emit(network_picture(net, "svg").decode("utf-8"), out)
     elif fmt == "png":
-        from ..routes import network_picture
+        from enumerator.routes.core import network_picture
 
         write_atomic_bytes(out, network_picture(net, "png"))
     else:
@@ -69,7 +69,7 @@ def network(ctx, start, target, geometry, fmt, as_json, out):
 
 
 def _text(net) -> str:
-    from ..render.text import table
+    from enumerator.render.text import table
 
     lines = [f"Network {net.start} -> {net.target} on {net.geometry}", ""]
     lines.append(table(["composition", "stereoisomers"], [[f, str(n)] for f, n in net.compositions]))

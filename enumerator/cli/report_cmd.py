@@ -7,7 +7,7 @@ from pathlib import Path
 
 import click
 
-from .common import rules_of, write_atomic
+from enumerator.cli.common import rules_of, write_atomic
 
 
 def _slug(text: str) -> str:
@@ -16,7 +16,7 @@ def _slug(text: str) -> str:
 
 
 def _pairs(value, where: str, example: str) -> tuple[tuple[str, str], ...]:
-    from ..errors import InputError
+    from enumerator.errors import InputError
 
     if value is None:
         return ()
@@ -28,17 +28,17 @@ def _pairs(value, where: str, example: str) -> tuple[tuple[str, str], ...]:
 def load_requests(path: str, rules: tuple[str, ...]):
     """(title, [Request, ...]) from a job file.
 
-    Uses :mod:`enumerator.jobfile` when it is present; otherwise reads the
+    Uses :mod:`enumerator.workflow.job` when it is present; otherwise reads the
     minimal form: ``title = "..."`` (optional) and one ``[[complex]]`` table
     per complex with ``formula`` and optional ``geometry``, ``limit`` and
     ``reporters`` / ``spans`` / ``arrangements`` tables (NAME = "VALUE").
     """
-    from ..errors import InputError
-    from ..pipeline import Request
-    from ..rules import check_keys, read_toml
+    from enumerator.errors import InputError
+    from enumerator.workflow.pipeline import Request
+    from enumerator.rules.ruleset import check_keys, read_toml
 
     try:  # the job-file module of issue 4, once it exists
-        from .. import jobfile  # type: ignore[attr-defined]
+        from enumerator import jobfile  # type: ignore[attr-defined]
     except ImportError:
         jobfile = None
     if jobfile is not None and hasattr(jobfile, "load_job"):
@@ -98,9 +98,9 @@ def report(ctx, job, out_dir, title):
       isosieve report job.toml --out si
       isosieve --rules mylib report job.toml --out si --title "SI tables"
     """
-    from ..pipeline import run
-    from ..render.report import render_report, tables_csv, tables_latex
-    from ..rules import load_rules
+    from enumerator.workflow.pipeline import run
+    from enumerator.render.report import render_report, tables_csv, tables_latex
+    from enumerator.rules.ruleset import load_rules
 
     rules = rules_of(ctx)
     name, reqs = load_requests(job, rules)

@@ -5,7 +5,7 @@ from __future__ import annotations
 
 import click
 
-from .common import emit, rules_of
+from enumerator.cli.common import emit, rules_of
 
 
 @click.command("route")
@@ -36,30 +36,30 @@ def route(ctx, start, target, add, leaving, geometry, rule_set, as_json, out):
       isosieve route "[Cr(CO)5(PPh3)]" --add PPh3 --rule-set statistical
       isosieve --rules myrules route Ma4 --target cis-Ma2b2 --geometry SP-4
     """
-    from ..errors import InputError
+    from enumerator.errors import InputError
 
     if bool(target) == bool(add):
         raise InputError("give either --target TARGET (plan routes) or --add LIGAND (one step)", 'e.g. --target "cis-[PtCl2(NH3)2]"')
     if leaving and not add:
         raise InputError("--leaving goes with --add", "drop --leaving, or use --add LIGAND")
     if add:
-        from ..routes import predict_step
+        from enumerator.routes.core import predict_step
 
         p = predict_step(start, add, leaving=leaving or None, geometry=geometry, rule_set=rule_set, rules=rules_of(ctx))
         if as_json:
-            from ..render.jsonout import dumps
-            from ..routes import prediction_json
+            from enumerator.render.jsonout import dumps
+            from enumerator.routes.core import prediction_json
 
             emit(dumps(prediction_json(p)), out)
         else:
             emit(_prediction_text(p), out)
         return
-    from ..routes import plan_routes
+    from enumerator.routes.core import plan_routes
 
     plan = plan_routes(start, target, geometry=geometry, rule_set=rule_set, rules=rules_of(ctx))
     if as_json:
-        from ..render.jsonout import dumps
-        from ..routes import route_json
+        from enumerator.render.jsonout import dumps
+        from enumerator.routes.core import route_json
 
         emit(dumps(route_json(plan)), out)
     else:
@@ -76,7 +76,7 @@ def _head(rules, reason: str) -> list[str]:
 
 
 def _prediction_text(p) -> str:
-    from ..render.text import table
+    from enumerator.render.text import table
 
     lines = [f"Start:     {p.start.label()}", f"Entering:  {p.entering}", *_head(p.rules, p.rules_reason)]
     lines.append("")

@@ -7,7 +7,7 @@ from pathlib import Path
 
 import click
 
-from .common import parse_pairs, rules_of, write_atomic
+from enumerator.cli.common import parse_pairs, rules_of, write_atomic
 
 
 def _slug(text: str) -> str:
@@ -54,8 +54,8 @@ def structures(ctx, formula, out_dir, fmt, geometry, spans, arrangements, limit)
       isosieve structures "[Mo(CO)3(PMe3)3]" --out mo --format sdf
       isosieve structures Ma2b2c2 --out core
     """
-    from ..pipeline import Request, run
-    from ..structures import structures_for, to_sdf, to_xyz
+    from enumerator.workflow.pipeline import Request, run
+    from enumerator.structures.build import structures_for, to_sdf, to_xyz
 
     req = Request(
         formula=formula,

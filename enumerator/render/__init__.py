@@ -1,4 +1,4 @@
-"""Renderers: each turns a :class:`~enumerator.result.Result` into text.
+"""Renderers: each turns a :class:`~enumerator.workflow.result.Result` into text.
 
 They read plain data only and never compute chemistry.
 """

@@ -10,8 +10,8 @@ import json
 import re
 from typing import Any
 
-from ..isomers import Isomer
-from ..result import SCHEMA_VERSION, Result
+from enumerator.isomers.enumeration import Isomer
+from enumerator.workflow.result import SCHEMA_VERSION, Result
 
 __all__ = ["result_to_dict", "dumps", "isomer_to_dict"]
 

@@ -35,7 +35,7 @@ def spectra_figure(
 ) -> bytes:
     """One panel per (title, bands); returns the SVG or PNG bytes."""
     if fmt not in ("svg", "png"):
-        from ..errors import InputError
+        from enumerator.errors import InputError
 
         raise InputError(f"plot format '{fmt}' is not svg or png", "name the file .svg or .png")
     import matplotlib

@@ -1,6 +1,6 @@
 """A self-contained HTML report for supporting information.
 
-:func:`render_report` turns one or more :class:`~enumerator.result.Result`
+:func:`render_report` turns one or more :class:`~enumerator.workflow.result.Result`
 objects into one HTML page that needs no network: inline CSS, inline SVG
 and ``data:`` images only, no scripts, no web fonts.  For each complex it
 shows the isomer table (every analysis's columns), then one card per
@@ -13,7 +13,7 @@ isomer with
   any other per-isomer keys the analyses add (read through the Analysis
   protocol, so a new analysis shows up without a change here);
 * its predicted stick spectrum per reporter class
-  (:func:`enumerator.forcefield.predict_bands` plotted by
+  (:func:`enumerator.vibrations.forcefield.predict_bands` plotted by
   :func:`enumerator.render.plots.stick_spectrum` when that module is
   present, else by a small SVG plot drawn here) with the band list;
 
@@ -25,7 +25,7 @@ Every string that can come from a user (formulae, ligand names from user
 rule files, notes) goes through :func:`html.escape`.  The same input gives
 byte-identical output.
 
->>> from enumerator.pipeline import analyse
+>>> from enumerator.workflow.pipeline import analyse
 >>> page = render_report([analyse("Ma4b2", geometry="OC-6")])
 >>> page.startswith("<!DOCTYPE html>") and "<script" not in page
 True
@@ -39,8 +39,8 @@ import json
 import math
 from typing import Any, Iterable, Mapping, Sequence
 
-from ..isomers import Isomer
-from ..result import Result
+from enumerator.isomers.enumeration import Isomer
+from enumerator.workflow.result import Result
 
 __all__ = [
     "render_report",
@@ -228,10 +228,10 @@ def spectrum_svg(bands: Sequence[Any], label: str = "", width: int = 340, height
 
 def _spectra_html(iso: Isomer, rules) -> str:
     try:
-        from ..forcefield import predict_bands, reporter_classes
+        from enumerator.vibrations.forcefield import predict_bands, reporter_classes
     except ImportError:
         return ""
-    from ..errors import IsosieveError
+    from enumerator.errors import IsosieveError
 
     parts = []
     for cls in reporter_classes(iso):
@@ -244,7 +244,7 @@ def _spectra_html(iso: Isomer, rules) -> str:
             continue
         img = ""
         try:
-            from . import plots  # issue 6
+            from enumerator.render import plots  # issue 6
 
             svg = plots.stick_spectrum(bands, fmt="svg")
             data = base64.b64encode(svg if isinstance(svg, bytes) else str(svg).encode()).decode("ascii")
@@ -264,7 +264,7 @@ def _spectra_html(iso: Isomer, rules) -> str:
 # ---------------------------------------------------------------- tables
 def table_rows(res: Result) -> tuple[list[str], list[list[str]]]:
     """The isomer table shown in the report (also written as CSV / LaTeX)."""
-    from .text import isomer_rows
+    from enumerator.render.text import isomer_rows
 
     return isomer_rows(res)
 
@@ -469,7 +469,7 @@ def _complex_html(n: int, res: Result, rules) -> tuple[str, list[str]]:
                 sections.append(block)
     if not cautions:  # the safety stage did not run: ask the safety module directly
         try:
-            from ..safety import cautions as safety_lines
+            from enumerator.analyses.safety import cautions as safety_lines
         except ImportError:  # pragma: no cover - module absent
             safety_lines = None
         lines = safety_lines(comp) if safety_lines else ()

@@ -24,8 +24,8 @@ import io
 import re
 from typing import Sequence
 
-from ..result import Result
-from .text import occupancy
+from enumerator.workflow.result import Result
+from enumerator.render.text import occupancy
 
 __all__ = ["markdown", "csv", "latex", "rows", "latex_symbol", "latex_species", "latex_escape", "markdown_symbol"]
 

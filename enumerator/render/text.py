@@ -5,8 +5,8 @@ from __future__ import annotations
 from collections import defaultdict
 from typing import Sequence
 
-from ..isomers import Isomer
-from ..result import Result
+from enumerator.isomers.enumeration import Isomer
+from enumerator.workflow.result import Result
 
 __all__ = ["table", "isomer_table", "isomer_rows", "occupancy", "render"]
 

@@ -1,0 +1,173 @@
+"""IUPAC additive names of mononuclear complexes (Nomenclature of Inorganic
+Chemistry, IUPAC Recommendations 2005, IR-9.2), with the stereodescriptor
+of IR-9.3 in front: ``(OC-6-22)-triamminetrinitrito-κN-cobalt(III)``.
+
+The parts come from the rule data, never from the formula text:
+
+* each ligand's name is the ``iupac`` key of its catalogue entry, with
+  ``enclose`` saying whether it goes in parentheses (organic ligands and
+  names with locants, spaces or multiplying prefixes of their own);
+* the central atom's name is in ``rules/element_names.toml`` (its -ate
+  form for an anionic complex).
+
+Assembly (IR-9.2.2):
+
+* ligands in alphanumerical order of their names, ignoring multiplying
+  prefixes of the complex and the designators η, κ, locants and italic
+  prefixes (N-, tert-) at the front of a ligand name;
+* multiplying prefixes di, tri, tetra ... for plain names, bis, tris,
+  tetrakis ... for enclosed ones; no elision (tetraammine, hexaaqua);
+  enclosing marks nest ( ), [ ( ) ], { [ ( ) ] };
+* a hyphen after a κ term when a plain name follows (nitrito-κN-cobalt);
+* the oxidation number in roman numerals after the central atom,
+  ``cobalt(III)``, ``nickel(0)``; where a nitrosyl makes the oxidation
+  state a matter of convention, the charge number instead
+  (Ewens–Bassett), ``ferrate(2−)``, and none for a neutral complex.
+
+The descriptor is put in front, in parentheses, when the composition has
+more than one stereoisomer.  A complex with an unnamed ligand (generic or
+isotope-labelled entries) or metal gets no name, with the reason.
+
+>>> from enumerator.rules.ruleset import load_rules
+>>> from enumerator.parse.condensed import parse_condensed
+>>> rs = load_rules()
+>>> additive_name(parse_condensed("[CoCl3(NH3)3]", rs), rs, "OC-6-22").name
+'(OC-6-22)-triamminetrichloridocobalt(III)'
+>>> additive_name(parse_condensed("[Fe(CN)6]4-", rs), rs, None).name
+'hexacyanidoferrate(II)'
+"""
+
+from __future__ import annotations
+
+import re
+from dataclasses import dataclass
+from functools import lru_cache
+from typing import Mapping
+
+from enumerator.model.composition import Composition
+from enumerator.errors import IsosieveError, RuleError
+
+__all__ = ["ComplexName", "additive_name", "element_names", "ligand_sort_key"]
+
+_SIMPLE = {1: "", 2: "di", 3: "tri", 4: "tetra", 5: "penta", 6: "hexa", 7: "hepta", 8: "octa", 9: "nona", 10: "deca", 11: "undeca", 12: "dodeca"}
+_ENCLOSED = {1: "", 2: "bis", 3: "tris", 4: "tetrakis", 5: "pentakis", 6: "hexakis", 7: "heptakis", 8: "octakis", 9: "nonakis", 10: "decakis", 11: "undecakis", 12: "dodecakis"}
+#: designators and italic prefixes at the front of a ligand name, ignored in ordering
+_FRONT = re.compile(r"^(?:η\d*-|κ\d*[A-Za-z,′″']*-|\d[\d,:′″']*-|[A-Z](?:,[A-Z])*[′″']*(?:,[A-Z][′″']*)*-|tert-|sec-|cis-|trans-)+")
+_KAPPA_END = re.compile(r"κ\d*[A-Z][a-z]?\d*[′″']*(?:,κ?\d*[A-Z][a-z]?\d*[′″']*)*$")
+
+
+@dataclass(frozen=True)
+class ComplexName:
+    """An additive name, or why there is none."""
+
+    name: str | None
+    reason: str | None = None
+
+
+def ligand_sort_key(name: str) -> str:
+    """The ordering key of a ligand name (IR-9.2.2): front designators and
+    locants dropped, then letters only, lower case.
+
+    >>> ligand_sort_key("N,N′-bis(2-aminoethyl)ethane-1,2-diamine")
+    'bisaminoethylethanediamine'
+    >>> ligand_sort_key("η5-cyclopentadienyl")
+    'cyclopentadienyl'
+    """
+    body = _FRONT.sub("", name)
+    return "".join(ch for ch in body.lower() if ch.isalpha() and ch not in "κη")
+
+
+def element_names(ruleset) -> Mapping[str, tuple[str, str]]:
+    """Symbol -> (name, anion name) from every element_names.toml in force."""
+    return _element_names(tuple(ruleset.files("element_names.toml")))
+
+
+@lru_cache(maxsize=16)
+def _element_names(paths) -> Mapping[str, tuple[str, str]]:
+    from enumerator.rules.ruleset import check_keys, read_toml
+
+    out: dict[str, tuple[str, str]] = {}
+    for path in paths:
+        data = read_toml(path)
+        check_keys(data, str(path), (), ("element",))
+        entries = data.get("element") or []
+        if not isinstance(entries, list):
+            raise RuleError(f"{path}: 'element' must be an array of tables", "write [[element]] before each entry")
+        for k, e in enumerate(entries, 1):
+            where = f"{path}: [[element]] #{k}"
+            if not isinstance(e, dict):
+                raise RuleError(f"{where} is not a table", "write [[element]] with symbol, name, anion")
+            check_keys(e, where, ("symbol", "name", "anion"), ())
+            for key in ("symbol", "name", "anion"):
+                if not isinstance(e[key], str) or not re.fullmatch(r"[A-Za-z]+", e[key]):
+                    raise RuleError(f"{where}: {key} must be a word of letters, not {e[key]!r}", f'write e.g. {key} = "cobalt"')
+            out[e["symbol"]] = (e["name"], e["anion"])
+    return out
+
+
+def _number(comp: Composition) -> str | None:
+    """'(III)', '(0)', '(2−)' or '' (neutral nitrosyl complex); None when the
+    oxidation state cannot be computed."""
+    from enumerator.analyses.centre import count_electrons, roman
+
+    nitrosyl = any("nitrosyl" in dict(k.meta) for k in comp.kinds)
+    if nitrosyl:
+        q = comp.charge
+        if q == 0:
+            return ""
+        return f"({abs(q)}{'+' if q > 0 else '−'})"
+    try:
+        ox = count_electrons(comp).oxidation_state
+    except IsosieveError:  # an uncountable centre simply gets no name
+        return None
+    if ox is None:
+        return None
+    return f"({roman(ox).replace('-', '−')})"
+
+
+def _enclosed(name: str) -> str:
+    """The name in the enclosing marks one level above the deepest inside
+    it, in the nesting order ( [ { ( [ { ... (IR-9.2.2.3; P-16.5 of the
+    organic recommendations)."""
+    depth = level = 0
+    for ch in name:
+        if ch in "([{":
+            level += 1
+            depth = max(depth, level)
+        elif ch in ")]}":
+            level -= 1
+    marks = ("()", "[]", "{}")[depth % 3]
+    return marks[0] + name + marks[1]
+
+
+def additive_name(comp: Composition, ruleset, descriptor: str | None) -> ComplexName:
+    """The additive name of ``comp`` with ``descriptor`` in front (see the
+    module docstring)."""
+    if comp.metal == "M":
+        return ComplexName(None, "abstract letters have no names")
+    parts = []
+    for kind, count in comp.parts:
+        meta = dict(kind.meta)
+        name = meta.get("iupac")
+        if not isinstance(name, str):
+            return ComplexName(None, f"ligand '{kind.name}' has no IUPAC name in the catalogue (iupac = \"...\" in its ligands.toml entry)")
+        parts.append((ligand_sort_key(name), name, bool(meta.get("enclose")), count))
+    metals = element_names(ruleset)
+    if comp.metal not in metals:
+        return ComplexName(None, f"no name for the element {comp.metal} (add it to an element_names.toml under --rules DIR)")
+    number = _number(comp)
+    if number is None:
+        return ComplexName(None, f"the oxidation state of {comp.metal} cannot be computed here")
+    pieces = []
+    for _, name, enclose, count in sorted(parts):
+        if count > 12:
+            return ComplexName(None, f"{count} identical ligands: no multiplying prefix is tabulated here")
+        pieces.append((_ENCLOSED[count] + _enclosed(name)) if enclose else (_SIMPLE[count] + name))
+    pieces.append(metals[comp.metal][1 if comp.charge < 0 else 0] + number)
+    text = ""
+    for piece in pieces:
+        if text and _KAPPA_END.search(text) and piece[:1] not in "([{":
+            text += "-"
+        text += piece
+    full = f"({descriptor.replace(chr(39), '′')})-{text}" if descriptor else text
+    return ComplexName(full)

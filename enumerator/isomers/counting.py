@@ -1,0 +1,169 @@
+"""Up-front isomer counts by Burnside's lemma, without enumerating.
+
+For ligands that each take one site, the number of orbits of colourings
+with prescribed colour counts is the average, over the group, of the number
+of colourings each operation fixes (Burnside's lemma; the coefficient
+extraction of Pólya's theorem).  An operation fixes a colouring exactly
+when every one of its site cycles is one colour, so the fixed count is the
+number of ways to give each cycle a colour with the counts adding up.
+
+Chelates and rings are counted the same way, with placements in place of
+sites: an operation permutes the placements of each ligand kind, and a
+decoration it fixes is a union of whole cycles of placements (each cycle's
+members pairwise disjoint) that covers every site exactly once with the
+right number of molecules of each kind.  Those are counted by a small
+dynamic programme over covered-site bit masks (always extending the lowest
+uncovered site, so each decoration is counted once).  Burnside's lemma
+(W. Burnside, *Theory of Groups of Finite Order*, 1897; as used by G. Pólya,
+*Acta Math.* 68 (1937) 145) then averages these fixed counts over the group.
+
+>>> from enumerator.rules.ruleset import load_rules
+>>> from enumerator.parse.abstract import parse_abstract
+>>> oc = load_rules().geometry("OC-6")
+>>> burnside_counts(parse_abstract("Mabcdef"), oc)
+(15, 30)
+>>> burnside_counts(parse_abstract("M(AA)2b2"), oc)
+(2, 3)
+"""
+
+from __future__ import annotations
+
+from functools import lru_cache
+
+from enumerator.model.composition import Composition
+from enumerator.model.geometry import Geometry
+
+__all__ = ["burnside_counts", "cycle_type", "fixed_decorations"]
+
+
+def cycle_type(perm: tuple[int, ...]) -> tuple[int, ...]:
+    """Sorted cycle lengths of a permutation."""
+    seen = [False] * len(perm)
+    out = []
+    for i in range(len(perm)):
+        if seen[i]:
+            continue
+        n = 0
+        j = i
+        while not seen[j]:
+            seen[j] = True
+            j = perm[j]
+            n += 1
+        out.append(n)
+    return tuple(sorted(out))
+
+
+@lru_cache(maxsize=None)
+def _fixed(cycles: tuple[int, ...], counts: tuple[int, ...]) -> int:
+    if not cycles:
+        return 1 if all(c == 0 for c in counts) else 0
+    first, rest = cycles[0], cycles[1:]
+    total = 0
+    for k, c in enumerate(counts):
+        if c >= first:
+            nxt = counts[:k] + (c - first,) + counts[k + 1 :]
+            total += _fixed(rest, tuple(sorted(nxt)))
+    return total
+
+
+def burnside_counts(composition: Composition, geometry: Geometry) -> tuple[int, int] | None:
+    """(geometric isomers, stereoisomers) by Burnside's lemma, without
+    enumerating: orbits under the full group and under the proper rotations.
+
+    Works for monodentate ligands (cycle colouring), chelates of any span
+    setting, fac/mer-limited tridentates and face-capping rings (placement
+    cycles, see the module docstring).  None when the donor count does not
+    match the geometry; (0, 0) when the ligands cannot be placed together.
+    """
+    if composition.donor_count != geometry.coordination_number:
+        return None
+    return _counts(composition.parts, geometry)
+
+
+@lru_cache(maxsize=256)
+def _counts(parts: tuple, geometry: Geometry) -> tuple[int, int]:
+    ops = geometry.operations
+    if all(k.denticity == 1 for k, _ in parts):
+        counts = tuple(sorted(n for _, n in parts))
+        full = [_fixed(cycle_type(op.perm), counts) for op in ops]
+    else:
+        full = [fixed_decorations(parts, geometry, op.perm) for op in ops]
+    proper = [f for f, op in zip(full, ops) if op.proper]
+    geo, rem_g = divmod(sum(full), len(full))
+    stereo, rem_s = divmod(sum(proper), len(proper))
+    if rem_g or rem_s:  # pragma: no cover - Burnside's average is always whole
+        raise ArithmeticError(f"Burnside average is not whole for {parts} on {geometry.symbol}")
+    return geo, stereo
+
+
+def fixed_decorations(parts: tuple, geometry: Geometry, perm: tuple[int, ...]) -> int:
+    """How many decorations of the sites with ``parts`` ((LigandKind, count)
+    pairs) the site permutation ``perm`` maps onto themselves."""
+    from enumerator.isomers.enumeration import placements_for  # numpy-heavy; only when counting chelates
+
+    n = geometry.coordination_number
+    full_mask = (1 << n) - 1
+    # items[site] = (kind index, mask, molecules) for each usable placement
+    # cycle whose lowest site is ``site``
+    items: list[list[tuple[int, int, int]]] = [[] for _ in range(n)]
+    for kk, (kind, _) in enumerate(parts):
+        cands = placements_for(kind, geometry)
+        index = {t: k for k, t in enumerate(cands)}
+        image = [index[_canon(kind, tuple(perm[x] for x in t))] for t in cands]
+        seen = [False] * len(cands)
+        for start in range(len(cands)):
+            if seen[start]:
+                continue
+            mask = 0
+            size = 0
+            ok = True
+            j = start
+            while not seen[j]:
+                seen[j] = True
+                m = _mask(cands[j])
+                if mask & m:
+                    ok = False
+                mask |= m
+                size += 1
+                j = image[j]
+            if ok:
+                low = (mask & -mask).bit_length() - 1
+                items[low].append((kk, mask, size))
+    memo: dict[tuple[int, tuple[int, ...]], int] = {}
+
+    def count(covered: int, left: tuple[int, ...]) -> int:
+        if covered == full_mask:
+            return 1 if not any(left) else 0
+        key = (covered, left)
+        hit = memo.get(key)
+        if hit is not None:
+            return hit
+        free = ~covered & full_mask
+        low = (free & -free).bit_length() - 1
+        total = 0
+        for kk, mask, size in items[low]:
+            if mask & covered or size > left[kk]:
+                continue
+            nxt = left[:kk] + (left[kk] - size,) + left[kk + 1 :]
+            total += count(covered | mask, nxt)
+        memo[key] = total
+        return total
+
+    return count(0, tuple(c for _, c in parts))
+
+
+def _canon(kind, t: tuple[int, ...]) -> tuple[int, ...]:
+    # the same canonical form of a placement as the enumerator uses
+    if kind.ring:
+        return tuple(sorted(t))
+    if kind.palindromic:
+        r = t[::-1]
+        return r if r < t else t
+    return t
+
+
+def _mask(t: tuple[int, ...]) -> int:
+    m = 0
+    for x in t:
+        m |= 1 << x
+    return m

@@ -1,0 +1,1 @@
+"""Formula readers: the abstract letter notation and condensed real formulas."""

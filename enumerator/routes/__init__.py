@@ -1,0 +1,2 @@
+"""Substitution routes: canonical keys, the formula space, step prediction,
+the network and the planner."""

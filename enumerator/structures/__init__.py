@@ -1,0 +1,1 @@
+"""3D starting structures of isomers, and their file formats."""

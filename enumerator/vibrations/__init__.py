@@ -1,0 +1,1 @@
+"""Band model: force field, GF solver, fitting and matching of measured bands."""

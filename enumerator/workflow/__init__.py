@@ -1,0 +1,1 @@
+"""Orchestration: the pipeline from request to result, batch screening and job files."""
