@@ -36,6 +36,7 @@ def __getattr__(name: str):
         return getattr(importlib.import_module(f".{_LAZY[name]}", __name__), name)
     raise AttributeError(f"module 'enumerator' has no attribute {name!r}")
 
+
 __all__ = [
     "__version__",
     "IsosieveError",

@@ -43,7 +43,8 @@ import statistics
 import subprocess
 import sys
 import time
-from typing import Any, Callable, Iterable, Iterator
+from collections.abc import Callable, Iterable, Iterator
+from typing import Any
 
 __all__ = [
     "ENUMERATION_CASES",
@@ -102,8 +103,8 @@ def naive_isomers(formula: str, symbol: str) -> dict[str, Any]:
     """Brute force: all n! permutations of the labelling, canonical form as
     the least image under the rotations, then the stabiliser and point
     group of each orbit representative without caching."""
-    from enumerator.symmetry.operations import schoenflies
     from enumerator.rules.ruleset import load_rules
+    from enumerator.symmetry.operations import schoenflies
 
     geo = load_rules().geometry(symbol)
     ops = geo.operations
@@ -150,8 +151,8 @@ def _worker(symbol: str, formula: str, warm: int) -> dict[str, Any]:
             pass
     t0 = time.perf_counter()
     from enumerator.isomers.counting import burnside_counts
-    from enumerator.parse.abstract import parse_abstract
     from enumerator.isomers.enumeration import enumerate_isomers
+    from enumerator.parse.abstract import parse_abstract
     from enumerator.rules.ruleset import load_rules
 
     geo = load_rules().geometry(symbol)
@@ -280,7 +281,10 @@ def condensed_library(size: int, rng: random.Random | None = None) -> list[str]:
         ligs = rng.sample(_MONO, k)
         cuts = sorted(rng.sample(range(1, 6), k - 1))
         parts = [b - a for a, b in zip([0] + cuts, cuts + [6])]
-        body = "".join((f"({l})" if len(l) > 2 or l in ("CO", "CN", "py") else l) + (str(n) if n > 1 else "") for l, n in zip(ligs, parts))
+        body = "".join(
+            (f"({l})" if len(l) > 2 or l in ("CO", "CN", "py") else l) + (str(n) if n > 1 else "")
+            for l, n in zip(ligs, parts)
+        )
         out.append(f"[{metal}{body}]")
     return out
 
@@ -289,8 +293,8 @@ def _own_screen(formulas: Iterable[str], cache: dict | None = None) -> Iterator[
     """Fallback screen with a cache by composition pattern + geometry."""
     from enumerator.errors import IsosieveError
     from enumerator.isomers.enumeration import enumerate_isomers
-    from enumerator.workflow.pipeline import choose_geometry, parse_formula
     from enumerator.rules.ruleset import load_rules
+    from enumerator.workflow.pipeline import choose_geometry, parse_formula
 
     rules = load_rules()
     cache = {} if cache is None else cache
@@ -313,7 +317,9 @@ def _screen_function() -> tuple[Callable[..., Iterable[Any]], str]:
         from enumerator.workflow.batch import screen  # contract 5 (issue-4 engineer)
     except ImportError:
         shared: dict = {}
-        return (lambda formulas, workers=1: _own_screen(formulas, shared)), "own pattern cache (enumerator.workflow.batch not present)"
+        return (
+            lambda formulas, workers=1: _own_screen(formulas, shared)
+        ), "own pattern cache (enumerator.workflow.batch not present)"
     return screen, "enumerator.workflow.batch.screen"
 
 
@@ -321,8 +327,8 @@ def _parse_only(formulas: list[str]) -> float:
     """Seconds to parse every formula and choose its geometry: the floor a
     fully cached screen can reach."""
     from enumerator.errors import IsosieveError
-    from enumerator.workflow.pipeline import choose_geometry, parse_formula
     from enumerator.rules.ruleset import load_rules
+    from enumerator.workflow.pipeline import choose_geometry, parse_formula
 
     rules = load_rules()
     t = time.perf_counter()
@@ -336,8 +342,8 @@ def _parse_only(formulas: list[str]) -> float:
 
 def _patterns(formulas: list[str]) -> int:
     from enumerator.errors import IsosieveError
-    from enumerator.workflow.pipeline import parse_formula
     from enumerator.rules.ruleset import load_rules
+    from enumerator.workflow.pipeline import parse_formula
 
     rules = load_rules()
     out = set()
@@ -503,14 +509,20 @@ def render(doc: dict[str, Any]) -> str:
     """Markdown tables of a :func:`run_all` document."""
     m = doc["machine"]
     out = [f"machine: {m['nproc']} CPUs, {m['cpu']}, Python {m['python']}{' (quick run)' if doc['quick'] else ''}", ""]
-    out.append("| geometry | formula | stereo | geometric | first run, median (s) | warm median (s) | isomers/s | import+load (s) | peak RSS (MB) | Burnside agrees |")
+    out.append(
+        "| geometry | formula | stereo | geometric | first run, median (s) | warm median (s) | isomers/s | import+load (s) | peak RSS (MB) | Burnside agrees |"
+    )
     out.append("|---|---|---|---|---|---|---|---|---|---|")
     for r in doc["enumeration"]:
         out.append(
             f"| {r['geometry']} | {r['formula']} | {_f(r['stereoisomers'])} | {_f(r['geometric_isomers'])} | {_f(r['first_median_s'])} | "
             f"{_f(r['warm_median_s'])} | {_f(r['isomers_per_s'], 0)} | {_f(r['import_and_load_s'])} | {_f(r['peak_rss_mb'], 1)} | {_f(r['burnside_agrees'])} |"
         )
-    out += ["", "| geometry | formula | naive (s) | ratio naive/first | ratio naive/warm | same isomers and point groups |", "|---|---|---|---|---|---|"]
+    out += [
+        "",
+        "| geometry | formula | naive (s) | ratio naive/first | ratio naive/warm | same isomers and point groups |",
+        "|---|---|---|---|---|---|",
+    ]
     for r in doc["baseline"]:
         if "skipped" in r:
             out.append(f"| {r['geometry']} | {r['formula']} | skipped: {r['skipped']} | - | - | - |")

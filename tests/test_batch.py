@@ -6,12 +6,19 @@ import json
 import subprocess
 import sys
 
-from enumerator.workflow.batch import pattern_key, screen
 from enumerator.parse.condensed import parse_condensed
 from enumerator.rules.ruleset import load_rules
+from enumerator.workflow.batch import pattern_key, screen
 
-FORMULAS = ["[RuCl2(CO)2(PPh3)2]", "[Co(NH3)4Cl2]+", "[Xx(CO)6]", "[OsBr2(CO)2(PMe3)2]", "Ma4b2", "[Fe(CN)5(NO)]2-",
-            "[Co(en)2Cl2]+"]
+FORMULAS = [
+    "[RuCl2(CO)2(PPh3)2]",
+    "[Co(NH3)4Cl2]+",
+    "[Xx(CO)6]",
+    "[OsBr2(CO)2(PMe3)2]",
+    "Ma4b2",
+    "[Fe(CN)5(NO)]2-",
+    "[Co(en)2Cl2]+",
+]
 
 
 def test_order_errors_and_cache():
@@ -43,8 +50,11 @@ def test_cli_csv_input(tmp_path):
     src = tmp_path / "in.csv"
     src.write_text("label,formula\nA,[Co(NH3)4Cl2]+\nB,[Fe(CO)99\nC,Ni(CO)4\n", encoding="utf-8")
     out = tmp_path / "out.json"
-    p = subprocess.run([sys.executable, "-m", "enumerator", "batch", str(src), "--format", "json", "--out", str(out)],
-                       capture_output=True, text=True)
+    p = subprocess.run(
+        [sys.executable, "-m", "enumerator", "batch", str(src), "--format", "json", "--out", str(out)],
+        capture_output=True,
+        text=True,
+    )
     assert p.returncode == 2 and "1 of 3 rows" in p.stderr and "Traceback" not in p.stderr
     doc = json.loads(out.read_text(encoding="utf-8"))
     assert [r["label"] for r in doc["rows"]] == ["A", "B", "C"]

@@ -26,7 +26,10 @@ def test_libraries_have_the_requested_size_and_repeat_patterns():
 def test_quick_run_produces_a_complete_document():
     out = subprocess.run(
         [sys.executable, "-m", "enumerator.bench", "--quick", "--json", "--quiet"],
-        capture_output=True, text=True, timeout=120, check=True,
+        capture_output=True,
+        text=True,
+        timeout=120,
+        check=True,
     )
     doc = json.loads(out.stdout)
     for key in ("machine", "enumeration", "baseline", "batch_abstract", "batch_condensed", "cold_start"):

@@ -21,24 +21,32 @@ import struct
 import subprocess
 import time
 import urllib.request
-from pathlib import Path
 
 import pytest
 
-from enumerator.model.composition import Composition, LigandKind
 from enumerator.isomers.enumeration import enumerate_isomers
-from enumerator.workflow.pipeline import analyse
+from enumerator.model.composition import Composition, LigandKind
 from enumerator.render.report import render_report
-from enumerator.workflow.result import Result
 from enumerator.rules.ruleset import load_rules
+from enumerator.workflow.pipeline import analyse
+from enumerator.workflow.result import Result
 
 HOSTILE = "<script>alert(1)</script>"
 HOSTILE_DONOR = '"><img src=x onerror=alert(2)>'
 
 FLAGS = [
-    "--headless", "--no-sandbox", "--disable-gpu", "--disable-quic", "--no-first-run",
-    "--disable-background-networking", "--disable-component-update", "--disable-sync",
-    "--disable-extensions", "--disable-default-apps", "--mute-audio", "--hide-scrollbars",
+    "--headless",
+    "--no-sandbox",
+    "--disable-gpu",
+    "--disable-quic",
+    "--no-first-run",
+    "--disable-background-networking",
+    "--disable-component-update",
+    "--disable-sync",
+    "--disable-extensions",
+    "--disable-default-apps",
+    "--mute-audio",
+    "--hide-scrollbars",
     "--window-size=1200,1600",
 ]
 
@@ -58,8 +66,10 @@ def chromium() -> str:
         return path
     apt = shutil.which("apt-get")
     if not apt or os.geteuid() != 0:
-        pytest.fail("headless Chromium is needed for the browser test and is missing; "
-                    "install it with: apt-get install -y chromium chromium-driver (as root)")
+        pytest.fail(
+            "headless Chromium is needed for the browser test and is missing; "
+            "install it with: apt-get install -y chromium chromium-driver (as root)"
+        )
     env = dict(os.environ, DEBIAN_FRONTEND="noninteractive")
     log = []
     for cmd in ([apt, "update", "-q"], [apt, "install", "-y", "-q", "chromium", "chromium-driver"]):
@@ -81,8 +91,10 @@ class WebSocket:
         host, _, port = hostport.partition(":")
         self.sock = socket.create_connection((host, int(port)), timeout=timeout)
         key = base64.b64encode(os.urandom(16)).decode()
-        req = (f"GET /{path} HTTP/1.1\r\nHost: {hostport}\r\nUpgrade: websocket\r\nConnection: Upgrade\r\n"
-               f"Sec-WebSocket-Key: {key}\r\nSec-WebSocket-Version: 13\r\n\r\n")
+        req = (
+            f"GET /{path} HTTP/1.1\r\nHost: {hostport}\r\nUpgrade: websocket\r\nConnection: Upgrade\r\n"
+            f"Sec-WebSocket-Key: {key}\r\nSec-WebSocket-Version: 13\r\n\r\n"
+        )
         self.sock.sendall(req.encode())
         head = b""
         while b"\r\n\r\n" not in head:
@@ -179,7 +191,8 @@ def browser(chromium, tmp_path_factory):
     profile = tmp_path_factory.mktemp("chromium-profile")
     proc = subprocess.Popen(
         [chromium, *FLAGS, f"--user-data-dir={profile}", "--remote-debugging-port=0", "about:blank"],
-        stdout=subprocess.DEVNULL, stderr=subprocess.DEVNULL,
+        stdout=subprocess.DEVNULL,
+        stderr=subprocess.DEVNULL,
     )
     try:
         port_file = profile / "DevToolsActivePort"
@@ -251,12 +264,17 @@ def test_no_console_errors_dialogs_or_network(page):
 
 
 def test_user_strings_are_text_not_markup(page):
-    r = page.call("Runtime.evaluate", returnByValue=True, expression=(
-        "JSON.stringify({scripts: document.querySelectorAll('script').length,"
-        " imgs_onerror: document.querySelectorAll('img[onerror]').length,"
-        " text: document.body.innerText.includes('<script>alert(1)</script>'),"
-        " title: document.title, svgs: document.querySelectorAll('svg').length,"
-        " cards: document.querySelectorAll('.card').length})"))
+    r = page.call(
+        "Runtime.evaluate",
+        returnByValue=True,
+        expression=(
+            "JSON.stringify({scripts: document.querySelectorAll('script').length,"
+            " imgs_onerror: document.querySelectorAll('img[onerror]').length,"
+            " text: document.body.innerText.includes('<script>alert(1)</script>'),"
+            " title: document.title, svgs: document.querySelectorAll('svg').length,"
+            " cards: document.querySelectorAll('.card').length})"
+        ),
+    )
     got = json.loads(r["result"]["value"])
     assert got["scripts"] == 0 and got["imgs_onerror"] == 0
     assert got["text"] and got["title"] == f"browser test {HOSTILE}"

@@ -6,8 +6,8 @@ import pytest
 
 from enumerator.analyses.centre import choose_geometry, count_electrons, group_of
 from enumerator.parse.condensed import parse_condensed
-from enumerator.workflow.pipeline import Request, run
 from enumerator.rules.ruleset import load_rules
+from enumerator.workflow.pipeline import Request, run
 
 RS = load_rules()
 

@@ -19,11 +19,17 @@ import math
 import numpy as np
 import pytest
 
-from enumerator.symmetry.chartable import character_table, format_character, named_table, table_for_isomer, table_from_matrices
 from enumerator.errors import InputError
-from enumerator.parse.abstract import parse_abstract
 from enumerator.isomers.enumeration import enumerate_isomers
+from enumerator.parse.abstract import parse_abstract
 from enumerator.rules.ruleset import load_rules
+from enumerator.symmetry.chartable import (
+    character_table,
+    format_character,
+    named_table,
+    table_for_isomer,
+    table_from_matrices,
+)
 
 # --------------------------------------------------------------------------
 # phonopy: the 32 crystallographic point groups
@@ -31,11 +37,38 @@ from enumerator.rules.ruleset import load_rules
 # Hermann-Mauguin symbol (phonopy's key) -> Schoenflies symbol (International
 # Tables for Crystallography Vol. A, Table 10.1.2.2 - common practice).
 HM_TO_SCHOENFLIES = {
-    "1": "C1", "-1": "Ci", "2": "C2", "m": "Cs", "2/m": "C2h", "222": "D2", "mm2": "C2v", "mmm": "D2h",
-    "4": "C4", "-4": "S4", "4/m": "C4h", "422": "D4", "4mm": "C4v", "-42m": "D2d", "4/mmm": "D4h",
-    "3": "C3", "-3": "S6", "32": "D3", "3m": "C3v", "-3m": "D3d", "6": "C6", "-6": "C3h", "6/m": "C6h",
-    "622": "D6", "6mm": "C6v", "-6m2": "D3h", "6/mmm": "D6h", "23": "T", "m-3": "Th", "432": "O",
-    "-43m": "Td", "m-3m": "Oh",
+    "1": "C1",
+    "-1": "Ci",
+    "2": "C2",
+    "m": "Cs",
+    "2/m": "C2h",
+    "222": "D2",
+    "mm2": "C2v",
+    "mmm": "D2h",
+    "4": "C4",
+    "-4": "S4",
+    "4/m": "C4h",
+    "422": "D4",
+    "4mm": "C4v",
+    "-42m": "D2d",
+    "4/mmm": "D4h",
+    "3": "C3",
+    "-3": "S6",
+    "32": "D3",
+    "3m": "C3v",
+    "-3m": "D3d",
+    "6": "C6",
+    "-6": "C3h",
+    "6/m": "C6h",
+    "622": "D6",
+    "6mm": "C6v",
+    "-6m2": "D3h",
+    "6/mmm": "D6h",
+    "23": "T",
+    "m-3": "Th",
+    "432": "O",
+    "-43m": "Td",
+    "m-3m": "Oh",
 }
 
 _HEX = np.array([[1.0, -0.5, 0.0], [0.0, math.sqrt(3) / 2, 0.0], [0.0, 0.0, 1.0]])  # lattice vectors as columns
@@ -125,10 +158,14 @@ HANDBOOK = {
     "D5h": (
         ["E", "2C5", "2C5^2", "5C2", "sigma_h", "2S5", "2S5^3", "5sigma_v"],
         {
-            "A1'": [1, 1, 1, 1, 1, 1, 1, 1], "A2'": [1, 1, 1, -1, 1, 1, 1, -1],
-            "E1'": [2, C72, C144, 0, 2, C72, C144, 0], "E2'": [2, C144, C72, 0, 2, C144, C72, 0],
-            "A1''": [1, 1, 1, 1, -1, -1, -1, -1], "A2''": [1, 1, 1, -1, -1, -1, -1, 1],
-            "E1''": [2, C72, C144, 0, -2, -C72, -C144, 0], "E2''": [2, C144, C72, 0, -2, -C144, -C72, 0],
+            "A1'": [1, 1, 1, 1, 1, 1, 1, 1],
+            "A2'": [1, 1, 1, -1, 1, 1, 1, -1],
+            "E1'": [2, C72, C144, 0, 2, C72, C144, 0],
+            "E2'": [2, C144, C72, 0, 2, C144, C72, 0],
+            "A1''": [1, 1, 1, 1, -1, -1, -1, -1],
+            "A2''": [1, 1, 1, -1, -1, -1, -1, 1],
+            "E1''": [2, C72, C144, 0, -2, -C72, -C144, 0],
+            "E2''": [2, C144, C72, 0, -2, -C144, -C72, 0],
         },
         {"E1'": "x", "A2''": "z", "E2'": "xy", "E1''": "xz"},
     ),
@@ -136,10 +173,14 @@ HANDBOOK = {
     "D5d": (
         ["E", "2C5", "2C5^2", "5C2", "i", "2S10^3", "2S10", "5sigma_d"],
         {
-            "A1g": [1, 1, 1, 1, 1, 1, 1, 1], "A2g": [1, 1, 1, -1, 1, 1, 1, -1],
-            "E1g": [2, C72, C144, 0, 2, C72, C144, 0], "E2g": [2, C144, C72, 0, 2, C144, C72, 0],
-            "A1u": [1, 1, 1, 1, -1, -1, -1, -1], "A2u": [1, 1, 1, -1, -1, -1, -1, 1],
-            "E1u": [2, C72, C144, 0, -2, -C72, -C144, 0], "E2u": [2, C144, C72, 0, -2, -C144, -C72, 0],
+            "A1g": [1, 1, 1, 1, 1, 1, 1, 1],
+            "A2g": [1, 1, 1, -1, 1, 1, 1, -1],
+            "E1g": [2, C72, C144, 0, 2, C72, C144, 0],
+            "E2g": [2, C144, C72, 0, 2, C144, C72, 0],
+            "A1u": [1, 1, 1, 1, -1, -1, -1, -1],
+            "A2u": [1, 1, 1, -1, -1, -1, -1, 1],
+            "E1u": [2, C72, C144, 0, -2, -C72, -C144, 0],
+            "E2u": [2, C144, C72, 0, -2, -C144, -C72, 0],
         },
         {"A2u": "z", "E1u": "x", "E1g": "xz", "E2g": "xy"},
     ),
@@ -147,8 +188,12 @@ HANDBOOK = {
     "D4d": (
         ["E", "2S8", "2C4", "2S8^3", "C2", "4C2'", "4sigma_d"],
         {
-            "A1": [1, 1, 1, 1, 1, 1, 1], "A2": [1, 1, 1, 1, 1, -1, -1], "B1": [1, -1, 1, -1, 1, 1, -1],
-            "B2": [1, -1, 1, -1, 1, -1, 1], "E1": [2, R2, 0, -R2, -2, 0, 0], "E2": [2, 0, -2, 0, 2, 0, 0],
+            "A1": [1, 1, 1, 1, 1, 1, 1],
+            "A2": [1, 1, 1, 1, 1, -1, -1],
+            "B1": [1, -1, 1, -1, 1, 1, -1],
+            "B2": [1, -1, 1, -1, 1, -1, 1],
+            "E1": [2, R2, 0, -R2, -2, 0, 0],
+            "E2": [2, 0, -2, 0, 2, 0, 0],
             "E3": [2, -R2, 0, R2, -2, 0, 0],
         },
         {"B2": "z", "E1": "x", "E2": "xy", "E3": "xz"},
@@ -157,8 +202,11 @@ HANDBOOK = {
     "S8": (
         ["E", "S8", "C4", "S8^3", "C2", "S8^5", "C4^3", "S8^7"],
         {
-            "A": [1] * 8, "B": [1, -1, 1, -1, 1, -1, 1, -1], "E1": [2, R2, 0, -R2, -2, -R2, 0, R2],
-            "E2": [2, 0, -2, 0, 2, 0, -2, 0], "E3": [2, -R2, 0, R2, -2, R2, 0, -R2],
+            "A": [1] * 8,
+            "B": [1, -1, 1, -1, 1, -1, 1, -1],
+            "E1": [2, R2, 0, -R2, -2, -R2, 0, R2],
+            "E2": [2, 0, -2, 0, 2, 0, -2, 0],
+            "E3": [2, -R2, 0, R2, -2, R2, 0, -R2],
         },
         {"B": "z", "E1": "x", "E2": "xy", "E3": "xz"},
     ),
@@ -282,10 +330,29 @@ def test_orthogonality_of_every_stabiliser_table():
                 ops = geo.operations
                 vec = t.reduce({k: float(np.trace(ops[k].array)) for k in iso.stabiliser})
                 assert sum(n * t.irrep(l).dimension for l, n in vec.items()) == 3
-                assert all("x" in t.irrep(l).functions or "y" in t.irrep(l).functions or "z" in t.irrep(l).functions for l in vec)
+                assert all(
+                    "x" in t.irrep(l).functions or "y" in t.irrep(l).functions or "z" in t.irrep(l).functions
+                    for l in vec
+                )
                 groups.add(t.group)
     # the geometries reach a broad set of groups (check values: the ones named in the handbook tests)
-    assert {"Oh", "D4h", "C4v", "C2v", "C3v", "D3h", "Td", "D5h", "C5v", "D4d", "Ih", "D5d", "D6h", "Cs", "C1"} <= groups
+    assert {
+        "Oh",
+        "D4h",
+        "C4v",
+        "C2v",
+        "C3v",
+        "D3h",
+        "Td",
+        "D5h",
+        "C5v",
+        "D4d",
+        "Ih",
+        "D5d",
+        "D6h",
+        "Cs",
+        "C1",
+    } <= groups
 
 
 # --------------------------------------------------------------------------

@@ -14,10 +14,10 @@ import numpy as np
 import pytest
 
 from enumerator.analyses.cip import dense_ranks, donor_priorities, rank_smiles
-from enumerator.model.composition import Composition, LigandKind
-from enumerator.errors import InputError
-from enumerator.parse.abstract import parse_abstract
 from enumerator.analyses.descriptors import rs_symbol
+from enumerator.errors import InputError
+from enumerator.model.composition import Composition, LigandKind
+from enumerator.parse.abstract import parse_abstract
 
 PPH3 = "[P:1](c1ccccc1)(c1ccccc1)c1ccccc1"
 

@@ -4,8 +4,8 @@ from __future__ import annotations
 
 import pytest
 
-from enumerator.parse.condensed import parse_condensed
 from enumerator.errors import InputError
+from enumerator.parse.condensed import parse_condensed
 from enumerator.rules.ruleset import load_rules
 
 RS = load_rules()

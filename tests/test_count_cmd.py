@@ -14,22 +14,61 @@ from contextlib import redirect_stderr, redirect_stdout
 import pytest
 
 from enumerator.cli import main
-from enumerator.isomers.counting import burnside_counts
 from enumerator.errors import InputError
-from enumerator.parse.abstract import parse_abstract
+from enumerator.isomers.counting import burnside_counts
 from enumerator.isomers.enumeration import enumerate_isomers
-from enumerator.workflow.pipeline import apply_settings
+from enumerator.parse.abstract import parse_abstract
 from enumerator.rules.ruleset import load_rules
+from enumerator.workflow.pipeline import apply_settings
 
 RULES = load_rules()
 
 CHELATES = [
-    "M(AA)2b2", "M(AB)2b2", "M(AA)3", "M(AB)3", "M(AAA)b3", "M(ABA)b3", "M(ABC)b3",
-    "M(ring)a3", "M(ring)abc", "M(AB)abcd", "M(AA)b2c2", "M(AB)a2bc", "M(AA)4", "M(AB)4",
-    "M(AB)ab", "M(AA)ab", "M(ABC)(AB)ab", "M(AA)(AB)ab", "M(AB)(AB)", "M(AB)a", "M(AAA)(AB)abc",
-    "M(AA)2", "M(AB)2a2b", "M(ABA)(AA)", "M(AA)a2b",
+    "M(AA)2b2",
+    "M(AB)2b2",
+    "M(AA)3",
+    "M(AB)3",
+    "M(AAA)b3",
+    "M(ABA)b3",
+    "M(ABC)b3",
+    "M(ring)a3",
+    "M(ring)abc",
+    "M(AB)abcd",
+    "M(AA)b2c2",
+    "M(AB)a2bc",
+    "M(AA)4",
+    "M(AB)4",
+    "M(AB)ab",
+    "M(AA)ab",
+    "M(ABC)(AB)ab",
+    "M(AA)(AB)ab",
+    "M(AB)(AB)",
+    "M(AB)a",
+    "M(AAA)(AB)abc",
+    "M(AA)2",
+    "M(AB)2a2b",
+    "M(ABA)(AA)",
+    "M(AA)a2b",
 ]
-GEOMETRIES = ["TP-3", "TS-3", "T-4", "SP-4", "SS-4", "TBPY-5", "SPY-5", "OC-6", "TPR-6", "HP-6", "PBPY-7", "OCF-7", "TPRS-7", "CU-8", "SAPR-8", "HBPY-8", "DD-8"]
+GEOMETRIES = [
+    "TP-3",
+    "TS-3",
+    "T-4",
+    "SP-4",
+    "SS-4",
+    "TBPY-5",
+    "SPY-5",
+    "OC-6",
+    "TPR-6",
+    "HP-6",
+    "PBPY-7",
+    "OCF-7",
+    "TPRS-7",
+    "CU-8",
+    "SAPR-8",
+    "HBPY-8",
+    "DD-8",
+]
 
 
 def _enumerated(comp, geo) -> tuple[int, int]:

@@ -18,9 +18,8 @@ from fractions import Fraction
 import pytest
 
 from enumerator.isomers.counting import burnside_counts
-from enumerator.parse.abstract import parse_abstract
 from enumerator.isomers.enumeration import enumerate_isomers, generate
-from enumerator.rules.ruleset import load_rules
+from enumerator.parse.abstract import parse_abstract
 
 LETTERS = "abcdefghijkl"
 
@@ -76,7 +75,25 @@ def _burnside(ops, counts):
     return int(f)
 
 
-SMALL = ["TP-3", "TS-3", "T-4", "SP-4", "SS-4", "TBPY-5", "SPY-5", "OC-6", "TPR-6", "HP-6", "PBPY-7", "OCF-7", "TPRS-7", "CU-8", "SAPR-8", "HBPY-8", "DD-8"]
+SMALL = [
+    "TP-3",
+    "TS-3",
+    "T-4",
+    "SP-4",
+    "SS-4",
+    "TBPY-5",
+    "SPY-5",
+    "OC-6",
+    "TPR-6",
+    "HP-6",
+    "PBPY-7",
+    "OCF-7",
+    "TPRS-7",
+    "CU-8",
+    "SAPR-8",
+    "HBPY-8",
+    "DD-8",
+]
 
 
 @pytest.mark.parametrize("symbol", SMALL)
@@ -199,19 +216,49 @@ CHELATE_CASES = [
     ("M(AB)2bc", "OC-6", [("AB", 2, "edge", False, ()), ("b", 1, "edge", False, ()), ("c", 1, "edge", False, ())], {}),
     ("M(AA)b2c2", "OC-6", [("AA", 1, "edge", False, ()), ("b", 2, "edge", False, ()), ("c", 2, "edge", False, ())], {}),
     ("M(AAA)b3", "OC-6", [("AAA", 1, "edge", False, ()), ("b", 3, "edge", False, ())], {}),
-    ("M(ABA)bcd", "OC-6", [("ABA", 1, "edge", False, ()), ("b", 1, "edge", False, ()), ("c", 1, "edge", False, ()), ("d", 1, "edge", False, ())], {}),
+    (
+        "M(ABA)bcd",
+        "OC-6",
+        [
+            ("ABA", 1, "edge", False, ()),
+            ("b", 1, "edge", False, ()),
+            ("c", 1, "edge", False, ()),
+            ("d", 1, "edge", False, ()),
+        ],
+        {},
+    ),
     ("M(ABC)2", "OC-6", [("ABC", 2, "edge", False, ())], {}),
     ("M(AAA)2", "OC-6", [("AAA", 2, "edge", False, ("fac",))], {"arrangements": [("AAA", "fac")]}),
-    ("M(ring)a2b", "OC-6", [("RRR", 1, "edge", True, ()), ("a", 2, "edge", False, ()), ("b", 1, "edge", False, ())], {}),
+    (
+        "M(ring)a2b",
+        "OC-6",
+        [("RRR", 1, "edge", True, ()), ("a", 2, "edge", False, ()), ("b", 1, "edge", False, ())],
+        {},
+    ),
     ("M(AA)b4", "OC-6", [("AA", 1, "trans", False, ()), ("b", 4, "edge", False, ())], {"spans": [("AA", "trans")]}),
-    ("M(AA)b2c", "TBPY-5", [("AA", 1, "edge", False, ()), ("b", 2, "edge", False, ()), ("c", 1, "edge", False, ())], {}),
+    (
+        "M(AA)b2c",
+        "TBPY-5",
+        [("AA", 1, "edge", False, ()), ("b", 2, "edge", False, ()), ("c", 1, "edge", False, ())],
+        {},
+    ),
     ("M(AB)b2c", "SPY-5", [("AB", 1, "edge", False, ()), ("b", 2, "edge", False, ()), ("c", 1, "edge", False, ())], {}),
     ("M(AB)2", "SP-4", [("AB", 2, "edge", False, ())], {}),
     ("M(AB)ab", "T-4", [("AB", 1, "edge", False, ()), ("a", 1, "edge", False, ()), ("b", 1, "edge", False, ())], {}),
     ("M(AA)3", "TPR-6", [("AA", 3, "edge", False, ())], {}),
-    ("M(AB)a3b2", "PBPY-7", [("AB", 1, "edge", False, ()), ("a", 3, "edge", False, ()), ("b", 2, "edge", False, ())], {}),
+    (
+        "M(AB)a3b2",
+        "PBPY-7",
+        [("AB", 1, "edge", False, ()), ("a", 3, "edge", False, ()), ("b", 2, "edge", False, ())],
+        {},
+    ),
     ("M(AA)4", "SAPR-8", [("AA", 4, "edge", False, ())], {}),
-    ("M(AB)2a2b2", "CU-8", [("AB", 2, "edge", False, ()), ("a", 2, "edge", False, ()), ("b", 2, "edge", False, ())], {}),
+    (
+        "M(AB)2a2b2",
+        "CU-8",
+        [("AB", 2, "edge", False, ()), ("a", 2, "edge", False, ()), ("b", 2, "edge", False, ())],
+        {},
+    ),
 ]
 
 
@@ -230,7 +277,13 @@ def test_chelate_counts_match_burnside(rules, formula, symbol, kinds, opts):
 
 CLASSIC = [
     # formula, geometry, geometric isomers, stereoisomers, source
-    ("Ma4b2", "OC-6", 2, 2, "cis/trans; Miessler, Fischer & Tarr, Inorganic Chemistry, 5th ed., sec. 9.3 (from memory)"),
+    (
+        "Ma4b2",
+        "OC-6",
+        2,
+        2,
+        "cis/trans; Miessler, Fischer & Tarr, Inorganic Chemistry, 5th ed., sec. 9.3 (from memory)",
+    ),
     ("Ma3b3", "OC-6", 2, 2, "fac/mer; Miessler, Fischer & Tarr, sec. 9.3 (from memory)"),
     ("Ma2b2c2", "OC-6", 5, 6, "Miessler, Fischer & Tarr, sec. 9.3, isomer table (from memory)"),
     ("Mabcdef", "OC-6", 15, 30, "Miessler, Fischer & Tarr, sec. 9.3, isomer table (from memory)"),
@@ -253,7 +306,10 @@ def test_werner_ma4b2_polyhedra(rules):
     # Werner's argument: octahedral, trigonal-prismatic and hexagonal-planar
     # Ma4b2 would give 2, 3 and 3 isomers (Greenwood & Earnshaw, Chemistry of
     # the Elements, 2nd ed., ch. 19; from memory)
-    counts = {sym: enumerate_isomers(parse_abstract("Ma4b2"), rules.geometry(sym)).geometric_isomers for sym in ("OC-6", "TPR-6", "HP-6")}
+    counts = {
+        sym: enumerate_isomers(parse_abstract("Ma4b2"), rules.geometry(sym)).geometric_isomers
+        for sym in ("OC-6", "TPR-6", "HP-6")
+    }
     assert counts == {"OC-6": 2, "TPR-6": 3, "HP-6": 3}
 
 

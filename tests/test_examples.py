@@ -10,8 +10,8 @@ from pathlib import Path
 
 import pytest
 
-from enumerator.workflow.batch import screen
 from enumerator.cli.batch_cmd import read_formulas, render_rows
+from enumerator.workflow.batch import screen
 from enumerator.workflow.job import load_job, render_job, run_job
 
 EX = Path(__file__).resolve().parent.parent / "examples"
@@ -44,7 +44,9 @@ def test_ru_example_counts():
     job = load_job(str(EX / "ruthenium" / "ru_dicarbonyl.toml"))
     res = dict((e.label, r) for e, r in run_job(job))
     assert res["Ru-1 (PPh3)"].isomer_set.geometric_isomers == 5
-    assert res["Ru-3 (dppe chelate)"].isomer_set.geometric_isomers == 3  # from memory: M(AA)b2c2 has 3 geometric isomers
+    assert (
+        res["Ru-3 (dppe chelate)"].isomer_set.geometric_isomers == 3
+    )  # from memory: M(AA)b2c2 has 3 geometric isomers
 
 
 @pytest.mark.parametrize(

@@ -4,13 +4,13 @@ import math
 
 import pytest
 
+from enumerator.analyses.stretch import stretch_modes
+from enumerator.isomers.enumeration import enumerate_isomers
+from enumerator.parse.abstract import parse_abstract
+from enumerator.rules.ruleset import load_rules
 from enumerator.vibrations.fitting import fit_constants
 from enumerator.vibrations.forcefield import WAVENUMBER_FACTOR, band_pattern, predict_bands
-from enumerator.parse.abstract import parse_abstract
-from enumerator.isomers.enumeration import enumerate_isomers
 from enumerator.workflow.pipeline import apply_settings
-from enumerator.rules.ruleset import load_rules
-from enumerator.analyses.stretch import stretch_modes
 
 # 12C16O: masses of the most common isotopes (RDKit periodic table; IUPAC values 12 and 15.9949)
 MU = 1 / 12.0 + 1 / 15.99491462
@@ -27,7 +27,7 @@ def nu(lam):
 
 def test_conversion_factor():
     # 1302.79 cm-1 per sqrt(mdyn/Å/u): standard factor (Wilson, Decius & Cross 1955; from memory)
-    assert WAVENUMBER_FACTOR == pytest.approx(1302.79, abs=0.01)
+    assert pytest.approx(1302.79, abs=0.01) == WAVENUMBER_FACTOR
 
 
 def test_hexacarbonyl_closed_forms():
@@ -63,7 +63,10 @@ def test_pentacarbonyl_closed_forms():
     assert got["E"] == pytest.approx([nu(MU * (k2 - kt))], abs=1e-6)
 
 
-@pytest.mark.parametrize("geometry,formula,angle", [("OC-6", "Ma2b4", 90.0), ("TBPY-5", "Ma2b3", 120.0), ("T-4", "Ma2b2", math.degrees(math.acos(-1 / 3)))])
+@pytest.mark.parametrize(
+    "geometry,formula,angle",
+    [("OC-6", "Ma2b4", 90.0), ("TBPY-5", "Ma2b3", 120.0), ("T-4", "Ma2b2", math.degrees(math.acos(-1 / 3)))],
+)
 def test_dicarbonyl_intensity_ratio(geometry, formula, angle):
     # I_sym / I_asym = cot^2(theta), 2 theta = OC-M-CO angle (bond-dipole model; Braterman, Metal Carbonyl Spectra, from memory)
     theta = math.radians(angle / 2)
@@ -81,11 +84,34 @@ def test_dicarbonyl_intensity_ratio(geometry, formula, angle):
 
 
 BROAD = [
-    ("Ma6", "OC-6"), ("Ma5b", "OC-6"), ("Ma4b2", "OC-6"), ("Ma3b3", "OC-6"), ("Ma2b4", "OC-6"), ("Ma3bcd", "OC-6"),
-    ("Ma2b2c2", "OC-6"), ("M(AA)a4", "OC-6"), ("M(AA)2a2", "OC-6"), ("Ma5", "TBPY-5"), ("Ma4b", "TBPY-5"), ("Ma3b2", "TBPY-5"),
-    ("Ma5", "SPY-5"), ("Ma4b", "SPY-5"), ("Ma4", "T-4"), ("Ma3b", "T-4"), ("Ma4", "SP-4"), ("Ma3b", "SP-4"), ("Ma2b2", "SP-4"),
-    ("Ma3", "TP-3"), ("Ma2b", "TP-3"), ("Ma6", "TPR-6"), ("Ma4b2", "TPR-6"), ("Ma7", "PBPY-7"), ("Ma8", "SAPR-8"), ("Ma2", "L-2"),
-    ("Mab", "L-2"), ("M(ring)a3", "OC-6"),
+    ("Ma6", "OC-6"),
+    ("Ma5b", "OC-6"),
+    ("Ma4b2", "OC-6"),
+    ("Ma3b3", "OC-6"),
+    ("Ma2b4", "OC-6"),
+    ("Ma3bcd", "OC-6"),
+    ("Ma2b2c2", "OC-6"),
+    ("M(AA)a4", "OC-6"),
+    ("M(AA)2a2", "OC-6"),
+    ("Ma5", "TBPY-5"),
+    ("Ma4b", "TBPY-5"),
+    ("Ma3b2", "TBPY-5"),
+    ("Ma5", "SPY-5"),
+    ("Ma4b", "SPY-5"),
+    ("Ma4", "T-4"),
+    ("Ma3b", "T-4"),
+    ("Ma4", "SP-4"),
+    ("Ma3b", "SP-4"),
+    ("Ma2b2", "SP-4"),
+    ("Ma3", "TP-3"),
+    ("Ma2b", "TP-3"),
+    ("Ma6", "TPR-6"),
+    ("Ma4b2", "TPR-6"),
+    ("Ma7", "PBPY-7"),
+    ("Ma8", "SAPR-8"),
+    ("Ma2", "L-2"),
+    ("Mab", "L-2"),
+    ("M(ring)a3", "OC-6"),
 ]
 
 

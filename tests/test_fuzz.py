@@ -24,8 +24,8 @@ from hypothesis import strategies as st
 
 from enumerator.errors import IsosieveError
 from enumerator.parse.abstract import parse_abstract
-from enumerator.workflow.pipeline import parse_formula, run, Request
 from enumerator.rules.ruleset import load_rules
+from enumerator.workflow.pipeline import Request, parse_formula, run
 
 RULES = load_rules()
 #: ISOSIEVE_FUZZ_SCALE=20 runs twenty times the examples (a deep run, not for the suite)
@@ -72,8 +72,41 @@ def test_formula_dispatch_never_crashes(text):
     _ok_or_isosieve(parse_formula, text, RULES)
 
 
-CONDENSED_PARTS = ["[", "]", "(", ")", "Ru", "Fe", "Mo", "Mn", "Co", "CO", "Cl", "PPh3", "NO", "CN", "Cp", "η5-", "eta5-",
-                   "en", "bpy", "acac", "2", "3", "6", "2-", "+", "−", "C5H5", "NH3", "py", "X", "Zz", "(NO)2", "dppe"]
+CONDENSED_PARTS = [
+    "[",
+    "]",
+    "(",
+    ")",
+    "Ru",
+    "Fe",
+    "Mo",
+    "Mn",
+    "Co",
+    "CO",
+    "Cl",
+    "PPh3",
+    "NO",
+    "CN",
+    "Cp",
+    "η5-",
+    "eta5-",
+    "en",
+    "bpy",
+    "acac",
+    "2",
+    "3",
+    "6",
+    "2-",
+    "+",
+    "−",
+    "C5H5",
+    "NH3",
+    "py",
+    "X",
+    "Zz",
+    "(NO)2",
+    "dppe",
+]
 condensed_like = st.lists(st.sampled_from(CONDENSED_PARTS), min_size=0, max_size=9).map("".join)
 
 
@@ -129,16 +162,32 @@ VALID_OC6 = {
     "name": "test octahedron",
     "sites": [[0.0, 0.0, 1.0], [1.0, 0.0, 0.0], [0.0, 1.0, 0.0], [-1.0, 0.0, 0.0], [0.0, -1.0, 0.0], [0.0, 0.0, -1.0]],
 }
-KEYS = ["symbol", "name", "sites", "coordination_number", "default_span", "fluxional", "note", "default_for_abstract", "source", "site", "Symbol"]
+KEYS = [
+    "symbol",
+    "name",
+    "sites",
+    "coordination_number",
+    "default_span",
+    "fluxional",
+    "note",
+    "default_for_abstract",
+    "source",
+    "site",
+    "Symbol",
+]
 scalar = st.one_of(
-    st.integers(min_value=-10**20, max_value=10**20),
+    st.integers(min_value=-(10**20), max_value=10**20),
     st.floats(allow_nan=True, allow_infinity=True),
     st.booleans(),
     st.text(max_size=8),
     st.sampled_from(["OC-6", "edge", "trans", "XO-6", ""]),
 )
 value = st.recursive(scalar, lambda inner: st.lists(inner, max_size=7), max_leaves=25)
-site = st.lists(st.one_of(st.floats(min_value=-1e3, max_value=1e3), st.integers(-3, 3), st.sampled_from([1e308, -1e308, 1e-320])), min_size=2, max_size=4)
+site = st.lists(
+    st.one_of(st.floats(min_value=-1e3, max_value=1e3), st.integers(-3, 3), st.sampled_from([1e308, -1e308, 1e-320])),
+    min_size=2,
+    max_size=4,
+)
 
 
 @st.composite
@@ -161,7 +210,7 @@ def geometry_tables(draw):
 
 raw_toml = st.one_of(
     geometry_tables(),
-    st.text(alphabet='abc=[]{}"\'#\n 0123.,-+xyz', max_size=60),
+    st.text(alphabet="abc=[]{}\"'#\n 0123.,-+xyz", max_size=60),
     st.binary(max_size=40).map(lambda b: b.decode("latin-1")),
 )
 
@@ -199,8 +248,11 @@ LIGAND_ENTRY = '[[ligand]]\nname = "Zq"\nlabel = "test"\nsmiles = "[Cl-:1]"\ndon
 ligand_text = st.one_of(
     raw_toml,
     st.lists(st.sampled_from(LIGAND_ENTRY.splitlines(keepends=True)), max_size=10).map("".join),
-    st.builds(lambda k, v: LIGAND_ENTRY.replace(k, v), st.sampled_from(["\"Zq\"", "\"[Cl-:1]\"", "[\"Cl\"]", "= 1\n", "= -1\n"]),
-              st.sampled_from(["\"\"", "\"C1CC\"", "[]", "= \"x\"\n", "= 99\n", "[1, 2]", "\"[C:1]#[O:1]\""])),
+    st.builds(
+        lambda k, v: LIGAND_ENTRY.replace(k, v),
+        st.sampled_from(['"Zq"', '"[Cl-:1]"', '["Cl"]', "= 1\n", "= -1\n"]),
+        st.sampled_from(['""', '"C1CC"', "[]", '= "x"\n', "= 99\n", "[1, 2]", '"[C:1]#[O:1]"']),
+    ),
 )
 
 
@@ -222,7 +274,6 @@ def test_ligand_catalogue_loader_never_crashes(text):
 
 
 from _cli import cli  # noqa: E402  (tests/ is on sys.path under pytest)
-
 
 OPTION_VALUES = {
     "--geometry": ["OC-6", "oc-6", "XX-9", "", "IC-12", "L-2", "TP-3"],
@@ -301,9 +352,15 @@ def test_internal_error_exit_1_one_line_and_traceback_only_with_debug(monkeypatc
     "files,needle",
     [
         ({"geometries/bad.toml": "symbol = 'OC-6'\nname = 'x'\nsites = [[0,0,1], [0,0,1]]\n"}, "point the same way"),
-        ({"geometries/bad.toml": "symbol = 'Q-2'\nname = 'x'\nsites = [[0,0,1], [1,0,0]]\nspan = 'edge'\n"}, "unknown key 'span'"),
+        (
+            {"geometries/bad.toml": "symbol = 'Q-2'\nname = 'x'\nsites = [[0,0,1], [1,0,0]]\nspan = 'edge'\n"},
+            "unknown key 'span'",
+        ),
         ({"geometries/bad.toml": "symbol = \n"}, "TOML syntax error"),
-        ({"geometries/bad.toml": "symbol = 'Q-2'\nname = 'x'\nsites = [[0, 0, 1e-320], [1, 0, 0]]\n"}, "sites[0] is the zero vector"),
+        (
+            {"geometries/bad.toml": "symbol = 'Q-2'\nname = 'x'\nsites = [[0, 0, 1e-320], [1, 0, 0]]\n"},
+            "sites[0] is the zero vector",
+        ),
         ({"geometries/bad.toml": "symbol = 'Q-2'\nname = 'x'\nsites = [[0, 0, 1], [1, 0, nan]]\n"}, "sites[1]"),
     ],
 )

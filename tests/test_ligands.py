@@ -14,14 +14,61 @@ RS = load_rules()
 CAT = load_ligands(RS)
 
 # The ligands named in issue 4 (common practice: the usual abbreviations of the trade).
-ISSUE_LIST = ["CO", "CN", "NO", "Cl", "Br", "I", "F", "H", "Me", "Ph", "NH3", "H2O", "py", "MeCN", "PPh3", "PMe3",
-              "PMe2Ph", "PCy3", "P(OMe)3", "CNtBu", "en", "bpy", "phen", "acac", "ox", "dppe", "dppm", "dmpe", "tacn",
-              "terpy", "dien", "Cp", "Cp*", "C6H6", "p-cymene"]
+ISSUE_LIST = [
+    "CO",
+    "CN",
+    "NO",
+    "Cl",
+    "Br",
+    "I",
+    "F",
+    "H",
+    "Me",
+    "Ph",
+    "NH3",
+    "H2O",
+    "py",
+    "MeCN",
+    "PPh3",
+    "PMe3",
+    "PMe2Ph",
+    "PCy3",
+    "P(OMe)3",
+    "CNtBu",
+    "en",
+    "bpy",
+    "phen",
+    "acac",
+    "ox",
+    "dppe",
+    "dppm",
+    "dmpe",
+    "tacn",
+    "terpy",
+    "dien",
+    "Cp",
+    "Cp*",
+    "C6H6",
+    "p-cymene",
+]
 
 
 def test_size_and_issue_list():
     assert len(CAT) >= 60
-    for name in ISSUE_LIST + ["13CO", "C18O", "13C18O", "NObent", "N2", "CS", "C2H4", "NO2", "ONO", "SCN", "NCS", "NCMe"]:
+    for name in ISSUE_LIST + [
+        "13CO",
+        "C18O",
+        "13C18O",
+        "NObent",
+        "N2",
+        "CS",
+        "C2H4",
+        "NO2",
+        "ONO",
+        "SCN",
+        "NCS",
+        "NCMe",
+    ]:
         find_ligand(RS, name)
 
 
@@ -102,7 +149,7 @@ def _user(tmp_path, body):
     return load_rules([tmp_path])
 
 
-GOOD = '''[[ligand]]
+GOOD = """[[ligand]]
 name = "PPh3"
 label = "triphenylphosphine (user)"
 smiles = "[P:1](c1ccccc1)(c1ccccc1)c1ccccc1"
@@ -111,7 +158,7 @@ denticity = 1
 charge = 0
 electrons_covalent = 2
 electrons_ionic = 2
-'''
+"""
 
 
 def test_user_file_overrides(tmp_path):
@@ -126,7 +173,7 @@ def test_user_file_overrides(tmp_path):
         (("charge = 0", "charge = -1"), "must equal -charge"),
         (("[P:1]", "[P]"), "marks atoms"),
         (('donors = ["P"]', 'donors = ["N"]'), "donor 1"),
-        (("denticity = 1", "denticity = 1\nreporters = \"CO\""), "unknown key"),
+        (("denticity = 1", 'denticity = 1\nreporters = "CO"'), "unknown key"),
     ],
 )
 def test_user_file_errors(tmp_path, change, words):

@@ -3,12 +3,12 @@ import json
 from click.testing import CliRunner
 
 from enumerator.cli import cli
-from enumerator.vibrations.forcefield import predict_bands
-from enumerator.parse.abstract import parse_abstract
 from enumerator.isomers.enumeration import enumerate_isomers
+from enumerator.parse.abstract import parse_abstract
+from enumerator.rules.ruleset import load_rules
+from enumerator.vibrations.forcefield import predict_bands
 from enumerator.vibrations.matching import match_bands
 from enumerator.workflow.pipeline import apply_settings
-from enumerator.rules.ruleset import load_rules
 
 
 def _set(formula):
@@ -21,7 +21,9 @@ def test_synthetic_mer_spectrum_picks_mer():
     # textbook fact, Cotton, Chemical Applications of Group Theory)
     s = _set("Ma3b3")
     mer = next(i for i in s.isomers if i.point_group == "C2v")
-    bands = [b.wavenumber for b in predict_bands(mer, "CO", {"k1": 15.3, "k2": 15.9, "kc": 0.3, "kt": 0.6}) if b.ir_active]
+    bands = [
+        b.wavenumber for b in predict_bands(mer, "CO", {"k1": 15.3, "k2": 15.9, "kc": 0.3, "kt": 0.6}) if b.ir_active
+    ]
     m = match_bands(s, "CO", bands)
     assert m.candidates[0].point_group == "C2v" and m.candidates[0].problems == 0
     assert m.candidates[1].problems == 1
@@ -53,7 +55,12 @@ def test_parse_measured_as_written_in_papers():
     from enumerator.vibrations.matching import parse_measured
 
     assert parse_measured("2045 (s), 1980 (vs), 1932 (m, br), 1900 (sh), 1850") == (
-        (2045.0, 0.75), (1980.0, 1.0), (1932.0, 0.5), (1900.0, 0.25), (1850.0, None))
+        (2045.0, 0.75),
+        (1980.0, 1.0),
+        (1932.0, 0.5),
+        (1900.0, 0.25),
+        (1850.0, None),
+    )
     assert parse_measured("2045(0.8);1980 w") == ((2045.0, 0.8), (1980.0, 0.25))
     for bad in ("2045 (q)", "2045 (0.5 s)", "abc", "2045 (-1)", ""):
         try:

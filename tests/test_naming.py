@@ -14,12 +14,12 @@ import json
 import pytest
 from click.testing import CliRunner
 
+from enumerator.analyses.descriptors import DescriptorAnalysis
+from enumerator.analyses.names import additive_name, ligand_sort_key
 from enumerator.cli import cli as main_cli
 from enumerator.parse.condensed import parse_condensed
-from enumerator.analyses.names import additive_name, ligand_sort_key
-from enumerator.analyses.descriptors import DescriptorAnalysis
-from enumerator.workflow.pipeline import analyse
 from enumerator.rules.ruleset import load_rules
+from enumerator.workflow.pipeline import analyse
 
 R = load_rules()
 
@@ -133,7 +133,9 @@ def test_json_and_tables():
     assert out.exit_code == 0, out.output
     doc = json.loads(out.output)
     assert {i["name"] for i in doc["isomers"]} == {
-        "(OC-6-21)-triamminetrinitrito-κN-cobalt(III)", "(OC-6-22)-triamminetrinitrito-κN-cobalt(III)"}
+        "(OC-6-21)-triamminetrinitrito-κN-cobalt(III)",
+        "(OC-6-22)-triamminetrinitrito-κN-cobalt(III)",
+    }
     # abstract letters: the key is there, null
     doc = json.loads(runner.invoke(main_cli, ["isomers", "Ma4b2", "--json"]).output)
     assert all(i["name"] is None for i in doc["isomers"])

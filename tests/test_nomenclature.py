@@ -16,17 +16,17 @@ import json
 import pytest
 from click.testing import CliRunner
 
-from enumerator.cli import cli, main
-from enumerator.parse.abstract import parse_abstract
-from enumerator.isomers.enumeration import enumerate_isomers
 from enumerator.analyses.descriptors import (
     DescriptorAnalysis,
     describe_isomer,
     find_by_descriptor,
     skew_lines_sense,
 )
-from enumerator.workflow.pipeline import analyse
+from enumerator.cli import cli, main
+from enumerator.isomers.enumeration import enumerate_isomers
+from enumerator.parse.abstract import parse_abstract
 from enumerator.rules.ruleset import load_rules
+from enumerator.workflow.pipeline import analyse
 
 R = load_rules()
 
@@ -131,7 +131,12 @@ def test_pbpy7_axial_and_equatorial_sequence():
     # IR-9.3.3.6: the equatorial sequence read from the highest priority the
     # lower way round; Ma5b2 hand-worked: b2 axial 22, one axial 12,
     # both equatorial adjacent 11-11122 or apart 11-11212
-    assert sorted(_texts("Ma5b2", "PBPY-7")) == ["PBPY-7-11-11122", "PBPY-7-11-11212", "PBPY-7-12-11112", "PBPY-7-22-11111"]
+    assert sorted(_texts("Ma5b2", "PBPY-7")) == [
+        "PBPY-7-11-11122",
+        "PBPY-7-11-11212",
+        "PBPY-7-12-11112",
+        "PBPY-7-22-11111",
+    ]
 
 
 # ------------------------------------------------------------ IR-9.3.4 chirality symbols
@@ -242,9 +247,30 @@ BROAD = {
     "TBPY-5": ["Ma4b", "Ma3b2", "Ma2b2c", "Ma2bcd", "Mabcde", "M(AA)bcd", "M(AA)2b", "M(AB)2c"],
     "SPY-5": ["Ma4b", "Ma3b2", "Ma2b2c", "Mabcde", "M(AB)bcd", "M(AA)2b", "M(AB)2c"],
     "OC-6": [
-        "Ma5b", "Ma4b2", "Ma3b3", "Ma3b2c", "Ma2b2c2", "Ma2b2cd", "Ma2bcde", "Mabcdef",
-        "M(AA)2b2", "M(AA)3", "M(AB)3", "M(AA)2bc", "M(AB)2c2", "M(AB)2cd", "M(AA)(BC)de",
-        "M(AAA)b3", "M(ABA)b3", "M(ABC)def", "M(ABA)2", "M(ABC)2", "M(AAA)2", "M(AAAA)b2", "M(AA)(AB)cd", "M(AB)(CD)ef",
+        "Ma5b",
+        "Ma4b2",
+        "Ma3b3",
+        "Ma3b2c",
+        "Ma2b2c2",
+        "Ma2b2cd",
+        "Ma2bcde",
+        "Mabcdef",
+        "M(AA)2b2",
+        "M(AA)3",
+        "M(AB)3",
+        "M(AA)2bc",
+        "M(AB)2c2",
+        "M(AB)2cd",
+        "M(AA)(BC)de",
+        "M(AAA)b3",
+        "M(ABA)b3",
+        "M(ABC)def",
+        "M(ABA)2",
+        "M(ABC)2",
+        "M(AAA)2",
+        "M(AAAA)b2",
+        "M(AA)(AB)cd",
+        "M(AB)(CD)ef",
         "M(ring)abc",
     ],
     "TPR-6": ["Ma4b2", "Ma3b3", "Ma2b2c2", "Mabcdef", "M(AA)3", "M(AA)2b2", "M(AB)3"],

@@ -14,8 +14,8 @@ from __future__ import annotations
 import numpy as np
 import pytest
 
-from enumerator.parse.abstract import parse_abstract
 from enumerator.isomers.enumeration import enumerate_isomers
+from enumerator.parse.abstract import parse_abstract
 from enumerator.workflow.pipeline import apply_settings
 
 pytest.importorskip("pymatgen")
@@ -66,7 +66,10 @@ CASES = [
     *[(f, "L-2", {}) for f in ["Ma2", "Mab"]],
     *[(f, "TBPY-5", {}) for f in ["Ma5", "Ma4b", "Ma3b2", "Ma3bc", "Ma2b2c", "Mabcde"]],
     *[(f, "SPY-5", {}) for f in ["Ma4b", "Ma3b2", "Ma2b2c", "Ma2bcd"]],
-    *[(f, "OC-6", {}) for f in ["Ma6", "Ma5b", "Ma4b2", "Ma3b3", "Ma4bc", "Ma3b2c", "Ma2b2c2", "Ma3bcd", "Ma2b2cd", "Mabcdef"]],
+    *[
+        (f, "OC-6", {})
+        for f in ["Ma6", "Ma5b", "Ma4b2", "Ma3b3", "Ma4bc", "Ma3b2c", "Ma2b2c2", "Ma3bcd", "Ma2b2cd", "Mabcdef"]
+    ],
     *[(f, "TPR-6", {}) for f in ["Ma4b2", "Ma3b3", "Ma2b2c2"]],
     *[(f, "HP-6", {}) for f in ["Ma4b2", "Ma3b3", "Ma2b2c2"]],
     *[(f, "PBPY-7", {}) for f in ["Ma5b2", "Ma4b3", "Ma3b2c2"]],
@@ -75,9 +78,29 @@ CASES = [
     ("M(AA)4", "DD-8", {}),
     *[(f, "IC-12", {}) for f in ["Ma10b2", "Ma9b3", "Ma6b6"]],
     # chelates and rings
-    *[(f, "OC-6", {}) for f in ["M(AA)3", "M(AA)2b2", "M(AA)2bc", "M(AB)3", "M(AB)2b2", "M(AA)b4", "M(AA)b2c2", "M(AB)b2c2",
-                                 "M(AAA)b3", "M(ABA)b3", "M(ABC)b3", "M(AAA)2", "M(ABA)2", "M(ring)a3", "M(ring)a2b", "M(ring)abc",
-                                 "M(AA)(BB)c2", "M(AB)(AA)b2"]],
+    *[
+        (f, "OC-6", {})
+        for f in [
+            "M(AA)3",
+            "M(AA)2b2",
+            "M(AA)2bc",
+            "M(AB)3",
+            "M(AB)2b2",
+            "M(AA)b4",
+            "M(AA)b2c2",
+            "M(AB)b2c2",
+            "M(AAA)b3",
+            "M(ABA)b3",
+            "M(ABC)b3",
+            "M(AAA)2",
+            "M(ABA)2",
+            "M(ring)a3",
+            "M(ring)a2b",
+            "M(ring)abc",
+            "M(AA)(BB)c2",
+            "M(AB)(AA)b2",
+        ]
+    ],
     *[(f, "SP-4", {}) for f in ["M(AA)b2", "M(AB)b2", "M(AB)2", "M(AB)bc"]],
     *[(f, "T-4", {}) for f in ["M(AA)b2", "M(AB)2", "M(AB)bc"]],
     *[(f, "TBPY-5", {}) for f in ["M(AA)b3", "M(AB)b3", "M(AA)b2c"]],
@@ -110,13 +133,20 @@ def test_stabilisers_match_brute_force(rules):
     """The stabiliser found during the orbit walk equals the set of geometry
     operations that preserve every site label and every link, checked by
     trying each operation (common practice)."""
-    for formula, symbol in [("M(AB)2b2", "OC-6"), ("M(ring)a2b", "OC-6"), ("Ma3b3c3d3", "IC-12"), ("M(AA)2b", "TBPY-5"), ("M(ABA)bc", "SPY-5")]:
+    for formula, symbol in [
+        ("M(AB)2b2", "OC-6"),
+        ("M(ring)a2b", "OC-6"),
+        ("Ma3b3c3d3", "IC-12"),
+        ("M(AA)2b", "TBPY-5"),
+        ("M(ABA)bc", "SPY-5"),
+    ]:
         g = rules.geometry(symbol)
         for iso in enumerate_isomers(parse_abstract(formula), g, limit=400).isomers:
             lab = {s.index: (s.ligand, s.donor) for s in iso.sites}
             links = {(a, b) for a, b, _ in iso.links()}
             brute = [
-                k for k, op in enumerate(g.operations)
+                k
+                for k, op in enumerate(g.operations)
                 if all(lab[op.perm[x]] == lab[x] for x in lab)
                 and {tuple(sorted((op.perm[a], op.perm[b]))) for a, b in links} == links
             ]

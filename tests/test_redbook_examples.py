@@ -21,11 +21,11 @@ Site directions used below (the geometry files put them there):
 
 from __future__ import annotations
 
-from enumerator.parse.abstract import parse_abstract
-from enumerator.isomers.enumeration import enumerate_isomers
 from enumerator.analyses.descriptors import DescriptorAnalysis, describe_isomer
-from enumerator.workflow.pipeline import analyse
+from enumerator.isomers.enumeration import enumerate_isomers
+from enumerator.parse.abstract import parse_abstract
 from enumerator.rules.ruleset import load_rules
+from enumerator.workflow.pipeline import analyse
 
 R = load_rules()
 
@@ -102,7 +102,9 @@ def test_sp4_trans_chlorido_acetonitrile_pyridine():
     got = {d.prefix: d.text for _, d in a.descriptors}
     assert got == {"trans": "SP-4-1", "cis": "SP-4-3"}
     (d, *_) = [d for _, d in a.descriptors]
-    ranks = {next(s.ligand for s in res.isomer_set.isomers[0].sites if s.index == i): p for i, p in d.priorities.items()}
+    ranks = {
+        next(s.ligand for s in res.isomer_set.isomers[0].sites if s.index == i): p for i, p in d.priorities.items()
+    }
     assert ranks == {"Cl": "1", "MeCN": "2", "py": "3"}
 
 
@@ -128,7 +130,8 @@ def test_oc6_ruthenium_hydrido_carbonyl_tris_phosphine():
     # fac-P3 with Cl trans P: (OC-6-24-A).  The two in-plane P atoms tie for
     # the start of the C/A sequence; the printed A needs both tried.
     d = _real(
-        "[Ru(CO)ClH(PMe2Ph)3]", "OC-6",
+        "[Ru(CO)ClH(PMe2Ph)3]",
+        "OC-6",
         {TOP: "Cl", BOTTOM: "PMe2Ph", BL: "CO", BR: "PMe2Ph", FL: "H", FR: "PMe2Ph"},
     )
     assert d.text == "OC-6-24-A"

@@ -7,15 +7,13 @@ import io
 import re
 import xml.etree.ElementTree as ET
 
-from click.testing import CliRunner
-
 from enumerator.cli import main
-from enumerator.model.composition import Composition, LigandKind
 from enumerator.isomers.enumeration import enumerate_isomers
-from enumerator.workflow.pipeline import analyse
+from enumerator.model.composition import Composition, LigandKind
 from enumerator.render.report import pair_grid_html, polyhedron_svg, render_report, tables_csv, tables_latex
-from enumerator.workflow.result import Result
 from enumerator.rules.ruleset import load_rules
+from enumerator.workflow.pipeline import analyse
+from enumerator.workflow.result import Result
 
 HOSTILE = "<script>alert(1)</script>"
 
@@ -40,10 +38,12 @@ def test_page_is_self_contained_and_deterministic():
     assert a == b  # same input, same bytes
     urls = set(re.findall(r"https?://[^\s\"'<>)]+", a))
     assert urls <= {"http://www.w3.org/2000/svg"}  # only the SVG namespace name, never fetched
-    for bad in ("<link", "<script", "@import", "<iframe", "src=\"http"):
+    for bad in ("<link", "<script", "@import", "<iframe", 'src="http'):
         assert bad not in a
     assert "Safety" in a and "Carbon monoxide" in a  # the cautions of the safety module
-    assert a.count('class="card"') == 6 + 3  # Ma2b2c2-type 5 geometric/6 stereo; M(AA)2b2: trans + cis pair (common practice)
+    assert (
+        a.count('class="card"') == 6 + 3
+    )  # Ma2b2c2-type 5 geometric/6 stereo; M(AA)2b2: trans + cis pair (common practice)
 
 
 def test_polyhedron_drawing_is_valid_svg_with_links():
@@ -68,7 +68,9 @@ def test_pair_grid_cis_trans_tetracarbonyl():
 
 
 def test_pair_grid_marks_indistinct_pairs_with_text_and_pattern():
-    grid = pair_grid_html(["1a", "1b"], [{"a": "1a", "b": "1b", "ir_distinct": False, "raman_distinct": False, "note": "enantiomers"}])
+    grid = pair_grid_html(
+        ["1a", "1b"], [{"a": "1a", "b": "1b", "ir_distinct": False, "raman_distinct": False, "note": "enantiomers"}]
+    )
     assert 'class="d0"' in grid and "none (enantiomers)" in grid  # text, not colour alone
 
 

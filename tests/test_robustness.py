@@ -20,14 +20,13 @@ import pytest
 
 from enumerator.cli.isomers_cmd import PROGRESS_MIN, SIZE_CAP, check_size, want_progress
 from enumerator.errors import CapacityError, RuleError
-from enumerator.workflow.pipeline import Request, run
 from enumerator.rules.ruleset import load_rules
+from enumerator.workflow.pipeline import Request, run
 
 CMD = [sys.executable, "-m", "enumerator"]
 
 
 from _cli import cli  # noqa: E402  (tests/ is on sys.path under pytest)
-
 
 # --------------------------------------------------------------------------- determinism
 
@@ -61,7 +60,9 @@ def test_limit_lists_the_first_n_and_says_incomplete():
     full = json.loads(cli(["isomers", "Mabcdef", "--json"])[1])
     # the first four of the full list, in the same order (stable ids)
     assert [i["id"] for i in doc["isomers"]] == [i["id"] for i in full["isomers"][:4]]
-    assert full["complete"] is True and full["stereoisomers"] == 30  # Mabcdef: 30 stereoisomers (Miessler & Tarr; from memory)
+    assert (
+        full["complete"] is True and full["stereoisomers"] == 30
+    )  # Mabcdef: 30 stereoisomers (Miessler & Tarr; from memory)
 
 
 def test_limit_above_the_count_is_complete():
@@ -119,21 +120,34 @@ def test_broken_user_rules_never_corrupt_the_defaults(tmp_path):
     before = _summary(run(Request(formula="Ma3b3")))
     symbols = sorted(load_rules().geometries)
     # a broken file that even claims the built-in OC-6 symbol
-    bad = _folder(tmp_path, "bad", {"geometries/OC-6.toml": "symbol = 'OC-6'\nname = 'broken'\nsites = [[0, 0, 1], 'x']\n"})
+    bad = _folder(
+        tmp_path, "bad", {"geometries/OC-6.toml": "symbol = 'OC-6'\nname = 'broken'\nsites = [[0, 0, 1], 'x']\n"}
+    )
     with pytest.raises(RuleError) as info:
         run(Request(formula="Ma3b3", rules=(str(bad),)))
     assert "OC-6.toml" in info.value.line() and "sites[1]" in info.value.line()
     assert _summary(run(Request(formula="Ma3b3"))) == before  # fac C3v, mer C2v (from memory)
     assert sorted(load_rules().geometries) == symbols
     # a valid user file replaces a built-in geometry for that run only
-    good = _folder(tmp_path, "good", {"geometries/OC-6.toml": (
-        "symbol = 'OC-6'\nname = 'user octahedron'\ndefault_for_abstract = true\nsites = [[0,0,1],[1,0,0],[0,1,0],[-1,0,0],[0,-1,0],[0,0,-1]]\n")})
+    good = _folder(
+        tmp_path,
+        "good",
+        {
+            "geometries/OC-6.toml": (
+                "symbol = 'OC-6'\nname = 'user octahedron'\ndefault_for_abstract = true\nsites = [[0,0,1],[1,0,0],[0,1,0],[-1,0,0],[0,-1,0],[0,0,-1]]\n"
+            )
+        },
+    )
     assert run(Request(formula="Ma3b3", rules=(str(good),))).geometry.name == "user octahedron"
     assert run(Request(formula="Ma3b3")).geometry.name == "octahedron"
 
 
 def test_broken_user_rules_through_the_cli(tmp_path):
-    bad = _folder(tmp_path, "bad", {"geometries/x.toml": "symbol = 'XX-3'\nname = 'x'\nsites = [[0,0,1],[1,0,0],[0,1,0]]\nsides = 3\n"})
+    bad = _folder(
+        tmp_path,
+        "bad",
+        {"geometries/x.toml": "symbol = 'XX-3'\nname = 'x'\nsites = [[0,0,1],[1,0,0],[0,1,0]]\nsides = 3\n"},
+    )
     code, _, err = cli(["--rules", str(bad), "isomers", "Ma6"])
     assert code == 2 and len(err.strip().splitlines()) == 1
     assert "x.toml" in err and "unknown key 'sides'" in err
@@ -151,7 +165,11 @@ LONG = ["isomers", "Ma2b2c2d2e2f2", "--geometry", "IC-12", "--json"]  # 124,920 
 # The analysis stages run on the isomers found before the interruption; their
 # cost (the pair table is quadratic in the isomer count) is not what is under
 # test here, so the child runs the command with no stages.
-NO_STAGES = [sys.executable, "-c", "import sys, enumerator.workflow.pipeline as p; p.STAGES = (); from enumerator.cli import main; main(sys.argv[1:])"]
+NO_STAGES = [
+    sys.executable,
+    "-c",
+    "import sys, enumerator.workflow.pipeline as p; p.STAGES = (); from enumerator.cli import main; main(sys.argv[1:])",
+]
 
 
 def _interrupt(args, wait: float = 2.0):

@@ -13,10 +13,9 @@ from fractions import Fraction
 import pytest
 
 from enumerator.cli import main
-from enumerator.isomers.counting import burnside_counts
 from enumerator.errors import InputError, RuleError
+from enumerator.isomers.counting import burnside_counts
 from enumerator.parse.abstract import parse_abstract
-from enumerator.workflow.pipeline import parse_formula
 from enumerator.routes.core import (
     build_network,
     canonical_key,
@@ -31,6 +30,7 @@ from enumerator.routes.core import (
     route_json,
 )
 from enumerator.rules.ruleset import load_rules
+from enumerator.workflow.pipeline import parse_formula
 
 
 def _geo_shares(p):
@@ -115,7 +115,9 @@ def test_nitro_ammine_isomers_by_order_of_addition(target, order):
     assert _reaching_orders(plan) == [order]
     assert len(plan.routes) == 2  # both orders searched (counting)
     final = plan.reaching[0].steps[-1].prediction
-    assert final.major.formula == "[PtCl2(NH3)(NO2)]-"  # charge: -2, one Cl- swapped for neutral NH3 -> -1 (ionic counting)
+    assert (
+        final.major.formula == "[PtCl2(NH3)(NO2)]-"
+    )  # charge: -2, one Cl- swapped for neutral NH3 -> -1 (ionic counting)
 
 
 def test_cli_route_text_and_json(capsys):
@@ -125,7 +127,18 @@ def test_cli_route_text_and_json(capsys):
     assert "NO2 > Cl" in out
     main(["route", "[PtCl4]2-", "--target", "cis-[PtCl2(NH3)2]", "--json"])
     doc = json.loads(capsys.readouterr().out)
-    for key in ("rule_set", "start", "target", "entering", "leaving", "orders_searched", "reached", "routes", "other_orders", "notes"):
+    for key in (
+        "rule_set",
+        "start",
+        "target",
+        "entering",
+        "leaving",
+        "orders_searched",
+        "reached",
+        "routes",
+        "other_orders",
+        "notes",
+    ):
         assert key in doc
     assert doc["reached"] is True and doc["entering"] == {"NH3": 2} and doc["leaving"] == {"Cl": 2}
     step = doc["routes"][0]["steps"][1]
@@ -269,7 +282,7 @@ def test_bad_rule_files_name_file_and_key(tmp_path):
         "bad-geo": LETTERS_TRANS.replace('["SP-4"]', '["SP-5"]'),
         "twice": LETTERS_TRANS.replace('["c", "a", "b"]', '["c", "a", "c"]'),
         "missing": LETTERS_TRANS.replace('ties = "statistical"', ""),
-        "typo": LETTERS_TRANS + 'priorty = 3\n',
+        "typo": LETTERS_TRANS + "priorty = 3\n",
     }
     expect = {"bad-mode": "labilises", "bad-geo": "SP-5", "twice": "twice", "missing": "ties", "typo": "priority"}
     for name, body in cases.items():
@@ -286,7 +299,12 @@ def test_bad_rule_files_name_file_and_key(tmp_path):
 
 @pytest.mark.parametrize(
     "start, target, geometry",
-    [("Ma6", "Ma3b3", "OC-6"), ("Ma4", "Ma2b2", "SP-4"), ("Ma6", "Ma4bc", "OC-6"), ("[PtCl4]2-", "[PtCl2(NH3)(NO2)]-", None)],
+    [
+        ("Ma6", "Ma3b3", "OC-6"),
+        ("Ma4", "Ma2b2", "SP-4"),
+        ("Ma6", "Ma4bc", "OC-6"),
+        ("[PtCl4]2-", "[PtCl2(NH3)(NO2)]-", None),
+    ],
 )
 def test_network_nodes_and_weights(start, target, geometry):
     net = build_network(start, target, geometry=geometry)

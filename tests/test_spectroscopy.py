@@ -15,10 +15,10 @@ import time
 
 import pytest
 
-from enumerator.errors import InputError
-from enumerator.workflow.pipeline import analyse
-from enumerator.rules.ruleset import load_rules
 from enumerator.analyses.stretch import StretchAnalysis, load_reporters, stretch_modes
+from enumerator.errors import InputError
+from enumerator.rules.ruleset import load_rules
+from enumerator.workflow.pipeline import analyse
 
 
 def _modes(formula, geometry, reporters=(("a", "CO"),), cls="CO"):
@@ -197,10 +197,14 @@ def test_pair_tally_equals_counting_every_pair():
     # (common practice: plain counting)
     from collections import Counter
 
-    from enumerator.workflow.pipeline import analyse
     from enumerator.analyses.stretch import StretchAnalysis
+    from enumerator.workflow.pipeline import analyse
 
-    for formula, geo, rep, limit in [("Ma2b2c2", "OC-6", "a", None), ("Ma2b2c2d2e2f2", "IC-12", "a", 300), ("M(AB)2b2", "OC-6", "b", None)]:
+    for formula, geo, rep, limit in [
+        ("Ma2b2c2", "OC-6", "a", None),
+        ("Ma2b2c2d2e2f2", "IC-12", "a", 300),
+        ("M(AB)2b2", "OC-6", "b", None),
+    ]:
         a = analyse(formula, geometry=geo, reporters=((rep, "CO"),), limit=limit).analysis(StretchAnalysis)
         brute = Counter("en" if p.note else (p.cheapest or "--") for p in a.pairs())
         assert a.pair_tally() == dict(brute), formula

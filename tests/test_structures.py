@@ -8,8 +8,8 @@ import numpy as np
 import pytest
 from click.testing import CliRunner
 
-from enumerator.model.composition import Composition, LigandKind
 from enumerator.isomers.enumeration import enumerate_isomers
+from enumerator.model.composition import Composition, LigandKind
 from enumerator.rules.ruleset import load_rules
 from enumerator.structures.build import bond_length, build_structure, to_sdf, to_xyz
 
@@ -188,8 +188,8 @@ def test_written_structures_are_clash_free_or_say_so(formula):
     # the clash limit, or its title, note and SDF record carry the warning
     from rdkit import Chem
 
-    from enumerator.workflow.pipeline import analyse
     from enumerator.structures.build import closest_contact, structures_for
+    from enumerator.workflow.pipeline import analyse
 
     res = analyse(formula, geometry="OC-6")
     for s in structures_for(res):

@@ -8,19 +8,33 @@ from dataclasses import dataclass, replace
 
 import pytest
 
-from enumerator.workflow.pipeline import Request, run
 from enumerator.render.tables import csv as to_csv
 from enumerator.render.tables import latex, latex_species, latex_symbol, markdown
+from enumerator.workflow.pipeline import Request, run
 from enumerator.workflow.result import Column
 
 
 @pytest.mark.parametrize(
     "label, tex",
     [  # Schoenflies and Mulliken typography as printed in Cotton, Chemical Applications of Group Theory
-        ("C2v", "$C_{2v}$"), ("D4h", "$D_{4h}$"), ("Oh", "$O_{h}$"), ("Td", "$T_{d}$"), ("Cs", "$C_{s}$"),
-        ("C1", "$C_{1}$"), ("S4", "$S_{4}$"), ("Dinfh", "$D_{\\infty h}$"), ("Cinfv", "$C_{\\infty v}$"),
-        ("A1g", "$A_{1g}$"), ("E'", "$E'$"), ("E''", "$E''$"), ("A2''", "$A_{2}''$"), ("T1u", "$T_{1u}$"),
-        ("B2", "$B_{2}$"), ("E", "$E$"), ("Ag", "$A_{g}$"), ("Sigma_g+", "$\\Sigma_{g}^{+}$"),
+        ("C2v", "$C_{2v}$"),
+        ("D4h", "$D_{4h}$"),
+        ("Oh", "$O_{h}$"),
+        ("Td", "$T_{d}$"),
+        ("Cs", "$C_{s}$"),
+        ("C1", "$C_{1}$"),
+        ("S4", "$S_{4}$"),
+        ("Dinfh", "$D_{\\infty h}$"),
+        ("Cinfv", "$C_{\\infty v}$"),
+        ("A1g", "$A_{1g}$"),
+        ("E'", "$E'$"),
+        ("E''", "$E''$"),
+        ("A2''", "$A_{2}''$"),
+        ("T1u", "$T_{1u}$"),
+        ("B2", "$B_{2}$"),
+        ("E", "$E$"),
+        ("Ag", "$A_{g}$"),
+        ("Sigma_g+", "$\\Sigma_{g}^{+}$"),
     ],
 )
 def test_latex_symbols(label, tex):
@@ -41,8 +55,10 @@ class _Fake:
         return {}
 
     def columns(self):
-        return (Column("CO species", {"1": "A1 + E", "2": "A1"}, latex={"1": "$A_1 + E$", "2": "$A_1$"}),
-                Column("note|x", {"1": "a_b, \"q\"", "2": "50%"}))
+        return (
+            Column("CO species", {"1": "A1 + E", "2": "A1"}, latex={"1": "$A_1 + E$", "2": "$A_1$"}),
+            Column("note|x", {"1": 'a_b, "q"', "2": "50%"}),
+        )
 
     def sections(self):
         return ()
@@ -61,7 +77,7 @@ def test_csv_roundtrip(res):
     assert recs[0][:5] == ["formula", "geometry", "isomer", "point group", "chiral"]
     data = [r for r in recs[1:] if not r[0].startswith("#")]
     assert [r[3] for r in data] == [i.point_group for i in res.isomers]
-    assert "a_b, \"q\"" in data[0]
+    assert 'a_b, "q"' in data[0]
     assert all(len(r) == len(recs[0]) for r in recs)
     assert any(r[0].startswith("# safety") for r in recs)  # cyanide and CO cautions
 

@@ -32,13 +32,14 @@ periodic table); nothing per element is typed in.
 
 from __future__ import annotations
 
+from collections.abc import Mapping, Sequence
 from dataclasses import dataclass, field
-from typing import Any, Mapping, Sequence
+from typing import Any
 
-from enumerator.model.composition import Composition
 from enumerator.errors import InputError
-from enumerator.workflow.result import Column, Section
+from enumerator.model.composition import Composition
 from enumerator.rules.ruleset import RuleSet
+from enumerator.workflow.result import Column, Section
 
 __all__ = [
     "ElectronCount",
@@ -131,7 +132,9 @@ def count_electrons(comp: Composition) -> ElectronCount:
 
     z = element_symbols().get(comp.metal)
     if z is None:
-        raise InputError(f"'{comp.metal}' is not an element symbol", "write the metal as in the periodic table, e.g. Ru")
+        raise InputError(
+            f"'{comp.metal}' is not an element symbol", "write the metal as in the periodic table, e.g. Ru"
+        )
     group, block = group_of(z)
     rows = []
     known = True
@@ -141,13 +144,33 @@ def count_electrons(comp: Composition) -> ElectronCount:
         if "charge" not in m:
             known = False
             continue
-        rows.append((kind.name, n, int(m["charge"]), int(m["electrons_covalent"]), int(m["electrons_ionic"]), m.get("hapticity")))
+        rows.append(
+            (
+                kind.name,
+                n,
+                int(m["charge"]),
+                int(m["electrons_covalent"]),
+                int(m["electrons_ionic"]),
+                m.get("hapticity"),
+            )
+        )
         if m.get("nitrosyl"):
             nitrosyls.append((kind.name, n, str(m["nitrosyl"])))
     notes: list[str] = []
     if not known:
-        return ElectronCount(comp.metal, z, group, block, comp.charge, None, None, None, None, tuple(rows),
-                             notes=("some ligands carry no catalogue data, so the centre is not counted",))
+        return ElectronCount(
+            comp.metal,
+            z,
+            group,
+            block,
+            comp.charge,
+            None,
+            None,
+            None,
+            None,
+            tuple(rows),
+            notes=("some ligands carry no catalogue data, so the centre is not counted",),
+        )
     os_ = comp.charge - sum(q * n for _, n, q, _, _, _ in rows)
     d = ve = ve_ion = None
     ef = None
@@ -167,11 +190,10 @@ def count_electrons(comp: Composition) -> ElectronCount:
                 nef = d + 2 * bent
                 ef = f"{{{comp.metal}NO}}{nef}" if total == 1 else f"{{{comp.metal}(NO){total}}}{nef}"
     else:
-        notes.append(
-            f"{comp.metal} is a {block}-block element: no d-electron count or 18-electron rule is applied"
-        )
-    return ElectronCount(comp.metal, z, group, block, comp.charge, os_, d, ve, ve_ion, tuple(rows),
-                         tuple(nitrosyls), ef, tuple(notes))
+        notes.append(f"{comp.metal} is a {block}-block element: no d-electron count or 18-electron rule is applied")
+    return ElectronCount(
+        comp.metal, z, group, block, comp.charge, os_, d, ve, ve_ion, tuple(rows), tuple(nitrosyls), ef, tuple(notes)
+    )
 
 
 def _abstract_reason(comp: Composition, rules: RuleSet) -> tuple[str, str]:
@@ -189,7 +211,9 @@ def _site_note(comp: Composition) -> str:
     )
 
 
-def default_geometry(comp: Composition, rules: RuleSet, ec: ElectronCount | None = None) -> tuple[str, str, tuple[str, ...]]:
+def default_geometry(
+    comp: Composition, rules: RuleSet, ec: ElectronCount | None = None
+) -> tuple[str, str, tuple[str, ...]]:
     """The default geometry for a real centre: (symbol, reason, alternatives)."""
     ec = ec or count_electrons(comp)
     cn = comp.donor_count
@@ -199,31 +223,51 @@ def default_geometry(comp: Composition, rules: RuleSet, ec: ElectronCount | None
     have = rules.geometries
     if cn == 4:
         if d == 8:
-            return "SP-4", (
-                f"SP-4: {where}; four-coordinate d8 centres (Rh(I), Ir(I), Ni(II), Pd(II), Pt(II), Au(III)) are usually square planar; "
-                f"T-4 is the alternative (e.g. [NiCl4]2- with weak-field ligands){note}"
-            ), ("T-4",)
+            return (
+                "SP-4",
+                (
+                    f"SP-4: {where}; four-coordinate d8 centres (Rh(I), Ir(I), Ni(II), Pd(II), Pt(II), Au(III)) are usually square planar; "
+                    f"T-4 is the alternative (e.g. [NiCl4]2- with weak-field ligands){note}"
+                ),
+                ("T-4",),
+            )
         if d == 10:
             return "T-4", f"T-4: {where}; four-coordinate d10 centres are tetrahedral (e.g. [Ni(CO)4]){note}", ("SP-4",)
         if d == 9:
-            return "T-4", (
-                f"T-4: {where}; d9 (e.g. Cu(II)) is often square planar or flattened, so check SP-4 (--geometry SP-4){note}"
-            ), ("SP-4",)
+            return (
+                "T-4",
+                (
+                    f"T-4: {where}; d9 (e.g. Cu(II)) is often square planar or flattened, so check SP-4 (--geometry SP-4){note}"
+                ),
+                ("SP-4",),
+            )
         return "T-4", f"T-4: {where}; tetrahedral is the usual four-coordinate shape away from d8{note}", ("SP-4",)
     if cn == 5:
-        return "TBPY-5", (
-            f"TBPY-5: {where}; five-coordinate centres default to the trigonal bipyramid; "
-            f"SPY-5 is the alternative (--geometry SPY-5) and the two often interconvert (Berry pseudorotation){note}"
-        ), ("SPY-5",)
+        return (
+            "TBPY-5",
+            (
+                f"TBPY-5: {where}; five-coordinate centres default to the trigonal bipyramid; "
+                f"SPY-5 is the alternative (--geometry SPY-5) and the two often interconvert (Berry pseudorotation){note}"
+            ),
+            ("SPY-5",),
+        )
     if cn == 6:
-        return "OC-6", f"OC-6: {where}; six-coordinate centres are octahedral; TPR-6 is the rare alternative{note}", ("TPR-6",)
+        return (
+            "OC-6",
+            f"OC-6: {where}; six-coordinate centres are octahedral; TPR-6 is the rare alternative{note}",
+            ("TPR-6",),
+        )
     if cn == 2:
         return "L-2", f"L-2: {where}; two-coordinate centres (e.g. d10 Ag(I), Au(I)) are linear{note}", ()
     if cn == 3:
-        return "TP-3", (
-            f"TP-3: {where}; three-coordinate centres default to the trigonal plane; "
-            f"TS-3 (T-shape, e.g. 14-electron d8 fragments) is the alternative (--geometry TS-3){note}"
-        ), ("TS-3",)
+        return (
+            "TP-3",
+            (
+                f"TP-3: {where}; three-coordinate centres default to the trigonal plane; "
+                f"TS-3 (T-shape, e.g. 14-electron d8 fragments) is the alternative (--geometry TS-3){note}"
+            ),
+            ("TS-3",),
+        )
     sym, reason = _abstract_reason(comp, rules)
     alts = tuple(sorted(g for g, geo in have.items() if geo.coordination_number == cn and g != sym))
     return sym, reason + f" ({ec.label}){note}; alternatives: {', '.join(alts) or 'none'}", alts
@@ -275,8 +319,14 @@ class CentreAnalysis:
                 "valence_electrons_covalent": c.valence_electrons,
                 "valence_electrons_ionic": c.valence_electrons_ionic,
                 "electron_count": [
-                    {"ligand": name, "count": n, "charge": q, "electrons_covalent": ec, "electrons_ionic": ei,
-                     **({"hapticity": h} if h else {})}
+                    {
+                        "ligand": name,
+                        "count": n,
+                        "charge": q,
+                        "electrons_covalent": ec,
+                        "electrons_ionic": ei,
+                        **({"hapticity": h} if h else {}),
+                    }
                     for name, n, q, ec, ei, h in c.ligands
                 ],
                 "nitrosyls": [{"ligand": name, "count": n, "binding": b} for name, n, b in c.nitrosyls],
@@ -334,7 +384,9 @@ def _notes(comp: Composition, c: ElectronCount, geometry: str) -> tuple[str, ...
                 f"if this one is, write NObent for {linear[0]} (the isomers are the same, the counts change)"
             )
     if c.valence_electrons is not None and c.valence_electrons > 18 and linear:
-        notes.append("more than 18 valence electrons with a linear nitrosyl: a bent NO (NObent) may be the better description")
+        notes.append(
+            "more than 18 valence electrons with a linear nitrosyl: a bent NO (NObent) may be the better description"
+        )
     return tuple(notes)
 
 

@@ -51,12 +51,12 @@ habit (common practice), not an IUPAC rule.
 
 from __future__ import annotations
 
+from collections.abc import Iterable, Mapping, Sequence
 from dataclasses import dataclass
 from functools import lru_cache
-from typing import Iterable, Mapping, Sequence
 
-from enumerator.model.composition import Composition, LigandKind
 from enumerator.errors import InputError
+from enumerator.model.composition import Composition, LigandKind
 
 __all__ = [
     "MAX_SPHERES",
@@ -132,16 +132,22 @@ def _lenient(smiles: str):
 
     mol = Chem.MolFromSmiles(smiles, sanitize=False)
     if mol is None:
-        raise InputError(f"cannot read the ligand SMILES '{smiles}'", "fix the 'smiles' entry of the ligand in ligands.toml")
+        raise InputError(
+            f"cannot read the ligand SMILES '{smiles}'", "fix the 'smiles' entry of the ligand in ligands.toml"
+        )
     try:
         mol.UpdatePropertyCache(strict=False)
         Chem.SanitizeMol(
             mol,
-            Chem.SanitizeFlags.SANITIZE_ALL ^ Chem.SanitizeFlags.SANITIZE_PROPERTIES ^ Chem.SanitizeFlags.SANITIZE_KEKULIZE,
+            Chem.SanitizeFlags.SANITIZE_ALL
+            ^ Chem.SanitizeFlags.SANITIZE_PROPERTIES
+            ^ Chem.SanitizeFlags.SANITIZE_KEKULIZE,
         )
         Chem.Kekulize(mol, clearAromaticFlags=True)
     except Exception:
-        raise InputError(f"cannot kekulize the ligand SMILES '{smiles}'", "write the ring with explicit single and double bonds") from None
+        raise InputError(
+            f"cannot kekulize the ligand SMILES '{smiles}'", "write the ring with explicit single and double bonds"
+        ) from None
     return mol
 
 
@@ -350,7 +356,7 @@ def _kind_keys(kind: LigandKind, metal: str) -> list[BranchKey]:
     if not isinstance(smiles, str) or not smiles:
         raise InputError(
             f"ligand '{kind.name}' has no SMILES, so its CIP priority cannot be computed",
-            "add smiles = \"...\" with the ligating atoms mapped :1, :2, ... to its ligands.toml entry",
+            'add smiles = "..." with the ligating atoms mapped :1, :2, ... to its ligands.toml entry',
         )
     if kind.ring:
         atoms, _, donors = _graph(_structures(smiles)[0], metal)

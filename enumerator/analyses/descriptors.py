@@ -97,16 +97,17 @@ sets), else the words per ligand, e.g. ``trans(a),cis(b)``.
 from __future__ import annotations
 
 import itertools
+from collections.abc import Mapping, Sequence
 from dataclasses import dataclass, replace
 from functools import lru_cache
-from typing import Any, Mapping, Sequence
+from typing import Any
 
 import numpy as np
 
-from enumerator.model.composition import Composition
 from enumerator.errors import InputError, IsosieveError
-from enumerator.model.geometry import Geometry
 from enumerator.isomers.enumeration import Isomer, IsomerSet
+from enumerator.model.composition import Composition
+from enumerator.model.geometry import Geometry
 from enumerator.workflow.result import Column, Result, Section
 
 __all__ = [
@@ -285,14 +286,7 @@ def _bipyramid(g: Geometry, r: Mapping[int, Rank]) -> list[_Choice]:
     eq = [s for s in sorted(r) if s not in axial]
     m = min(r[s] for s in eq)
     top = min(r[p], r[q])
-    seqs = [
-        (a, sq)
-        for a in axial
-        if r[a] == top
-        for b in eq
-        if r[b] == m
-        for sq in _seqs(g, r, _vec(g, a), eq, b)
-    ]
+    seqs = [(a, sq) for a in axial if r[a] == top for b in eq if r[b] == m for sq in _seqs(g, r, _vec(g, a), eq, b)]
     if len(eq) == 3:  # TBPY-5: the axial pair fixes the diastereomer
         return [_Choice(key, tuple(sq for _, sq in seqs))]
     # PBPY-7, HBPY-8: the equatorial sequence follows the axial pair, read
@@ -305,7 +299,8 @@ def _bipyramid(g: Geometry, r: Mapping[int, Rank]) -> list[_Choice]:
 def _prism_faces(g: Geometry) -> tuple[tuple[int, ...], ...]:
     n = g.coordination_number
     faces = [
-        t for t in itertools.combinations(range(n), 3)
+        t
+        for t in itertools.combinations(range(n), 3)
         if all((min(a, b), max(a, b)) in g.edges for a, b in itertools.combinations(t, 2))
     ]
     return tuple(faces)
@@ -370,7 +365,15 @@ def _ts3(g: Geometry, r: Mapping[int, Rank]) -> list[_Choice]:
     return [_Choice((r[stem[0]],))] if len(stem) == 1 else []
 
 
-_RULES = {"SP-4": _sp4, "SS-4": _ss4, "TS-3": _ts3, "OC-6": _oc6, "SPY-5": _spy5, "TPR-6": _tpr6, **{b: _bipyramid for b in _BIPYRAMIDS}}
+_RULES = {
+    "SP-4": _sp4,
+    "SS-4": _ss4,
+    "TS-3": _ts3,
+    "OC-6": _oc6,
+    "SPY-5": _spy5,
+    "TPR-6": _tpr6,
+    **{b: _bipyramid for b in _BIPYRAMIDS},
+}
 
 _RULE_TEXT = {
     "SP-4": "IR-9.3.3.3 (SP-4): the atom trans to priority 1, the highest number where there is a choice",
@@ -463,9 +466,7 @@ def _prime_groups(isomer: Isomer, composition: Composition, base: Mapping[int, R
     for s in isomer.sites:
         if s.ligand in poly:
             numbers.setdefault(s.unit, set()).add(base[s.index][0])
-    return sorted(
-        u for u, ns in numbers.items() if any(ns & other for v, other in numbers.items() if v != u)
-    )
+    return sorted(u for u, ns in numbers.items() if any(ns & other for v, other in numbers.items() if v != u))
 
 
 def _primed_maps(isomer: Isomer, composition: Composition, base: Mapping[int, Rank]) -> list[dict[int, Rank]]:
@@ -575,7 +576,9 @@ def _describe(isomer: Isomer, composition: Composition, primed: bool) -> Descrip
         if split:
             index += "-" + "".join(_fmt(k) for k in digits[split:])
         key = digits
-    text = g.symbol + (f"-{index}" if index else "") + (f"-{_SYMBOL_TEXT.get(chirality, chirality)}" if chirality else "")
+    text = (
+        g.symbol + (f"-{index}" if index else "") + (f"-{_SYMBOL_TEXT.get(chirality, chirality)}" if chirality else "")
+    )
     shown = maps[0]
     if primed and len(maps) > 1 and key is not None:
         rule = _RULES.get(g.symbol)
@@ -673,7 +676,11 @@ def _matches(d: Descriptor, text: str) -> bool:
         return True
     if d.chirality and n == _normal(_SYMBOL_TEXT.get(d.chirality, d.chirality)):
         return True
-    if d.configuration_index and d.chirality and n == _normal(f"{d.configuration_index}-{_SYMBOL_TEXT.get(d.chirality, d.chirality)}"):
+    if (
+        d.configuration_index
+        and d.chirality
+        and n == _normal(f"{d.configuration_index}-{_SYMBOL_TEXT.get(d.chirality, d.chirality)}")
+    ):
         return True
     return False
 
@@ -785,9 +792,14 @@ class DescriptorAnalysis:
         if self.error:
             lines.append(f"not assigned: {self.error}")
         else:
-            lines.append(f"IUPAC 2005 IR-9.3; priority numbers from {self.basis}" + ("; priming convention applied" if self.primed else ""))
+            lines.append(
+                f"IUPAC 2005 IR-9.3; priority numbers from {self.basis}"
+                + ("; priming convention applied" if self.primed else "")
+            )
         for desc, ids in self.shared:
-            lines.append(f"{desc} is shared by isomers {', '.join(ids)}: the configuration index does not tell them apart")
+            lines.append(
+                f"{desc} is shared by isomers {', '.join(ids)}: the configuration index does not tell them apart"
+            )
         if self.no_symbol:
             lines.append(
                 f"isomers {', '.join(self.no_symbol)} are chiral, but neither C/A nor the skew-lines convention decides a "
@@ -796,7 +808,12 @@ class DescriptorAnalysis:
         out = [Section("Descriptors", "\n".join(lines))]
         if self.names:
             width = max(len(k) for k, _ in self.names)
-            out.append(Section("IUPAC names (IR-9.2, descriptor of IR-9.3 in front)", "\n".join(f"{k:<{width}}  {v}" for k, v in self.names)))
+            out.append(
+                Section(
+                    "IUPAC names (IR-9.2, descriptor of IR-9.3 in front)",
+                    "\n".join(f"{k:<{width}}  {v}" for k, v in self.names),
+                )
+            )
         elif self.name_note:
             out.append(Section("IUPAC names", f"not given: {self.name_note}"))
         return out
@@ -820,7 +837,9 @@ def _analysis(isomer_set: IsomerSet) -> DescriptorAnalysis:
     shared = tuple((k, tuple(ids[k])) for k in sorted(by) if len(by[k]) > 1)
     primed = any(d.primed for d in ds.values())
     no_symbol = tuple(i.id for i in isomer_set.isomers if i.chiral and ds[i.id].chirality is None)
-    return DescriptorAnalysis(tuple((i.id, ds[i.id]) for i in isomer_set.isomers), basis, primed, shared, None, no_symbol)
+    return DescriptorAnalysis(
+        tuple((i.id, ds[i.id]) for i in isomer_set.isomers), basis, primed, shared, None, no_symbol
+    )
 
 
 def _with_names(a: DescriptorAnalysis, res: Result, req) -> DescriptorAnalysis:
@@ -855,7 +874,9 @@ def descriptor_stage(res: Result, req) -> DescriptorAnalysis:
 
 def _picked(a: DescriptorAnalysis, res: Result, text: str) -> list[str]:
     if a.error:
-        raise InputError(f"--pick {text}: descriptors cannot be assigned here ({a.error})", "drop --pick or give the ligands SMILES")
+        raise InputError(
+            f"--pick {text}: descriptors cannot be assigned here ({a.error})", "drop --pick or give the ligands SMILES"
+        )
     keep = [k for k, d in a.descriptors if _matches(d, text)]
     if not keep:
         present = sorted({d.text for _, d in a.descriptors})

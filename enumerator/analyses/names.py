@@ -40,19 +40,47 @@ isotope-labelled entries) or metal gets no name, with the reason.
 from __future__ import annotations
 
 import re
+from collections.abc import Mapping
 from dataclasses import dataclass
 from functools import lru_cache
-from typing import Mapping
 
-from enumerator.model.composition import Composition
 from enumerator.errors import IsosieveError, RuleError
+from enumerator.model.composition import Composition
 
 __all__ = ["ComplexName", "additive_name", "element_names", "ligand_sort_key"]
 
-_SIMPLE = {1: "", 2: "di", 3: "tri", 4: "tetra", 5: "penta", 6: "hexa", 7: "hepta", 8: "octa", 9: "nona", 10: "deca", 11: "undeca", 12: "dodeca"}
-_ENCLOSED = {1: "", 2: "bis", 3: "tris", 4: "tetrakis", 5: "pentakis", 6: "hexakis", 7: "heptakis", 8: "octakis", 9: "nonakis", 10: "decakis", 11: "undecakis", 12: "dodecakis"}
+_SIMPLE = {
+    1: "",
+    2: "di",
+    3: "tri",
+    4: "tetra",
+    5: "penta",
+    6: "hexa",
+    7: "hepta",
+    8: "octa",
+    9: "nona",
+    10: "deca",
+    11: "undeca",
+    12: "dodeca",
+}
+_ENCLOSED = {
+    1: "",
+    2: "bis",
+    3: "tris",
+    4: "tetrakis",
+    5: "pentakis",
+    6: "hexakis",
+    7: "heptakis",
+    8: "octakis",
+    9: "nonakis",
+    10: "decakis",
+    11: "undecakis",
+    12: "dodecakis",
+}
 #: designators and italic prefixes at the front of a ligand name, ignored in ordering
-_FRONT = re.compile(r"^(?:η\d*-|κ\d*[A-Za-z,′″']*-|\d[\d,:′″']*-|[A-Z](?:,[A-Z])*[′″']*(?:,[A-Z][′″']*)*-|tert-|sec-|cis-|trans-)+")
+_FRONT = re.compile(
+    r"^(?:η\d*-|κ\d*[A-Za-z,′″']*-|\d[\d,:′″']*-|[A-Z](?:,[A-Z])*[′″']*(?:,[A-Z][′″']*)*-|tert-|sec-|cis-|trans-)+"
+)
 _KAPPA_END = re.compile(r"κ\d*[A-Z][a-z]?\d*[′″']*(?:,κ?\d*[A-Z][a-z]?\d*[′″']*)*$")
 
 
@@ -100,7 +128,9 @@ def _element_names(paths) -> Mapping[str, tuple[str, str]]:
             check_keys(e, where, ("symbol", "name", "anion"), ())
             for key in ("symbol", "name", "anion"):
                 if not isinstance(e[key], str) or not re.fullmatch(r"[A-Za-z]+", e[key]):
-                    raise RuleError(f"{where}: {key} must be a word of letters, not {e[key]!r}", f'write e.g. {key} = "cobalt"')
+                    raise RuleError(
+                        f"{where}: {key} must be a word of letters, not {e[key]!r}", f'write e.g. {key} = "cobalt"'
+                    )
             out[e["symbol"]] = (e["name"], e["anion"])
     return out
 
@@ -150,11 +180,16 @@ def additive_name(comp: Composition, ruleset, descriptor: str | None) -> Complex
         meta = dict(kind.meta)
         name = meta.get("iupac")
         if not isinstance(name, str):
-            return ComplexName(None, f"ligand '{kind.name}' has no IUPAC name in the catalogue (iupac = \"...\" in its ligands.toml entry)")
+            return ComplexName(
+                None,
+                f"ligand '{kind.name}' has no IUPAC name in the catalogue (iupac = \"...\" in its ligands.toml entry)",
+            )
         parts.append((ligand_sort_key(name), name, bool(meta.get("enclose")), count))
     metals = element_names(ruleset)
     if comp.metal not in metals:
-        return ComplexName(None, f"no name for the element {comp.metal} (add it to an element_names.toml under --rules DIR)")
+        return ComplexName(
+            None, f"no name for the element {comp.metal} (add it to an element_names.toml under --rules DIR)"
+        )
     number = _number(comp)
     if number is None:
         return ComplexName(None, f"the oxidation state of {comp.metal} cannot be computed here")

@@ -16,8 +16,9 @@ True
 
 from __future__ import annotations
 
+from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
-from typing import Any, Mapping, Sequence
+from typing import Any
 
 from enumerator.model.composition import Composition
 from enumerator.workflow.result import Column, Section
@@ -50,15 +51,34 @@ GENERAL = (
 
 #: For the README and report footers.
 README_TEXT = (
-    "Safety: carbonyl, cyanide and nitrosyl chemistry is dangerous. " + TEXT["CO"] + " " + TEXT["CN"] + " " + TEXT["NO"]
-    + " " + GENERAL
+    "Safety: carbonyl, cyanide and nitrosyl chemistry is dangerous. "
+    + TEXT["CO"]
+    + " "
+    + TEXT["CN"]
+    + " "
+    + TEXT["NO"]
+    + " "
+    + GENERAL
 )
 
 _BY_NAME = {
-    "CO": "CO", "13CO": "CO", "C18O": "CO", "13C18O": "CO",
-    "CN": "CN", "13CN": "CN", "C15N": "CN", "NC": "CN",
-    "NO": "NO", "NObent": "NO", "15NO": "NO", "NO2": "NO", "ONO": "NO",
-    "CNtBu": "CNR", "CNMe": "CNR", "CNXyl": "CNR", "CNR": "CNR",
+    "CO": "CO",
+    "13CO": "CO",
+    "C18O": "CO",
+    "13C18O": "CO",
+    "CN": "CN",
+    "13CN": "CN",
+    "C15N": "CN",
+    "NC": "CN",
+    "NO": "NO",
+    "NObent": "NO",
+    "15NO": "NO",
+    "NO2": "NO",
+    "ONO": "NO",
+    "CNtBu": "CNR",
+    "CNMe": "CNR",
+    "CNXyl": "CNR",
+    "CNR": "CNR",
     "CS": "CS",
 }
 _ORDER = ("CO", "CN", "NO", "CNR", "CS")

@@ -27,11 +27,10 @@ Ag -> Sigma_g+, B1u -> Sigma_u+ (D∞h), A1 -> Sigma+ (C∞v).
 
 from __future__ import annotations
 
+from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
 from functools import lru_cache
-from typing import Any, Mapping, Sequence
-
-import numpy as np
+from typing import Any
 
 from enumerator.errors import InputError, RuleError
 from enumerator.workflow.result import Column, Section
@@ -116,19 +115,38 @@ def _load_reporters(paths) -> Reporters:
         for key, entry in (data.get("class") or {}).items():
             where = f"{path}: [class.{key}]"
             if not isinstance(entry, dict):
-                raise RuleError(f"{where} is not a table", "write [class.NAME] with name, bond, nucleus, ir_window_cm1, window_source")
+                raise RuleError(
+                    f"{where} is not a table",
+                    "write [class.NAME] with name, bond, nucleus, ir_window_cm1, window_source",
+                )
             check_keys(entry, where, ("name", "bond", "nucleus", "ir_window_cm1", "window_source"), ("caution",))
             w = entry["ir_window_cm1"]
-            ok = isinstance(w, list) and len(w) == 2 and all(isinstance(x, (int, float)) and not isinstance(x, bool) for x in w) and 0 < w[0] < w[1] < 5000
+            ok = (
+                isinstance(w, list)
+                and len(w) == 2
+                and all(isinstance(x, (int, float)) and not isinstance(x, bool) for x in w)
+                and 0 < w[0] < w[1] < 5000
+            )
             if not ok:
-                raise RuleError(f"{where}: ir_window_cm1 = {w!r} is not [low, high] in cm-1", "write e.g. ir_window_cm1 = [1850, 2125]")
+                raise RuleError(
+                    f"{where}: ir_window_cm1 = {w!r} is not [low, high] in cm-1",
+                    "write e.g. ir_window_cm1 = [1850, 2125]",
+                )
             for k in ("name", "bond", "nucleus", "window_source"):
                 if not isinstance(entry[k], str) or not entry[k].strip():
-                    raise RuleError(f"{where}: {k} must be a non-empty string", f"write {k} = \"...\"")
-            classes[key] = ReporterClass(key, entry["name"], entry["bond"], entry["nucleus"], (float(w[0]), float(w[1])), entry["window_source"], str(entry.get("caution", "")))
+                    raise RuleError(f"{where}: {k} must be a non-empty string", f'write {k} = "..."')
+            classes[key] = ReporterClass(
+                key,
+                entry["name"],
+                entry["bond"],
+                entry["nucleus"],
+                (float(w[0]), float(w[1])),
+                entry["window_source"],
+                str(entry.get("caution", "")),
+            )
         for el, nuc in (data.get("nuclei") or {}).items():
             if not isinstance(nuc, str):
-                raise RuleError(f"{path}: [nuclei] {el} must be a string such as \"31P\"", "quote the nucleus")
+                raise RuleError(f'{path}: [nuclei] {el} must be a string such as "31P"', "quote the nucleus")
             nuclei[el] = nuc
     return Reporters(tuple(classes[k] for k in sorted(classes)), tuple(sorted(nuclei.items())))
 
@@ -221,7 +239,10 @@ def _modes(isomer, reporter_class: str) -> ModeSet:
         corr = _LINEAR_CORRELATION[group]
         bad = [lab for lab in mult if lab not in corr]
         if bad:
-            raise InputError(f"species {bad[0]} of the {proxy.group} proxy has no unique D∞h/C∞v partner", "this linear case is not supported")
+            raise InputError(
+                f"species {bad[0]} of the {proxy.group} proxy has no unique D∞h/C∞v partner",
+                "this linear case is not supported",
+            )
         labs = [(corr[lab], n) for lab, n in mult.items()]
         order = ["Sigma_g+", "Sigma+", "Sigma_u+"]
         labs.sort(key=lambda t: order.index(t[0]))
@@ -229,10 +250,18 @@ def _modes(isomer, reporter_class: str) -> ModeSet:
         ir_sp = tuple(lab for lab, _ in labs if lab in _LINEAR_IR)
         ra_sp = tuple(lab for lab, _ in labs if lab in _LINEAR_RAMAN)
         return ModeSet(
-            reporter_class, sites, group, tuple(c.label for c in proxy.classes),
-            tuple(float(chars[isomer.stabiliser[c.members[0]]]) for c in proxy.classes), tuple(labs), species, ir_sp, ra_sp,
+            reporter_class,
+            sites,
+            group,
+            tuple(c.label for c in proxy.classes),
+            tuple(float(chars[isomer.stabiliser[c.members[0]]]) for c in proxy.classes),
+            tuple(labs),
+            species,
+            ir_sp,
+            ra_sp,
             tuple(x for x in ir_sp if x in ra_sp),
-            sum(n for lab, n in labs if lab in _LINEAR_IR), sum(n for lab, n in labs if lab in _LINEAR_RAMAN),
+            sum(n for lab, n in labs if lab in _LINEAR_IR),
+            sum(n for lab, n in labs if lab in _LINEAR_RAMAN),
             environments(isomer, sites),
             f"linear: z along the molecular axis; species by correlation from the {proxy.group} proxy ({', '.join(f'{a} -> {b}' for a, b in corr.items())})",
         )
@@ -243,10 +272,20 @@ def _modes(isomer, reporter_class: str) -> ModeSet:
     ir_sp = tuple(lab for lab, _ in labs if active[lab][0])
     ra_sp = tuple(lab for lab, _ in labs if active[lab][1])
     return ModeSet(
-        reporter_class, sites, table.group, tuple(c.label for c in table.classes), _class_chars(table, chars), labs,
-        table.species_string(mult), ir_sp, ra_sp, tuple(x for x in ir_sp if x in ra_sp),
-        sum(n for lab, n in labs if active[lab][0]), sum(n for lab, n in labs if active[lab][1]),
-        environments(isomer, sites), table.axes_note,
+        reporter_class,
+        sites,
+        table.group,
+        tuple(c.label for c in table.classes),
+        _class_chars(table, chars),
+        labs,
+        table.species_string(mult),
+        ir_sp,
+        ra_sp,
+        tuple(x for x in ir_sp if x in ra_sp),
+        sum(n for lab, n in labs if active[lab][0]),
+        sum(n for lab, n in labs if active[lab][1]),
+        environments(isomer, sites),
+        table.axes_note,
     )
 
 
@@ -280,7 +319,14 @@ class Pair:
         return None
 
     def to_dict(self) -> dict[str, Any]:
-        d: dict[str, Any] = {"a": self.a, "b": self.b, "ir_distinct": self.ir, "raman_distinct": self.raman, "nmr_distinct": self.nmr, "cheapest": self.cheapest}
+        d: dict[str, Any] = {
+            "a": self.a,
+            "b": self.b,
+            "ir_distinct": self.ir,
+            "raman_distinct": self.raman,
+            "nmr_distinct": self.nmr,
+            "cheapest": self.cheapest,
+        }
         if self.note:
             d["note"] = self.note
         return d
@@ -346,7 +392,10 @@ class StretchAnalysis:
         k = self._index(isomer_id)
         return {
             "modes": {m.reporter: m.to_dict() for m in self.modes[k]},
-            "nmr_environments": {x.ligand: {"nucleus": x.nucleus, "environments": x.environments, "counted": x.observable} for x in self.nmr[k]},
+            "nmr_environments": {
+                x.ligand: {"nucleus": x.nucleus, "environments": x.environments, "counted": x.observable}
+                for x in self.nmr[k]
+            },
             "axes": self.axes[k],
         }
 
@@ -358,7 +407,13 @@ class StretchAnalysis:
         return {
             **self._pairs_json(),
             "reporter_classes": {
-                c.key: {"name": c.name, "bond": c.bond, "nucleus": c.nucleus, "ir_window_cm1": list(c.window), "window_source": c.source}
+                c.key: {
+                    "name": c.name,
+                    "bond": c.bond,
+                    "nucleus": c.nucleus,
+                    "ir_window_cm1": list(c.window),
+                    "window_source": c.source,
+                }
                 for c in self.info
             },
             "technique_cost_order": list(COST_ORDER),
@@ -391,7 +446,11 @@ class StretchAnalysis:
             cols.append(Column(f"{cls} {nuc} NMR", {i: str(self.modes[k][ci].nmr) for k, i in enumerate(self.ids)}))
         other = {}
         for k, i in enumerate(self.ids):
-            cells = [f"{x.ligand}{'(' + x.nucleus + ')' if x.nucleus else ''}:{x.environments}" for x in self.nmr[k] if x.ligand not in self.reporter_ligands]
+            cells = [
+                f"{x.ligand}{'(' + x.nucleus + ')' if x.nucleus else ''}:{x.environments}"
+                for x in self.nmr[k]
+                if x.ligand not in self.reporter_ligands
+            ]
             other[i] = " ".join(cells)
         if any(other.values()):
             cols.append(Column("NMR environments", other))
@@ -408,7 +467,9 @@ class StretchAnalysis:
             lines.append(f"{i} ({self.groups[k]}): {self.axes[k]}")
             seen += 1
         out.append(Section("Axes behind the Mulliken labels (rule in the README)", "\n".join(lines)))
-        out.append(Section("Which isomer pairs IR, Raman or NMR tell apart (band / signal counts)", self._matrix_text()))
+        out.append(
+            Section("Which isomer pairs IR, Raman or NMR tell apart (band / signal counts)", self._matrix_text())
+        )
         notes = []
         if self.fluxional:
             notes.append(_FLUX.format(geo=self.geometry))
@@ -454,7 +515,9 @@ class StretchAnalysis:
         n = len(self.ids)
         tally = self.pair_tally()
         total = n * (n - 1) // 2
-        body = f"{n} isomers, {total} pairs (list in --json 'pairs'): " + ", ".join(f"{k} {v}" for k, v in sorted(tally.items()))
+        body = f"{n} isomers, {total} pairs (list in --json 'pairs'): " + ", ".join(
+            f"{k} {v}" for k, v in sorted(tally.items())
+        )
         legend = (
             "first technique whose counts differ (cost order IR < Raman < NMR); "
             "-- = same counts by all three; en = enantiomers (same by IR, Raman and NMR in achiral media: use CD or X-ray)"
@@ -491,7 +554,9 @@ class StretchAnalysis:
             for p in pairs:
                 c = cell[(p.a, p.b)]
                 counts[c] = counts.get(c, 0) + 1
-            body = f"{n} isomers, {len(pairs)} pairs (matrix in --json 'pairs'): " + ", ".join(f"{k} {v}" for k, v in sorted(counts.items()))
+            body = f"{n} isomers, {len(pairs)} pairs (matrix in --json 'pairs'): " + ", ".join(
+                f"{k} {v}" for k, v in sorted(counts.items())
+            )
         same = [(p.a, p.b) for p in pairs if p.cheapest is None and p.note != "enantiomers"]
         tail = []
         if same:
@@ -549,7 +614,9 @@ def stage(res, req) -> StretchAnalysis:
             ls.append(_LigandNMR(kind.name, nuc, len(environments(iso, iso.sites_of(kind.name))), counted))
         nmr.append(tuple(ls))
         if iso.geometry.linear:
-            axes.append("linear: z along the molecular axis; D∞h / C∞v species by correlation from the finite D2h / C2v proxy")
+            axes.append(
+                "linear: z along the molecular axis; D∞h / C∞v species by correlation from the finite D2h / C2v proxy"
+            )
         else:
             axes.append(table_for_isomer(iso).axes_note)
         groups.append(iso.point_group)

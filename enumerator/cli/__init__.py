@@ -19,9 +19,21 @@ __all__ = ["cli", "main", "COMMANDS"]
 #: command name -> (module, function, one-line help).  Add a command here.
 #: A command whose module is not present is not listed.
 COMMANDS: dict[str, tuple[str, str, str]] = {
-    "isomers": ("enumerator.cli.isomers_cmd", "isomers", "List every isomer of a formula with its point group and analyses."),
-    "geometries": ("enumerator.cli.geometries_cmd", "geometries", "List the coordination geometries and their symmetry groups."),
-    "chartable": ("enumerator.cli.chartable_cmd", "chartable", "Print the computed character table of a point group or an isomer."),
+    "isomers": (
+        "enumerator.cli.isomers_cmd",
+        "isomers",
+        "List every isomer of a formula with its point group and analyses.",
+    ),
+    "geometries": (
+        "enumerator.cli.geometries_cmd",
+        "geometries",
+        "List the coordination geometries and their symmetry groups.",
+    ),
+    "chartable": (
+        "enumerator.cli.chartable_cmd",
+        "chartable",
+        "Print the computed character table of a point group or an isomer.",
+    ),
     "ligands": ("enumerator.cli.ligands_cmd", "ligands", "List the ligand catalogue."),
     "batch": ("enumerator.cli.batch_cmd", "batch", "Screen many formulas from a file, one result row each."),
     "job": ("enumerator.cli.job_cmd", "job", "Run a TOML job file of several complexes."),
@@ -30,7 +42,11 @@ COMMANDS: dict[str, tuple[str, str, str]] = {
     "route": ("enumerator.cli.route_cmd", "route", "Plan orders of ligand addition that reach a target isomer."),
     "network": ("enumerator.cli.network_cmd", "network", "Build the substitution network between two compositions."),
     "report": ("enumerator.cli.report_cmd", "report", "Write an HTML report with structures, spectra and tables."),
-    "structures": ("enumerator.cli.structures_cmd", "structures", "Write XYZ / SDF starting structures for each isomer."),
+    "structures": (
+        "enumerator.cli.structures_cmd",
+        "structures",
+        "Write XYZ / SDF starting structures for each isomer.",
+    ),
     "count": ("enumerator.cli.count_cmd", "count", "Count isomers up front (Burnside) without listing them."),
 }
 
@@ -61,8 +77,14 @@ class LazyGroup(click.Group):
 
 @click.group(cls=LazyGroup, context_settings={"help_option_names": ["-h", "--help"], "max_content_width": 100})
 @click.version_option(package_name="isosieve", prog_name="isosieve")
-@click.option("--rules", "rules", multiple=True, type=click.Path(file_okay=False), metavar="DIR",
-              help="Extra rule folder (geometries/, ligands.toml, ...); repeatable.")
+@click.option(
+    "--rules",
+    "rules",
+    multiple=True,
+    type=click.Path(file_okay=False),
+    metavar="DIR",
+    help="Extra rule folder (geometries/, ligands.toml, ...); repeatable.",
+)
 @click.option("--debug", is_flag=True, help="Show the full traceback of any error.")
 @click.pass_context
 def cli(ctx: click.Context, rules: tuple[str, ...], debug: bool) -> None:

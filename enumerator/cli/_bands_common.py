@@ -38,8 +38,9 @@ def cautions(comp):
 
 
 def write_plot(path, panels, measured, width):
-    from enumerator.render.plots import spectra_figure
     from pathlib import Path
+
+    from enumerator.render.plots import spectra_figure
 
     fmt = Path(path).suffix.lower().lstrip(".")
     if fmt not in ("svg", "png"):

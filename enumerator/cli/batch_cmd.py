@@ -61,9 +61,15 @@ def render_rows(rows, fmt: str) -> str:
 
 @click.command("batch")
 @click.argument("file", type=click.Path(dir_okay=False))
-@click.option("--workers", type=click.IntRange(min=1), default=1, show_default=True, help="Processes for the distinct patterns.")
-@click.option("-g", "--geometry", metavar="SYMBOL", help="Use this geometry for every formula (default: chosen per formula).")
-@click.option("--format", "fmt", type=click.Choice(["table", "csv", "json", "markdown"]), default="table", show_default=True)
+@click.option(
+    "--workers", type=click.IntRange(min=1), default=1, show_default=True, help="Processes for the distinct patterns."
+)
+@click.option(
+    "-g", "--geometry", metavar="SYMBOL", help="Use this geometry for every formula (default: chosen per formula)."
+)
+@click.option(
+    "--format", "fmt", type=click.Choice(["table", "csv", "json", "markdown"]), default="table", show_default=True
+)
 @click.option("--out", type=click.Path(dir_okay=False), help="Write to this file (atomically).")
 @click.option("--limit", type=click.IntRange(min=1), help="Stop each enumeration after this many stereoisomers.")
 @click.pass_context
@@ -80,12 +86,14 @@ def batch(ctx, file, workers, geometry, fmt, out, limit):
       isosieve batch formulas.txt
       isosieve batch screen.csv --workers 2 --format csv --out results.csv
     """
-    from enumerator.workflow.batch import screen
     from enumerator.errors import InputError
+    from enumerator.workflow.batch import screen
 
     items = read_formulas(file)
     rows = list(screen(items, rules=rules_of(ctx), workers=workers, geometry=geometry, limit=limit))
     emit(render_rows(rows, fmt), out)
     bad = [str(r.index + 1) for r in rows if r.error]
     if bad:
-        raise InputError(f"{len(bad)} of {len(rows)} rows could not be analysed (row {', '.join(bad)})", "see the error column")
+        raise InputError(
+            f"{len(bad)} of {len(rows)} rows could not be analysed (row {', '.join(bad)})", "see the error column"
+        )

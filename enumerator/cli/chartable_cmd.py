@@ -8,8 +8,8 @@ from enumerator.cli.common import emit, parse_pairs, rules_of
 
 
 def _render(t, title: str) -> str:
-    from enumerator.symmetry.chartable import format_character
     from enumerator.render.text import table
+    from enumerator.symmetry.chartable import format_character
 
     golden = t.group in ("I", "Ih")
     header = ["", *[c.label for c in t.classes], "linear, rotations", "quadratic"]
@@ -28,7 +28,10 @@ def _render(t, title: str) -> str:
         f"Raman active (quadratic): {', '.join(ra) or 'none'}",
     ]
     if any(i.parts == 2 for i in t.irreps):
-        lines.append("E species marked by joining a complex-conjugate pair: " + ", ".join(i.label for i in t.irreps if i.parts == 2))
+        lines.append(
+            "E species marked by joining a complex-conjugate pair: "
+            + ", ".join(i.label for i in t.irreps if i.parts == 2)
+        )
     return "\n".join(lines) + "\n"
 
 
@@ -58,8 +61,8 @@ def chartable(ctx, what, isomer_id, geometry, spans, as_json, out):
       isosieve chartable "Ma2b2c2" --isomer 2
       isosieve chartable "M(AA)2b2" --geometry OC-6
     """
-    from enumerator.symmetry.chartable import GROUP_NAME, named_table, table_for_isomer
     from enumerator.render.jsonout import dumps
+    from enumerator.symmetry.chartable import GROUP_NAME, named_table, table_for_isomer
 
     if GROUP_NAME.match(what) and not isomer_id and not geometry:
         t = named_table(what)
@@ -72,7 +75,9 @@ def chartable(ctx, what, isomer_id, geometry, spans, as_json, out):
         named_table(what)  # raises the explanation
     from enumerator.workflow.pipeline import Request, run
 
-    res = run(Request(formula=what, geometry=geometry, spans=parse_pairs(spans, "--span", "AA=trans"), rules=rules_of(ctx)))
+    res = run(
+        Request(formula=what, geometry=geometry, spans=parse_pairs(spans, "--span", "AA=trans"), rules=rules_of(ctx))
+    )
     isomers = [res.isomer_set.get(isomer_id)] if isomer_id else list(res.isomers)
     docs, texts = [], []
     for iso in isomers:

@@ -15,12 +15,24 @@ from enumerator.cli.common import emit, parse_pairs, rules_of
 
 @click.command("count")
 @click.argument("formula")
-@click.option("-g", "--geometry", metavar="SYMBOL", help="Polyhedral symbol, e.g. OC-6, IC-12 (default: chosen from the formula).")
+@click.option(
+    "-g", "--geometry", metavar="SYMBOL", help="Polyhedral symbol, e.g. OC-6, IC-12 (default: chosen from the formula)."
+)
 @click.option("--all", "every", is_flag=True, help="Count on every geometry with the formula's coordination number.")
-@click.option("--span", "spans", multiple=True, metavar="LIGAND=SPAN", help="Chelate span: edge, cis, trans or any; repeatable.")
-@click.option("--arrangement", "arrangements", multiple=True, metavar="LIGAND=fac|mer", help="Limit a tridentate to fac, mer or 'fac,mer'.")
+@click.option(
+    "--span", "spans", multiple=True, metavar="LIGAND=SPAN", help="Chelate span: edge, cis, trans or any; repeatable."
+)
+@click.option(
+    "--arrangement",
+    "arrangements",
+    multiple=True,
+    metavar="LIGAND=fac|mer",
+    help="Limit a tridentate to fac, mer or 'fac,mer'.",
+)
 @click.option("--json", "as_json", is_flag=True, help="Print one JSON document.")
-@click.option("--out", type=click.Path(dir_okay=False), help="Write to this file (atomically) instead of standard output.")
+@click.option(
+    "--out", type=click.Path(dir_okay=False), help="Write to this file (atomically) instead of standard output."
+)
 @click.pass_context
 def count(ctx, formula, geometry, every, spans, arrangements, as_json, out):
     """Count the geometric isomers and stereoisomers of FORMULA up front
@@ -38,8 +50,8 @@ def count(ctx, formula, geometry, every, spans, arrangements, as_json, out):
     """
     from enumerator.isomers.counting import burnside_counts
     from enumerator.isomers.enumeration import generate
-    from enumerator.workflow.pipeline import Request, prepare
     from enumerator.rules.ruleset import load_rules
+    from enumerator.workflow.pipeline import Request, prepare
 
     req = Request(
         formula=formula,
@@ -79,7 +91,11 @@ def count(ctx, formula, geometry, every, spans, arrangements, as_json, out):
         lines.append(
             f"{comp.formula} on {r['geometry']} ({r['name']}): "
             f"{r['geometric_isomers']:,} geometric isomer(s), {r['stereoisomers']:,} stereoisomer(s)"
-            + (" (the ligands cannot all be placed together; allow wider chelate spans with --span)" if not r["stereoisomers"] else "")
+            + (
+                " (the ligands cannot all be placed together; allow wider chelate spans with --span)"
+                if not r["stereoisomers"]
+                else ""
+            )
         )
     if not every:
         lines.append(f"geometry: {reason}")

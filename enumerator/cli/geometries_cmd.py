@@ -40,7 +40,15 @@ def geometries(ctx, as_json):
         emit(dumps(doc), None)
         return
     rows = [
-        [g.symbol, g.name, str(g.coordination_number), g.point_group, str(len(g.operations)) + ("*" if g.linear else ""), str(len(g.edges)), "yes" if g.fluxional else "no"]
+        [
+            g.symbol,
+            g.name,
+            str(g.coordination_number),
+            g.point_group,
+            str(len(g.operations)) + ("*" if g.linear else ""),
+            str(len(g.edges)),
+            "yes" if g.fluxional else "no",
+        ]
         for g in geos
     ]
     text = table(["symbol", "name", "CN", "group", "operations", "edges", "often fluxional"], rows)

@@ -63,16 +63,52 @@ def _run(req, partial: bool):
 
 @click.command("isomers")
 @click.argument("formula")
-@click.option("-g", "--geometry", metavar="SYMBOL", help="Polyhedral symbol, e.g. OC-6, TBPY-5, SP-4 (default: chosen from the formula).")
+@click.option(
+    "-g",
+    "--geometry",
+    metavar="SYMBOL",
+    help="Polyhedral symbol, e.g. OC-6, TBPY-5, SP-4 (default: chosen from the formula).",
+)
 @click.option("--json", "as_json", is_flag=True, help="Print one JSON document (schema in the README).")
-@click.option("--format", "fmt", type=click.Choice(["table", "markdown", "csv", "latex", "json"]), default="table", show_default=True, help="Output format.")
-@click.option("--out", type=click.Path(dir_okay=False), help="Write to this file (atomically) instead of standard output.")
-@click.option("--span", "spans", multiple=True, metavar="LIGAND=SPAN", help="Chelate span: edge, cis, trans or any; repeatable.")
-@click.option("--arrangement", "arrangements", multiple=True, metavar="LIGAND=fac|mer", help="Limit a tridentate to fac, mer or 'fac,mer'.")
-@click.option("--reporter", "reporters", multiple=True, metavar="LETTER=CLASS", help="Treat a ligand as a stretch reporter, e.g. a=CO; repeatable.")
+@click.option(
+    "--format",
+    "fmt",
+    type=click.Choice(["table", "markdown", "csv", "latex", "json"]),
+    default="table",
+    show_default=True,
+    help="Output format.",
+)
+@click.option(
+    "--out", type=click.Path(dir_okay=False), help="Write to this file (atomically) instead of standard output."
+)
+@click.option(
+    "--span", "spans", multiple=True, metavar="LIGAND=SPAN", help="Chelate span: edge, cis, trans or any; repeatable."
+)
+@click.option(
+    "--arrangement",
+    "arrangements",
+    multiple=True,
+    metavar="LIGAND=fac|mer",
+    help="Limit a tridentate to fac, mer or 'fac,mer'.",
+)
+@click.option(
+    "--reporter",
+    "reporters",
+    multiple=True,
+    metavar="LETTER=CLASS",
+    help="Treat a ligand as a stretch reporter, e.g. a=CO; repeatable.",
+)
 @click.option("--limit", type=click.IntRange(min=1), help="Stop after this many stereoisomers.")
-@click.option("--partial", is_flag=True, help='On Ctrl-C, write the isomers found so far (marked "complete": false) instead of nothing.')
-@click.option("--pick", metavar="DESCRIPTOR", help="Keep only the isomers with this IUPAC descriptor: OC-6-32-C, OC-6-32, 32, cis, trans, fac or mer.")
+@click.option(
+    "--partial",
+    is_flag=True,
+    help='On Ctrl-C, write the isomers found so far (marked "complete": false) instead of nothing.',
+)
+@click.option(
+    "--pick",
+    metavar="DESCRIPTOR",
+    help="Keep only the isomers with this IUPAC descriptor: OC-6-32-C, OC-6-32, 32, cis, trans, fac or mer.",
+)
 @click.pass_context
 def isomers(ctx, formula, geometry, as_json, fmt, out, spans, arrangements, reporters, limit, partial, pick):
     """List every isomer of FORMULA with its point group.
@@ -137,5 +173,7 @@ def isomers(ctx, formula, geometry, as_json, fmt, out, spans, arrangements, repo
         sys.exit(130)
     if interrupted:
         n = len(res.isomer_set.isomers)
-        click.echo(f'isosieve: interrupted; wrote the {n} stereoisomers found so far, marked "complete": false', err=True)
+        click.echo(
+            f'isosieve: interrupted; wrote the {n} stereoisomers found so far, marked "complete": false', err=True
+        )
         sys.exit(130)

@@ -9,9 +9,19 @@ from enumerator.cli.common import emit, rules_of, write_atomic
 
 @click.command("job")
 @click.argument("file", type=click.Path(dir_okay=False))
-@click.option("--format", "fmt", type=click.Choice(["table", "markdown", "csv", "latex", "json"]), default="table", show_default=True)
-@click.option("--out", type=click.Path(dir_okay=False), help="Write to this file (atomically) instead of standard output.")
-@click.option("--write", "write_outputs", is_flag=True, help="Write every [[output]] the job file lists (paths relative to it).")
+@click.option(
+    "--format",
+    "fmt",
+    type=click.Choice(["table", "markdown", "csv", "latex", "json"]),
+    default="table",
+    show_default=True,
+)
+@click.option(
+    "--out", type=click.Path(dir_okay=False), help="Write to this file (atomically) instead of standard output."
+)
+@click.option(
+    "--write", "write_outputs", is_flag=True, help="Write every [[output]] the job file lists (paths relative to it)."
+)
 @click.pass_context
 def job(ctx, file, fmt, out, write_outputs):
     """Run every [[complex]] of the job FILE and print or write the tables.
@@ -32,7 +42,9 @@ def job(ctx, file, fmt, out, write_outputs):
         if not j.outputs:
             from enumerator.errors import InputError
 
-            raise InputError(f"job file '{file}' lists no [[output]]", 'add [[output]] with format = "markdown" and file = "..."')
+            raise InputError(
+                f"job file '{file}' lists no [[output]]", 'add [[output]] with format = "markdown" and file = "..."'
+            )
         for f, rel in j.outputs:
             write_atomic(Path(j.folder) / rel, render_job(j, results, f))
             click.echo(f"wrote {Path(j.folder) / rel}", err=True)

@@ -27,15 +27,31 @@ def ligands(ctx, name, as_json, fmt):
     from enumerator.rules.ruleset import load_rules
 
     rs = load_rules(rules_of(ctx))
-    entries = [find_ligand(rs, name)] if name else sorted(load_ligands(rs).values(), key=lambda e: (e.denticity, e.name.lower()))
+    entries = (
+        [find_ligand(rs, name)]
+        if name
+        else sorted(load_ligands(rs).values(), key=lambda e: (e.denticity, e.name.lower()))
+    )
 
     def doc(e):
         return {
-            "name": e.name, "aliases": list(e.aliases), "label": e.label, "smiles": e.smiles,
-            "donors": list(e.donors), "denticity": e.denticity, "hapticity": e.hapticity, "ring": e.ring,
-            "charge": e.charge, "electrons_covalent": e.electrons_covalent, "electrons_ionic": e.electrons_ionic,
-            "reporter": e.reporter, "spans": list(e.spans), "arrangements": list(e.arrangements),
-            "nitrosyl": e.nitrosyl, "note": e.note, "source": e.source,
+            "name": e.name,
+            "aliases": list(e.aliases),
+            "label": e.label,
+            "smiles": e.smiles,
+            "donors": list(e.donors),
+            "denticity": e.denticity,
+            "hapticity": e.hapticity,
+            "ring": e.ring,
+            "charge": e.charge,
+            "electrons_covalent": e.electrons_covalent,
+            "electrons_ionic": e.electrons_ionic,
+            "reporter": e.reporter,
+            "spans": list(e.spans),
+            "arrangements": list(e.arrangements),
+            "nitrosyl": e.nitrosyl,
+            "note": e.note,
+            "source": e.source,
         }
 
     if as_json or fmt == "json":
@@ -46,10 +62,26 @@ def ligands(ctx, name, as_json, fmt):
     header = ["name", "donors", "sites", "η", "charge", "e cov", "e ion", "reporter", "placement", "aliases", "SMILES"]
     rows = []
     for e in entries:
-        place = "ring (facial)" if e.ring else ",".join(e.arrangements) or ",".join(e.spans) or ("-" if e.denticity == 1 else "edge")
-        rows.append([e.name, "".join(e.donors) if e.ring else "-".join(e.donors), str(e.denticity), str(e.hapticity or ""),
-                     f"{e.charge:+d}" if e.charge else "0", str(e.electrons_covalent), str(e.electrons_ionic),
-                     e.reporter or "", place, ", ".join(e.aliases), e.smiles])
+        place = (
+            "ring (facial)"
+            if e.ring
+            else ",".join(e.arrangements) or ",".join(e.spans) or ("-" if e.denticity == 1 else "edge")
+        )
+        rows.append(
+            [
+                e.name,
+                "".join(e.donors) if e.ring else "-".join(e.donors),
+                str(e.denticity),
+                str(e.hapticity or ""),
+                f"{e.charge:+d}" if e.charge else "0",
+                str(e.electrons_covalent),
+                str(e.electrons_ionic),
+                e.reporter or "",
+                place,
+                ", ".join(e.aliases),
+                e.smiles,
+            ]
+        )
     if fmt == "csv":
         from enumerator.render.tables import write_csv
 

@@ -2,7 +2,6 @@
 
 from __future__ import annotations
 
-
 from pathlib import Path
 
 import click
@@ -14,9 +13,19 @@ _FORMATS = ("text", "json", "graphml", "svg", "png")
 
 @click.command("network")
 @click.argument("start")
-@click.option("-t", "--target", required=True, metavar="TARGET", help="Target composition, e.g. \"[PtCl2(NH3)2]\" (a descriptor is allowed and ignored).")
-@click.option("-g", "--geometry", metavar="SYMBOL", help="Polyhedral symbol, e.g. SP-4, OC-6 (default: chosen from the formula).")
-@click.option("--format", "fmt", type=click.Choice(_FORMATS), help="Output format (default: from the --out extension, else text).")
+@click.option(
+    "-t",
+    "--target",
+    required=True,
+    metavar="TARGET",
+    help='Target composition, e.g. "[PtCl2(NH3)2]" (a descriptor is allowed and ignored).',
+)
+@click.option(
+    "-g", "--geometry", metavar="SYMBOL", help="Polyhedral symbol, e.g. SP-4, OC-6 (default: chosen from the formula)."
+)
+@click.option(
+    "--format", "fmt", type=click.Choice(_FORMATS), help="Output format (default: from the --out extension, else text)."
+)
 @click.option("--json", "as_json", is_flag=True, help="Same as --format json (networkx node-link data).")
 @click.option("--out", type=click.Path(dir_okay=False), help="Write to this file (atomically); needed for png.")
 @click.pass_context
@@ -77,7 +86,17 @@ def _text(net) -> str:
     rows = []
     for nid, attrs in net.nodes:
         a = dict(attrs)
-        rows.append([str(a["level"]), a["formula"], a["isomer"], a["point_group"], a["prefix"] or "-", a["descriptor"] or "-", a["sites"]])
+        rows.append(
+            [
+                str(a["level"]),
+                a["formula"],
+                a["isomer"],
+                a["point_group"],
+                a["prefix"] or "-",
+                a["descriptor"] or "-",
+                a["sites"],
+            ]
+        )
     lines.append(table(["step", "formula", "isomer", "point group", "prefix", "descriptor", "sites"], rows))
     lines.append("")
     rows = []

@@ -21,7 +21,7 @@ def _pairs(value, where: str, example: str) -> tuple[tuple[str, str], ...]:
     if value is None:
         return ()
     if not isinstance(value, dict) or not all(isinstance(v, str) for v in value.values()):
-        raise InputError(f"{where} must be a table of NAME = \"VALUE\"", f"write e.g. {example}")
+        raise InputError(f'{where} must be a table of NAME = "VALUE"', f"write e.g. {example}")
     return tuple(sorted((str(k), v) for k, v in value.items()))
 
 
@@ -34,8 +34,8 @@ def load_requests(path: str, rules: tuple[str, ...]):
     ``reporters`` / ``spans`` / ``arrangements`` tables (NAME = "VALUE").
     """
     from enumerator.errors import InputError
-    from enumerator.workflow.pipeline import Request
     from enumerator.rules.ruleset import check_keys, read_toml
+    from enumerator.workflow.pipeline import Request
 
     try:  # the job-file module of issue 4, once it exists
         from enumerator import jobfile  # type: ignore[attr-defined]
@@ -56,26 +56,39 @@ def load_requests(path: str, rules: tuple[str, ...]):
     for n, c in enumerate(complexes, 1):
         where = f"{path}: complex {n}"
         if not isinstance(c, dict):
-            raise InputError(f"{where} is not a table", "write [[complex]] followed by formula = \"...\"")
-        check_keys(c, where, required=("formula",), optional=("geometry", "limit", "reporters", "spans", "arrangements", "title", "name"))
+            raise InputError(f"{where} is not a table", 'write [[complex]] followed by formula = "..."')
+        check_keys(
+            c,
+            where,
+            required=("formula",),
+            optional=("geometry", "limit", "reporters", "spans", "arrangements", "title", "name"),
+        )
         limit = c.get("limit")
         if limit is not None and (not isinstance(limit, int) or limit < 1):
             raise InputError(f"{where}: limit must be a positive whole number", "write e.g. limit = 100")
-        out.append(Request(
-            formula=str(c["formula"]),
-            geometry=c.get("geometry"),
-            spans=_pairs(c.get("spans"), f"{where}: spans", 'spans = { AA = "trans" }'),
-            arrangements=_pairs(c.get("arrangements"), f"{where}: arrangements", 'arrangements = { AAA = "fac" }'),
-            reporters=_pairs(c.get("reporters"), f"{where}: reporters", 'reporters = { a = "CO" }'),
-            limit=limit,
-            rules=rules,
-        ))
+        out.append(
+            Request(
+                formula=str(c["formula"]),
+                geometry=c.get("geometry"),
+                spans=_pairs(c.get("spans"), f"{where}: spans", 'spans = { AA = "trans" }'),
+                arrangements=_pairs(c.get("arrangements"), f"{where}: arrangements", 'arrangements = { AAA = "fac" }'),
+                reporters=_pairs(c.get("reporters"), f"{where}: reporters", 'reporters = { a = "CO" }'),
+                limit=limit,
+                rules=rules,
+            )
+        )
     return str(doc.get("title") or p.stem), out
 
 
 @click.command("report")
 @click.argument("job", type=click.Path(dir_okay=False))
-@click.option("--out", "out_dir", required=True, type=click.Path(file_okay=False), help="Folder for report.html and the tables (created if missing).")
+@click.option(
+    "--out",
+    "out_dir",
+    required=True,
+    type=click.Path(file_okay=False),
+    help="Folder for report.html and the tables (created if missing).",
+)
 @click.option("--title", help="Page title (default: the job file's title or name).")
 @click.pass_context
 def report(ctx, job, out_dir, title):
@@ -98,9 +111,9 @@ def report(ctx, job, out_dir, title):
       isosieve report job.toml --out si
       isosieve --rules mylib report job.toml --out si --title "SI tables"
     """
-    from enumerator.workflow.pipeline import run
     from enumerator.render.report import render_report, tables_csv, tables_latex
     from enumerator.rules.ruleset import load_rules
+    from enumerator.workflow.pipeline import run
 
     rules = rules_of(ctx)
     name, reqs = load_requests(job, rules)

@@ -10,13 +10,35 @@ from enumerator.cli.common import emit, rules_of
 
 @click.command("route")
 @click.argument("start")
-@click.option("-t", "--target", metavar="TARGET", help="Target formula with a descriptor: cis-/trans-/fac-/mer- or a configuration index, e.g. \"cis-[PtCl2(NH3)2]\" or \"(OC-6-22)-Ma4b2\".")
-@click.option("--add", "add", metavar="LIGAND", help="Instead of planning: predict the products of adding one LIGAND to START.")
-@click.option("--leaving", "leaving", multiple=True, metavar="LIGAND", help="With --add: the ligand(s) that may leave (default: the rule set's, else every other one).")
-@click.option("-g", "--geometry", metavar="SYMBOL", help="Polyhedral symbol, e.g. SP-4, OC-6 (default: chosen from the formula).")
-@click.option("--rule-set", "rule_set", metavar="NAME", help="Substitution rule set by name (default: the applicable one of highest priority).")
+@click.option(
+    "-t",
+    "--target",
+    metavar="TARGET",
+    help='Target formula with a descriptor: cis-/trans-/fac-/mer- or a configuration index, e.g. "cis-[PtCl2(NH3)2]" or "(OC-6-22)-Ma4b2".',
+)
+@click.option(
+    "--add", "add", metavar="LIGAND", help="Instead of planning: predict the products of adding one LIGAND to START."
+)
+@click.option(
+    "--leaving",
+    "leaving",
+    multiple=True,
+    metavar="LIGAND",
+    help="With --add: the ligand(s) that may leave (default: the rule set's, else every other one).",
+)
+@click.option(
+    "-g", "--geometry", metavar="SYMBOL", help="Polyhedral symbol, e.g. SP-4, OC-6 (default: chosen from the formula)."
+)
+@click.option(
+    "--rule-set",
+    "rule_set",
+    metavar="NAME",
+    help="Substitution rule set by name (default: the applicable one of highest priority).",
+)
 @click.option("--json", "as_json", is_flag=True, help="Print one JSON document (keys in the README).")
-@click.option("--out", type=click.Path(dir_okay=False), help="Write to this file (atomically) instead of standard output.")
+@click.option(
+    "--out", type=click.Path(dir_okay=False), help="Write to this file (atomically) instead of standard output."
+)
 @click.pass_context
 def route(ctx, start, target, add, leaving, geometry, rule_set, as_json, out):
     """Plan the orders of ligand addition from START that give TARGET.
@@ -39,7 +61,9 @@ def route(ctx, start, target, add, leaving, geometry, rule_set, as_json, out):
     from enumerator.errors import InputError
 
     if bool(target) == bool(add):
-        raise InputError("give either --target TARGET (plan routes) or --add LIGAND (one step)", 'e.g. --target "cis-[PtCl2(NH3)2]"')
+        raise InputError(
+            "give either --target TARGET (plan routes) or --add LIGAND (one step)", 'e.g. --target "cis-[PtCl2(NH3)2]"'
+        )
     if leaving and not add:
         raise InputError("--leaving goes with --add", "drop --leaving, or use --add LIGAND")
     if add:
@@ -84,7 +108,16 @@ def _prediction_text(p) -> str:
     lines.append("Statistical shares (every replaceable site alike):")
     lines.append(table(["product", "descriptor", "share"], rows, indent="  "))
     lines.append("")
-    rows = [[str(c.site + 1), c.leaving, ", ".join(c.labilisers) or "-", f"{c.product.formula} #{c.product.isomer}", "yes" if c.selected else ""] for c in p.sites]
+    rows = [
+        [
+            str(c.site + 1),
+            c.leaving,
+            ", ".join(c.labilisers) or "-",
+            f"{c.product.formula} #{c.product.isomer}",
+            "yes" if c.selected else "",
+        ]
+        for c in p.sites
+    ]
     lines.append("Replaceable sites:")
     lines.append(table(["site", "leaving", "decided by ligands", "product", "picked"], rows, indent="  "))
     lines.append("")
@@ -107,7 +140,10 @@ def _plan_text(plan) -> str:
         f"Target:    {plan.target.label()}" + (f" {plan.target.descriptor}" if plan.target.descriptor else ""),
         f"Geometry:  {plan.geometry_reason}",
         *_head(plan.rules, plan.rules_reason),
-        "Adds " + ", ".join(f"{n} {k}" for k, n in plan.entering) + "; removes " + ", ".join(f"{n} {k}" for k, n in plan.leaving)
+        "Adds "
+        + ", ".join(f"{n} {k}" for k, n in plan.entering)
+        + "; removes "
+        + ", ".join(f"{n} {k}" for k, n in plan.leaving)
         + f"; {len(plan.routes)} order{'s' if len(plan.routes) != 1 else ''} of addition searched.",
         "",
     ]
@@ -139,8 +175,16 @@ def _steps(r) -> list[str]:
         if p.major is None:
             out.append(f"  {s.number}. +{s.entering}: no single major product; {p.reason}")
             continue
-        chosen = sorted(c.site + 1 for c in p.sites if c.selected and c.product.formula == p.major.formula and c.product.number == p.major.number)
-        leaving = next(c.leaving for c in p.sites if c.selected and c.product.formula == p.major.formula and c.product.number == p.major.number)
+        chosen = sorted(
+            c.site + 1
+            for c in p.sites
+            if c.selected and c.product.formula == p.major.formula and c.product.number == p.major.number
+        )
+        leaving = next(
+            c.leaving
+            for c in p.sites
+            if c.selected and c.product.formula == p.major.formula and c.product.number == p.major.number
+        )
         where = f"site {chosen[0]}" if len(chosen) == 1 else "any of sites " + ", ".join(map(str, chosen))
         out.append(f"  {s.number}. +{s.entering} replaces {leaving} at {where} -> {p.major.label()}; {p.reason}")
     return out

@@ -31,12 +31,34 @@ def descriptor_labels(res) -> dict[str, str]:
 
 @click.command("structures")
 @click.argument("formula")
-@click.option("--out", "out_dir", required=True, type=click.Path(file_okay=False), help="Folder for the files (created if missing).")
-@click.option("--format", "fmt", type=click.Choice(["xyz", "sdf"]), default="xyz", show_default=True,
-              help="xyz: one file per isomer; sdf: one SD file with a record per isomer.")
-@click.option("-g", "--geometry", metavar="SYMBOL", help="Polyhedral symbol, e.g. OC-6 (default: chosen from the formula).")
-@click.option("--span", "spans", multiple=True, metavar="LIGAND=SPAN", help="Chelate span: edge, cis, trans or any; repeatable.")
-@click.option("--arrangement", "arrangements", multiple=True, metavar="LIGAND=fac|mer", help="Limit a tridentate to fac, mer or 'fac,mer'.")
+@click.option(
+    "--out",
+    "out_dir",
+    required=True,
+    type=click.Path(file_okay=False),
+    help="Folder for the files (created if missing).",
+)
+@click.option(
+    "--format",
+    "fmt",
+    type=click.Choice(["xyz", "sdf"]),
+    default="xyz",
+    show_default=True,
+    help="xyz: one file per isomer; sdf: one SD file with a record per isomer.",
+)
+@click.option(
+    "-g", "--geometry", metavar="SYMBOL", help="Polyhedral symbol, e.g. OC-6 (default: chosen from the formula)."
+)
+@click.option(
+    "--span", "spans", multiple=True, metavar="LIGAND=SPAN", help="Chelate span: edge, cis, trans or any; repeatable."
+)
+@click.option(
+    "--arrangement",
+    "arrangements",
+    multiple=True,
+    metavar="LIGAND=fac|mer",
+    help="Limit a tridentate to fac, mer or 'fac,mer'.",
+)
 @click.option("--limit", type=click.IntRange(min=1), help="Stop after this many stereoisomers.")
 @click.pass_context
 def structures(ctx, formula, out_dir, fmt, geometry, spans, arrangements, limit):
@@ -54,8 +76,8 @@ def structures(ctx, formula, out_dir, fmt, geometry, spans, arrangements, limit)
       isosieve structures "[Mo(CO)3(PMe3)3]" --out mo --format sdf
       isosieve structures Ma2b2c2 --out core
     """
-    from enumerator.workflow.pipeline import Request, run
     from enumerator.structures.build import structures_for, to_sdf, to_xyz
+    from enumerator.workflow.pipeline import Request, run
 
     req = Request(
         formula=formula,

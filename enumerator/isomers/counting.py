@@ -28,7 +28,7 @@ uncovered site, so each decoration is counted once).  Burnside's lemma
 
 from __future__ import annotations
 
-from functools import lru_cache
+from functools import cache, lru_cache
 
 from enumerator.model.composition import Composition
 from enumerator.model.geometry import Geometry
@@ -53,7 +53,7 @@ def cycle_type(perm: tuple[int, ...]) -> tuple[int, ...]:
     return tuple(sorted(out))
 
 
-@lru_cache(maxsize=None)
+@cache
 def _fixed(cycles: tuple[int, ...], counts: tuple[int, ...]) -> int:
     if not cycles:
         return 1 if all(c == 0 for c in counts) else 0

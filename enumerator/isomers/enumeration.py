@@ -26,14 +26,14 @@ The generator is lazy, so huge cases stream and a ``limit`` stops early:
 from __future__ import annotations
 
 import itertools
+from collections.abc import Iterator, Sequence
 from dataclasses import dataclass, field
-from functools import lru_cache
-from typing import Iterator, Sequence
+from functools import cache, lru_cache
 
 import numpy as np
 
-from enumerator.model.composition import Composition, LigandKind
 from enumerator.errors import InputError
+from enumerator.model.composition import Composition, LigandKind
 from enumerator.model.geometry import Geometry
 from enumerator.symmetry.operations import SymOp, schoenflies
 
@@ -150,7 +150,7 @@ def group_tables(geometry: Geometry) -> _Tables:
     return _tables(geometry.vectors)
 
 
-@lru_cache(maxsize=None)
+@cache
 def _tables(vectors) -> _Tables:
     from enumerator.model.geometry import derive_operations
 
@@ -305,8 +305,15 @@ def _leaves(levels, geometry: Geometry) -> Iterator[tuple[tuple[Piece, ...], tup
 
 
 def _build(
-    levels, pieces: tuple[Piece, ...], stab: tuple[int, ...], geometry: Geometry, composition: Composition,
-    iid: str, number: int, chiral: bool, enantiomer: str | None,
+    levels,
+    pieces: tuple[Piece, ...],
+    stab: tuple[int, ...],
+    geometry: Geometry,
+    composition: Composition,
+    iid: str,
+    number: int,
+    chiral: bool,
+    enantiomer: str | None,
 ) -> Isomer:
     formula_order = {k: i for i, (k, _) in enumerate(composition.parts)}
     placed = sorted(

@@ -8,8 +8,8 @@ mer or either.  A :class:`Composition` is the multiset of kinds on one metal.
 
 from __future__ import annotations
 
+from collections.abc import Iterable
 from dataclasses import dataclass, field, replace
-from typing import Iterable
 
 from enumerator.errors import InputError
 from enumerator.model.geometry import SPANS
@@ -58,20 +58,26 @@ class LigandKind:
             return default
         return self.spans[min(link, len(self.spans) - 1)]
 
-    def with_span(self, span: str) -> "LigandKind":
+    def with_span(self, span: str) -> LigandKind:
         if span not in SPANS:
             raise InputError(f"span '{span}' is not one of {', '.join(SPANS)}", "e.g. --span AA=trans")
         if self.denticity < 2 or self.ring:
-            raise InputError(f"ligand '{self.name}' is not a chelate chain, so it has no span", "give --span only for chelates such as (AA)")
+            raise InputError(
+                f"ligand '{self.name}' is not a chelate chain, so it has no span",
+                "give --span only for chelates such as (AA)",
+            )
         return replace(self, spans=(span,) * (self.denticity - 1))
 
-    def with_arrangements(self, names: Iterable[str]) -> "LigandKind":
+    def with_arrangements(self, names: Iterable[str]) -> LigandKind:
         chosen = frozenset(n.strip() for n in names if n.strip())
         bad = sorted(chosen - set(ARRANGEMENTS))
         if bad:
             raise InputError(f"arrangement '{bad[0]}' is not fac or mer", "e.g. --arrangement AAA=fac")
         if self.denticity != 3 or self.ring:
-            raise InputError(f"ligand '{self.name}' is not a tridentate chain, so fac/mer does not apply", "give --arrangement only for (AAA), (ABA), (ABC)")
+            raise InputError(
+                f"ligand '{self.name}' is not a tridentate chain, so fac/mer does not apply",
+                "give --arrangement only for (AAA), (ABA), (ABC)",
+            )
         return replace(self, arrangements=chosen)
 
 
@@ -96,9 +102,11 @@ class Composition:
         for k in self.kinds:
             if k.name == name:
                 return k
-        raise InputError(f"no ligand '{name}' in {self.formula}", f"ligands here: {', '.join(k.name for k in self.kinds)}")
+        raise InputError(
+            f"no ligand '{name}' in {self.formula}", f"ligands here: {', '.join(k.name for k in self.kinds)}"
+        )
 
-    def replace_kind(self, name: str, new: LigandKind) -> "Composition":
+    def replace_kind(self, name: str, new: LigandKind) -> Composition:
         self.kind(name)
         return replace(self, parts=tuple((new if k.name == name else k, n) for k, n in self.parts))
 

@@ -19,13 +19,12 @@ from __future__ import annotations
 
 import itertools
 import math
-from dataclasses import dataclass, field
-from functools import cached_property, lru_cache
+from dataclasses import dataclass
+from functools import cache, cached_property
 
 import numpy as np
 
 from enumerator.symmetry.operations import SymOp, schoenflies
-from enumerator.symmetry.linalg import TOL
 
 __all__ = ["Geometry", "derive_operations", "polyhedron_edges", "SPANS", "TRANS_ANGLE"]
 
@@ -153,7 +152,7 @@ def _clean(m: np.ndarray) -> tuple[tuple[float, float, float], ...]:
     return tuple(tuple(float(x) for x in row) for row in r)  # type: ignore[return-value]
 
 
-@lru_cache(maxsize=None)
+@cache
 def derive_operations(vectors: tuple[Vec, ...]) -> tuple[SymOp, ...]:
     """All orthogonal maps that send the site set onto itself, with the site
     permutation each induces; cached by the vectors' values.
@@ -211,7 +210,7 @@ def derive_operations(vectors: tuple[Vec, ...]) -> tuple[SymOp, ...]:
     return tuple(ops)
 
 
-@lru_cache(maxsize=None)
+@cache
 def polyhedron_edges(vectors: tuple[Vec, ...]) -> frozenset[tuple[int, int]]:
     """Edges of the convex polyhedron (or polygon) spanned by the site tips.
 

@@ -18,8 +18,8 @@ from __future__ import annotations
 
 import re
 
-from enumerator.model.composition import Composition, LigandKind
 from enumerator.errors import InputError
+from enumerator.model.composition import Composition, LigandKind
 
 __all__ = ["parse_abstract", "looks_abstract", "parse_charge"]
 
@@ -42,7 +42,9 @@ def parse_charge(text: str) -> tuple[str, int]:
             return head + "]", 0
         m = _CHARGE.fullmatch(tail)
         if not m:
-            raise InputError(f"cannot read the charge '{tail}' after ']' in '{text}'", "write it like 2- or + after the bracket")
+            raise InputError(
+                f"cannot read the charge '{tail}' after ']' in '{text}'", "write it like 2- or + after the bracket"
+            )
         n = int(m.group(1) or 1)
         return head + "]", n if m.group(2) == "+" else -n
     return t, 0

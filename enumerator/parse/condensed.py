@@ -31,9 +31,9 @@ import re
 from dataclasses import dataclass
 from functools import lru_cache
 
-from enumerator.model.composition import Composition, LigandKind
 from enumerator.errors import InputError
-from enumerator.rules.ligands import LigandEntry, all_spellings, element_symbols, load_ligands, unknown_ligand
+from enumerator.model.composition import Composition, LigandKind
+from enumerator.rules.ligands import LigandEntry, all_spellings, element_symbols, load_ligands
 from enumerator.rules.ruleset import RuleSet, closest_names
 
 __all__ = ["parse_condensed", "is_metal", "METAL_FIX"]
@@ -102,7 +102,9 @@ class _Parser:
             return
         if eta != entry.bound_atoms:
             raise _err(
-                self.text, pos, f"η{eta}-{entry.name} is not in the catalogue ({entry.name} is bound through {entry.bound_atoms} atom(s))",
+                self.text,
+                pos,
+                f"η{eta}-{entry.name} is not in the catalogue ({entry.name} is bound through {entry.bound_atoms} atom(s))",
                 f"write η{entry.bound_atoms}-{entry.name}, or add an η{eta} entry in a ligands.toml under --rules DIR",
             )
 
@@ -115,12 +117,19 @@ class _Parser:
 
     def unknown(self, i: int, end: int) -> InputError:
         if i >= len(self.text):
-            return _err(self.text, i, "the formula ends where a ligand should follow", "write the ligand after the prefix, e.g. η5-Cp")
+            return _err(
+                self.text,
+                i,
+                "the formula ends where a ligand should follow",
+                "write the ligand after the prefix, e.g. η5-Cp",
+            )
         m = _WORD.match(self.text, i, end)
         word = m.group(0) if m else self.text[i]
         near = closest_names(word, self.exact) if self.suggest else []
         hint = f"did you mean {', '.join(near)}?" if near else "see the catalogue with: isosieve ligands"
-        return _err(self.text, i, f"unknown ligand '{word}'", hint + " (add your own in a ligands.toml under --rules DIR)")
+        return _err(
+            self.text, i, f"unknown ligand '{word}'", hint + " (add your own in a ligands.toml under --rules DIR)"
+        )
 
     # -- sequences ---------------------------------------------------------
     def sequence(self, i: int, end: int, top: bool) -> list[_Tok]:
@@ -152,12 +161,23 @@ class _Parser:
             if metal is not None and (lig is None or len(metal) > lig[1] - j):
                 n, i = self.count(i + len(metal), end)
                 if n != 1:
-                    raise _err(self.text, i - len(str(n)), f"{n} metal atoms", "only mononuclear complexes are handled; write one metal")
+                    raise _err(
+                        self.text,
+                        i - len(str(n)),
+                        f"{n} metal atoms",
+                        "only mononuclear complexes are handled; write one metal",
+                    )
                 toks.append(_Tok(None, metal, 1, j))
                 continue
             if lig is None:
                 m = _ELEMENT.match(self.text, j, end)
-                if top and m and m.group(0) in element_symbols() and not is_metal(m.group(0)) and not self.match_name(j, end):
+                if (
+                    top
+                    and m
+                    and m.group(0) in element_symbols()
+                    and not is_metal(m.group(0))
+                    and not self.match_name(j, end)
+                ):
                     near = closest_names(_WORD.match(self.text, j, end).group(0), self.exact)  # type: ignore[union-attr]
                     if not near:
                         raise _err(self.text, j, f"'{m.group(0)}' is not a metal and no ligand starts here", METAL_FIX)
@@ -206,7 +226,9 @@ def _split_charge(text: str) -> tuple[int, int, int]:
     if "[" not in t and "]" not in t:
         return start, stop, 0
     if t[start] != "[":
-        raise _err(text, start, "text before '['", "write the complex ion alone, e.g. [Fe(CN)6]4- rather than K4[Fe(CN)6]")
+        raise _err(
+            text, start, "text before '['", "write the complex ion alone, e.g. [Fe(CN)6]4- rather than K4[Fe(CN)6]"
+        )
     close = t.rfind("]", start, stop)
     if close < 0:
         raise _err(text, start, "'[' is never closed", "close the bracket: [Co(NH3)6]3+")

@@ -10,7 +10,7 @@ from high to low, as chemists draw IR spectra.
 from __future__ import annotations
 
 import io
-from typing import Sequence
+from collections.abc import Sequence
 
 import numpy as np
 
@@ -47,7 +47,9 @@ def spectra_figure(
     lo, hi = (min(pos) - 60, max(pos) + 60) if pos else (1800.0, 2200.0)
     x = np.linspace(lo, hi, 2000)
     with matplotlib.rc_context({"svg.hashsalt": "isosieve", "svg.fonttype": "none", "font.size": 9}):
-        fig, axes = plt.subplots(len(panels) or 1, 1, figsize=(6.0, 1.8 * max(1, len(panels))), squeeze=False, sharex=True)
+        fig, axes = plt.subplots(
+            len(panels) or 1, 1, figsize=(6.0, 1.8 * max(1, len(panels))), squeeze=False, sharex=True
+        )
         for ax, (title, bands) in zip(axes[:, 0], panels):
             ax.plot(x, lorentzian_trace(bands, x, width_cm1), color="black", lw=1.0)
             for b in bands:

@@ -37,7 +37,8 @@ import base64
 import html
 import json
 import math
-from typing import Any, Iterable, Mapping, Sequence
+from collections.abc import Iterable, Mapping, Sequence
+from typing import Any
 
 from enumerator.isomers.enumeration import Isomer
 from enumerator.workflow.result import Result
@@ -53,7 +54,18 @@ __all__ = [
 ]
 
 #: Fill colours for ligand kinds, chosen to differ in lightness too.
-_PALETTE = ("#1f77b4", "#ff7f0e", "#2ca02c", "#d62728", "#9467bd", "#8c564b", "#e377c2", "#17becf", "#bcbd22", "#7f7f7f")
+_PALETTE = (
+    "#1f77b4",
+    "#ff7f0e",
+    "#2ca02c",
+    "#d62728",
+    "#9467bd",
+    "#8c564b",
+    "#e377c2",
+    "#17becf",
+    "#bcbd22",
+    "#7f7f7f",
+)
 
 _CSS = """
 body{font-family:system-ui,-apple-system,'Segoe UI',Helvetica,Arial,sans-serif;margin:1.5rem auto;max-width:75rem;color:#111;background:#fff;line-height:1.35;padding:0 1rem}
@@ -138,7 +150,9 @@ def polyhedron_svg(isomer: Isomer, kinds: Sequence[str] = (), metal: str = "M", 
         back = (depth[a] + depth[b]) / 2 > 0.05
         (x1, y1), (x2, y2) = xy[a], xy[b]
         dash = ' stroke-dasharray="4 3"' if back else ""
-        out.append(f'<line x1="{_num(x1)}" y1="{_num(y1)}" x2="{_num(x2)}" y2="{_num(y2)}" stroke="#9a9a9a" stroke-width="1"{dash}/>')
+        out.append(
+            f'<line x1="{_num(x1)}" y1="{_num(y1)}" x2="{_num(x2)}" y2="{_num(y2)}" stroke="#9a9a9a" stroke-width="1"{dash}/>'
+        )
     # far sites first, then the metal, then near sites
     order = sorted(isomer.sites, key=lambda s: (-depth[s.index], s.index))
     far = [s for s in order if depth[s.index] > 0]
@@ -151,7 +165,9 @@ def polyhedron_svg(isomer: Isomer, kinds: Sequence[str] = (), metal: str = "M", 
     out += [bond(s) for s in far]
     out += [bond(s) for s in near]
     out.append(f'<circle cx="{_num(c)}" cy="{_num(c)}" r="13" fill="#444" stroke="#000"/>')
-    out.append(f'<text x="{_num(c)}" y="{_num(c + 4)}" text-anchor="middle" font-size="11" font-weight="700" fill="#fff">{_e(metal[:3])}</text>')
+    out.append(
+        f'<text x="{_num(c)}" y="{_num(c + 4)}" text-anchor="middle" font-size="11" font-weight="700" fill="#fff">{_e(metal[:3])}</text>'
+    )
     # chelate and ring links: thick curves bulging away from the metal
     for a, b, name in isomer.links():
         (x1, y1), (x2, y2) = xy[a], xy[b]
@@ -166,7 +182,9 @@ def polyhedron_svg(isomer: Isomer, kinds: Sequence[str] = (), metal: str = "M", 
     for s in order:
         x, y = xy[s.index]
         fill = colour.get(s.ligand, "#000")
-        out.append(f'<circle cx="{_num(x)}" cy="{_num(y)}" r="6" fill="{fill}" stroke="#000" stroke-width="1"><title>site {s.index + 1}: {_e(s.ligand)} ({_e(s.donor)})</title></circle>')
+        out.append(
+            f'<circle cx="{_num(x)}" cy="{_num(y)}" r="6" fill="{fill}" stroke="#000" stroke-width="1"><title>site {s.index + 1}: {_e(s.ligand)} ({_e(s.donor)})</title></circle>'
+        )
         text = s.donor if s.index in linked else s.ligand
         dx, dy = x - c, y - c
         n = math.hypot(dx, dy) or 1.0
@@ -212,16 +230,24 @@ def spectrum_svg(bands: Sequence[Any], label: str = "", width: int = 340, height
         out.append(f'<line x1="{_num(X(t))}" y1="{bottom}" x2="{_num(X(t))}" y2="{bottom + 4}" stroke="#000"/>')
         out.append(f'<text x="{_num(X(t))}" y="{bottom + 15}" font-size="9" text-anchor="middle">{t}</text>')
         t += step
-    out.append(f'<text x="{(left + right) / 2:.1f}" y="{height - 3}" font-size="9" text-anchor="middle">wavenumber / cm\u207b\u00b9 {_e(label)}</text>')
+    out.append(
+        f'<text x="{(left + right) / 2:.1f}" y="{height - 3}" font-size="9" text-anchor="middle">wavenumber / cm\u207b\u00b9 {_e(label)}</text>'
+    )
     for b in bands:
         x = X(float(b.wavenumber))
         inten = max(0.0, min(1.0, float(b.intensity)))
         y = bottom - inten * (bottom - top)
         if inten > 0:
-            out.append(f'<line x1="{_num(x)}" y1="{bottom}" x2="{_num(x)}" y2="{_num(y)}" stroke="#000" stroke-width="2"/>')
+            out.append(
+                f'<line x1="{_num(x)}" y1="{bottom}" x2="{_num(x)}" y2="{_num(y)}" stroke="#000" stroke-width="2"/>'
+            )
         else:  # IR-forbidden: a dotted marker on the axis
-            out.append(f'<line x1="{_num(x)}" y1="{bottom}" x2="{_num(x)}" y2="{bottom - 10}" stroke="#000" stroke-dasharray="2 2"/>')
-        out.append(f'<text x="{_num(x)}" y="{_num(y - 3)}" font-size="8" text-anchor="middle">{_e(b.species or "")}</text>')
+            out.append(
+                f'<line x1="{_num(x)}" y1="{bottom}" x2="{_num(x)}" y2="{bottom - 10}" stroke="#000" stroke-dasharray="2 2"/>'
+            )
+        out.append(
+            f'<text x="{_num(x)}" y="{_num(y - 3)}" font-size="8" text-anchor="middle">{_e(b.species or "")}</text>'
+        )
     out.append("</svg>")
     return "".join(out)
 
@@ -238,7 +264,7 @@ def _spectra_html(iso: Isomer, rules) -> str:
         try:
             bands = predict_bands(iso, cls, rules=rules)
         except IsosieveError as exc:
-            parts.append(f"<p class=\"meta\">{_e(cls)} bands: not predicted ({_e(exc.line())})</p>")
+            parts.append(f'<p class="meta">{_e(cls)} bands: not predicted ({_e(exc.line())})</p>')
             continue
         if not bands:
             continue
@@ -252,7 +278,8 @@ def _spectra_html(iso: Isomer, rules) -> str:
         except (ImportError, AttributeError):  # plots module not (yet) present
             img = spectrum_svg(bands, f"({cls})")
         rows = "".join(
-            f"<tr><td>{_num(b.wavenumber, 0)}</td><td>{_e(b.species or '-')}</td><td>{_num(b.intensity, 2)}</td></tr>" for b in bands
+            f"<tr><td>{_num(b.wavenumber, 0)}</td><td>{_e(b.species or '-')}</td><td>{_num(b.intensity, 2)}</td></tr>"
+            for b in bands
         )
         parts.append(
             f'<div class="spec"><h3>predicted {_e(cls)} stretches</h3>{img}'
@@ -281,7 +308,18 @@ def tables_csv(res: Result) -> str:
     return buf.getvalue()
 
 
-_TEX = {"\\": r"\textbackslash{}", "&": r"\&", "%": r"\%", "$": r"\$", "#": r"\#", "_": r"\_", "{": r"\{", "}": r"\}", "~": r"\textasciitilde{}", "^": r"\textasciicircum{}"}
+_TEX = {
+    "\\": r"\textbackslash{}",
+    "&": r"\&",
+    "%": r"\%",
+    "$": r"\$",
+    "#": r"\#",
+    "_": r"\_",
+    "{": r"\{",
+    "}": r"\}",
+    "~": r"\textasciitilde{}",
+    "^": r"\textasciicircum{}",
+}
 
 
 def _tex(s: str) -> str:
@@ -375,7 +413,10 @@ def pair_grid_html(ids: Sequence[str], pairs: Any) -> str:
         ab = _pair_ids(e)
         if ab is None:
             continue
-        d = sorted({_short(x) for x in _distinguishers(e)}, key=lambda s: (_TECH_ORDER.index(s.lower()) if s.lower() in _TECH_ORDER else 9, s))
+        d = sorted(
+            {_short(x) for x in _distinguishers(e)},
+            key=lambda s: (_TECH_ORDER.index(s.lower()) if s.lower() in _TECH_ORDER else 9, s),
+        )
         cells[ab] = cells[(ab[1], ab[0])] = d
         note = e.get("note") or e.get("reason") or ""
         if note:
@@ -403,11 +444,16 @@ def pair_grid_html(ids: Sequence[str], pairs: Any) -> str:
         rows.append(f"<tr><th>{_e(a)}</th>{''.join(tds)}</tr>")
     legend = (
         '<p class="legend"><span class="d0" style="background:repeating-linear-gradient(45deg,#fff 0 4px,#bbb 4px 6px)">none (hatched): '
-        "not distinguishable</span><span style=\"background:#fde0c5\">one technique</span>"
+        'not distinguishable</span><span style="background:#fde0c5">one technique</span>'
         '<span style="background:#f59e5a">two</span><span style="background:#a4471a;color:#fff">three or more</span></p>'
     )
     return (
-        '<table class="grid"><thead><tr><th>isomer</th>' + head + "</tr></thead><tbody>" + "".join(rows) + "</tbody></table>" + legend
+        '<table class="grid"><thead><tr><th>isomer</th>'
+        + head
+        + "</tr></thead><tbody>"
+        + "".join(rows)
+        + "</tbody></table>"
+        + legend
     )
 
 
@@ -427,7 +473,8 @@ def _value_html(v: Any) -> str:
                     keys.append(k)
         head = "".join(f"<th>{_e(k)}</th>" for k in keys)
         body = "".join(
-            f"<tr><th>{_e(name)}</th>" + "".join(f"<td>{_value_html(x.get(k, ''))}</td>" for k in keys) + "</tr>" for name, x in v.items()
+            f"<tr><th>{_e(name)}</th>" + "".join(f"<td>{_value_html(x.get(k, ''))}</td>" for k in keys) + "</tr>"
+            for name, x in v.items()
         )
         return f"<table><tr><th></th>{head}</tr>{body}</table>"
     if isinstance(v, Mapping):
@@ -491,7 +538,9 @@ def _complex_html(n: int, res: Result, rules) -> tuple[str, list[str]]:
         + "</p>"
     )
     if res.geometry.fluxional:
-        out.append('<p class="meta">This polyhedron is marked fluxional: isomers may interconvert in solution on the NMR time scale.</p>')
+        out.append(
+            '<p class="meta">This polyhedron is marked fluxional: isomers may interconvert in solution on the NMR time scale.</p>'
+        )
     for note in res.notes:
         out.append(f'<p class="meta">note: {_e(note)}</p>')
     out += [f'<div class="caution">{c}</div>' for c in cautions]
@@ -500,7 +549,10 @@ def _complex_html(n: int, res: Result, rules) -> tuple[str, list[str]]:
     out.append('<div class="cards">')
     for iso in res.isomers:
         data = per[iso.id]
-        dl = [("point group", iso.point_group), ("chiral", ("yes, enantiomer " + (iso.enantiomer or "?")) if iso.chiral else "no")]
+        dl = [
+            ("point group", iso.point_group),
+            ("chiral", ("yes, enantiomer " + (iso.enantiomer or "?")) if iso.chiral else "no"),
+        ]
         desc = _descriptor_text(data.get("descriptor"))
         if desc:
             dl.append(("IUPAC descriptor", desc))
@@ -533,7 +585,9 @@ def _complex_html(n: int, res: Result, rules) -> tuple[str, list[str]]:
     return "".join(out), cautions
 
 
-def render_report(results: Iterable[Result], *, title: str = "isosieve report", rules=None, files: Sequence[str] = ()) -> str:
+def render_report(
+    results: Iterable[Result], *, title: str = "isosieve report", rules=None, files: Sequence[str] = ()
+) -> str:
     """The whole HTML page for the given results (one section per complex).
 
     ``rules`` is passed on to the band prediction; ``files`` lists the
@@ -553,7 +607,9 @@ def render_report(results: Iterable[Result], *, title: str = "isosieve report", 
         "Band positions come from an energy-factored force field and are estimates, not measurements.</p>",
     ]
     if files:
-        head.append('<p class="meta">Tables also written as: ' + ", ".join(f"<code>{_e(f)}</code>" for f in files) + "</p>")
+        head.append(
+            '<p class="meta">Tables also written as: ' + ", ".join(f"<code>{_e(f)}</code>" for f in files) + "</p>"
+        )
     head.append(f"<nav><ol>{toc}</ol></nav>")
     tail = [f"<footer>written by isosieve {_e(_version())}</footer></body></html>", ""]
     return "\n".join(head + blocks + tail)

@@ -22,10 +22,10 @@ from __future__ import annotations
 import csv as _csv
 import io
 import re
-from typing import Sequence
+from collections.abc import Sequence
 
-from enumerator.workflow.result import Result
 from enumerator.render.text import occupancy
+from enumerator.workflow.result import Result
 
 __all__ = ["markdown", "csv", "latex", "rows", "latex_symbol", "latex_species", "latex_escape", "markdown_symbol"]
 
@@ -36,9 +36,26 @@ _GREEK = {"Sigma": r"\Sigma", "Pi": r"\Pi", "Delta": r"\Delta", "Phi": r"\Phi"}
 
 def latex_escape(text: str) -> str:
     """Plain text made safe for LaTeX."""
-    rep = {"\\": r"\textbackslash{}", "&": r"\&", "%": r"\%", "$": r"\$", "#": r"\#", "_": r"\_",
-           "{": r"\{", "}": r"\}", "~": r"\textasciitilde{}", "^": r"\textasciicircum{}", "η": r"$\eta$", "×": r"$\times$",
-           "κ": r"$\kappa$", "′": r"$'$", "″": r"$''$", "Δ": r"$\Delta$", "Λ": r"$\Lambda$", "−": r"$-$"}
+    rep = {
+        "\\": r"\textbackslash{}",
+        "&": r"\&",
+        "%": r"\%",
+        "$": r"\$",
+        "#": r"\#",
+        "_": r"\_",
+        "{": r"\{",
+        "}": r"\}",
+        "~": r"\textasciitilde{}",
+        "^": r"\textasciicircum{}",
+        "η": r"$\eta$",
+        "×": r"$\times$",
+        "κ": r"$\kappa$",
+        "′": r"$'$",
+        "″": r"$''$",
+        "Δ": r"$\Delta$",
+        "Λ": r"$\Lambda$",
+        "−": r"$-$",
+    }
     return "".join(rep.get(ch, ch) for ch in text)
 
 
@@ -68,7 +85,9 @@ def _irrep_tex(label: str) -> str | None:
 
 def latex_symbol(label: str) -> str:
     """A point-group or Mulliken label in math mode, else escaped text."""
-    tex = _group_tex(label) if _GROUP.match(label) and not _IRREP.match(label) else _irrep_tex(label) or _group_tex(label)
+    tex = (
+        _group_tex(label) if _GROUP.match(label) and not _IRREP.match(label) else _irrep_tex(label) or _group_tex(label)
+    )
     return f"${tex}$" if tex else latex_escape(label)
 
 
@@ -127,9 +146,8 @@ def _safety(res: Result) -> list[str]:
 
 def _summary(res: Result) -> str:
     iso = res.isomer_set
-    return (
-        f"{iso.geometric_isomers} geometric isomer(s), {iso.stereoisomers} stereoisomer(s)"
-        + ("" if iso.complete else " (incomplete list)")
+    return f"{iso.geometric_isomers} geometric isomer(s), {iso.stereoisomers} stereoisomer(s)" + (
+        "" if iso.complete else " (incomplete list)"
     )
 
 

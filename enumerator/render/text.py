@@ -3,7 +3,7 @@
 from __future__ import annotations
 
 from collections import defaultdict
-from typing import Sequence
+from collections.abc import Sequence
 
 from enumerator.isomers.enumeration import Isomer
 from enumerator.workflow.result import Result
@@ -47,17 +47,26 @@ def isomer_rows(res: Result, wide: bool = True) -> tuple[list[str], list[list[st
     (shared by the terminal table and the report; ``wide=False`` leaves out
     the wide columns, for the terminal)."""
     extra = [c for a in res.analyses for c in a.columns() if wide or not c.wide]
-    header = ["isomer", "point group", "chiral", "enantiomer", *[c.header for c in extra], "sites (ligand:site numbers)"]
+    header = [
+        "isomer",
+        "point group",
+        "chiral",
+        "enantiomer",
+        *[c.header for c in extra],
+        "sites (ligand:site numbers)",
+    ]
     rows = []
     for iso in res.isomers:
-        rows.append([
-            iso.id,
-            iso.point_group,
-            "yes" if iso.chiral else "no",
-            iso.enantiomer or "-",
-            *[str(c.values.get(iso.id, "")) for c in extra],
-            occupancy(iso),
-        ])
+        rows.append(
+            [
+                iso.id,
+                iso.point_group,
+                "yes" if iso.chiral else "no",
+                iso.enantiomer or "-",
+                *[str(c.values.get(iso.id, "")) for c in extra],
+                occupancy(iso),
+            ]
+        )
     return header, rows
 
 

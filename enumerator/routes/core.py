@@ -34,16 +34,17 @@ from __future__ import annotations
 import itertools
 import re
 from collections import Counter
+from collections.abc import Iterable, Mapping, Sequence
 from dataclasses import dataclass, field, replace
 from fractions import Fraction
 from functools import cached_property, lru_cache
 from pathlib import Path
-from typing import Any, Iterable, Mapping, Sequence
+from typing import Any
 
-from enumerator.model.composition import Composition, LigandKind
 from enumerator.errors import CapacityError, InputError, IsosieveError, RuleError
-from enumerator.model.geometry import Geometry
 from enumerator.isomers.enumeration import Isomer, IsomerSet, canonical_placement, enumerate_isomers, group_tables
+from enumerator.model.composition import Composition, LigandKind
+from enumerator.model.geometry import Geometry
 from enumerator.rules.ruleset import RuleSet, check_keys, closest_names, load_rules, read_toml
 
 __all__ = [
@@ -197,32 +198,56 @@ def _parse_rule_file(path: Path, data: Mapping[str, Any], geometries: Iterable[s
     )
     name = data["name"]
     if not isinstance(name, str) or not _NAME.match(name):
-        raise _rule_error(where, f"name {name!r} is not a plain name", "use letters, digits, '-', '_' or '.', e.g. name = \"trans-effect\"")
+        raise _rule_error(
+            where,
+            f"name {name!r} is not a plain name",
+            "use letters, digits, '-', '_' or '.', e.g. name = \"trans-effect\"",
+        )
     for key in ("title", "source"):
         if not isinstance(data[key], str) or not data[key].strip():
-            raise _rule_error(where, f"'{key}' must be a non-empty string", f"give {key} = \"...\" (the source: book or paper)")
+            raise _rule_error(
+                where, f"'{key}' must be a non-empty string", f'give {key} = "..." (the source: book or paper)'
+            )
     geos = _string_list(data["geometries"], where, "geometries", '["SP-4"] or ["*"]')
     if not geos:
-        raise _rule_error(where, "'geometries' is empty", 'list the polyhedral symbols, e.g. ["OC-6"], or ["*"] for all')
+        raise _rule_error(
+            where, "'geometries' is empty", 'list the polyhedral symbols, e.g. ["OC-6"], or ["*"] for all'
+        )
     known = sorted(geometries)
     for g in geos:
         if g != "*" and g not in known:
             near = closest_names(g, known)
-            raise _rule_error(where, f"geometries: unknown polyhedral symbol '{g}'", f"did you mean {' or '.join(near)}?" if near else f"known: {', '.join(known)}")
+            raise _rule_error(
+                where,
+                f"geometries: unknown polyhedral symbol '{g}'",
+                f"did you mean {' or '.join(near)}?" if near else f"known: {', '.join(known)}",
+            )
     lab = data["labilises"]
     if lab not in _LABILISES:
-        raise _rule_error(where, f"labilises = {lab!r} is not one of {', '.join(_LABILISES)}", "use 'trans' (trans effect), 'cis' (cis-labilisation) or 'none' (statistical)")
+        raise _rule_error(
+            where,
+            f"labilises = {lab!r} is not one of {', '.join(_LABILISES)}",
+            "use 'trans' (trans effect), 'cis' (cis-labilisation) or 'none' (statistical)",
+        )
     ties = data["ties"]
     if ties not in _TIES:
-        raise _rule_error(where, f"ties = {ties!r} is not one of {', '.join(_TIES)}", "use 'statistical' or 'undecided'")
+        raise _rule_error(
+            where, f"ties = {ties!r} is not one of {', '.join(_TIES)}", "use 'statistical' or 'undecided'"
+        )
     raw = data.get("series", [])
     if not isinstance(raw, list):
-        raise _rule_error(where, "'series' must be a list", 'write series = ["CN", ["Cl", "Br"], "NH3"] (strongest first)')
+        raise _rule_error(
+            where, "'series' must be a list", 'write series = ["CN", ["Cl", "Br"], "NH3"] (strongest first)'
+        )
     series: list[tuple[str, ...]] = []
     seen: set[str] = set()
     for k, entry in enumerate(raw):
         names = (entry,) if isinstance(entry, str) else entry
-        if not isinstance(names, (list, tuple)) or not names or not all(isinstance(x, str) and x.strip() for x in names):
+        if (
+            not isinstance(names, (list, tuple))
+            or not names
+            or not all(isinstance(x, str) and x.strip() for x in names)
+        ):
             raise _rule_error(where, f"series[{k}] is {entry!r}", "give a ligand name or a list of names of equal rank")
         rank = tuple(x.strip() for x in names)
         for x in rank:
@@ -231,19 +256,38 @@ def _parse_rule_file(path: Path, data: Mapping[str, Any], geometries: Iterable[s
             seen.add(x)
         series.append(rank)
     if lab == "none" and series:
-        raise _rule_error(where, "a statistical rule set (labilises = 'none') has no series", "remove 'series' or set labilises = 'trans' or 'cis'")
+        raise _rule_error(
+            where,
+            "a statistical rule set (labilises = 'none') has no series",
+            "remove 'series' or set labilises = 'trans' or 'cis'",
+        )
     if lab != "none" and not series:
-        raise _rule_error(where, f"labilises = '{lab}' needs a series of ligands", 'add series = ["strongest", ..., "weakest"]')
+        raise _rule_error(
+            where, f"labilises = '{lab}' needs a series of ligands", 'add series = ["strongest", ..., "weakest"]'
+        )
     leaving = _string_list(data.get("leaving", []), where, "leaving", '["CO"]')
     prio = data.get("priority", 0)
     if not isinstance(prio, int) or isinstance(prio, bool):
-        raise _rule_error(where, f"priority {prio!r} is not an integer", "write e.g. priority = 20 (higher wins when several rule sets apply)")
+        raise _rule_error(
+            where,
+            f"priority {prio!r} is not an integer",
+            "write e.g. priority = 20 (higher wins when several rule sets apply)",
+        )
     note = data.get("note", "")
     if not isinstance(note, str):
         raise _rule_error(where, "'note' must be a string", "quote it")
     return SubstitutionRules(
-        name=name, title=data["title"].strip(), source=data["source"].strip(), geometries=geos,
-        labilises=lab, series=tuple(series), ties=ties, leaving=leaving, priority=prio, note=note, path=str(path),
+        name=name,
+        title=data["title"].strip(),
+        source=data["source"].strip(),
+        geometries=geos,
+        labilises=lab,
+        series=tuple(series),
+        ties=ties,
+        leaving=leaving,
+        priority=prio,
+        note=note,
+        path=str(path),
     )
 
 
@@ -270,16 +314,24 @@ def load_substitution_rules(ruleset: RuleSet) -> dict[str, SubstitutionRules]:
         r = _parse_rule_file(path, read_toml(path), geos)
         r = replace(r, aliases=aliases)
         if r.name in origin and origin[r.name].parent == path.parent:
-            raise RuleError(f"{path}: rule set name '{r.name}' is also used by {origin[r.name]}", "give each file its own name")
+            raise RuleError(
+                f"{path}: rule set name '{r.name}' is also used by {origin[r.name]}", "give each file its own name"
+            )
         out[r.name] = r
         origin[r.name] = path
     if not out:
-        raise RuleError("no substitution rule sets found (rules/substitution/*.toml)", "reinstall the package or add one with --rules DIR")
+        raise RuleError(
+            "no substitution rule sets found (rules/substitution/*.toml)",
+            "reinstall the package or add one with --rules DIR",
+        )
     return out
 
 
 def choose_rule_set(
-    available: Mapping[str, SubstitutionRules], geometry: str, ligands: Iterable[str], leaving: Iterable[str],
+    available: Mapping[str, SubstitutionRules],
+    geometry: str,
+    ligands: Iterable[str],
+    leaving: Iterable[str],
     name: str | None = None,
 ) -> tuple[SubstitutionRules, str]:
     """The rule set to use and why: the one named, else the applicable one
@@ -289,17 +341,27 @@ def choose_rule_set(
     if name:
         if name not in available:
             near = closest_names(name, available)
-            raise InputError(f"no substitution rule set '{name}'", f"did you mean {' or '.join(near)}?" if near else f"known: {', '.join(sorted(available))}")
+            raise InputError(
+                f"no substitution rule set '{name}'",
+                f"did you mean {' or '.join(near)}?" if near else f"known: {', '.join(sorted(available))}",
+            )
         r = available[name]
         ok, why = r.applies(geometry, ligs, leav)
         if not ok:
-            raise InputError(f"rule set '{name}' cannot decide this case ({why})", f"add the missing entries in a rule file of your own (--rules DIR, substitution/*.toml) or choose another --rule-set")
+            raise InputError(
+                f"rule set '{name}' cannot decide this case ({why})",
+                "add the missing entries in a rule file of your own (--rules DIR, substitution/*.toml) or choose another --rule-set",
+            )
         return r, f"{name} as requested"
     passed: list[str] = []
     for r in sorted(available.values(), key=lambda r: (-r.priority, r.name)):
         ok, why = r.applies(geometry, ligs, leav)
         if ok:
-            reason = f"{r.name}: applies to {geometry} and ranks every ligand here" if not r.statistical else f"{r.name}: the statistical default"
+            reason = (
+                f"{r.name}: applies to {geometry} and ranks every ligand here"
+                if not r.statistical
+                else f"{r.name}: the statistical default"
+            )
             if passed:
                 reason += " (" + "; ".join(passed) + ")"
             return r, reason
@@ -313,7 +375,6 @@ def choose_rule_set(
 
 Placement = tuple[int, ...]
 Decoration = tuple[tuple[str, tuple[Placement, ...]], ...]
-
 
 
 _canon = canonical_placement
@@ -332,7 +393,9 @@ def _image(deco: Decoration, kinds: Mapping[str, LigandKind], perm) -> Decoratio
     )
 
 
-def canonical_key(deco: Decoration | Isomer, geometry: Geometry, kinds: Mapping[str, LigandKind] | None = None, *, proper: bool = True) -> Decoration:
+def canonical_key(
+    deco: Decoration | Isomer, geometry: Geometry, kinds: Mapping[str, LigandKind] | None = None, *, proper: bool = True
+) -> Decoration:
     """The smallest image of a decoration under the rotations of the
     geometry (``proper=True``: tells enantiomers apart) or under the full
     group (``proper=False``: one key per geometric isomer).
@@ -446,7 +509,9 @@ def _ligand_charge(kind: LigandKind) -> int:
 
 
 def _abstract_formula(parts: Sequence[tuple[LigandKind, int]], charge: int) -> str:
-    body = "M" + "".join((k.name if k.denticity == 1 and not k.ring else f"({k.name})") + (str(n) if n > 1 else "") for k, n in parts)
+    body = "M" + "".join(
+        (k.name if k.denticity == 1 and not k.ring else f"({k.name})") + (str(n) if n > 1 else "") for k, n in parts
+    )
     return f"[{body}]{_charge_text(charge)}" if charge else body
 
 
@@ -480,7 +545,14 @@ class Space:
     so that its isomer numbering is the one ``isosieve isomers`` prints.
     """
 
-    def __init__(self, start: Composition, geometry: Geometry, ruleset: RuleSet, extra: Iterable[Composition] = (), kinds: Iterable[LigandKind] = ()):
+    def __init__(
+        self,
+        start: Composition,
+        geometry: Geometry,
+        ruleset: RuleSet,
+        extra: Iterable[Composition] = (),
+        kinds: Iterable[LigandKind] = (),
+    ):
         self.geometry = geometry
         self.ruleset = ruleset
         self.start = start
@@ -498,7 +570,10 @@ class Space:
         for k in kinds:
             if k.name in self.kinds:
                 if self.kinds[k.name] != k:
-                    raise InputError(f"ligand '{k.name}' is read two different ways in start and target", "write it the same way in both formulas")
+                    raise InputError(
+                        f"ligand '{k.name}' is read two different ways in start and target",
+                        "write it the same way in both formulas",
+                    )
                 continue
             self.kinds[k.name] = k
             self.order.append(k.name)
@@ -516,7 +591,9 @@ class Space:
             return self._species[sig]
         parts = [(self.kinds[n], counts[n]) for n in self.order if counts.get(n, 0) > 0]
         before = dict(self.signature(self.start))
-        charge = self.start.charge + sum(_ligand_charge(self.kinds[n]) * (counts.get(n, 0) - before.get(n, 0)) for n in self.order)
+        charge = self.start.charge + sum(
+            _ligand_charge(self.kinds[n]) * (counts.get(n, 0) - before.get(n, 0)) for n in self.order
+        )
         if self.abstract:
             text = _abstract_formula(parts, charge)
         else:
@@ -566,8 +643,13 @@ class Product:
 
     def json(self) -> dict[str, Any]:
         return {
-            "formula": self.formula, "isomer": self.isomer, "geometric_isomer": self.number,
-            "point_group": self.point_group, "chiral": self.chiral, "prefix": self.prefix, "descriptor": self.descriptor,
+            "formula": self.formula,
+            "isomer": self.isomer,
+            "geometric_isomer": self.number,
+            "point_group": self.point_group,
+            "chiral": self.chiral,
+            "prefix": self.prefix,
+            "descriptor": self.descriptor,
         }
 
 
@@ -637,7 +719,12 @@ def _shares(choices: Sequence[SiteChoice]) -> tuple[tuple[Product, Fraction], ..
         c[key] += 1
         prods[key] = ch.product
     total = sum(c.values())
-    return tuple(sorted(((prods[k], Fraction(v, total)) for k, v in c.items()), key=lambda x: (-x[1], x[0].formula, x[0].number, x[0].isomer)))
+    return tuple(
+        sorted(
+            ((prods[k], Fraction(v, total)) for k, v in c.items()),
+            key=lambda x: (-x[1], x[0].formula, x[0].number, x[0].isomer),
+        )
+    )
 
 
 def _sites_text(sites: Iterable[int]) -> str:
@@ -645,13 +732,18 @@ def _sites_text(sites: Iterable[int]) -> str:
     return ("site " if len(s) == 1 else "sites ") + ", ".join(map(str, s))
 
 
-def _predict(space: Space, sp: Species, iso: Isomer, entering: str, leaving: Sequence[str], rules: SubstitutionRules) -> Prediction:
+def _predict(
+    space: Space, sp: Species, iso: Isomer, entering: str, leaving: Sequence[str], rules: SubstitutionRules
+) -> Prediction:
     geo = space.geometry
     if entering not in space.kinds:
         raise InputError(f"unknown entering ligand '{entering}'", f"ligands here: {', '.join(space.order)}")
     ek = space.kinds[entering]
     if ek.denticity != 1 or ek.ring:
-        raise InputError(f"entering ligand '{entering}' is not monodentate", "only one-for-one replacement of monodentate ligands is modelled")
+        raise InputError(
+            f"entering ligand '{entering}' is not monodentate",
+            "only one-for-one replacement of monodentate ligands is modelled",
+        )
     counts = space.counts(sp.composition)
     deco = _decoration(iso)
     site_lig = {s.index: s.ligand for s in iso.sites}
@@ -662,7 +754,10 @@ def _predict(space: Space, sp: Species, iso: Isomer, entering: str, leaving: Seq
         if lk is None or counts.get(L, 0) == 0:
             continue
         if lk.denticity != 1 or lk.ring:
-            raise InputError(f"leaving ligand '{L}' is not monodentate", "only one-for-one replacement of monodentate ligands is modelled")
+            raise InputError(
+                f"leaving ligand '{L}' is not monodentate",
+                "only one-for-one replacement of monodentate ligands is modelled",
+            )
         new_counts = dict(counts)
         new_counts[L] -= 1
         new_counts[entering] = new_counts.get(entering, 0) + 1
@@ -673,12 +768,18 @@ def _predict(space: Space, sp: Species, iso: Isomer, entering: str, leaving: Seq
             new = _replace_site(deco, s, L, entering)
             pid = index.get(canonical_key(new, geo, kinds))
             if pid is None:  # pragma: no cover - every decoration is one of the enumerated isomers
-                raise RuntimeError(f"product of replacing site {s + 1} not found among the isomers of {product_sp.formula}")
+                raise RuntimeError(
+                    f"product of replacing site {s + 1} not found among the isomers of {product_sp.formula}"
+                )
             if rules.statistical:
                 labs: tuple[str, ...] = ()
             else:
-                labs = tuple(sorted((site_lig[j] for j in site_lig if j != s and geo.relation(s, j) == rules.labilises),
-                                    key=lambda n: (rules.rank(n) if rules.rank(n) is not None else len(rules.series), n)))
+                labs = tuple(
+                    sorted(
+                        (site_lig[j] for j in site_lig if j != s and geo.relation(s, j) == rules.labilises),
+                        key=lambda n: (rules.rank(n) if rules.rank(n) is not None else len(rules.series), n),
+                    )
+                )
                 missing = rules.unranked(labs)
                 if missing:
                     raise InputError(
@@ -689,7 +790,10 @@ def _predict(space: Space, sp: Species, iso: Isomer, entering: str, leaving: Seq
             choices.append(SiteChoice(s, L, labs, _product(product_sp, pid), False))
     start = _product(sp, iso.id)
     if not choices:
-        raise InputError(f"{sp.formula} has none of {', '.join(leaving) or 'the leaving ligands'} to replace", "check the leaving ligand")
+        raise InputError(
+            f"{sp.formula} has none of {', '.join(leaving) or 'the leaving ligands'} to replace",
+            "check the leaving ligand",
+        )
     width = max(len(v) for v in scores.values())
     weakest = len(rules.series)
     padded = {k: v + (weakest,) * (width - len(v)) for k, v in scores.items()}
@@ -719,8 +823,10 @@ def _predict(space: Space, sp: Species, iso: Isomer, entering: str, leaving: Seq
             if rules.statistical:
                 reason = f"statistical: {n_major} of {len(picked)} replaceable {'/'.join(leaving_names)} sites give this product"
             else:
-                reason = (f"{rules.name}: {tied_sites} tie under the rule and give different products; "
-                          f"resolved statistically ({n_major} of {len(picked)} tied sites give this product)")
+                reason = (
+                    f"{rules.name}: {tied_sites} tie under the rule and give different products; "
+                    f"resolved statistically ({n_major} of {len(picked)} tied sites give this product)"
+                )
         else:
             major, how = None, "undecided"
             if rules.statistical or rules.ties == "statistical":
@@ -764,8 +870,13 @@ def _list_names(names: tuple[str, ...]) -> str:
 
 
 def predict(
-    isomer: Isomer, composition: Composition, entering: str | LigandKind, rules: SubstitutionRules, *,
-    leaving: Sequence[str] | None = None, ruleset: RuleSet | None = None,
+    isomer: Isomer,
+    composition: Composition,
+    entering: str | LigandKind,
+    rules: SubstitutionRules,
+    *,
+    leaving: Sequence[str] | None = None,
+    ruleset: RuleSet | None = None,
 ) -> Prediction:
     """The products of replacing one ligand of ``isomer`` by ``entering``.
 
@@ -796,15 +907,23 @@ def _entering_kind(name: str, composition: Composition, ruleset: RuleSet) -> Lig
     if _is_abstract(composition):
         if re.fullmatch(r"[a-z]", name):
             return LigandKind(name=name, donors=(name,))
-        raise InputError(f"entering ligand '{name}' is not a letter of the abstract notation", "write one lowercase letter, e.g. --add b")
+        raise InputError(
+            f"entering ligand '{name}' is not a letter of the abstract notation",
+            "write one lowercase letter, e.g. --add b",
+        )
     from enumerator.rules.ligands import find_ligand
 
     return find_ligand(ruleset, name).kind()
 
 
 def predict_step(
-    start_text: str, entering: str, *, leaving: Sequence[str] | None = None, geometry: str | None = None,
-    rule_set: str | None = None, rules: Sequence[str] = (),
+    start_text: str,
+    entering: str,
+    *,
+    leaving: Sequence[str] | None = None,
+    geometry: str | None = None,
+    rule_set: str | None = None,
+    rules: Sequence[str] = (),
 ) -> Prediction:
     """:func:`predict` from text: START (a formula, with a descriptor when it
     has several isomers) plus one entering ligand, under the named rule set
@@ -822,15 +941,25 @@ def predict_step(
     if leaving is None:
         present = [k.name for k in comp.kinds if k.name != ek.name and k.denticity == 1 and not k.ring]
         if len(present) > 1 and rule_set is None:
-            selective = [r for r in available.values() if r.leaving and r.covers_geometry(geo.symbol) and set(r.leaving) & set(present)]
+            selective = [
+                r
+                for r in available.values()
+                if r.leaving and r.covers_geometry(geo.symbol) and set(r.leaving) & set(present)
+            ]
             if not selective:
-                raise InputError(f"{comp.formula} has more than one ligand that could leave ({', '.join(present)})", "say which with --leaving LIGAND")
+                raise InputError(
+                    f"{comp.formula} has more than one ligand that could leave ({', '.join(present)})",
+                    "say which with --leaving LIGAND",
+                )
         leav_guess = present
     else:
         leav_guess = list(leaving)
     ligands = [k.name for k in comp.kinds] + [ek.name]
-    chosen, reason = choose_rule_set(available, geo.symbol, ligands, [n for n in leav_guess], rule_set) if leaving is not None else \
-        _choose_for_step(available, geo.symbol, ligands, leav_guess, rule_set)
+    chosen, reason = (
+        choose_rule_set(available, geo.symbol, ligands, [n for n in leav_guess], rule_set)
+        if leaving is not None
+        else _choose_for_step(available, geo.symbol, ligands, leav_guess, rule_set)
+    )
     p = predict(isos[0], comp, ek, chosen, leaving=leaving, ruleset=ruleset)
     return replace(p, rules_reason=reason, safety=safety_lines((*comp.kinds, ek)))
 
@@ -862,8 +991,14 @@ def prediction_json(p: Prediction) -> dict[str, Any]:
         "shares": [dict(prod.json(), share=str(s)) for prod, s in p.selected],
         "statistical_shares": [dict(prod.json(), share=str(s)) for prod, s in p.statistical],
         "sites": [
-            {"site": c.site + 1, "leaving": c.leaving, "labilisers": list(c.labilisers), "product": c.product.isomer,
-             "product_formula": c.product.formula, "selected": c.selected}
+            {
+                "site": c.site + 1,
+                "leaving": c.leaving,
+                "labilisers": list(c.labilisers),
+                "product": c.product.isomer,
+                "product_formula": c.product.formula,
+                "selected": c.selected,
+            }
             for c in p.sites
         ],
     }
@@ -903,7 +1038,7 @@ def resolve_species(iset: IsomerSet, comp: Composition, descriptor: str | None, 
         ids = ", ".join(i.id for i in iset.isomers)
         raise InputError(
             f"{comp.formula} has {iset.geometric_isomers} geometric isomers; the {role} needs a descriptor",
-            f"write e.g. cis-{comp.formula}, trans-..., fac-/mer- or a configuration index as in ({iset.geometry.symbol}-<index>)-{comp.formula} (see `isosieve isomers \"{comp.formula}\"`)",
+            f'write e.g. cis-{comp.formula}, trans-..., fac-/mer- or a configuration index as in ({iset.geometry.symbol}-<index>)-{comp.formula} (see `isosieve isomers "{comp.formula}"`)',
         )
     found: list[Isomer] | None = None
     try:
@@ -915,9 +1050,14 @@ def resolve_species(iset: IsomerSet, comp: Composition, descriptor: str | None, 
     if not found and descriptor in ("cis", "trans", "fac", "mer"):
         found = [i for i in iset.isomers if everyday_prefix(i, comp) == descriptor]
     elif find_by_descriptor is None:
-        raise InputError(f"cannot read the descriptor '{descriptor}' without the nomenclature module", "use cis/trans/fac/mer")
+        raise InputError(
+            f"cannot read the descriptor '{descriptor}' without the nomenclature module", "use cis/trans/fac/mer"
+        )
     if not found:
-        raise InputError(f"no isomer of {comp.formula} is '{descriptor}'", f"see `isosieve isomers \"{comp.formula}\"` for the isomers and their descriptors")
+        raise InputError(
+            f"no isomer of {comp.formula} is '{descriptor}'",
+            f'see `isosieve isomers "{comp.formula}"` for the isomers and their descriptors',
+        )
     if len({i.number for i in found}) > 1:
         raise InputError(
             f"'{descriptor}' fits {len({i.number for i in found})} geometric isomers of {comp.formula}",
@@ -968,7 +1108,10 @@ def _prepare(start_text: str, target_text: str, geometry: str | None, ruleset: R
             "one-for-one replacement keeps the coordination number: check the formulas",
         )
     if _is_abstract(start) != _is_abstract(target) or start.metal != target.metal:
-        raise InputError(f"start {start.formula} and target {target.formula} are not on the same metal or notation", "write both in the same notation with the same metal")
+        raise InputError(
+            f"start {start.formula} and target {target.formula} are not on the same metal or notation",
+            "write both in the same notation with the same metal",
+        )
     space = Space(start, geo, ruleset, extra=(target,))
     sc, tc = space.counts(start), space.counts(target)
     names = sorted(set(sc) | set(tc))
@@ -977,13 +1120,20 @@ def _prepare(start_text: str, target_text: str, geometry: str | None, ruleset: R
     for n in list(leaving) + list(entering):
         k = space.kinds[n]
         if k.denticity != 1 or k.ring:
-            raise InputError(f"ligand '{n}' would have to enter or leave, but it is not monodentate", "only one-for-one replacement of monodentate ligands is modelled")
+            raise InputError(
+                f"ligand '{n}' would have to enter or leave, but it is not monodentate",
+                "only one-for-one replacement of monodentate ligands is modelled",
+            )
     if not entering:
-        raise InputError(f"{start.formula} and {target.formula} have the same ligands", "give a target that differs from the start")
+        raise InputError(
+            f"{start.formula} and {target.formula} have the same ligands", "give a target that differs from the start"
+        )
     return space, geo, reason, start, s_desc, target, t_desc, sc, tc, leaving, entering
 
 
-def build_network(start_text: str, target_text: str, *, geometry: str | None = None, rules: Sequence[str] = ()) -> Network:
+def build_network(
+    start_text: str, target_text: str, *, geometry: str | None = None, rules: Sequence[str] = ()
+) -> Network:
     """The substitution network from the start's composition to the target's.
 
     Every composition on the way (each leaving ligand's count between its
@@ -1022,11 +1172,22 @@ def build_network(start_text: str, target_text: str, *, geometry: str | None = N
             comps.append((sp.formula, sp.isomer_set.stereoisomers))
             for iso in sp.isomer_set.isomers:
                 prefix, desc = _descriptor_text(iso, sp.composition)
-                nodes.append((_node_id(sp.formula, iso.id), (
-                    ("formula", sp.formula), ("isomer", iso.id), ("geometric_isomer", iso.number),
-                    ("point_group", iso.point_group), ("chiral", iso.chiral), ("prefix", prefix or ""),
-                    ("descriptor", desc or ""), ("level", level), ("sites", occupancy(iso)),
-                )))
+                nodes.append(
+                    (
+                        _node_id(sp.formula, iso.id),
+                        (
+                            ("formula", sp.formula),
+                            ("isomer", iso.id),
+                            ("geometric_isomer", iso.number),
+                            ("point_group", iso.point_group),
+                            ("chiral", iso.chiral),
+                            ("prefix", prefix or ""),
+                            ("descriptor", desc or ""),
+                            ("level", level),
+                            ("sites", occupancy(iso)),
+                        ),
+                    )
+                )
                 if level == max(levels):
                     continue
                 for E in ent_names:
@@ -1041,12 +1202,28 @@ def build_network(start_text: str, target_text: str, *, geometry: str | None = N
                             per.setdefault(ch.product.isomer, []).append(ch.site)
                         pform = p.sites[0].product.formula
                         for pid in sorted(per, key=lambda x: (len(x), x)):
-                            edges.append((_node_id(sp.formula, iso.id), _node_id(pform, pid), (
-                                ("entering", E), ("leaving", L), ("weight", len(per[pid])),
-                                ("share", str(Fraction(len(per[pid]), len(p.sites)))),
-                                ("sites", ",".join(str(s + 1) for s in sorted(per[pid]))),
-                            )))
-    return Network(geo.symbol, start.formula, target.formula, tuple(nodes), tuple(edges), tuple(comps), safety_lines(space.kinds.values()))
+                            edges.append(
+                                (
+                                    _node_id(sp.formula, iso.id),
+                                    _node_id(pform, pid),
+                                    (
+                                        ("entering", E),
+                                        ("leaving", L),
+                                        ("weight", len(per[pid])),
+                                        ("share", str(Fraction(len(per[pid]), len(p.sites)))),
+                                        ("sites", ",".join(str(s + 1) for s in sorted(per[pid]))),
+                                    ),
+                                )
+                            )
+    return Network(
+        geo.symbol,
+        start.formula,
+        target.formula,
+        tuple(nodes),
+        tuple(edges),
+        tuple(comps),
+        safety_lines(space.kinds.values()),
+    )
 
 
 def network_graph(net: Network):
@@ -1104,14 +1281,26 @@ def network_picture(net: Network, fmt: str = "svg") -> bytes:
         for a, b, attrs in net.edges:
             e = dict(attrs)
             (x0, y0), (x1, y1) = pos[a], pos[b]
-            ax.annotate("", xy=(x1 - 0.55, y1), xytext=(x0 + 0.55, y0), arrowprops={"arrowstyle": "->", "lw": 0.3 + 0.4 * e["weight"], "color": "0.45"})
+            ax.annotate(
+                "",
+                xy=(x1 - 0.55, y1),
+                xytext=(x0 + 0.55, y0),
+                arrowprops={"arrowstyle": "->", "lw": 0.3 + 0.4 * e["weight"], "color": "0.45"},
+            )
             ax.text((x0 + x1) / 2, (y0 + y1) / 2, str(e["weight"]), fontsize=6, ha="center", va="center", color="0.2")
         for nid, attrs in net.nodes:
             a = dict(attrs)
             x, y = pos[nid]
             tag = f"{a['prefix']}-" if a["prefix"] else ""
-            ax.text(x, y, f"{tag}{a['formula']}\n#{a['isomer']} {a['point_group']}", fontsize=7, ha="center", va="center",
-                    bbox={"boxstyle": "round", "fc": "white", "ec": "0.3", "lw": 0.6})
+            ax.text(
+                x,
+                y,
+                f"{tag}{a['formula']}\n#{a['isomer']} {a['point_group']}",
+                fontsize=7,
+                ha="center",
+                va="center",
+                bbox={"boxstyle": "round", "fc": "white", "ec": "0.3", "lw": 0.6},
+            )
         ax.set_xlim(-1.2, 3.0 * max(cols) + 1.2)
         ax.set_ylim(-tall / 2.0 - 0.3, tall / 2.0 + 0.3)
         ax.set_title(f"{net.start} -> {net.target} on {net.geometry} (edge labels: statistical weights)", fontsize=8)
@@ -1192,7 +1381,14 @@ def _orders(entering: Mapping[str, int], names: Sequence[str]) -> Iterable[tuple
     yield from rec()
 
 
-def plan_routes(start_text: str, target_text: str, *, geometry: str | None = None, rule_set: str | None = None, rules: Sequence[str] = ()) -> RoutePlan:
+def plan_routes(
+    start_text: str,
+    target_text: str,
+    *,
+    geometry: str | None = None,
+    rule_set: str | None = None,
+    rules: Sequence[str] = (),
+) -> RoutePlan:
     """Follow every order of addition from START to TARGET's composition.
 
     START is a formula, with a descriptor when its composition has more
@@ -1203,7 +1399,9 @@ def plan_routes(start_text: str, target_text: str, *, geometry: str | None = Non
     major product is the target's geometric isomer.
     """
     ruleset = load_rules(rules)
-    space, geo, geo_reason, start, s_desc, target, t_desc, sc, tc, leaving, entering = _prepare(start_text, target_text, geometry, ruleset)
+    space, geo, geo_reason, start, s_desc, target, t_desc, sc, tc, leaving, entering = _prepare(
+        start_text, target_text, geometry, ruleset
+    )
     if t_desc is None:
         t_iset = enumerate_isomers_cached(target, geo)
         if t_iset.geometric_isomers > 1:
@@ -1215,7 +1413,9 @@ def plan_routes(start_text: str, target_text: str, *, geometry: str | None = Non
     s_iso = s_isos[0]
     notes: list[str] = []
     if len(s_isos) > 1:
-        notes.append(f"the start is chiral; routes are followed from enantiomer {s_iso.id} (the other gives the mirror-image results)")
+        notes.append(
+            f"the start is chiral; routes are followed from enantiomer {s_iso.id} (the other gives the mirror-image results)"
+        )
     if geo.fluxional:
         notes.append(f"{geo.symbol} is fluxional: site-selective predictions on it are doubtful")
     available = load_substitution_rules(ruleset)
@@ -1229,7 +1429,9 @@ def plan_routes(start_text: str, target_text: str, *, geometry: str | None = Non
     routes: list[Route] = []
     for order in _orders(entering, names):
         if len(routes) >= MAX_ROUTES:
-            raise CapacityError(f"more than {MAX_ROUTES} orders of addition", "plan a shorter sequence (fewer ligands to add at once)")
+            raise CapacityError(
+                f"more than {MAX_ROUTES} orders of addition", "plan a shorter sequence (fewer ligands to add at once)"
+            )
         counts = dict(sc)
         sp, iso = s_sp, s_iso
         steps: list[Step] = []
@@ -1244,30 +1446,54 @@ def plan_routes(start_text: str, target_text: str, *, geometry: str | None = Non
             if p.major is None:
                 outcome = f"step {k} (+{E}) has no single major product"
                 break
-            nxt = next(c for c in p.sites if c.selected and c.product.formula == p.major.formula and c.product.number == p.major.number)
+            nxt = next(
+                c
+                for c in p.sites
+                if c.selected and c.product.formula == p.major.formula and c.product.number == p.major.number
+            )
             counts[nxt.leaving] -= 1
             counts[E] = counts.get(E, 0) + 1
             sp = space.species(counts)
             iso = sp.isomer_set.get(p.major.isomer)
-        reached = not outcome and iso.number == target_number and Space.signature(sp.composition) == Space.signature(t_sp.composition)
+        reached = (
+            not outcome
+            and iso.number == target_number
+            and Space.signature(sp.composition) == Space.signature(t_sp.composition)
+        )
         if not outcome:
             outcome = "reaches the target" if reached else f"ends on {steps[-1].product.label()}, not the target"  # type: ignore[union-attr]
         routes.append(Route(order, tuple(steps), reached, outcome))
-        if any(st.product is not None and st.product.chiral for st in steps) and not any("racemate" in n for n in notes):
-            notes.append("a chiral product formed from an achiral precursor is the racemate; routes follow one enantiomer (the other mirrors it)")
+        if any(st.product is not None and st.product.chiral for st in steps) and not any(
+            "racemate" in n for n in notes
+        ):
+            notes.append(
+                "a chiral product formed from an achiral precursor is the racemate; routes follow one enantiomer (the other mirrors it)"
+            )
     start_p = _product(s_sp, s_iso.id)
     target_p = _product(t_sp, t_isos[0].id)
     return RoutePlan(
-        geometry=geo.symbol, geometry_reason=geo_reason, rules=rules_obj, rules_reason=rules_reason,
-        start=start_p, target=target_p, target_isomers=tuple(i.id for i in t_isos),
-        entering=tuple(sorted(entering.items())), leaving=tuple(sorted(leaving.items())),
-        routes=tuple(routes), notes=tuple(notes), safety=safety_lines(space.kinds.values()),
+        geometry=geo.symbol,
+        geometry_reason=geo_reason,
+        rules=rules_obj,
+        rules_reason=rules_reason,
+        start=start_p,
+        target=target_p,
+        target_isomers=tuple(i.id for i in t_isos),
+        entering=tuple(sorted(entering.items())),
+        leaving=tuple(sorted(leaving.items())),
+        routes=tuple(routes),
+        notes=tuple(notes),
+        safety=safety_lines(space.kinds.values()),
     )
 
 
 def _step_json(s: Step) -> dict[str, Any]:
     p = s.prediction
-    chosen = [c for c in p.sites if c.selected and p.major and c.product.formula == p.major.formula and c.product.number == p.major.number]
+    chosen = [
+        c
+        for c in p.sites
+        if c.selected and p.major and c.product.formula == p.major.formula and c.product.number == p.major.number
+    ]
     return {
         "step": s.number,
         "entering": s.entering,
@@ -1286,7 +1512,12 @@ def route_json(plan: RoutePlan) -> dict[str, Any]:
     from enumerator.workflow.result import SCHEMA_VERSION
 
     def route(r: Route) -> dict[str, Any]:
-        return {"order": list(r.order), "reaches_target": r.reaches_target, "outcome": r.outcome, "steps": [_step_json(s) for s in r.steps]}
+        return {
+            "order": list(r.order),
+            "reaches_target": r.reaches_target,
+            "outcome": r.outcome,
+            "steps": [_step_json(s) for s in r.steps],
+        }
 
     return {
         "schema_version": SCHEMA_VERSION,

@@ -35,12 +35,12 @@ True
 from __future__ import annotations
 
 import math
+from collections.abc import Iterable, Sequence
 from dataclasses import dataclass
-from functools import lru_cache
-from typing import Iterable, Sequence
+from functools import cache
 
-from enumerator.model.composition import Composition, LigandKind
 from enumerator.isomers.enumeration import Isomer
+from enumerator.model.composition import Composition, LigandKind
 
 __all__ = [
     "Structure",
@@ -105,7 +105,7 @@ def element_or_none(label: str) -> str | None:
     return label if _atomic_number(label) else None
 
 
-@lru_cache(maxsize=None)
+@cache
 def _atomic_number(symbol: str) -> int:
     from rdkit import Chem, rdBase
 
@@ -116,7 +116,7 @@ def _atomic_number(symbol: str) -> int:
             return 0
 
 
-@lru_cache(maxsize=None)
+@cache
 def bond_length(metal: str, donor: str) -> float:
     """Metal-donor starting distance: the sum of RDKit's covalent radii, or
     :data:`DUMMY_DISTANCE` when either is not an element.
@@ -238,9 +238,7 @@ def _core(isomer: Isomer, comp: Composition, reason: str, label: str) -> Structu
 
 
 def _ligand_mol(kind: LigandKind):
-    from rdkit import Chem
-
-    from rdkit import rdBase
+    from rdkit import Chem, rdBase
 
     smi = str(_meta(kind, "smiles"))
     with rdBase.BlockLogs():  # '[H-:1]' (hydride) draws a warning about a lone H
@@ -249,7 +247,9 @@ def _ligand_mol(kind: LigandKind):
         raise _EmbedFailed(f"RDKit cannot read the SMILES of '{kind.name}' ({smi})")
     maps = sorted(a.GetAtomMapNum() for a in m.GetAtoms() if a.GetAtomMapNum())
     if not kind.ring and maps != list(range(1, kind.denticity + 1)):
-        raise _EmbedFailed(f"the SMILES of '{kind.name}' does not number its {kind.denticity} donor atom(s) :1..:{kind.denticity}")
+        raise _EmbedFailed(
+            f"the SMILES of '{kind.name}' does not number its {kind.denticity} donor atom(s) :1..:{kind.denticity}"
+        )
     return m
 
 
@@ -377,7 +377,7 @@ def _full(isomer: Isomer, comp: Composition, label: str) -> Structure:
             mu, fu, _, su = _assemble([sites], comp)
             pu = _embed(mu, fu)
             off, n = spans[k]
-            pos[off:off + n] = pu[1:1 + n]
+            pos[off : off + n] = pu[1 : 1 + n]
             for hw, hu in zip(h_whole[k], _hydrogens_by_unit(mu, su)[0]):
                 pos[hw] = pu[hu]
         how = "RDKit ETKDG per ligand with donors fixed"
@@ -414,8 +414,10 @@ def _full(isomer: Isomer, comp: Composition, label: str) -> Structure:
     if contact is not None:
         d, i, j, limit = contact
         if d < limit:
-            note = (f"clash: {symbols[i]}{i + 1}...{symbols[j]}{j + 1} of two ligands {d:.2f} A apart "
-                    f"(below {CLASH_FRACTION:g} x the vdW sum, {limit:.2f} A); optimise before use")
+            note = (
+                f"clash: {symbols[i]}{i + 1}...{symbols[j]}{j + 1} of two ligands {d:.2f} A apart "
+                f"(below {CLASH_FRACTION:g} x the vdW sum, {limit:.2f} A); optimise before use"
+            )
             title += f"; WARNING {note}"
     block = _molblock(mol, title, isomer, comp, "full", note)
     return Structure(isomer.id, "full", title, symbols, tuple(coords), comp.charge, note, block)  # type: ignore[arg-type]

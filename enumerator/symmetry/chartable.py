@@ -33,9 +33,9 @@ from __future__ import annotations
 import itertools
 import math
 import re
+from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
 from functools import lru_cache
-from typing import Mapping, Sequence
 
 import numpy as np
 
@@ -148,7 +148,9 @@ class CharacterTable:
             s = sum(c * irr.characters[self.class_of[k]] for k, c in enumerate(chars)) / (self.order * irr.parts)
             n = round(s)
             if abs(s - n) > 1e-6 or n < 0:
-                raise ValueError(f"reduction gave {s:.4f} {irr.label}: the characters are not those of a representation")
+                raise ValueError(
+                    f"reduction gave {s:.4f} {irr.label}: the characters are not those of a representation"
+                )
             if n:
                 out[irr.label] = int(n)
         return out
@@ -304,7 +306,9 @@ def group_generators(name: str) -> list[np.ndarray]:
     assert m
     fam, n, suf = m.group(1), int(m.group(2)), m.group(3)
     if n < 1 or (fam == "S" and (n % 2 or n < 2)) or (fam == "D" and n < 2) or (fam == "S" and suf):
-        raise InputError(f"'{name}' is not a point group", "S groups have even order (S4, S6, S8); D groups need n >= 2")
+        raise InputError(
+            f"'{name}' is not a point group", "S groups have even order (S4, S6, S8); D groups need n >= 2"
+        )
     if fam == "S":
         return [_rz(2 * math.pi / n) @ sh]
     cn = _rz(2 * math.pi / n)
@@ -339,7 +343,10 @@ def named_table(name: str) -> CharacterTable:
     """The table of a named group, built by closing its generators
     (:func:`group_generators`) in the standard orientation."""
     if name in ("Dinfh", "Cinfv", "D∞h", "C∞v"):
-        raise InputError(f"{name} is infinite and has no finite character table", "use a finite group, e.g. D2h or C2v, its subgroups used for linear centres")
+        raise InputError(
+            f"{name} is infinite and has no finite character table",
+            "use a finite group, e.g. D2h or C2v, its subgroups used for linear centres",
+        )
     mats = _closure(group_generators(name))
     got = schoenflies(mats)
     if got != name:
@@ -382,7 +389,9 @@ def _classes(mats: list[np.ndarray]) -> tuple[np.ndarray, np.ndarray, list[list[
     return mult, inv, classes
 
 
-_WEIGHTS = [math.sqrt(p) for p in (2, 3, 5, 7, 11, 13, 17, 19, 23, 29, 31, 37, 41, 43, 47, 53, 59, 61, 67, 71, 73, 79, 83, 89)]
+_WEIGHTS = [
+    math.sqrt(p) for p in (2, 3, 5, 7, 11, 13, 17, 19, 23, 29, 31, 37, 41, 43, 47, 53, 59, 61, 67, 71, 73, 79, 83, 89)
+]
 
 
 def _burnside_dixon(mult: np.ndarray, inv: np.ndarray, classes: list[list[int]]) -> np.ndarray:
@@ -465,7 +474,12 @@ def format_character(x: float, golden: bool = False) -> str:
             return "-" + txt
     if golden:
         s5 = math.sqrt(5)
-        for val, txt in (((1 + s5) / 2, "(1+sqrt5)/2"), ((1 - s5) / 2, "(1-sqrt5)/2"), ((s5 - 1) / 2, "(sqrt5-1)/2"), (-(1 + s5) / 2, "-(1+sqrt5)/2")):
+        for val, txt in (
+            ((1 + s5) / 2, "(1+sqrt5)/2"),
+            ((1 - s5) / 2, "(1-sqrt5)/2"),
+            ((s5 - 1) / 2, "(sqrt5-1)/2"),
+            (-(1 + s5) / 2, "-(1+sqrt5)/2"),
+        ):
             if abs(x - val) < 1e-6:
                 return txt
     for n in range(5, 13):
@@ -529,7 +543,14 @@ def _infos(mats) -> list[_Info]:
 def _axis_score(u, pts, ranks, z=None, lab=np.array([1.0, 0.0, 0.0])):
     on = _on_line(pts, u)
     plane = _in_plane(pts, _unit(np.cross(u, z))) if z is not None else np.zeros(len(pts), bool)
-    return (int(on.sum()), int(plane.sum()), _rank_counts(on, ranks), _rank_counts(plane, ranks), round(abs(float(np.dot(u, lab))), 6), tuple(np.round(u, 6)))
+    return (
+        int(on.sum()),
+        int(plane.sum()),
+        _rank_counts(on, ranks),
+        _rank_counts(plane, ranks),
+        round(abs(float(np.dot(u, lab))), 6),
+        tuple(np.round(u, 6)),
+    )
 
 
 def _plane_score(n, pts, ranks, lab_dir, z):
@@ -676,11 +697,20 @@ def _build(mats: list[np.ndarray], op_indices: tuple[int, ...], pts: np.ndarray,
         proper = [c for c in range(r) if linfo[rep(c)].kind == "C" and along_z(linfo[rep(c)])]
         improper = [c for c in range(r) if linfo[rep(c)].kind == "S" and along_z(linfo[rep(c)])]
         cands = proper if (has_i is not None or sig_h is not None or not improper) else proper + improper
-        best = max(cands, key=lambda c: (linfo[rep(c)].order, linfo[rep(c)].kind == "C", -min(linfo[rep(c)].power, linfo[rep(c)].order - linfo[rep(c)].power)))
+        best = max(
+            cands,
+            key=lambda c: (
+                linfo[rep(c)].order,
+                linfo[rep(c)].kind == "C",
+                -min(linfo[rep(c)].power, linfo[rep(c)].order - linfo[rep(c)].power),
+            ),
+        )
         # the element of power 1 (rotation by 2pi/n)
         n = linfo[rep(best)].order
         kind_best = linfo[rep(best)].kind
-        pr_class = find_class(lambda o, m: o.kind == kind_best and along_z(o) and o.order == n and min(o.power, n - o.power) == 1)
+        pr_class = find_class(
+            lambda o, m: o.kind == kind_best and along_z(o) and o.order == n and min(o.power, n - o.power) == 1
+        )
         pr_order = n
     elif kind == "D2":
         pr_class = find_class(lambda o, m: o.kind == "C" and along_z(o))
@@ -698,7 +728,9 @@ def _build(mats: list[np.ndarray], op_indices: tuple[int, ...], pts: np.ndarray,
     d2_classes = {}
     if kind == "D2":
         for ax, lab in ((2, "1"), (1, "2"), (0, "3")):
-            d2_classes[lab] = find_class(lambda o, m, ax=ax: o.kind == "C" and o.order == 2 and abs(abs(o.axis[ax]) - 1) < 1e-5)
+            d2_classes[lab] = find_class(
+                lambda o, m, ax=ax: o.kind == "C" and o.order == 2 and abs(abs(o.axis[ax]) - 1) < 1e-5
+            )
 
     labelled = []
     for ch, parts in species:
@@ -711,9 +743,16 @@ def _build(mats: list[np.ndarray], op_indices: tuple[int, ...], pts: np.ndarray,
         sub = ""
         if kind == "D2" and letter == "B":
             sub = next(lab for lab, c in d2_classes.items() if ch[c] > 0)
-        elif kind == "cubic" and (letter == "T" or (letter == "A" and name in ("O", "Oh", "Td"))) and sub_class is not None:
-            sub = "1" if ch[sub_class] > 0 else "2"
-        elif kind == "axial" and letter in "AB" and sub_class is not None:
+        elif (
+            (
+                kind == "cubic"
+                and (letter == "T" or (letter == "A" and name in ("O", "Oh", "Td")))
+                and sub_class is not None
+            )
+            or kind == "axial"
+            and letter in "AB"
+            and sub_class is not None
+        ):
             sub = "1" if ch[sub_class] > 0 else "2"
         elif letter == "E" and pr_class is not None and pr_order >= 5:
             c = max(-1.0, min(1.0, ch[pr_class] / 2))
@@ -729,14 +768,23 @@ def _build(mats: list[np.ndarray], op_indices: tuple[int, ...], pts: np.ndarray,
         es = [x for x in labelled if x[0] == "E" and x[2] == par]
         if len(es) == 1:
             es[0][1] = ""
-    labelled.sort(key=lambda x: (x[2] in ("u", "''"), _LETTERS.index(x[0]), int(x[1] or 0), -x[3][pr_class] if pr_class is not None and x[0] == "E" else 0))
+    labelled.sort(
+        key=lambda x: (
+            x[2] in ("u", "''"),
+            _LETTERS.index(x[0]),
+            int(x[1] or 0),
+            -x[3][pr_class] if pr_class is not None and x[0] == "E" else 0,
+        )
+    )
     labels = [f"{x[0]}{x[1]}{x[2]}" for x in labelled]
     if len(set(labels)) != len(labels):
         raise GroupIdentificationError(f"{name}: Mulliken labels are not unique ({', '.join(labels)})")
 
     cls_labels, cls_order = _class_labels(name, kind, classes, linfo, xel, cls_of)
     perm = sorted(range(r), key=lambda c: cls_order[c])
-    classes_out = tuple(ConjugacyClass(cls_labels[c], len(classes[c]), tuple(op_indices[m] for m in classes[c])) for c in perm)
+    classes_out = tuple(
+        ConjugacyClass(cls_labels[c], len(classes[c]), tuple(op_indices[m] for m in classes[c])) for c in perm
+    )
     pos = {c: k for k, c in enumerate(perm)}
     funcs = _functions(local, [x[3] for x in labelled], [x[4] for x in labelled], cls_of)
     irreps = tuple(
@@ -760,7 +808,10 @@ def _class_labels(name, kind, classes, linfo, xel, cls_of):
     r = len(classes)
     labels, order = {}, {}
     along_z = lambda o: o.axis is not None and abs(abs(o.axis[2]) - 1) < 1e-5
-    has_z_c2 = any(linfo[classes[c][0]].kind == "C" and linfo[classes[c][0]].order == 2 and along_z(linfo[classes[c][0]]) for c in range(r))
+    has_z_c2 = any(
+        linfo[classes[c][0]].kind == "C" and linfo[classes[c][0]].order == 2 and along_z(linfo[classes[c][0]])
+        for c in range(r)
+    )
     xc = cls_of[xel[1]] if xel else None
     for c in range(r):
         o = linfo[classes[c][0]]
@@ -776,10 +827,14 @@ def _class_labels(name, kind, classes, linfo, xel, cls_of):
                 ax = "xyz"[int(np.argmax(np.abs(o.axis)))]
                 base, key = f"C2({ax})", (1, 0, "zyx".index(ax))
             elif kind == "cubic":
-                if n == 2 and any(linfo[m].order == 4 for m in range(len(linfo)) if linfo[m].kind == "C") and not any(
-                    abs(abs(linfo[m].axis[int(np.argmax(np.abs(linfo[m].axis)))]) - 1) > 1e-5 for m in classes[c]
+                if (
+                    n == 2
+                    and any(linfo[m].order == 4 for m in range(len(linfo)) if linfo[m].kind == "C")
+                    and not any(
+                        abs(abs(linfo[m].axis[int(np.argmax(np.abs(linfo[m].axis)))]) - 1) > 1e-5 for m in classes[c]
+                    )
                 ):
-                    base, key = f"C2(=C4^2)", (1, 3)
+                    base, key = "C2(=C4^2)", (1, 3)
                 elif n == 2 and name in ("O", "Oh"):
                     base, key = "C2'", (1, 2)
                 else:
@@ -798,18 +853,20 @@ def _class_labels(name, kind, classes, linfo, xel, cls_of):
                 ax = int(np.argmax(np.abs(o.axis)))
                 base, key = "sigma(" + {0: "yz", 1: "xz", 2: "xy"}[ax] + ")", (7, 2 - ax)
             elif kind == "cubic":
-                on_axis = all(abs(abs(linfo[m].axis[int(np.argmax(np.abs(linfo[m].axis)))]) - 1) < 1e-5 for m in classes[c])
+                on_axis = all(
+                    abs(abs(linfo[m].axis[int(np.argmax(np.abs(linfo[m].axis)))]) - 1) < 1e-5 for m in classes[c]
+                )
                 if name == "Ih":
                     base, key = "sigma", (7,)
                 else:
                     base, key = ("sigma_h", (7,)) if on_axis else ("sigma_d", (8,))
-            elif kind == "low":
-                base, key = "sigma_h", (7,)
-            elif along_z(o):
+            elif kind == "low" or along_z(o):
                 base, key = "sigma_h", (7,)
             else:
                 contains_x = any(abs(linfo[m].axis[0]) < 1e-5 and abs(linfo[m].axis[2]) < 1e-5 for m in classes[c])
-                n_vert = sum(1 for cc in range(r) if linfo[classes[cc][0]].kind == "s" and not along_z(linfo[classes[cc][0]]))
+                n_vert = sum(
+                    1 for cc in range(r) if linfo[classes[cc][0]].kind == "s" and not along_z(linfo[classes[cc][0]])
+                )
                 if name == "C2v":
                     base, key = ("sigma_v(xz)", (8,)) if contains_x else ("sigma_v'(yz)", (9,))
                 elif name.endswith("d"):
@@ -863,7 +920,24 @@ _QUAD_CANDS = [
     ("x2-y2", [1, -1, 0, 0, 0, 0]),
     ("2z2-x2-y2", [-1, -1, 2, 0, 0, 0]),
 ]
-_DISPLAY = ["x", "y", "z", "Rx", "Ry", "Rz", "x2+y2+z2", "x2+y2", "x2", "y2", "z2", "2z2-x2-y2", "x2-y2", "xy", "xz", "yz"]
+_DISPLAY = [
+    "x",
+    "y",
+    "z",
+    "Rx",
+    "Ry",
+    "Rz",
+    "x2+y2+z2",
+    "x2+y2",
+    "x2",
+    "y2",
+    "z2",
+    "2z2-x2-y2",
+    "x2-y2",
+    "xy",
+    "xz",
+    "yz",
+]
 
 
 def _quad_matrix(m: np.ndarray) -> np.ndarray:
@@ -951,7 +1025,10 @@ def _axes_note(name, kind, F, pts, local, linfo, classes, cls_labels, xel) -> st
     parts = []
     if kind == "low":
         if name == "Cs":
-            parts.append(f"z = mirror normal {_vec_txt(z)}" + (f"; sigma_h holds {_sites_txt(pts, _in_plane(pts, z))}" if have else ""))
+            parts.append(
+                f"z = mirror normal {_vec_txt(z)}"
+                + (f"; sigma_h holds {_sites_txt(pts, _in_plane(pts, z))}" if have else "")
+            )
         else:
             return f"{name}: every species is one-dimensional and no label depends on the axes"
         return "; ".join(parts)
@@ -968,8 +1045,12 @@ def _axes_note(name, kind, F, pts, local, linfo, classes, cls_labels, xel) -> st
             parts.append(f"{lab} axes include x")
         plane_n = y
         tag = "sigma_v(xz)" if name == "C2v" else "sigma_v"
-        has_plane = any(linfo[m].kind == "s" and abs(abs(np.dot(linfo[m].axis, [0, 1, 0])) - 1) < 1e-5 for m in range(len(linfo)))
+        has_plane = any(
+            linfo[m].kind == "s" and abs(abs(np.dot(linfo[m].axis, [0, 1, 0])) - 1) < 1e-5 for m in range(len(linfo))
+        )
         if has_plane and not name.endswith("d"):
             world_n = plane_n
-            parts.append(f"{tag} is the xz plane" + (f", holding {_sites_txt(pts, _in_plane(pts, world_n))}" if have else ""))
+            parts.append(
+                f"{tag} is the xz plane" + (f", holding {_sites_txt(pts, _in_plane(pts, world_n))}" if have else "")
+            )
     return "; ".join(parts)

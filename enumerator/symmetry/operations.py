@@ -14,13 +14,13 @@ nothing in this module types a group in.
 from __future__ import annotations
 
 import math
+from collections.abc import Iterable, Sequence
 from dataclasses import dataclass
 from functools import lru_cache
-from typing import Iterable, Sequence
 
 import numpy as np
 
-from enumerator.symmetry.linalg import TOL, matrix_key
+from enumerator.symmetry.linalg import matrix_key
 
 __all__ = [
     "SymOp",
@@ -58,7 +58,7 @@ class SymOp:
         return bool(np.linalg.det(self.array) > 0)
 
     @property
-    def info(self) -> "OpInfo":
+    def info(self) -> OpInfo:
         return describe(self.array)
 
 
@@ -217,7 +217,7 @@ def _group_order(name: str) -> int:
     fam = name[0]
     rest = name[1:]
     digits = "".join(ch for ch in rest if ch.isdigit())
-    suffix = rest[len(digits):]
+    suffix = rest[len(digits) :]
     n = int(digits)
     if fam == "S":
         return n
@@ -272,7 +272,10 @@ def _identify(infos: Sequence[OpInfo]) -> str:
         return f"C{n}h"
     if sigma_v:
         return f"C{n}v"
-    s2n = any(o.kind in ("S", "i") and (o.axis is None or abs(abs(np.dot(o.axis, principal)) - 1) < 1e-6) and o.order == 2 * n for o in infos)
+    s2n = any(
+        o.kind in ("S", "i") and (o.axis is None or abs(abs(np.dot(o.axis, principal)) - 1) < 1e-6) and o.order == 2 * n
+        for o in infos
+    )
     if s2n:
         return f"S{2 * n}"
     return f"C{n}"

@@ -40,17 +40,25 @@ from __future__ import annotations
 import itertools
 import math
 import re
+from collections.abc import Mapping, Sequence
 from dataclasses import dataclass, field
-from typing import Mapping, Sequence
 
 import numpy as np
 
 from enumerator.errors import InputError
-from enumerator.vibrations.forcefield import WAVENUMBER_FACTOR, Band, Model, _blocks_cached, _solve_modes, build_model
 from enumerator.isomers.enumeration import Isomer
 from enumerator.rules.ruleset import RuleSet
+from enumerator.vibrations.forcefield import WAVENUMBER_FACTOR, Band, Model, _blocks_cached, _solve_modes, build_model
 
-__all__ = ["Observation", "FitResult", "fit_constants", "parse_bands", "fit_linear_model", "MAX_ASSIGNMENTS", "SCREEN_KEEP"]
+__all__ = [
+    "Observation",
+    "FitResult",
+    "fit_constants",
+    "parse_bands",
+    "fit_linear_model",
+    "MAX_ASSIGNMENTS",
+    "SCREEN_KEEP",
+]
 
 #: At most this many one-to-one assignments are tried in full; beyond it only
 #: assignments that keep the measured and predicted orders are tried.
@@ -80,7 +88,10 @@ def parse_bands(text: str, option: str = "--bands") -> tuple[Observation, ...]:
         except ValueError:
             v = float("nan")
         if not math.isfinite(v) or v <= 0:
-            raise InputError(f"{option}: '{part}' is not a wavenumber", f"write e.g. {option} 2045,1980,1932 (cm-1; optionally 1980:B1)")
+            raise InputError(
+                f"{option}: '{part}' is not a wavenumber",
+                f"write e.g. {option} 2045,1980,1932 (cm-1; optionally 1980:B1)",
+            )
         lab = lab.strip() or None
         if lab is not None and not _LABEL.match(lab):
             raise InputError(f"{option}: '{lab}' is not a species label", "write e.g. 1980:A1 or 1980:A1(2)")
@@ -230,7 +241,14 @@ def fit_linear_model(
 ):
     """Fit F = f0 + Σ v_p mats[p] to observed wavenumbers of the target bands;
     returns (values, calculated, jacobian, rss) or None if it fails."""
-    problem = _Problem(model, isomer, np.asarray(f0, float), tuple(names), tuple(np.asarray(m, float) for m in mats), _blocks_cached(isomer, model.sites))
+    problem = _Problem(
+        model,
+        isomer,
+        np.asarray(f0, float),
+        tuple(names),
+        tuple(np.asarray(m, float) for m in mats),
+        _blocks_cached(isomer, model.sites),
+    )
     got = _lm(problem, np.asarray(start, float), list(targets), np.asarray(observed, float))
     if got is None:
         return None
@@ -256,7 +274,11 @@ def _assignments(obs: Sequence[Observation], bands: Sequence[Band]) -> tuple[lis
             m = _LABEL.match(o.label)
             assert m is not None
             sp, order = m.group(1), m.group(2)
-            cands = [_key(b) for b in bands if (b.species or "").lower() == sp.lower() and (order is None or b.order == int(order))]
+            cands = [
+                _key(b)
+                for b in bands
+                if (b.species or "").lower() == sp.lower() and (order is None or b.order == int(order))
+            ]
             if not cands:
                 names = sorted({b.name for b in bands})
                 raise InputError(
@@ -332,21 +354,29 @@ def fit_constants(
     (``k`` holds every stretching constant); ``tie_ck`` sets kt = 2 kc;
     ``start`` overrides the default starting values."""
     model = build_model(isomer, reporter_class, rules)
-    obs = tuple(sorted((m if isinstance(m, Observation) else Observation(float(m)) for m in measured), key=lambda o: -o.wavenumber))
+    obs = tuple(
+        sorted(
+            (m if isinstance(m, Observation) else Observation(float(m)) for m in measured), key=lambda o: -o.wavenumber
+        )
+    )
     if not obs:
         raise InputError("no measured bands to fit", "give e.g. --fit 2045,1980,1932")
     values = model.resolve(start)
     fixed = dict(fixed or {})
     for name in fixed:
         if name not in ("k",) + model.parameter_names:
-            raise InputError(f"cannot fix '{name}': not a constant here", f"constants: {', '.join(('k',) + model.parameter_names)}")
+            raise InputError(
+                f"cannot fix '{name}': not a constant here", f"constants: {', '.join(('k',) + model.parameter_names)}"
+            )
     held: dict[str, float] = {}
     if "k" in fixed:
         for s in model.sets:
             held[s.name] = float(fixed["k"])
     held.update({k: float(v) for k, v in fixed.items() if k != "k"})
     if tie_ck and ("kt" in held) != ("kc" in held):
-        raise InputError("kt = 2 kc (tie) conflicts with fixing only one of kc, kt", "fix both or neither, or drop the tie")
+        raise InputError(
+            "kt = 2 kc (tie) conflicts with fixing only one of kc, kt", "fix both or neither, or drop the tie"
+        )
     n = len(model.oscillators)
     f0 = np.zeros((n, n))
     names: list[str] = []
@@ -409,7 +439,10 @@ def fit_constants(
         if best is None or score < best[0]:
             best = (score, targets, v, calc, jac, modes, rss)
     if best is None:
-        raise InputError("the fit did not converge for any assignment", "give better starting constants with --constants or assign the bands")
+        raise InputError(
+            "the fit did not converge for any assignment",
+            "give better starting constants with --constants or assign the bands",
+        )
     _, targets, v, calc, jac, modes, rss = best
     sv = np.linalg.svd(jac, compute_uv=False)
     rank = int(np.sum(sv > 1e-8 * max(1.0, float(sv[0]) if len(sv) else 1.0)))

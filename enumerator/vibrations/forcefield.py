@@ -52,10 +52,10 @@ from __future__ import annotations
 
 import math
 import re
+from collections.abc import Mapping, Sequence
 from dataclasses import dataclass, field
 from functools import lru_cache
 from pathlib import Path
-from typing import Mapping, Sequence
 
 import numpy as np
 
@@ -130,7 +130,10 @@ def _parse_class(path: Path, name: str, data: object) -> ClassField:
     check_keys(data, where, _KEYS_REQ, _KEYS_OPT)
     atoms = data["atoms"]
     if not (isinstance(atoms, list) and len(atoms) == 2 and all(isinstance(a, str) and _ATOM.match(a) for a in atoms)):
-        raise RuleError(f"{where}: atoms = {atoms!r} is not two element symbols", 'write e.g. atoms = ["C", "O"] (an isotope as "13C")')
+        raise RuleError(
+            f"{where}: atoms = {atoms!r} is not two element symbols",
+            'write e.g. atoms = ["C", "O"] (an isotope as "13C")',
+        )
     for a in atoms:
         _atom_mass(a, where)
     vals = {}
@@ -469,7 +472,9 @@ def build_model(isomer: Isomer, reporter_class: str, rules: RuleSet | None = Non
 @lru_cache(maxsize=1024)
 def _build_model(isomer: Isomer, reporter_class: str, rules: RuleSet) -> Model:
     cf = class_field(reporter_class, rules)
-    osc_sites = sorted((s for s in isomer.sites if s.reporter and s.reporter.lower() == cf.name.lower()), key=lambda s: s.index)
+    osc_sites = sorted(
+        (s for s in isomer.sites if s.reporter and s.reporter.lower() == cf.name.lower()), key=lambda s: s.index
+    )
     if not osc_sites:
         present = reporter_classes(isomer)
         raise InputError(
@@ -578,7 +583,11 @@ def _symmetry_blocks(isomer: Isomer, sites: tuple[int, ...]) -> tuple[tuple[_Blo
     try:
         table, op_class, corr, lin_ir, lin_raman = _table(isomer)
     except ImportError:
-        return (_Block(None, 1, np.eye(n)),), None, "symmetry species not given: the character-table module is not available"
+        return (
+            (_Block(None, 1, np.eye(n)),),
+            None,
+            "symmetry species not given: the character-table module is not available",
+        )
     except IsosieveError as exc:
         return (_Block(None, 1, np.eye(n)),), None, f"symmetry species not given: {exc.line()}"
     mats = _perm_matrices(isomer, sites)
@@ -594,7 +603,11 @@ def _symmetry_blocks(isomer: Isomer, sites: tuple[int, ...]) -> tuple[tuple[_Blo
         if not count:
             continue
         if corr is not None and irrep.label not in corr:
-            return (_Block(None, 1, np.eye(n)),), None, f"symmetry species not given: {table.group} species {irrep.label} has no unique linear partner"
+            return (
+                (_Block(None, 1, np.eye(n)),),
+                None,
+                f"symmetry species not given: {table.group} species {irrep.label} has no unique linear partner",
+            )
         proj = np.zeros((n, n))
         for k, p in mats.items():
             proj += float(irrep.characters[op_class[k]]) * p
@@ -863,7 +876,9 @@ def parse_constants(text: str) -> dict[str, float]:
         except ValueError:
             v = float("nan")
         if not sep or not name or not math.isfinite(v):
-            raise InputError(f"constant '{part}' is not NAME=NUMBER", "write e.g. --constants k=16.2,kc=0.3,kt=0.6 (mdyn/Å)")
+            raise InputError(
+                f"constant '{part}' is not NAME=NUMBER", "write e.g. --constants k=16.2,kc=0.3,kt=0.6 (mdyn/Å)"
+            )
         out[name] = v
     if not out:
         raise InputError("no constants given", "write e.g. --constants k=16.2,kc=0.3,kt=0.6")

@@ -51,17 +51,25 @@ from __future__ import annotations
 import itertools
 import math
 import re
+from collections.abc import Sequence
 from dataclasses import dataclass
-from typing import Sequence
 
 import numpy as np
 
 from enumerator.errors import InputError
-from enumerator.vibrations.forcefield import Band, BandPattern, band_pattern, reporter_classes
 from enumerator.isomers.enumeration import Isomer, IsomerSet
 from enumerator.rules.ruleset import RuleSet
+from enumerator.vibrations.forcefield import Band, BandPattern, band_pattern, reporter_classes
 
-__all__ = ["Candidate", "MatchResult", "match_bands", "parse_measured", "DEFAULT_TOLERANCE", "DEFAULT_WEAK", "INTENSITY_WORDS"]
+__all__ = [
+    "Candidate",
+    "MatchResult",
+    "match_bands",
+    "parse_measured",
+    "DEFAULT_TOLERANCE",
+    "DEFAULT_WEAK",
+    "INTENSITY_WORDS",
+]
 
 #: cm^-1: bands closer than this are taken as coincident, and a match within it as good
 #: (common practice: solution IR bands of carbonyls are some 5-15 cm-1 wide).
@@ -104,8 +112,10 @@ def parse_measured(text: str, option: str = "--bands") -> tuple[tuple[float, flo
     for part in _split_outside_parentheses(text):
         m = re.fullmatch(r"(\d+(?:\.\d*)?)\s*(?:\(([^()]*)\)|([A-Za-z]+))?\s*(?:cm-1|cm−1)?", part)
         if not m:
-            raise InputError(f"{option}: '{part}' is not a wavenumber with an optional intensity",
-                             f"write e.g. {option} \"2045 (s), 1980 (vs), 1932 (m)\" or {option} 2045,1980,1932")
+            raise InputError(
+                f"{option}: '{part}' is not a wavenumber with an optional intensity",
+                f'write e.g. {option} "2045 (s), 1980 (vs), 1932 (m)" or {option} 2045,1980,1932',
+            )
         v = float(m.group(1))
         if not math.isfinite(v) or v <= 0:
             raise InputError(f"{option}: '{part}' is not a wavenumber", f"write e.g. {option} 2045,1980,1932")
@@ -126,13 +136,17 @@ def _intensity(words: str | None, part: str, option: str) -> float | None:
         x = None
     if x is not None:
         if len(toks) > 1 or not math.isfinite(x) or x <= 0:
-            raise InputError(f"{option}: '{part}': the intensity must be one positive number or words", "write e.g. 1980 (0.8) or 1980 (s)")
+            raise InputError(
+                f"{option}: '{part}': the intensity must be one positive number or words",
+                "write e.g. 1980 (0.8) or 1980 (s)",
+            )
         return x
     known = [INTENSITY_WORDS[t] for t in toks if t in INTENSITY_WORDS and t != "sh"]
     other = [t for t in toks if t not in INTENSITY_WORDS and t not in ("br", "b")]
     if other:
-        raise InputError(f"{option}: '{part}': unknown intensity word '{other[0]}'",
-                         "use vs, s, m, w, vw (and sh, br), or a number")
+        raise InputError(
+            f"{option}: '{part}': unknown intensity word '{other[0]}'", "use vs, s, m, w, vw (and sh, br), or a number"
+        )
     if known:
         return known[0]
     return INTENSITY_WORDS["sh"] if "sh" in toks else None
@@ -175,7 +189,12 @@ class Candidate:
             "species": self.species,
             "ir_count": sum(1 for b in self.predicted if b.ir_active),
             "predicted": [
-                {"band": b.name, "wavenumber": round(b.wavenumber, 1), "intensity": round(b.intensity, 4), "species": b.species}
+                {
+                    "band": b.name,
+                    "wavenumber": round(b.wavenumber, 1),
+                    "intensity": round(b.intensity, 4),
+                    "species": b.species,
+                }
                 for b in self.predicted
                 if b.ir_active
             ],
@@ -216,7 +235,8 @@ class MatchResult:
         return {
             "reporter_class": self.reporter_class,
             "measured": [round(x, 1) for x in self.measured],
-            "measured_intensity": [None if x is None else round(x, 3) for x in self.measured_intensity] or [None] * len(self.measured),
+            "measured_intensity": [None if x is None else round(x, 3) for x in self.measured_intensity]
+            or [None] * len(self.measured),
             "tolerance": self.tolerance,
             "weak_threshold": self.weak,
             "candidates": [c.to_json() for c in self.candidates],
@@ -378,24 +398,36 @@ def _explain(c: Candidate, reporter_class: str, n_measured: int, tolerance: floa
         order = [t.lstrip("0123456789") for t in (c.species or "").split(" + ")]
         labs = sorted(counts, key=lambda x: order.index(x) if x in order else len(order))
         species = " + ".join(x if counts[x] == 1 else f"{counts[x]}{x}" for x in labs)
-    parts = [f"#{c.rank} {who} ({tag}): {len(ir)} IR-active {reporter_class} band{'s' if len(ir) != 1 else ''} predicted"
-             + (f" ({c.species} in all; IR: {species})" if c.species and species else "")
-             + f", {n_measured} measured."]
+    parts = [
+        f"#{c.rank} {who} ({tag}): {len(ir)} IR-active {reporter_class} band{'s' if len(ir) != 1 else ''} predicted"
+        + (f" ({c.species} in all; IR: {species})" if c.species and species else "")
+        + f", {n_measured} measured."
+    ]
     if c.assignment:
         parts.append(
             f"After a common shift of the stretching constants by {c.shift:+.2f} mdyn/Å the measured bands match "
             f"{_fmt_bands([a[1] for a in c.assignment])} with RMS {c.rms:.1f} cm-1 (largest {c.max_residual:.1f} cm-1"
-            + (", all within the tolerance)." if c.max_residual <= tolerance else f", beyond the {tolerance:g} cm-1 tolerance).")
+            + (
+                ", all within the tolerance)."
+                if c.max_residual <= tolerance
+                else f", beyond the {tolerance:g} cm-1 tolerance)."
+            )
         )
         if abs(c.shift) > 1.0:
-            parts.append("That shift is large: the default constants sit far from this compound, so weigh the pattern, not the positions.")
+            parts.append(
+                "That shift is large: the default constants sit far from this compound, so weigh the pattern, not the positions."
+            )
     for name, why in c.excused:
         parts.append(f"The unmatched {name} band is {why} and may be unseen.")
     if c.missing:
-        parts.append(f"Strong band{'s' if len(c.missing) > 1 else ''} {_fmt_bands(c.missing)} would be expected but {'are' if len(c.missing) > 1 else 'is'} not among the measured bands.")
+        parts.append(
+            f"Strong band{'s' if len(c.missing) > 1 else ''} {_fmt_bands(c.missing)} would be expected but {'are' if len(c.missing) > 1 else 'is'} not among the measured bands."
+        )
     if c.extra_measured:
         xs = ", ".join(f"{x:g}" for x in c.extra_measured)
-        parts.append(f"Measured band{'s' if len(c.extra_measured) > 1 else ''} {xs} cm-1 {'have' if len(c.extra_measured) > 1 else 'has'} no partner: this isomer has too few IR-active bands (unless {'they are' if len(c.extra_measured) > 1 else 'it is'} from an impurity, an overtone, a 13CO satellite or another species).")
+        parts.append(
+            f"Measured band{'s' if len(c.extra_measured) > 1 else ''} {xs} cm-1 {'have' if len(c.extra_measured) > 1 else 'has'} no partner: this isomer has too few IR-active bands (unless {'they are' if len(c.extra_measured) > 1 else 'it is'} from an impurity, an overtone, a 13CO satellite or another species)."
+        )
     if c.intensity_misfit is not None:
         rel = ", ".join(f"{m:g} {a:.2f}/{b:.2f}" for m, a, b in c.intensities)
         parts.append(
@@ -405,7 +437,9 @@ def _explain(c: Candidate, reporter_class: str, n_measured: int, tolerance: floa
     if c.problems == 0:
         parts.append("Count: consistent.")
     else:
-        parts.append(f"Count: {c.problems} problem{'s' if c.problems > 1 else ''}, so it ranks below every count-consistent isomer.")
+        parts.append(
+            f"Count: {c.problems} problem{'s' if c.problems > 1 else ''}, so it ranks below every count-consistent isomer."
+        )
     if c.fit is not None:
         consts = ", ".join(
             f"{k['name']} = {k['value']:.2f}" + (f" ± {k['uncertainty']:.2f}" if k["uncertainty"] is not None else "")
@@ -441,14 +475,24 @@ def match_bands(
     classes = sorted({c for i in isomer_set.isomers for c in reporter_classes(i)})
     if reporter_class is None:
         if not classes:
-            raise InputError(f"{isomer_set.composition.formula} has no stretch reporter", "mark one, e.g. --reporter a=CO")
+            raise InputError(
+                f"{isomer_set.composition.formula} has no stretch reporter", "mark one, e.g. --reporter a=CO"
+            )
         if len(classes) > 1:
-            raise InputError(f"{isomer_set.composition.formula} has several reporter classes ({', '.join(classes)})", f"say which the bands belong to, e.g. --class {classes[0]}")
+            raise InputError(
+                f"{isomer_set.composition.formula} has several reporter classes ({', '.join(classes)})",
+                f"say which the bands belong to, e.g. --class {classes[0]}",
+            )
         reporter_class = classes[0]
     elif reporter_class not in classes:
-        raise InputError(f"{isomer_set.composition.formula} has no {reporter_class} reporter", f"reporters here: {', '.join(classes) or 'none'}")
+        raise InputError(
+            f"{isomer_set.composition.formula} has no {reporter_class} reporter",
+            f"reporters here: {', '.join(classes) or 'none'}",
+        )
     if intensities is not None and len(intensities) != len(measured):
-        raise InputError(f"{len(intensities)} intensities for {len(measured)} bands", "give one intensity (or none) per band")
+        raise InputError(
+            f"{len(intensities)} intensities for {len(measured)} bands", "give one intensity (or none) per band"
+        )
     pairs = sorted(zip((float(x) for x in measured), intensities or [None] * len(measured)), key=lambda p: -p[0])
     meas = tuple(p[0] for p in pairs)
     meas_int = tuple(None if p[1] is None else float(p[1]) for p in pairs)
@@ -475,14 +519,21 @@ def match_bands(
     if len(ranked) > 1 and ranked[0].problems == ranked[1].problems and abs(ranked[0].score - ranked[1].score) < 0.5:
         notes.append(
             f"the top two candidates ({'/'.join(ranked[0].isomers)} and {'/'.join(ranked[1].isomers)}) agree about equally well"
-            + (" (intensities included): other reporters, Raman or NMR may decide" if given else
-               ": the measured intensities (e.g. --bands \"2045 (s), 1980 (vs)\"), other reporters, Raman or NMR may decide")
+            + (
+                " (intensities included): other reporters, Raman or NMR may decide"
+                if given
+                else ': the measured intensities (e.g. --bands "2045 (s), 1980 (vs)"), other reporters, Raman or NMR may decide'
+            )
         )
-    notes.append("positions come from typical default constants (rules/forcefields.toml); the common shift absorbs the overall level")
+    notes.append(
+        "positions come from typical default constants (rules/forcefields.toml); the common shift absorbs the overall level"
+    )
     return MatchResult(reporter_class, meas, float(tolerance), float(weak), tuple(ranked), tuple(notes), meas_int)
 
 
-def _with_intensities(c: Candidate, meas: Sequence[float], meas_int: Sequence[float | None], tolerance: float) -> Candidate:
+def _with_intensities(
+    c: Candidate, meas: Sequence[float], meas_int: Sequence[float | None], tolerance: float
+) -> Candidate:
     """The candidate with its intensity misfit and ranking score (module docstring, steps 3-4)."""
     from dataclasses import replace
 

@@ -18,11 +18,12 @@ True
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field
-from typing import Any, Iterable, Iterator
+from collections.abc import Iterable, Iterator
+from dataclasses import dataclass
+from typing import Any
 
-from enumerator.model.composition import Composition
 from enumerator.errors import IsosieveError
+from enumerator.model.composition import Composition
 
 __all__ = ["BatchRow", "screen", "pattern_key", "row_to_dict", "HEADER", "row_cells"]
 
@@ -70,8 +71,8 @@ def pattern_key(comp: Composition, geometry: str, limit: int | None = None) -> t
 
 def _enumerate(formula: str, geometry: str, rules: tuple[str, ...], limit: int | None) -> dict[str, Any]:
     """Worker: run the pipeline for one representative formula; plain data back."""
-    from enumerator.workflow.pipeline import Request, run
     from enumerator.render.jsonout import result_to_dict
+    from enumerator.workflow.pipeline import Request, run
 
     res = run(Request(formula=formula, geometry=geometry, rules=rules, limit=limit))
     doc = result_to_dict(res)
@@ -100,15 +101,25 @@ def _guard(formula: str, geometry: str, rules: tuple[str, ...], limit: int | Non
 
 def _prepare(index: int, formula: str, label: str, geometry: str | None, rules: tuple[str, ...], limit: int | None):
     from enumerator.analyses.centre import count_electrons
-    from enumerator.workflow.pipeline import Request, prepare
     from enumerator.analyses.safety import cautions
+    from enumerator.workflow.pipeline import Request, prepare
 
     comp, geo, reason = prepare(Request(formula=formula, geometry=geometry, rules=rules, limit=limit))
-    row = dict(index=index, formula=formula, label=label, metal=comp.metal if comp.metal != "M" else None,
-               charge=comp.charge, geometry=geo.symbol, geometry_reason=reason, safety=bool(cautions(comp)))
+    row = dict(
+        index=index,
+        formula=formula,
+        label=label,
+        metal=comp.metal if comp.metal != "M" else None,
+        charge=comp.charge,
+        geometry=geo.symbol,
+        geometry_reason=reason,
+        safety=bool(cautions(comp)),
+    )
     if comp.metal != "M":
         ec = count_electrons(comp)
-        row.update(oxidation_state=ec.oxidation_state, d_electrons=ec.d_electrons, valence_electrons=ec.valence_electrons)
+        row.update(
+            oxidation_state=ec.oxidation_state, d_electrons=ec.d_electrons, valence_electrons=ec.valence_electrons
+        )
     return row, pattern_key(comp, geo.symbol, limit)
 
 
@@ -169,8 +180,21 @@ def screen(
 
 
 #: Column headers of the batch table (text, CSV).
-HEADER = ["#", "label", "formula", "metal", "oxidation state", "d", "VE", "geometry", "geometric isomers",
-          "stereoisomers", "point groups", "IR bands", "error"]
+HEADER = [
+    "#",
+    "label",
+    "formula",
+    "metal",
+    "oxidation state",
+    "d",
+    "VE",
+    "geometry",
+    "geometric isomers",
+    "stereoisomers",
+    "point groups",
+    "IR bands",
+    "error",
+]
 
 
 def _s(x: Any) -> str:
@@ -180,9 +204,21 @@ def _s(x: Any) -> str:
 def row_cells(r: BatchRow) -> list[str]:
     pgs = " ".join(f"{i}:{g}" for i, g in r.point_groups)
     bands = " ".join(f"{i}:{c}={n}" for i, c, n in r.ir_bands)
-    return [str(r.index + 1), r.label, r.formula, _s(r.metal), _s(r.oxidation_state), _s(r.d_electrons),
-            _s(r.valence_electrons), _s(r.geometry), _s(r.geometric_isomers), _s(r.stereoisomers), pgs, bands,
-            r.error or ""]
+    return [
+        str(r.index + 1),
+        r.label,
+        r.formula,
+        _s(r.metal),
+        _s(r.oxidation_state),
+        _s(r.d_electrons),
+        _s(r.valence_electrons),
+        _s(r.geometry),
+        _s(r.geometric_isomers),
+        _s(r.stereoisomers),
+        pgs,
+        bands,
+        r.error or "",
+    ]
 
 
 def row_to_dict(r: BatchRow) -> dict[str, Any]:

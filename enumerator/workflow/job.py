@@ -24,9 +24,10 @@ entry and the key.
 
 from __future__ import annotations
 
+from collections.abc import Sequence
 from dataclasses import dataclass
 from pathlib import Path
-from typing import Any, Sequence
+from typing import Any
 
 from enumerator.errors import InputError
 from enumerator.workflow.pipeline import Request, run
@@ -65,7 +66,9 @@ def _keys(table: dict, where: str, allowed: Sequence[str], required: Sequence[st
     for k in table:
         if k not in allowed:
             near = closest_names(k, allowed)
-            raise _bad(where, f"unknown key '{k}'", f"did you mean '{near[0]}'?" if near else f"allowed: {', '.join(allowed)}")
+            raise _bad(
+                where, f"unknown key '{k}'", f"did you mean '{near[0]}'?" if near else f"allowed: {', '.join(allowed)}"
+            )
 
 
 def _pairs(value: Any, where: str, key: str, example: str) -> tuple[tuple[str, str], ...]:
@@ -175,7 +178,7 @@ def render_job(job: Job, results: Sequence[tuple[JobEntry, Result]], fmt: str) -
     if fmt == "table":
         from enumerator.render.text import render
 
-        parts = ([job.title, "=" * len(job.title), ""] if job.title else [])
+        parts = [job.title, "=" * len(job.title), ""] if job.title else []
         for e, r in results:
             parts += [f"== {e.label} ==", render(r)]
         return "\n".join(parts)

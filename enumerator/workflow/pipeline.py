@@ -9,16 +9,16 @@ strings the stages together.  The CLI calls this; so may any script.
 from __future__ import annotations
 
 import importlib
-from dataclasses import dataclass, field, replace
-from typing import Callable, Mapping, Sequence
+from collections.abc import Callable, Sequence
+from dataclasses import dataclass, replace
 
-from enumerator.model.composition import Composition
 from enumerator.errors import InputError
-from enumerator.parse.abstract import looks_abstract, parse_abstract
-from enumerator.model.geometry import Geometry
 from enumerator.isomers.enumeration import Isomer, IsomerSet, enumerate_isomers, generate
-from enumerator.workflow.result import Result
+from enumerator.model.composition import Composition
+from enumerator.model.geometry import Geometry
+from enumerator.parse.abstract import looks_abstract, parse_abstract
 from enumerator.rules.ruleset import RuleSet, load_rules
+from enumerator.workflow.result import Result
 
 __all__ = ["Request", "STAGES", "analyse", "run", "prepare", "parse_formula", "apply_settings", "choose_geometry"]
 
@@ -190,7 +190,9 @@ def run(
         if req.limit is not None and len(iso.isomers) >= req.limit:
             notes.append(f"only the first {len(iso.isomers)} stereoisomers are listed (--limit)")
         else:
-            notes.append(f"only the first {len(iso.isomers)} stereoisomers are listed (the enumeration was interrupted)")
+            notes.append(
+                f"only the first {len(iso.isomers)} stereoisomers are listed (the enumeration was interrupted)"
+            )
     res = Result(composition=comp, geometry=geo, geometry_reason=reason, isomer_set=iso, notes=tuple(notes))
     for stage in STAGES:
         module, _, func = stage.partition(":")

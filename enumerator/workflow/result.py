@@ -9,12 +9,13 @@ analysis for its JSON keys, its table columns and its text sections.
 
 from __future__ import annotations
 
+from collections.abc import Mapping, Sequence
 from dataclasses import dataclass, field
-from typing import Any, Mapping, Protocol, Sequence, runtime_checkable
+from typing import Any, Protocol, runtime_checkable
 
+from enumerator.isomers.enumeration import IsomerSet
 from enumerator.model.composition import Composition
 from enumerator.model.geometry import Geometry
-from enumerator.isomers.enumeration import IsomerSet
 
 __all__ = ["Result", "Analysis", "Column", "Section", "SCHEMA_VERSION"]
 
