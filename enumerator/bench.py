@@ -291,10 +291,11 @@ def condensed_library(size: int, rng: random.Random | None = None) -> list[str]:
 
 def _own_screen(formulas: Iterable[str], cache: dict | None = None) -> Iterator[tuple[str, Any]]:
     """Fallback screen with a cache by composition pattern + geometry."""
+    from enumerator.analyses.centre import choose_geometry
     from enumerator.errors import IsosieveError
     from enumerator.isomers.enumeration import enumerate_isomers
+    from enumerator.parse.formula import parse_formula
     from enumerator.rules.ruleset import load_rules
-    from enumerator.workflow.pipeline import choose_geometry, parse_formula
 
     rules = load_rules()
     cache = {} if cache is None else cache
@@ -326,9 +327,10 @@ def _screen_function() -> tuple[Callable[..., Iterable[Any]], str]:
 def _parse_only(formulas: list[str]) -> float:
     """Seconds to parse every formula and choose its geometry: the floor a
     fully cached screen can reach."""
+    from enumerator.analyses.centre import choose_geometry
     from enumerator.errors import IsosieveError
+    from enumerator.parse.formula import parse_formula
     from enumerator.rules.ruleset import load_rules
-    from enumerator.workflow.pipeline import choose_geometry, parse_formula
 
     rules = load_rules()
     t = time.perf_counter()
@@ -342,8 +344,8 @@ def _parse_only(formulas: list[str]) -> float:
 
 def _patterns(formulas: list[str]) -> int:
     from enumerator.errors import IsosieveError
+    from enumerator.parse.formula import parse_formula
     from enumerator.rules.ruleset import load_rules
-    from enumerator.workflow.pipeline import parse_formula
 
     rules = load_rules()
     out = set()

@@ -24,8 +24,9 @@ from hypothesis import strategies as st
 
 from enumerator.errors import IsosieveError
 from enumerator.parse.abstract import parse_abstract
+from enumerator.parse.formula import parse_formula
 from enumerator.rules.ruleset import load_rules
-from enumerator.workflow.pipeline import Request, parse_formula, run
+from enumerator.workflow.pipeline import Request, run
 
 RULES = load_rules()
 #: ISOSIEVE_FUZZ_SCALE=20 runs twenty times the examples (a deep run, not for the suite)

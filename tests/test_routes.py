@@ -16,6 +16,7 @@ from enumerator.cli import main
 from enumerator.errors import InputError, RuleError
 from enumerator.isomers.counting import burnside_counts
 from enumerator.parse.abstract import parse_abstract
+from enumerator.parse.formula import parse_formula
 from enumerator.routes.core import (
     build_network,
     canonical_key,
@@ -30,7 +31,6 @@ from enumerator.routes.core import (
     route_json,
 )
 from enumerator.rules.ruleset import load_rules
-from enumerator.workflow.pipeline import parse_formula
 
 
 def _geo_shares(p):

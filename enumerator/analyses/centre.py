@@ -280,7 +280,11 @@ def choose_geometry(comp: Composition, rules: RuleSet, symbol: str | None) -> tu
         if symbol:
             g = rules.geometry(symbol)
             return g.symbol, f"{g.symbol} as requested"
-        return _abstract_reason(comp, rules)
+        g = rules.default_geometry(comp.donor_count)
+        return g.symbol, (
+            f"{g.symbol}: the default {g.name} for coordination number {comp.donor_count} "
+            "(an abstract centre has no d-electron count; use --geometry to choose another)"
+        )
     sym, reason, _ = default_geometry(comp, rules)
     if symbol:
         g = rules.geometry(symbol)

@@ -600,7 +600,7 @@ class Space:
             text = _condensed_formula(self.start.metal, parts, charge)
         comp = Composition(formula=text, parts=tuple(parts), metal=self.start.metal, charge=charge)
         try:
-            from enumerator.workflow.pipeline import parse_formula
+            from enumerator.parse.formula import parse_formula
 
             parsed = parse_formula(text, self.ruleset)
             if self.signature(parsed) == sig and all(self.kinds.get(k.name) == k for k in parsed.kinds):
@@ -928,7 +928,8 @@ def predict_step(
     """:func:`predict` from text: START (a formula, with a descriptor when it
     has several isomers) plus one entering ligand, under the named rule set
     or the applicable one of highest priority."""
-    from enumerator.workflow.pipeline import choose_geometry, parse_formula
+    from enumerator.analyses.centre import choose_geometry
+    from enumerator.parse.formula import parse_formula
 
     ruleset = load_rules(rules)
     formula, desc = parse_species(start_text)
@@ -1094,7 +1095,8 @@ def _node_id(formula: str, iso_id: str) -> str:
 
 
 def _prepare(start_text: str, target_text: str, geometry: str | None, ruleset: RuleSet):
-    from enumerator.workflow.pipeline import choose_geometry, parse_formula
+    from enumerator.analyses.centre import choose_geometry
+    from enumerator.parse.formula import parse_formula
 
     s_formula, s_desc = parse_species(start_text)
     t_formula, t_desc = parse_species(target_text)

@@ -12,12 +12,12 @@ import importlib
 from collections.abc import Callable, Sequence
 from dataclasses import dataclass, replace
 
-from enumerator.errors import InputError
+from enumerator.analyses.centre import choose_geometry
 from enumerator.isomers.enumeration import Isomer, IsomerSet, enumerate_isomers, generate
 from enumerator.model.composition import Composition
 from enumerator.model.geometry import Geometry
-from enumerator.parse.abstract import looks_abstract, parse_abstract
-from enumerator.rules.ruleset import RuleSet, load_rules
+from enumerator.parse.formula import parse_formula
+from enumerator.rules.ruleset import load_rules
 from enumerator.workflow.result import Result
 
 __all__ = ["Request", "STAGES", "analyse", "run", "prepare", "parse_formula", "apply_settings", "choose_geometry"]
@@ -55,50 +55,6 @@ STAGES: tuple[str, ...] = (
 )
 
 
-#: Element symbols that begin like the abstract notation's 'M' + a letter.
-_M_ELEMENTS = frozenset({"Mn", "Mo", "Mg", "Mt", "Md", "Mc"})
-#: Of those, the ones a real formula is likely to start with.
-_COMMON_M_ELEMENTS = frozenset({"Mn", "Mo", "Mg"})
-
-
-def parse_formula(text: str, rules: RuleSet) -> Composition:
-    """Parse the abstract letter notation or a condensed formula."""
-    if not text or not text.strip():
-        raise InputError("empty formula", "give a formula such as Ma4b2 or [RuCl2(CO)2(PPh3)2]")
-    if looks_abstract(text):
-        # 'Mn', 'Mo', 'Mg', ... also start like the abstract notation
-        # ("Mo(CO)6" reads as M + o + a chelate (CO)): a text that the ligand
-        # catalogue reads as a real formula is taken as one; otherwise it is
-        # the letter notation.
-        head = text.strip().lstrip("[")[:2]
-        from enumerator.parse.condensed import parse_condensed
-
-        if head in _M_ELEMENTS:
-            try:
-                return parse_condensed(text, rules, suggest=False)
-            except InputError:
-                pass
-        try:
-            return parse_abstract(text)
-        except InputError as abstract_error:
-            if head in _COMMON_M_ELEMENTS:
-                # neither reading works: for Mn/Mo/Mg the real formula is the
-                # likely intent, so its error (with suggestions) is the useful one
-                return parse_condensed(text, rules)
-            try:
-                return parse_condensed(text, rules, suggest=False)
-            except InputError:
-                raise abstract_error from None
-    try:
-        from enumerator.parse.condensed import parse_condensed  # real formulas (ligand catalogue)
-    except ImportError:  # pragma: no cover - until the catalogue lands
-        raise InputError(
-            f"'{text}' is not in the abstract notation (M followed by ligand letters)",
-            "write e.g. Ma2b2c2 or M(AA)2b2",
-        ) from None
-    return parse_condensed(text, rules)
-
-
 def apply_settings(
     comp: Composition,
     spans: Sequence[tuple[str, str]] = (),
@@ -115,22 +71,6 @@ def apply_settings(
     for name, cls in reporters:
         comp = comp.replace_kind(name, replace(comp.kind(name), reporter=cls))
     return comp
-
-
-def choose_geometry(comp: Composition, rules: RuleSet, symbol: str | None) -> tuple[str, str]:
-    """The geometry symbol and the reason for it."""
-    if comp.metal != "M":  # a real centre: from the coordination number and the d-electron count
-        from enumerator.analyses.centre import choose_geometry as centre_choice
-
-        return centre_choice(comp, rules, symbol)
-    if symbol:
-        g = rules.geometry(symbol)
-        return g.symbol, f"{g.symbol} as requested"
-    g = rules.default_geometry(comp.donor_count)
-    return g.symbol, (
-        f"{g.symbol}: the default {g.name} for coordination number {comp.donor_count} "
-        "(an abstract centre has no d-electron count; use --geometry to choose another)"
-    )
 
 
 def analyse(formula: str, geometry: str | None = None, **options) -> Result:

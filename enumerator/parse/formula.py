@@ -1,0 +1,54 @@
+"""One entry point for formulas: the abstract letter notation or a condensed
+real formula, whichever the text is.
+
+>>> from enumerator.rules import load_rules
+>>> parse_formula("Ma4b2", load_rules()).donor_count
+6
+>>> parse_formula("[Mo(CO)6]", load_rules()).metal
+'Mo'
+"""
+
+from __future__ import annotations
+
+from enumerator.errors import InputError
+from enumerator.model.composition import Composition
+from enumerator.parse.abstract import looks_abstract, parse_abstract
+from enumerator.parse.condensed import parse_condensed
+from enumerator.rules.ruleset import RuleSet
+
+__all__ = ["parse_formula"]
+
+
+#: Element symbols that begin like the abstract notation's 'M' + a letter.
+_M_ELEMENTS = frozenset({"Mn", "Mo", "Mg", "Mt", "Md", "Mc"})
+#: Of those, the ones a real formula is likely to start with.
+_COMMON_M_ELEMENTS = frozenset({"Mn", "Mo", "Mg"})
+
+
+def parse_formula(text: str, rules: RuleSet) -> Composition:
+    """Parse the abstract letter notation or a condensed formula."""
+    if not text or not text.strip():
+        raise InputError("empty formula", "give a formula such as Ma4b2 or [RuCl2(CO)2(PPh3)2]")
+    if looks_abstract(text):
+        # 'Mn', 'Mo', 'Mg', ... also start like the abstract notation
+        # ("Mo(CO)6" reads as M + o + a chelate (CO)): a text that the ligand
+        # catalogue reads as a real formula is taken as one; otherwise it is
+        # the letter notation.
+        head = text.strip().lstrip("[")[:2]
+        if head in _M_ELEMENTS:
+            try:
+                return parse_condensed(text, rules, suggest=False)
+            except InputError:
+                pass
+        try:
+            return parse_abstract(text)
+        except InputError as abstract_error:
+            if head in _COMMON_M_ELEMENTS:
+                # neither reading works: for Mn/Mo/Mg the real formula is the
+                # likely intent, so its error (with suggestions) is the useful one
+                return parse_condensed(text, rules)
+            try:
+                return parse_condensed(text, rules, suggest=False)
+            except InputError:
+                raise abstract_error from None
+    return parse_condensed(text, rules)
