@@ -21,13 +21,13 @@ import pytest
 
 from enumerator.errors import InputError
 from enumerator.isomers.enumeration import enumerate_isomers
+from enumerator.isomers.tables import table_for_isomer
 from enumerator.parse.abstract import parse_abstract
 from enumerator.rules.ruleset import load_rules
 from enumerator.symmetry.chartable import (
     character_table,
     format_character,
     named_table,
-    table_for_isomer,
     table_from_matrices,
 )
 

@@ -33,6 +33,7 @@ from functools import lru_cache
 from typing import Any
 
 from enumerator.errors import InputError, RuleError
+from enumerator.symmetry.linear import LINEAR_CORRELATION, LINEAR_IR, LINEAR_RAMAN
 from enumerator.workflow.result import Column, Section
 
 __all__ = [
@@ -51,13 +52,6 @@ __all__ = [
 #: Techniques from cheapest to dearest (routine solution IR first; Raman needs
 #: a separate instrument; 13C/15N NMR of reporters needs long runs or labelling).
 COST_ORDER = ("IR", "Raman", "NMR")
-
-_LINEAR_CORRELATION = {
-    "Dinfh": {"Ag": "Sigma_g+", "B1u": "Sigma_u+"},
-    "Cinfv": {"A1": "Sigma+"},
-}
-_LINEAR_IR = {"Sigma_u+", "Sigma+"}
-_LINEAR_RAMAN = {"Sigma_g+", "Sigma+"}
 
 
 # --------------------------------------------------------------------------
@@ -226,7 +220,8 @@ def stretch_modes(isomer, reporter_class: str) -> ModeSet:
 
 @lru_cache(maxsize=8192)
 def _modes(isomer, reporter_class: str) -> ModeSet:
-    from enumerator.symmetry.chartable import table_for_isomer, table_from_matrices
+    from enumerator.isomers.tables import table_for_isomer
+    from enumerator.symmetry.chartable import table_from_matrices
 
     sites = tuple(s.index for s in isomer.sites if s.reporter == reporter_class)
     geo = isomer.geometry
@@ -236,7 +231,7 @@ def _modes(isomer, reporter_class: str) -> ModeSet:
         proxy = table_from_matrices([ops[k].array for k in isomer.stabiliser], geo.vectors)
         mult = proxy.reduce([chars[k] for k in isomer.stabiliser])
         group = "Dinfh" if proxy.group == "D2h" else "Cinfv"
-        corr = _LINEAR_CORRELATION[group]
+        corr = LINEAR_CORRELATION[group]
         bad = [lab for lab in mult if lab not in corr]
         if bad:
             raise InputError(
@@ -247,8 +242,8 @@ def _modes(isomer, reporter_class: str) -> ModeSet:
         order = ["Sigma_g+", "Sigma+", "Sigma_u+"]
         labs.sort(key=lambda t: order.index(t[0]))
         species = " + ".join(lab if n == 1 else f"{n}{lab}" for lab, n in labs) or "0"
-        ir_sp = tuple(lab for lab, _ in labs if lab in _LINEAR_IR)
-        ra_sp = tuple(lab for lab, _ in labs if lab in _LINEAR_RAMAN)
+        ir_sp = tuple(lab for lab, _ in labs if lab in LINEAR_IR)
+        ra_sp = tuple(lab for lab, _ in labs if lab in LINEAR_RAMAN)
         return ModeSet(
             reporter_class,
             sites,
@@ -260,8 +255,8 @@ def _modes(isomer, reporter_class: str) -> ModeSet:
             ir_sp,
             ra_sp,
             tuple(x for x in ir_sp if x in ra_sp),
-            sum(n for lab, n in labs if lab in _LINEAR_IR),
-            sum(n for lab, n in labs if lab in _LINEAR_RAMAN),
+            sum(n for lab, n in labs if lab in LINEAR_IR),
+            sum(n for lab, n in labs if lab in LINEAR_RAMAN),
             environments(isomer, sites),
             f"linear: z along the molecular axis; species by correlation from the {proxy.group} proxy ({', '.join(f'{a} -> {b}' for a, b in corr.items())})",
         )
@@ -603,7 +598,7 @@ def stage(res, req) -> StretchAnalysis:
             classes.append(kind.reporter)
     isomers = res.isomers
     modes, nmr, axes, groups = [], [], [], []
-    from enumerator.symmetry.chartable import table_for_isomer
+    from enumerator.isomers.tables import table_for_isomer
 
     for iso in isomers:
         ms = tuple(stretch_modes(iso, c) for c in classes)

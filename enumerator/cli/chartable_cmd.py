@@ -61,8 +61,9 @@ def chartable(ctx, what, isomer_id, geometry, spans, as_json, out):
       isosieve chartable "Ma2b2c2" --isomer 2
       isosieve chartable "M(AA)2b2" --geometry OC-6
     """
+    from enumerator.isomers.tables import table_for_isomer
     from enumerator.render.jsonout import dumps
-    from enumerator.symmetry.chartable import GROUP_NAME, named_table, table_for_isomer
+    from enumerator.symmetry.chartable import GROUP_NAME, named_table
 
     if GROUP_NAME.match(what) and not isomer_id and not geometry:
         t = named_table(what)

@@ -24,7 +24,7 @@ import io
 import re
 from collections.abc import Sequence
 
-from enumerator.render.text import occupancy
+from enumerator.isomers.occupancy import occupancy
 from enumerator.workflow.result import Result
 
 __all__ = ["markdown", "csv", "latex", "rows", "latex_symbol", "latex_species", "latex_escape", "markdown_symbol"]

@@ -2,13 +2,12 @@
 
 from __future__ import annotations
 
-from collections import defaultdict
 from collections.abc import Sequence
 
-from enumerator.isomers.enumeration import Isomer
+from enumerator.isomers.occupancy import occupancy
 from enumerator.workflow.result import Result
 
-__all__ = ["table", "isomer_table", "isomer_rows", "occupancy", "render"]
+__all__ = ["table", "isomer_table", "isomer_rows", "render"]
 
 
 def table(header: Sequence[str], rows: Sequence[Sequence[str]], indent: str = "") -> str:
@@ -21,25 +20,6 @@ def table(header: Sequence[str], rows: Sequence[Sequence[str]], indent: str = ""
     out = [line(header), indent + "  ".join("-" * w for w in widths)]
     out += [line(r) for r in rows]
     return "\n".join(out)
-
-
-def occupancy(iso: Isomer) -> str:
-    """Which sites (1-based) each ligand holds, chelates as linked site tuples."""
-    by_unit: dict[int, list] = defaultdict(list)
-    for s in iso.sites:
-        by_unit[s.unit].append(s)
-    groups: dict[str, list[str]] = defaultdict(list)
-    order: list[str] = []
-    for unit in sorted(by_unit):
-        sites = sorted(by_unit[unit], key=lambda s: s.donor_index)
-        name = sites[0].ligand
-        if name not in groups:
-            order.append(name)
-        if len(sites) == 1:
-            groups[name].append(str(sites[0].index + 1))
-        else:
-            groups[name].append("(" + "-".join(str(s.index + 1) for s in sites) + ")")
-    return " ".join(f"{n}:{','.join(groups[n])}" for n in order)
 
 
 def isomer_rows(res: Result, wide: bool = True) -> tuple[list[str], list[list[str]]]:

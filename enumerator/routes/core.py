@@ -1162,7 +1162,7 @@ def build_network(
             for n, y in zip(ent_names, ys):
                 c[n] = c.get(n, 0) + y
             levels.setdefault(sum(xs), []).append(c)
-    from enumerator.render.text import occupancy
+    from enumerator.isomers.occupancy import occupancy
 
     nodes: list[tuple[str, tuple[tuple[str, Any], ...]]] = []
     edges: list[tuple[str, str, tuple[tuple[str, Any], ...]]] = []

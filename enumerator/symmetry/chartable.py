@@ -47,7 +47,6 @@ __all__ = [
     "Irrep",
     "CharacterTable",
     "character_table",
-    "table_for_isomer",
     "table_from_matrices",
     "named_table",
     "group_generators",
@@ -207,25 +206,6 @@ def character_table(geometry, op_indices: tuple[int, ...], ranks: tuple[int, ...
     if len(ops) <= 2:
         ranks = None
     return _geometry_table(geometry.vectors, ops, tuple(ranks) if ranks else None)
-
-
-def table_for_isomer(isomer) -> CharacterTable:
-    """The table of an isomer's full stabiliser (ties in the axis rule broken
-    by the ligands in formula order)."""
-    return character_table(isomer.geometry, tuple(isomer.stabiliser), isomer_ranks(isomer))
-
-
-def isomer_ranks(isomer) -> tuple[int, ...]:
-    """Per site, the formula rank of the ligand on it (ligand units are
-    numbered in formula order)."""
-    first: dict[str, int] = {}
-    for s in isomer.sites:
-        first[s.ligand] = min(first.get(s.ligand, 10**9), s.unit)
-    order = {name: k for k, name in enumerate(sorted(first, key=lambda n: first[n]))}
-    ranks = [0] * isomer.geometry.coordination_number
-    for s in isomer.sites:
-        ranks[s.index] = order[s.ligand]
-    return tuple(ranks)
 
 
 @lru_cache(maxsize=4096)

@@ -34,7 +34,7 @@ oscillator along its metal–ligand site direction.
   modes add their components.  Values are relative to the strongest band.
 * **Species.**  The oscillator space is split first into symmetry blocks by
   projection with the isomer's character table
-  (:func:`enumerator.symmetry.chartable.table_for_isomer`); each block is then
+  (:func:`enumerator.isomers.tables.table_for_isomer`); each block is then
   diagonalised, so every band carries exactly one Mulliken label even when
   two species happen to coincide.
 
@@ -558,21 +558,22 @@ def _table(isomer: Isomer):
 
     A linear centre's group is infinite; its stabiliser is carried by a
     finite D2h / C2v proxy whose species are correlated to D∞h / C∞v
-    (the correlation is the one of :mod:`enumerator.analyses.stretch`)."""
-    from enumerator.symmetry import chartable
+    (the correlation is :mod:`enumerator.symmetry.linear`)."""
+    from enumerator.isomers.tables import table_for_isomer
+    from enumerator.symmetry.chartable import table_from_matrices
 
     geo = isomer.geometry
     if not geo.linear:
-        table = chartable.table_for_isomer(isomer)
+        table = table_for_isomer(isomer)
         op_class = dict(zip(table.op_indices, table.class_of))
         return table, op_class, None, None, None
-    from enumerator.analyses.stretch import _LINEAR_CORRELATION, _LINEAR_IR, _LINEAR_RAMAN
+    from enumerator.symmetry.linear import LINEAR_CORRELATION, LINEAR_IR, LINEAR_RAMAN
 
     ops = geo.operations
-    proxy = chartable.table_from_matrices([ops[k].array for k in isomer.stabiliser], geo.vectors)
+    proxy = table_from_matrices([ops[k].array for k in isomer.stabiliser], geo.vectors)
     op_class = {k: proxy.class_of[pos] for pos, k in enumerate(isomer.stabiliser)}
     group = "Dinfh" if proxy.group == "D2h" else "Cinfv"
-    return proxy, op_class, _LINEAR_CORRELATION[group], _LINEAR_IR, _LINEAR_RAMAN
+    return proxy, op_class, LINEAR_CORRELATION[group], LINEAR_IR, LINEAR_RAMAN
 
 
 def _symmetry_blocks(isomer: Isomer, sites: tuple[int, ...]) -> tuple[tuple[_Block, ...], str | None, str | None]:

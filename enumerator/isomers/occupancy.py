@@ -1,0 +1,32 @@
+"""Which sites each ligand holds, in one short line (``CO:1,2 Cl:3,6 (en):(4-5)``).
+
+Sites are numbered from 1 as in every table; a chelate is written as its
+linked site tuple in donor order.
+"""
+
+from __future__ import annotations
+
+from collections import defaultdict
+
+from enumerator.isomers.enumeration import Isomer, Site
+
+__all__ = ["occupancy"]
+
+
+def occupancy(iso: Isomer) -> str:
+    """Which sites (1-based) each ligand holds, chelates as linked site tuples."""
+    by_unit: dict[int, list[Site]] = defaultdict(list)
+    for s in iso.sites:
+        by_unit[s.unit].append(s)
+    groups: dict[str, list[str]] = defaultdict(list)
+    order: list[str] = []
+    for unit in sorted(by_unit):
+        sites = sorted(by_unit[unit], key=lambda s: s.donor_index)
+        name = sites[0].ligand
+        if name not in groups:
+            order.append(name)
+        if len(sites) == 1:
+            groups[name].append(str(sites[0].index + 1))
+        else:
+            groups[name].append("(" + "-".join(str(s.index + 1) for s in sites) + ")")
+    return " ".join(f"{n}:{','.join(groups[n])}" for n in order)
