@@ -4,7 +4,8 @@ from __future__ import annotations
 
 import pytest
 
-from enumerator.analyses.centre import choose_geometry, count_electrons, group_of
+from enumerator.analyses.centre import choose_geometry, count_electrons
+from enumerator.model.elements import group_of
 from enumerator.parse.condensed import parse_condensed
 from enumerator.rules.ruleset import load_rules
 from enumerator.workflow.pipeline import Request, run

@@ -38,6 +38,7 @@ from typing import Any
 
 from enumerator.errors import InputError
 from enumerator.model.composition import Composition
+from enumerator.model.elements import atomic_number, group_of
 from enumerator.rules.ruleset import RuleSet
 from enumerator.workflow.result import Column, Section
 
@@ -51,33 +52,6 @@ __all__ = [
     "roman",
     "stage",
 ]
-
-_NOBLE = (0, 2, 10, 18, 36, 54, 86, 118)
-
-
-def group_of(z: int) -> tuple[int | None, str]:
-    """(IUPAC group 1-18 or None for the f-block, block letter) of atomic number ``z``."""
-    if not 1 <= z <= 118:
-        raise InputError(f"atomic number {z} is out of range", "use an element 1-118")
-    period = next(p for p in range(1, 8) if z <= _NOBLE[p])
-    off = z - _NOBLE[period - 1]
-    if period == 1:
-        return (1, "s") if z == 1 else (18, "p")
-    if period <= 3:
-        return (off, "s") if off <= 2 else (off + 10, "p")
-    if period <= 5:
-        if off <= 2:
-            return off, "s"
-        return (off, "d") if off <= 12 else (off, "p")
-    # periods 6 and 7: the f-block sits between groups 3 and 4
-    if off <= 2:
-        return off, "s"
-    if off == 3:
-        return 3, "d"  # La, Ac
-    if off <= 17:
-        return None, "f"
-    g = off - 14
-    return (g, "d") if g <= 12 else (g, "p")
 
 
 def roman(n: int) -> str:
@@ -128,9 +102,8 @@ def _meta(kind) -> dict[str, Any]:
 
 def count_electrons(comp: Composition) -> ElectronCount:
     """Oxidation state, d-count and valence electrons of a real composition."""
-    from enumerator.rules.ligands import element_symbols
 
-    z = element_symbols().get(comp.metal)
+    z = atomic_number(comp.metal) or None
     if z is None:
         raise InputError(
             f"'{comp.metal}' is not an element symbol", "write the metal as in the periodic table, e.g. Ru"

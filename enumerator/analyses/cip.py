@@ -57,6 +57,7 @@ from functools import lru_cache
 
 from enumerator.errors import InputError
 from enumerator.model.composition import Composition, LigandKind
+from enumerator.model.elements import atomic_number, atomic_weight
 
 __all__ = [
     "MAX_SPHERES",
@@ -108,21 +109,10 @@ class _Node:
 
 
 def _element(symbol: str) -> tuple[int, float]:
-    from rdkit import Chem
-
-    pt = Chem.GetPeriodicTable()
-    z = _symbols().get(symbol, 0)
+    z = atomic_number(symbol)
     if z <= 0:  # the abstract metal 'M': no element
         return 0, 0.0
-    return z, round(float(pt.GetAtomicWeight(z)), 4)
-
-
-@lru_cache(maxsize=1)
-def _symbols() -> dict[str, int]:
-    from rdkit import Chem
-
-    pt = Chem.GetPeriodicTable()
-    return {pt.GetElementSymbol(z): z for z in range(1, 119)}
+    return z, atomic_weight(z)
 
 
 def _lenient(smiles: str):

@@ -33,13 +33,13 @@ from functools import lru_cache
 
 from enumerator.errors import InputError
 from enumerator.model.composition import Composition, LigandKind
-from enumerator.rules.ligands import LigandEntry, all_spellings, element_symbols, load_ligands
+from enumerator.model.elements import element_symbols, is_metal
+from enumerator.rules.ligands import LigandEntry, all_spellings, load_ligands
 from enumerator.rules.ruleset import RuleSet, closest_names
 
-__all__ = ["parse_condensed", "is_metal", "METAL_FIX"]
+__all__ = ["parse_condensed", "METAL_FIX"]
 
 #: Atomic numbers of the non-metals and metalloids that cannot be the centre here.
-_NONMETALS = frozenset({1, 2, 5, 6, 7, 8, 9, 10, 14, 15, 16, 17, 18, 33, 34, 35, 36, 52, 53, 54, 85, 86, 117, 118})
 METAL_FIX = "write one metal symbol, e.g. [RuCl2(CO)2(PPh3)2]"
 
 _SUPERSCRIPT = str.maketrans("⁰¹²³⁴⁵⁶⁷⁸⁹", "0123456789")
@@ -47,12 +47,6 @@ _HAPTO = re.compile(r"(?:η\^?|eta\^?|h)([0-9⁰¹²³⁴⁵⁶⁷⁸⁹]+)-")
 _CHARGE = re.compile(r"(\d*)([+-])")
 _ELEMENT = re.compile(r"[A-Z][a-z]?")
 _WORD = re.compile(r"[A-Za-z0-9*'+-]+")
-
-
-def is_metal(symbol: str) -> bool:
-    """True for an element symbol (RDKit's periodic table) that is a metal."""
-    z = element_symbols().get(symbol)
-    return z is not None and z not in _NONMETALS
 
 
 @dataclass

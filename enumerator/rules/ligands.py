@@ -34,11 +34,12 @@ from pathlib import Path
 from typing import Any, Mapping
 
 from enumerator.model.composition import ARRANGEMENTS, LigandKind
+from enumerator.model.elements import element_symbols
 from enumerator.errors import InputError, RuleError
 from enumerator.model.geometry import SPANS
 from enumerator.rules.ruleset import RuleSet, check_keys, closest_names, read_toml
 
-__all__ = ["LigandEntry", "load_ligands", "find_ligand", "all_spellings", "REPORTER_NAME", "element_symbols"]
+__all__ = ["LigandEntry", "load_ligands", "find_ligand", "all_spellings", "REPORTER_NAME"]
 
 #: A reporter class name: letters and digits, starting with a capital.
 REPORTER_NAME = re.compile(r"^[A-Z][A-Za-z0-9]{0,7}$")
@@ -112,15 +113,6 @@ class LigandEntry:
             reporter=self.reporter,
             meta=self.meta(),
         )
-
-
-@lru_cache(maxsize=1)
-def element_symbols() -> dict[str, int]:
-    """Element symbol -> atomic number, from RDKit's periodic table."""
-    from rdkit import Chem
-
-    pt = Chem.GetPeriodicTable()
-    return {pt.GetElementSymbol(z): z for z in range(1, 119)}
 
 
 def _fail(where: str, what: str, fix: str) -> RuleError:

@@ -41,6 +41,7 @@ from functools import cache
 
 from enumerator.isomers.enumeration import Isomer
 from enumerator.model.composition import Composition, LigandKind
+from enumerator.model.elements import atomic_number, covalent_radius, is_element, vdw_radius
 
 __all__ = [
     "Structure",
@@ -102,18 +103,7 @@ def element_or_none(label: str) -> str | None:
     """
     if not label or not label[0].isupper():
         return None
-    return label if _atomic_number(label) else None
-
-
-@cache
-def _atomic_number(symbol: str) -> int:
-    from rdkit import Chem, rdBase
-
-    with rdBase.BlockLogs():
-        try:
-            return int(Chem.GetPeriodicTable().GetAtomicNumber(symbol))
-        except Exception:
-            return 0
+    return label if is_element(label) else None
 
 
 @cache
@@ -126,10 +116,7 @@ def bond_length(metal: str, donor: str) -> float:
     """
     if not element_or_none(metal) or not element_or_none(donor):
         return DUMMY_DISTANCE
-    from rdkit import Chem
-
-    pt = Chem.GetPeriodicTable()
-    return round(pt.GetRcovalent(metal) + pt.GetRcovalent(donor), 4)
+    return round(covalent_radius(metal) + covalent_radius(donor), 4)
 
 
 def _round(x: float) -> float:
@@ -225,7 +212,7 @@ def _core(isomer: Isomer, comp: Composition, reason: str, label: str) -> Structu
     title = _title(isomer, comp, "core", reason, label)
     rw = Chem.RWMol()
     for sym in symbols:
-        rw.AddAtom(Chem.Atom(0 if sym == "X" else _atomic_number(sym)))
+        rw.AddAtom(Chem.Atom(0 if sym == "X" else atomic_number(sym)))
     for k in range(1, len(symbols)):
         rw.AddBond(0, k, Chem.BondType.SINGLE)
     conf = Chem.Conformer(len(symbols))
@@ -475,10 +462,8 @@ def _fragments(mol) -> list[int]:
 
 def _vdw(mol):
     import numpy as np
-    from rdkit import Chem
 
-    pt = Chem.GetPeriodicTable()
-    return np.array([pt.GetRvdw(a.GetAtomicNum()) if a.GetAtomicNum() else 1.5 for a in mol.GetAtoms()])
+    return np.array([vdw_radius(a.GetAtomicNum()) if a.GetAtomicNum() else 1.5 for a in mol.GetAtoms()])
 
 
 #: Rotor search: angles tried per ligand and passes over the ligands.

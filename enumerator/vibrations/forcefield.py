@@ -61,6 +61,7 @@ import numpy as np
 
 from enumerator.errors import InputError, IsosieveError, RuleError
 from enumerator.isomers.enumeration import Isomer
+from enumerator.model.elements import is_element, isotope_mass
 from enumerator.rules.ruleset import RuleSet, check_keys, closest_names, load_rules, read_toml
 
 __all__ = [
@@ -214,22 +215,14 @@ def _atom_mass(text: str, where: str = "") -> float:
     return _mass(m.group(2), int(m.group(1) or 0), where)
 
 
-@lru_cache(maxsize=256)
 def _mass(symbol: str, isotope: int, where: str = "") -> float:
     """Mass (u) of an isotope, or of the most common isotope when 0 (RDKit's table)."""
-    from rdkit import Chem
-
-    pt = Chem.GetPeriodicTable()
-    try:
-        z = pt.GetAtomicNumber(symbol)
-    except Exception:  # RDKit raises a RuntimeError-like for unknown symbols
-        z = 0
-    if z <= 0:
+    if not is_element(symbol):
         raise RuleError(f"{where}: unknown element '{symbol}'", "use an element symbol such as C, N, O")
-    m = pt.GetMassForIsotope(z, isotope) if isotope else pt.GetMostCommonIsotopeMass(z)
-    if not m or m <= 0:
+    m = isotope_mass(symbol, isotope)
+    if m is None:
         raise RuleError(f"{where}: no mass known for isotope {isotope}{symbol}", "check the mass number")
-    return float(m)
+    return m
 
 
 @lru_cache(maxsize=256)

@@ -1,0 +1,127 @@
+"""Element data: one periodic-table helper for the whole package.
+
+Everything comes from RDKit's periodic table (symbols, atomic numbers,
+weights, isotope masses, covalent radii); the IUPAC group and block follow
+from the atomic number by the shape of the periodic table.  RDKit is imported
+on first use.
+
+>>> atomic_number("Ru"), atomic_number("M"), atomic_number("ru")
+(44, 0, 0)
+>>> group_of(44), group_of(26), group_of(58)
+((8, 'd'), (8, 'd'), (None, 'f'))
+>>> is_metal("Fe"), is_metal("P"), is_metal("Xx")
+(True, False, False)
+"""
+
+from __future__ import annotations
+
+from collections.abc import Mapping
+from functools import cache
+from types import MappingProxyType
+
+from enumerator.errors import InputError
+
+__all__ = [
+    "element_symbols",
+    "atomic_number",
+    "is_element",
+    "is_metal",
+    "group_of",
+    "atomic_weight",
+    "isotope_mass",
+    "covalent_radius",
+    "vdw_radius",
+    "NONMETALS",
+]
+
+#: Atomic numbers of the non-metals and metalloids a formula's head may not be
+#: (H, He, B, C, N, O, F, Ne, Si, P, S, Cl, Ar, As, Se, Br, Kr, Te, I, Xe, At, Rn,
+#: Ts, Og); common practice.
+NONMETALS = frozenset({1, 2, 5, 6, 7, 8, 9, 10, 14, 15, 16, 17, 18, 33, 34, 35, 36, 52, 53, 54, 85, 86, 117, 118})
+
+#: Atomic numbers that close each period (0 for the start).
+_NOBLE = (0, 2, 10, 18, 36, 54, 86, 118)
+
+
+def _table():
+    from rdkit import Chem
+
+    return Chem.GetPeriodicTable()
+
+
+@cache
+def element_symbols() -> Mapping[str, int]:
+    """Element symbol -> atomic number for elements 1-118 (read-only)."""
+    pt = _table()
+    return MappingProxyType({pt.GetElementSymbol(z): z for z in range(1, 119)})
+
+
+def atomic_number(symbol: str) -> int:
+    """The atomic number of an element symbol (exact case), 0 if it is not one."""
+    return element_symbols().get(symbol, 0)
+
+
+def is_element(label: str) -> bool:
+    """Whether ``label`` is an element symbol, exact case ('M' and letters are not)."""
+    return atomic_number(label) > 0
+
+
+def is_metal(symbol: str) -> bool:
+    """Whether ``symbol`` is an element outside :data:`NONMETALS`."""
+    z = atomic_number(symbol)
+    return z > 0 and z not in NONMETALS
+
+
+def group_of(z: int) -> tuple[int | None, str]:
+    """(IUPAC group 1-18, or None in the f-block; block letter) of atomic number ``z``."""
+    if not 1 <= z <= 118:
+        raise InputError(f"atomic number {z} is out of range", "use an element 1-118")
+    period = next(p for p in range(1, 8) if z <= _NOBLE[p])
+    off = z - _NOBLE[period - 1]
+    if period == 1:
+        return (1, "s") if z == 1 else (18, "p")
+    if period <= 3:
+        return (off, "s") if off <= 2 else (off + 10, "p")
+    if period <= 5:
+        if off <= 2:
+            return off, "s"
+        return (off, "d") if off <= 12 else (off, "p")
+    # periods 6 and 7: the f-block sits between groups 3 and 4
+    if off <= 2:
+        return off, "s"
+    if off == 3:
+        return 3, "d"  # La, Ac
+    if off <= 17:
+        return None, "f"
+    g = off - 14
+    return (g, "d") if g <= 12 else (g, "p")
+
+
+@cache
+def atomic_weight(z: int) -> float:
+    """Standard atomic weight (u) of element ``z``, rounded to 4 decimals."""
+    return round(float(_table().GetAtomicWeight(z)), 4)
+
+
+@cache
+def isotope_mass(symbol: str, isotope: int = 0) -> float | None:
+    """Mass (u) of an isotope, or of the most common isotope when ``isotope`` is 0;
+    None when the symbol or the isotope is unknown."""
+    z = atomic_number(symbol)
+    if z <= 0:
+        return None
+    pt = _table()
+    m = pt.GetMassForIsotope(z, isotope) if isotope else pt.GetMostCommonIsotopeMass(z)
+    return float(m) if m and m > 0 else None
+
+
+@cache
+def covalent_radius(symbol: str) -> float:
+    """RDKit's covalent radius (Å) of an element symbol."""
+    return float(_table().GetRcovalent(symbol))
+
+
+@cache
+def vdw_radius(z: int) -> float:
+    """RDKit's van der Waals radius (Å) of element ``z``."""
+    return float(_table().GetRvdw(z))
