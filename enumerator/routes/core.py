@@ -1511,7 +1511,7 @@ def _step_json(s: Step) -> dict[str, Any]:
 
 def route_json(plan: RoutePlan) -> dict[str, Any]:
     """The JSON document of ``isosieve route`` (keys listed in the README)."""
-    from enumerator.workflow.result import SCHEMA_VERSION
+    from enumerator.schema import SCHEMA_VERSION
 
     def route(r: Route) -> dict[str, Any]:
         return {

@@ -16,11 +16,10 @@ from typing import Any, Protocol, runtime_checkable
 from enumerator.isomers.enumeration import IsomerSet
 from enumerator.model.composition import Composition
 from enumerator.model.geometry import Geometry
+from enumerator.schema import SCHEMA_VERSION
 
 __all__ = ["Result", "Analysis", "Column", "Section", "SCHEMA_VERSION"]
 
-#: Bumped only when a key is removed or changes meaning; new keys do not bump it.
-SCHEMA_VERSION = 1
 
 
 @dataclass(frozen=True)
