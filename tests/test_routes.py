@@ -17,20 +17,14 @@ from enumerator.errors import InputError, RuleError
 from enumerator.isomers.counting import burnside_counts
 from enumerator.parse.abstract import parse_abstract
 from enumerator.parse.formula import parse_formula
-from enumerator.routes.core import (
-    build_network,
-    canonical_key,
-    enumerate_isomers_cached,
-    load_substitution_rules,
-    network_graphml,
-    network_json,
-    parse_species,
-    plan_routes,
-    predict,
-    predict_step,
-    route_json,
-)
+from enumerator.render.network import network_graphml
+from enumerator.routes.keys import canonical_key, enumerate_isomers_cached
+from enumerator.routes.naming import parse_species
+from enumerator.routes.network import build_network
+from enumerator.routes.planner import plan_routes
+from enumerator.routes.prediction import predict, predict_step
 from enumerator.rules.ruleset import load_rules
+from enumerator.rules.substitution import load_substitution_rules
 
 
 def _geo_shares(p):
@@ -98,7 +92,7 @@ def test_trans_isomer_not_reached_from_tetrachloroplatinate():
     # same textbook account: [PtCl4]2- + 2 NH3 does not give the trans isomer
     plan = plan_routes("[PtCl4]2-", "trans-[PtCl2(NH3)2]")
     assert plan.reaching == ()
-    assert route_json(plan)["reached"] is False
+    assert plan.to_dict()["reached"] is False
 
 
 @pytest.mark.parametrize(
@@ -150,7 +144,7 @@ def test_carbonyl_routes_carry_cautions(capsys):
     main(["route", "[MnBr(CO)5]", "--target", "cis-[MnBr(CO)4(PPh3)]", "--json"])
     doc = json.loads(capsys.readouterr().out)
     assert any("carbon monoxide" in line.lower() for line in doc["safety"])
-    assert network_json(build_network("[Cr(CO)6]", "[Cr(CO)5(PPh3)]"))["safety"]
+    assert build_network("[Cr(CO)6]", "[Cr(CO)5(PPh3)]").to_dict()["safety"]
     assert plan_routes("Ma4", "cis-Ma2b2", geometry="SP-4").safety == ()
 
 
@@ -319,10 +313,10 @@ def test_network_nodes_and_weights(start, target, geometry):
         assert per_formula[formula] == n == enumerate_isomers_cached(comp, geo).stereoisomers
         assert n == burnside_counts(comp, geo)[1]
     out = defaultdict(int)
-    for a, b, attrs in net.edges:
+    for a, _, attrs in net.edges:
         e = dict(attrs)
         out[(a, e["entering"], e["leaving"])] += e["weight"]
-    for (a, entering, leaving), total in out.items():
+    for (a, _, leaving), total in out.items():
         formula = dict(nodes[a])["formula"]
         comp = parse_formula(formula, rs)
         # weights out of a node for one replacement = sites the leaving ligand holds (counting)
@@ -333,7 +327,7 @@ def test_network_exports(tmp_path):
     import networkx as nx
 
     net = build_network("Ma6", "Ma4b2")
-    doc = network_json(net)
+    doc = net.to_dict()
     assert len(doc["nodes"]) == 4 and len(doc["edges"]) == 3  # Ma6, Ma5b, cis/trans-Ma4b2 (counting)
     g = nx.node_link_graph(doc, edges="edges")
     cis = next(n for n, d in g.nodes(data=True) if d["formula"] == "Ma4b2" and d["prefix"] == "cis")
