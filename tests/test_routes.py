@@ -13,24 +13,24 @@ from fractions import Fraction
 import pytest
 
 from enumerator.cli import main
-from enumerator.errors import InputError, RuleError
+from enumerator.errors import InputError
 from enumerator.isomers.counting import burnside_counts
 from enumerator.parse.abstract import parse_abstract
 from enumerator.parse.formula import parse_formula
-from enumerator.routes.core import (
-    build_network,
+from enumerator.render.network import network_graphml, network_picture, network_svg, network_text
+from enumerator.routes.keys import (
     canonical_key,
+    decoration,
     enumerate_isomers_cached,
-    load_substitution_rules,
-    network_graphml,
-    network_json,
-    parse_species,
-    plan_routes,
-    predict,
-    predict_step,
-    route_json,
+    isomer_index,
+    replace_site,
 )
+from enumerator.routes.naming import parse_species, resolve_species
+from enumerator.routes.network import build_network
+from enumerator.routes.planner import plan_routes
+from enumerator.routes.prediction import predict, predict_step
 from enumerator.rules.ruleset import load_rules
+from enumerator.rules.substitution import load_substitution_rules
 
 
 def _geo_shares(p):
@@ -98,7 +98,7 @@ def test_trans_isomer_not_reached_from_tetrachloroplatinate():
     # same textbook account: [PtCl4]2- + 2 NH3 does not give the trans isomer
     plan = plan_routes("[PtCl4]2-", "trans-[PtCl2(NH3)2]")
     assert plan.reaching == ()
-    assert route_json(plan)["reached"] is False
+    assert plan.to_dict()["reached"] is False
 
 
 @pytest.mark.parametrize(
@@ -150,7 +150,7 @@ def test_carbonyl_routes_carry_cautions(capsys):
     main(["route", "[MnBr(CO)5]", "--target", "cis-[MnBr(CO)4(PPh3)]", "--json"])
     doc = json.loads(capsys.readouterr().out)
     assert any("carbon monoxide" in line.lower() for line in doc["safety"])
-    assert network_json(build_network("[Cr(CO)6]", "[Cr(CO)5(PPh3)]"))["safety"]
+    assert build_network("[Cr(CO)6]", "[Cr(CO)5(PPh3)]").to_dict()["safety"]
     assert plan_routes("Ma4", "cis-Ma2b2", geometry="SP-4").safety == ()
 
 
@@ -276,24 +276,6 @@ def test_target_without_descriptor_is_a_clear_error(capsys):
     assert err.count("\n") == 1 and "needs a descriptor" in err
 
 
-def test_bad_rule_files_name_file_and_key(tmp_path):
-    cases = {
-        "bad-mode": LETTERS_TRANS.replace('labilises = "trans"', 'labilises = "sideways"'),
-        "bad-geo": LETTERS_TRANS.replace('["SP-4"]', '["SP-5"]'),
-        "twice": LETTERS_TRANS.replace('["c", "a", "b"]', '["c", "a", "c"]'),
-        "missing": LETTERS_TRANS.replace('ties = "statistical"', ""),
-        "typo": LETTERS_TRANS + "priorty = 3\n",
-    }
-    expect = {"bad-mode": "labilises", "bad-geo": "SP-5", "twice": "twice", "missing": "ties", "typo": "priority"}
-    for name, body in cases.items():
-        folder = tmp_path / name
-        folder.mkdir()
-        _write_rules(folder, "r", body)
-        with pytest.raises(RuleError) as exc:
-            load_substitution_rules(load_rules([str(folder)]))
-        assert str(folder) in str(exc.value) and expect[name] in str(exc.value)
-
-
 # ---------------------------------------------------------------- network structure
 
 
@@ -319,10 +301,10 @@ def test_network_nodes_and_weights(start, target, geometry):
         assert per_formula[formula] == n == enumerate_isomers_cached(comp, geo).stereoisomers
         assert n == burnside_counts(comp, geo)[1]
     out = defaultdict(int)
-    for a, b, attrs in net.edges:
+    for a, _, attrs in net.edges:
         e = dict(attrs)
         out[(a, e["entering"], e["leaving"])] += e["weight"]
-    for (a, entering, leaving), total in out.items():
+    for (a, _, leaving), total in out.items():
         formula = dict(nodes[a])["formula"]
         comp = parse_formula(formula, rs)
         # weights out of a node for one replacement = sites the leaving ligand holds (counting)
@@ -333,7 +315,7 @@ def test_network_exports(tmp_path):
     import networkx as nx
 
     net = build_network("Ma6", "Ma4b2")
-    doc = network_json(net)
+    doc = net.to_dict()
     assert len(doc["nodes"]) == 4 and len(doc["edges"]) == 3  # Ma6, Ma5b, cis/trans-Ma4b2 (counting)
     g = nx.node_link_graph(doc, edges="edges")
     cis = next(n for n, d in g.nodes(data=True) if d["formula"] == "Ma4b2" and d["prefix"] == "cis")
@@ -367,3 +349,80 @@ def test_canonical_key_tells_enantiomers_apart():
     a, b = s.get("1a"), s.get("1b")
     assert canonical_key(a, geo) != canonical_key(b, geo)
     assert canonical_key(a, geo, proper=False) == canonical_key(b, geo, proper=False)
+
+
+def test_product_index_is_read_only_and_finds_the_replaced_decoration():
+    # project rule: caches return immutable data; site relations (common practice):
+    # an a cis to both b of trans-Ma4b2 replaced by b gives mer-Ma3b3
+    rs = load_rules()
+    geo = rs.geometry("OC-6")
+    comp = parse_abstract("Ma4b2")
+    index = isomer_index(comp, geo)
+    with pytest.raises(TypeError):
+        index[()] = "x"  # type: ignore[index]
+    cis, trans = enumerate_isomers_cached(comp, geo).isomers
+    kinds = {k.name: k for k in comp.kinds}
+    deco = replace_site(decoration(trans), 0, "a", "b")
+    mer = enumerate_isomers_cached(parse_abstract("Ma3b3"), geo).isomers[1]
+    assert canonical_key(deco, geo, kinds) == canonical_key(mer, geo)
+
+
+def test_resolve_species_refuses_what_it_cannot_name():
+    rs = load_rules()
+    comp = parse_abstract("Ma4b2")
+    iset = enumerate_isomers_cached(comp, rs.geometry("OC-6"))
+    assert [i.id for i in resolve_species(iset, comp, "trans", role="target")] == ["2"]
+    with pytest.raises(InputError, match="needs a descriptor"):
+        resolve_species(iset, comp, None, role="start")
+    with pytest.raises(InputError, match="no isomer of Ma4b2 is 'fac'"):
+        resolve_species(iset, comp, "fac", role="target")
+
+
+def test_prediction_json_and_major_sites():
+    # Atwood & Brown (1976), as above: the CO cis to Br are replaced
+    p = predict_step("[MnBr(CO)5]", "PPh3")
+    doc = p.to_dict()
+    assert list(doc) == [
+        "start",
+        "entering",
+        "rule_set",
+        "safety",
+        "decided_by",
+        "reason",
+        "major",
+        "shares",
+        "statistical_shares",
+        "sites",
+    ]
+    assert doc["rule_set"]["name"] == "cis-labilisation" and doc["major"]["prefix"] == "cis"
+    assert len(p.major_sites) == 4  # four CO cis to Br (counting)
+    assert {c.leaving for c in p.major_sites} == {"CO"}
+
+
+def test_route_plan_json_keys_in_order():
+    plan = plan_routes("[PtCl4]2-", "cis-[PtCl2(NH3)2]")
+    doc = plan.to_dict()
+    assert list(doc)[:2] == ["schema_version", "geometry"]
+    step = doc["routes"][0]["steps"][1]
+    assert list(step) == [
+        "step",
+        "entering",
+        "leaving",
+        "from",
+        "to",
+        "replaced_sites",
+        "decided_by",
+        "reason",
+        "shares",
+    ]
+    assert step["replaced_sites"] == [1, 3]  # the two Cl trans to Cl (Housecroft & Sharpe, as above)
+
+
+def test_network_renderers(tmp_path):
+    net = build_network("Ma4", "Ma2b2", geometry="SP-4")
+    g = net.to_graph()
+    assert g.number_of_nodes() == len(net.nodes) and g.number_of_edges() == len(net.edges)
+    text = network_text(net)
+    assert text.startswith("Network Ma4 -> Ma2b2 on SP-4\n") and "Ma3b #1" in text
+    assert network_svg(net) == network_svg(net)  # project rule: same input, same bytes
+    assert network_picture(net, "png")[:4] == b"\x89PNG"

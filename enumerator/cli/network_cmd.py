@@ -1,4 +1,9 @@
-"""``isosieve network``: the substitution network between two compositions."""
+"""``isosieve network``: the substitution network between two compositions.
+
+The command parses its options, calls :func:`enumerator.routes.network.build_network`
+and hands the network to a renderer of :mod:`enumerator.render.network`
+(text, JSON, GraphML, SVG or PNG).
+"""
 
 from __future__ import annotations
 
@@ -46,7 +51,8 @@ def network(ctx, start, target, geometry, fmt, as_json, out):
       isosieve network Ma4 --target Ma2b2 --geometry SP-4 --out net.svg
     """
     from enumerator.errors import InputError
-    from enumerator.routes.core import build_network
+    from enumerator.render.network import network_graphml, network_json, network_picture, network_svg, network_text
+    from enumerator.routes.network import build_network
 
     if as_json:
         fmt = "json"
@@ -56,54 +62,13 @@ def network(ctx, start, target, geometry, fmt, as_json, out):
     if fmt == "png" and not out:
         raise InputError("PNG output is binary", "give --out FILE.png (or use --format svg)")
     net = build_network(start, target, geometry=geometry, rules=rules_of(ctx))
-    if fmt == "json":
-        from enumerator.render.jsonout import dumps
-        from enumerator.routes.core import network_json
-
-        emit(dumps(network_json(net)), out)
-    elif fmt == "graphml":
-        from enumerator.routes.core import network_graphml
-
-        emit(network_graphml(net), out)
-    elif fmt == "svg":
-        from enumerator.routes.core import network_picture
-
-        emit(network_picture(net, "svg").decode("utf-8"), out)
-    elif fmt == "png":
-        from enumerator.routes.core import network_picture
-
+    if fmt == "png":
         write_atomic_bytes(out, network_picture(net, "png"))
-    else:
-        emit(_text(net), out)
-
-
-def _text(net) -> str:
-    from enumerator.render.text import table
-
-    lines = [f"Network {net.start} -> {net.target} on {net.geometry}", ""]
-    lines.append(table(["composition", "stereoisomers"], [[f, str(n)] for f, n in net.compositions]))
-    lines.append("")
-    rows = []
-    for nid, attrs in net.nodes:
-        a = dict(attrs)
-        rows.append(
-            [
-                str(a["level"]),
-                a["formula"],
-                a["isomer"],
-                a["point_group"],
-                a["prefix"] or "-",
-                a["descriptor"] or "-",
-                a["sites"],
-            ]
-        )
-    lines.append(table(["step", "formula", "isomer", "point group", "prefix", "descriptor", "sites"], rows))
-    lines.append("")
-    rows = []
-    for a, b, attrs in net.edges:
-        e = dict(attrs)
-        rows.append([a, b, f"+{e['entering']} -{e['leaving']}", str(e["weight"]), e["share"], e["sites"]])
-    lines.append(table(["from", "to", "replacement", "weight", "share", "leaving sites"], rows))
-    if net.safety:
-        lines += ["", "Safety:"] + [f"- {x}" for x in net.safety]
-    return "\n".join(lines) + "\n"
+        return
+    renderers = {
+        "json": network_json,
+        "graphml": network_graphml,
+        "svg": network_svg,
+        "text": network_text,
+    }
+    emit(renderers[fmt](net), out)

@@ -1,5 +1,10 @@
 """``isosieve route``: orders of ligand addition that reach a target isomer,
-and single-step product prediction (``--add``)."""
+and single-step product prediction (``--add``).
+
+The command parses its options, calls :func:`enumerator.routes.planner.plan_routes`
+or :func:`enumerator.routes.prediction.predict_step`, and hands the result to
+:mod:`enumerator.render.routes` (text) or to its own ``to_dict()`` (``--json``).
+"""
 
 from __future__ import annotations
 
@@ -14,7 +19,10 @@ from enumerator.cli.common import emit, rules_of
     "-t",
     "--target",
     metavar="TARGET",
-    help='Target formula with a descriptor: cis-/trans-/fac-/mer- or a configuration index, e.g. "cis-[PtCl2(NH3)2]" or "(OC-6-22)-Ma4b2".',
+    help=(
+        "Target formula with a descriptor: cis-/trans-/fac-/mer- or a configuration index,"
+        ' e.g. "cis-[PtCl2(NH3)2]" or "(OC-6-22)-Ma4b2".'
+    ),
 )
 @click.option(
     "--add", "add", metavar="LIGAND", help="Instead of planning: predict the products of adding one LIGAND to START."
@@ -59,6 +67,7 @@ def route(ctx, start, target, add, leaving, geometry, rule_set, as_json, out):
       isosieve --rules myrules route Ma4 --target cis-Ma2b2 --geometry SP-4
     """
     from enumerator.errors import InputError
+    from enumerator.render.jsonout import dumps
 
     if bool(target) == bool(add):
         raise InputError(
@@ -67,124 +76,14 @@ def route(ctx, start, target, add, leaving, geometry, rule_set, as_json, out):
     if leaving and not add:
         raise InputError("--leaving goes with --add", "drop --leaving, or use --add LIGAND")
     if add:
-        from enumerator.routes.core import predict_step
+        from enumerator.render.routes import prediction_text
+        from enumerator.routes.prediction import predict_step
 
         p = predict_step(start, add, leaving=leaving or None, geometry=geometry, rule_set=rule_set, rules=rules_of(ctx))
-        if as_json:
-            from enumerator.render.jsonout import dumps
-            from enumerator.routes.core import prediction_json
-
-            emit(dumps(prediction_json(p)), out)
-        else:
-            emit(_prediction_text(p), out)
+        emit(dumps(p.to_dict()) if as_json else prediction_text(p), out)
         return
-    from enumerator.routes.core import plan_routes
+    from enumerator.render.routes import plan_text
+    from enumerator.routes.planner import plan_routes
 
     plan = plan_routes(start, target, geometry=geometry, rule_set=rule_set, rules=rules_of(ctx))
-    if as_json:
-        from enumerator.render.jsonout import dumps
-        from enumerator.routes.core import route_json
-
-        emit(dumps(route_json(plan)), out)
-    else:
-        emit(_plan_text(plan), out)
-
-
-def _head(rules, reason: str) -> list[str]:
-    return [
-        f"Rule set:  {rules.name} - {rules.title}",
-        f"           source: {rules.source}",
-        f"           chosen: {reason}",
-        f"           ties: {rules.ties}",
-    ]
-
-
-def _prediction_text(p) -> str:
-    from enumerator.render.text import table
-
-    lines = [f"Start:     {p.start.label()}", f"Entering:  {p.entering}", *_head(p.rules, p.rules_reason)]
-    lines.append("")
-    rows = [[prod.label(), prod.descriptor or "-", str(share)] for prod, share in p.by_geometric_isomer("statistical")]
-    lines.append("Statistical shares (every replaceable site alike):")
-    lines.append(table(["product", "descriptor", "share"], rows, indent="  "))
-    lines.append("")
-    rows = [
-        [
-            str(c.site + 1),
-            c.leaving,
-            ", ".join(c.labilisers) or "-",
-            f"{c.product.formula} #{c.product.isomer}",
-            "yes" if c.selected else "",
-        ]
-        for c in p.sites
-    ]
-    lines.append("Replaceable sites:")
-    lines.append(table(["site", "leaving", "decided by ligands", "product", "picked"], rows, indent="  "))
-    lines.append("")
-    if p.major is not None:
-        lines.append(f"Major product: {p.major.label()}")
-    else:
-        lines.append("Major product: none (the step is undecided under this rule set)")
-    lines.append(f"Why: {p.reason}")
-    lines.extend(_safety(p.safety))
-    return "\n".join(lines) + "\n"
-
-
-def _safety(lines) -> list[str]:
-    return (["", "Safety:"] + [f"- {x}" for x in lines]) if lines else []
-
-
-def _plan_text(plan) -> str:
-    lines = [
-        f"Start:     {plan.start.label()}",
-        f"Target:    {plan.target.label()}" + (f" {plan.target.descriptor}" if plan.target.descriptor else ""),
-        f"Geometry:  {plan.geometry_reason}",
-        *_head(plan.rules, plan.rules_reason),
-        "Adds "
-        + ", ".join(f"{n} {k}" for k, n in plan.entering)
-        + "; removes "
-        + ", ".join(f"{n} {k}" for k, n in plan.leaving)
-        + f"; {len(plan.routes)} order{'s' if len(plan.routes) != 1 else ''} of addition searched.",
-        "",
-    ]
-    reaching = plan.reaching
-    if not reaching:
-        lines.append(f"No order of addition reaches {plan.target.label()} under the rule set '{plan.rules.name}'.")
-        lines.append("")
-    for k, r in enumerate(reaching, start=1):
-        lines.append(f"Route {k}: " + ", ".join(f"+{e}" for e in r.order) + " -> reaches the target")
-        lines.extend(_steps(r))
-        lines.append("")
-    others = [r for r in plan.routes if not r.reaches_target]
-    if others:
-        lines.append("Orders that do not reach the target:")
-        for r in others:
-            lines.append("  " + ", ".join(f"+{e}" for e in r.order) + f": {r.outcome}")
-            lines.extend("  " + s for s in _steps(r))
-        lines.append("")
-    for n in plan.notes:
-        lines.append(f"Note: {n}")
-    lines.extend(_safety(plan.safety))
-    return "\n".join(lines).rstrip("\n") + "\n"
-
-
-def _steps(r) -> list[str]:
-    out = []
-    for s in r.steps:
-        p = s.prediction
-        if p.major is None:
-            out.append(f"  {s.number}. +{s.entering}: no single major product; {p.reason}")
-            continue
-        chosen = sorted(
-            c.site + 1
-            for c in p.sites
-            if c.selected and c.product.formula == p.major.formula and c.product.number == p.major.number
-        )
-        leaving = next(
-            c.leaving
-            for c in p.sites
-            if c.selected and c.product.formula == p.major.formula and c.product.number == p.major.number
-        )
-        where = f"site {chosen[0]}" if len(chosen) == 1 else "any of sites " + ", ".join(map(str, chosen))
-        out.append(f"  {s.number}. +{s.entering} replaces {leaving} at {where} -> {p.major.label()}; {p.reason}")
-    return out
+    emit(dumps(plan.to_dict()) if as_json else plan_text(plan), out)
