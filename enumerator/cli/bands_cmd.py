@@ -68,7 +68,7 @@ def bands(ctx, formula, geometry, reporters, klass, isomer_id, constants, fit, f
     from enumerator.errors import InputError
     from enumerator.render.jsonout import dumps
     from enumerator.render.text import table
-    from enumerator.vibrations.forcefield import band_pattern, parse_constants, reporter_classes
+    from enumerator.vibrations import band_pattern, parse_constants, reporter_classes
 
     comp, iso_set, reason = bc.load_set(formula, geometry, parse_pairs(reporters, "--reporter", "a=CO"), rules_of(ctx))
     from enumerator.rules.ruleset import load_rules
@@ -94,12 +94,12 @@ def bands(ctx, formula, geometry, reporters, klass, isomer_id, constants, fit, f
             use = params
             if params and not isomer_id:
                 # set names k1, k2, ... differ between isomers: apply those this isomer has
-                from enumerator.vibrations.forcefield import build_model
+                from enumerator.vibrations.model import build_model
 
                 names = set(build_model(iso, c, rules).parameter_names) | {"k", "kc", "kt"}
                 use = {n: v for n, v in params.items() if n in names or not (n[:1] == "k" and n[1:].isdigit())}
             pat = band_pattern(iso, c, use, rules=rules)
-            pj = pat.to_json()
+            pj = pat.to_dict()
             lines.append(
                 f"isomer {name} ({', '.join(x for x in (desc.get(iso.id), iso.point_group) if x)}), {c}: {pat.species or 'species not given'}"
             )
@@ -130,7 +130,7 @@ def bands(ctx, formula, geometry, reporters, klass, isomer_id, constants, fit, f
                     )
                 fixed = {k: float(v) for k, v in parse_pairs(fixes, "--fix", "kt=0.6")}
                 fr = fit_constants(iso, c, parse_bands(fit, "--fit"), fixed=fixed, tie_ck=ck, start=params, rules=rules)
-                pj["fit"] = fr.to_json()
+                pj["fit"] = fr.to_dict()
                 lines.append("  fit:")
                 for n_, v, s, how in fr.constants:
                     lines.append(f"    {n_} = {v:.3f}" + (f" ± {s:.3f}" if s is not None else "") + f" ({how})")

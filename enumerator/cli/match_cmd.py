@@ -88,7 +88,7 @@ def match(ctx, formula, bands_text, tolerance, weak, geometry, reporters, klass,
     )
     safety = list(bc.cautions(comp))
     if plot:
-        from enumerator.vibrations.forcefield import band_pattern
+        from enumerator.vibrations.pattern import band_pattern
 
         panels = []
         for c in res.candidates:
@@ -104,7 +104,7 @@ def match(ctx, formula, bands_text, tolerance, weak, geometry, reporters, klass,
         bc.write_plot(plot, panels, list(res.measured), tolerance)
     if as_json:
         doc = {"formula": comp.formula, "geometry": iso_set.geometry.symbol, "geometry_reason": reason}
-        doc.update(res.to_json())
+        doc.update(res.to_dict())
         doc["safety"] = safety
         emit(dumps(doc), out)
         return

@@ -254,7 +254,7 @@ def spectrum_svg(bands: Sequence[Any], label: str = "", width: int = 340, height
 
 def _spectra_html(iso: Isomer, rules) -> str:
     try:
-        from enumerator.vibrations.forcefield import predict_bands, reporter_classes
+        from enumerator.vibrations import predict_bands, reporter_classes
     except ImportError:
         return ""
     from enumerator.errors import IsosieveError
