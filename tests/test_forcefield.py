@@ -9,7 +9,8 @@ from enumerator.isomers.enumeration import enumerate_isomers
 from enumerator.parse.abstract import parse_abstract
 from enumerator.rules.ruleset import load_rules
 from enumerator.vibrations.fitting import fit_constants
-from enumerator.vibrations.forcefield import WAVENUMBER_FACTOR, band_pattern, predict_bands
+from enumerator.vibrations.pattern import band_pattern, predict_bands
+from enumerator.vibrations.solver import WAVENUMBER_FACTOR
 from enumerator.workflow.pipeline import apply_settings
 
 # 12C16O: masses of the most common isotopes (RDKit periodic table; IUPAC values 12 and 15.9949)
@@ -68,7 +69,8 @@ def test_pentacarbonyl_closed_forms():
     [("OC-6", "Ma2b4", 90.0), ("TBPY-5", "Ma2b3", 120.0), ("T-4", "Ma2b2", math.degrees(math.acos(-1 / 3)))],
 )
 def test_dicarbonyl_intensity_ratio(geometry, formula, angle):
-    # I_sym / I_asym = cot^2(theta), 2 theta = OC-M-CO angle (bond-dipole model; Braterman, Metal Carbonyl Spectra, from memory)
+    # I_sym / I_asym = cot^2(theta), 2 theta = OC-M-CO angle
+    # (bond-dipole model; Braterman, Metal Carbonyl Spectra, from memory)
     theta = math.radians(angle / 2)
     for iso in isomers(formula, geometry):
         a = [s.index for s in iso.sites if s.reporter == "CO"]

@@ -6,8 +6,8 @@ from enumerator.cli import cli
 from enumerator.isomers.enumeration import enumerate_isomers
 from enumerator.parse.abstract import parse_abstract
 from enumerator.rules.ruleset import load_rules
-from enumerator.vibrations.forcefield import predict_bands
 from enumerator.vibrations.matching import match_bands
+from enumerator.vibrations.pattern import predict_bands
 from enumerator.workflow.pipeline import apply_settings
 
 
@@ -94,7 +94,7 @@ def test_intensities_break_a_position_tie():
     # towards another candidate, are matched best by the true isomer once
     # intensities are given
     s = _set("Ma3b2c")
-    from enumerator.vibrations.forcefield import band_pattern
+    from enumerator.vibrations.pattern import band_pattern
 
     pats = {i.number: [b for b in band_pattern(i, "CO").bands if b.ir_active] for i in s.isomers}
     true, other = sorted(n for n, p in pats.items() if len(p) == 3)[:2]

@@ -1,7 +1,7 @@
 import numpy as np
 
 from enumerator.render.plots import lorentzian_trace, stick_spectrum
-from enumerator.vibrations.forcefield import Band
+from enumerator.vibrations.solver import Band
 
 BANDS = (Band(2045.0, 0.4, "A1"), Band(1980.0, 1.0, "E"))
 

@@ -4,7 +4,8 @@ from __future__ import annotations
 
 import click
 
-from enumerator.cli.common import emit, parse_pairs, rules_of
+from enumerator.cli.common import emit, parse_pairs, rules_of, write_atomic_bytes
+from enumerator.errors import InputError
 
 
 @click.command("match")
@@ -14,7 +15,8 @@ from enumerator.cli.common import emit, parse_pairs, rules_of
     "bands_text",
     required=True,
     metavar="CM-1,...",
-    help='Measured bands, optionally with intensities as written in a paper: 2045,1980,1932 or "2045 (s), 1980 (vs), 1932 (m)" (vs s m w vw sh br, or a number).',
+    help="Measured bands, optionally with intensities as written in a paper: 2045,1980,1932 or "
+    '"2045 (s), 1980 (vs), 1932 (m)" (vs s m w vw sh br, or a number).',
 )
 @click.option(
     "--tolerance",
@@ -64,66 +66,30 @@ def match(ctx, formula, bands_text, tolerance, weak, geometry, reporters, klass,
       isosieve match Ma4b2 --reporter a=CO --bands 2030,1940,1915 --tolerance 15 --plot match.svg
       isosieve match "[Mo(CO)3(PPh3)3]" --bands "1950 (m), 1860 (vs), 1840 (s)"
     """
-    from enumerator.cli import _bands_common as bc
-    from enumerator.errors import InputError
+    from enumerator.render.bands import match_plot, match_text
     from enumerator.render.jsonout import dumps
-    from enumerator.rules.ruleset import load_rules
-    from enumerator.vibrations.matching import match_bands, parse_measured
+    from enumerator.render.plots import format_for
+    from enumerator.vibrations.matching import parse_measured
+    from enumerator.workflow.bands import match_spectrum
+    from enumerator.workflow.pipeline import Request
 
     if ":" in bands_text:
         raise InputError("match does not take species labels", "give plain wavenumbers, e.g. --bands 2045,1980,1932")
     obs = parse_measured(bands_text, "--bands")
-    comp, iso_set, reason = bc.load_set(formula, geometry, parse_pairs(reporters, "--reporter", "a=CO"), rules_of(ctx))
-    rules = load_rules(rules_of(ctx))
-    desc = bc.descriptors(comp, iso_set)
-    res = match_bands(
-        iso_set,
-        klass,
+    request = Request(
+        formula=formula,
+        geometry=geometry,
+        reporters=parse_pairs(reporters, "--reporter", "a=CO"),
+        rules=rules_of(ctx),
+    )
+    report = match_spectrum(
+        request,
         [v for v, _ in obs],
+        [x for _, x in obs],
+        reporter_class=klass,
         tolerance=tolerance,
         weak=weak,
-        rules=rules,
-        descriptors=desc,
-        intensities=[x for _, x in obs],
     )
-    safety = list(bc.cautions(comp))
     if plot:
-        from enumerator.vibrations.forcefield import band_pattern
-
-        panels = []
-        for c in res.candidates:
-            iso = iso_set.get(c.isomers[0])
-            pat = band_pattern(iso, res.reporter_class, rules=rules)
-            vals = dict(pat.constants)
-            for s in pat.model.sets:
-                vals[s.name] += c.shift
-            shifted = band_pattern(iso, res.reporter_class, vals, rules=rules).bands
-            panels.append(
-                (f"#{c.rank} isomer {'/'.join(c.isomers)} ({c.point_group}), shift {c.shift:+.2f} mdyn/Å", shifted)
-            )
-        bc.write_plot(plot, panels, list(res.measured), tolerance)
-    if as_json:
-        doc = {"formula": comp.formula, "geometry": iso_set.geometry.symbol, "geometry_reason": reason}
-        doc.update(res.to_json())
-        doc["safety"] = safety
-        emit(dumps(doc), out)
-        return
-    lines = [
-        f"{comp.formula} on {iso_set.geometry.symbol}: {len(res.candidates)} candidate(s) for "
-        f"{res.reporter_class} bands at {_bands_text(res)} cm-1 (tolerance {tolerance:g} cm-1)",
-        "",
-    ]
-    for c in res.candidates:
-        lines.append(c.explanation)
-        lines.append("")
-    lines += [f"note: {n}" for n in res.notes]
-    if safety:
-        lines += ["", "Safety"] + [f"- {s}" for s in safety]
-    emit("\n".join(lines).rstrip() + "\n", out)
-
-
-def _bands_text(res) -> str:
-    out = []
-    for v, x in zip(res.measured, res.measured_intensity or [None] * len(res.measured)):
-        out.append(f"{v:g}" + (f" ({x:g})" if x is not None else ""))
-    return ", ".join(out)
+        write_atomic_bytes(plot, match_plot(report, format_for(plot)))
+    emit(dumps(report.to_dict()) if as_json else match_text(report), out)

@@ -13,7 +13,7 @@ isomer with
   any other per-isomer keys the analyses add (read through the Analysis
   protocol, so a new analysis shows up without a change here);
 * its predicted stick spectrum per reporter class
-  (:func:`enumerator.vibrations.forcefield.predict_bands` plotted by
+  (:func:`enumerator.vibrations.predict_bands` plotted by
   :func:`enumerator.render.plots.stick_spectrum` when that module is
   present, else by a small SVG plot drawn here) with the band list;
 
@@ -254,7 +254,7 @@ def spectrum_svg(bands: Sequence[Any], label: str = "", width: int = 340, height
 
 def _spectra_html(iso: Isomer, rules) -> str:
     try:
-        from enumerator.vibrations.forcefield import predict_bands, reporter_classes
+        from enumerator.vibrations import predict_bands, reporter_classes
     except ImportError:
         return ""
     from enumerator.errors import IsosieveError

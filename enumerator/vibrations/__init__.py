@@ -1,1 +1,46 @@
-"""Band model: force field, GF solver, fitting and matching of measured bands."""
+"""Band model: force field, GF solver, band patterns, fitting and matching of measured bands.
+
+The modules follow the data: :mod:`~enumerator.vibrations.model` builds the
+energy-factored (Cotton–Kraihanzel) force field of one reporter class on one
+isomer; :mod:`~enumerator.vibrations.solver` solves it by Wilson's GF method
+per symmetry block, with bond-dipole intensities;
+:mod:`~enumerator.vibrations.pattern` turns that into a band pattern with
+notes; :mod:`~enumerator.vibrations.fitting` fits the constants to measured
+bands (Levenberg–Marquardt); :mod:`~enumerator.vibrations.matching` ranks the
+isomers of a formula against a measured spectrum.  The default constants are
+read by :mod:`enumerator.rules.forcefields`.
+
+>>> from enumerator.workflow.pipeline import analyse
+>>> iso = analyse("[Cr(CO)6]").isomers[0]
+>>> [(b.species, round(b.wavenumber)) for b in predict_bands(iso, "CO") if b.ir_active]
+[('T1u', 1978)]
+"""
+
+from enumerator.vibrations.fitting import FitResult, Observation, fit_constants, parse_bands
+from enumerator.vibrations.matching import Candidate, MatchResult, match_bands, parse_measured
+from enumerator.vibrations.model import Model, Oscillator, StretchSet, build_model, reporter_classes
+from enumerator.vibrations.pattern import BandPattern, band_pattern, parse_constants, predict_bands
+from enumerator.vibrations.solver import WAVENUMBER_FACTOR, Band, solve
+
+__all__ = [
+    "WAVENUMBER_FACTOR",
+    "Band",
+    "BandPattern",
+    "Candidate",
+    "FitResult",
+    "MatchResult",
+    "Model",
+    "Observation",
+    "Oscillator",
+    "StretchSet",
+    "band_pattern",
+    "build_model",
+    "fit_constants",
+    "match_bands",
+    "parse_bands",
+    "parse_constants",
+    "parse_measured",
+    "predict_bands",
+    "reporter_classes",
+    "solve",
+]

@@ -1,22 +1,25 @@
 """Least-squares fits of energy-factored force constants to measured bands.
 
 Given measured wavenumbers of one reporter class on one isomer, find the
-constants of the Cotton–Kraihanzel type force field
-(:mod:`enumerator.vibrations.forcefield`; F. A. Cotton and C. S. Kraihanzel,
+constants of the Cotton–Kraihanzel force field
+(:mod:`enumerator.vibrations.model`; F. A. Cotton and C. S. Kraihanzel,
 *J. Am. Chem. Soc.* 84 (1962) 4432) that reproduce them.  The GF eigenvalue
-problem (Wilson, Decius & Cross, *Molecular Vibrations*, 1955) is solved at
-each step; F is linear in the constants, so the Jacobian of the wavenumbers
-follows from first-order perturbation theory (Hellmann–Feynman):
-∂λ/∂p = yᵀ G^½ (∂F/∂p) G^½ y, and ∂ν̃/∂p = C/(2√λ) ∂λ/∂p.  A damped
-Gauss–Newton (Levenberg–Marquardt) iteration minimises the sum of squared
-wavenumber residuals.  Uncertainties are the square roots of the diagonal
-of s²(JᵀJ)⁻¹ with s² = RSS/(n − p), the residual variance.
+problem (Wilson's GF method, Wilson, Decius & Cross, *Molecular Vibrations*,
+1955; :mod:`enumerator.vibrations.solver`) is solved at each step; F is linear
+in the constants, so the Jacobian of the wavenumbers follows from first-order
+perturbation theory (Hellmann–Feynman): ∂λ/∂p = yᵀ G^½ (∂F/∂p) G^½ y, and
+∂ν̃/∂p = C/(2√λ) ∂λ/∂p.  A damped Gauss–Newton iteration (Levenberg–Marquardt:
+K. Levenberg, *Q. Appl. Math.* 2 (1944) 164; D. W. Marquardt, *J. SIAM* 11
+(1963) 431) minimises the sum of squared wavenumber residuals.
+Uncertainties are the square roots of the diagonal of s²(JᵀJ)⁻¹ with
+s² = RSS/(n − p), the residual variance.
 
 A measured band is matched to a predicted band by its species and its rank
 within that species ('A1(2)' = the second-highest A1 band), which stays
 stable while the constants move.  Without an assignment every one-to-one
-matching of the measured bands onto the IR-active bands is fitted and the
-best kept (smallest residuals, then the constants nearest the defaults).
+matching of the measured bands onto the IR-active bands is screened by a
+linearised fit and the best :data:`SCREEN_KEEP` are fitted in full; the best
+is kept (smallest residuals, then the constants nearest the defaults).
 
 The fit refuses, with a message saying what to fix, when there are fewer
 bands than free constants or when the assigned bands fix only some
@@ -33,6 +36,8 @@ approximation kt = 2 kc (``tie_ck``).
 >>> r = fit_constants(fac, "CO", [2010.0, 1920.0], fixed={"kt": 0.6})
 >>> [(n, round(v, 3)) for n, v, _, _ in r.constants]
 [('k1', 15.368), ('kc', 0.476), ('kt', 0.6)]
+>>> parse_bands("2045, 1980:B1")
+(Observation(wavenumber=2045.0, label=None), Observation(wavenumber=1980.0, label='B1'))
 """
 
 from __future__ import annotations
@@ -42,13 +47,15 @@ import math
 import re
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass, field
+from typing import Any
 
 import numpy as np
 
 from enumerator.errors import InputError
 from enumerator.isomers.enumeration import Isomer
 from enumerator.rules.ruleset import RuleSet
-from enumerator.vibrations.forcefield import WAVENUMBER_FACTOR, Band, Model, _blocks_cached, _solve_modes, build_model
+from enumerator.vibrations.model import Model, build_model
+from enumerator.vibrations.solver import WAVENUMBER_FACTOR, Band, Mode, SymmetryBlocks, solve_modes, symmetry_blocks
 
 __all__ = [
     "Observation",
@@ -64,20 +71,44 @@ __all__ = [
 #: assignments that keep the measured and predicted orders are tried.
 MAX_ASSIGNMENTS = 720
 
+#: How many assignments survive the linearised screen and get a full fit.
+SCREEN_KEEP = 12
+
 _LABEL = re.compile(r"^([A-Za-z][A-Za-z0-9'\"_+-]*?)(?:\((\d+)\))?$")
+
+#: A band's identity while the constants move: (species, rank within the species).
+BandKey = tuple[str | None, int]
 
 
 @dataclass(frozen=True)
 class Observation:
-    """One measured band; ``label`` optionally assigns it ('A1', 'A1(2)', 'E')."""
+    """One measured band (cm-1); ``label`` optionally assigns it ('A1', 'A1(2)', 'E')."""
 
     wavenumber: float
     label: str | None = None
 
 
 def parse_bands(text: str, option: str = "--bands") -> tuple[Observation, ...]:
-    """'2045,1980:B1,1932' -> observations (an optional ':SPECIES' or
-    ':SPECIES(n)' after a wavenumber assigns it)."""
+    """Read measured bands with optional assignments.
+
+    Parameters
+    ----------
+    text : str
+        '2045,1980:B1,1932': wavenumbers in cm-1, each optionally followed by
+        ':SPECIES' or ':SPECIES(n)'.
+    option : str
+        The option name to show in an error.
+
+    Returns
+    -------
+    tuple[Observation, ...]
+        Highest wavenumber first.
+
+    Raises
+    ------
+    InputError
+        For a part that is not a positive wavenumber or a species label, or no part at all.
+    """
     out = []
     for part in (p.strip() for p in text.split(",")):
         if not part:
@@ -92,10 +123,10 @@ def parse_bands(text: str, option: str = "--bands") -> tuple[Observation, ...]:
                 f"{option}: '{part}' is not a wavenumber",
                 f"write e.g. {option} 2045,1980,1932 (cm-1; optionally 1980:B1)",
             )
-        lab = lab.strip() or None
-        if lab is not None and not _LABEL.match(lab):
-            raise InputError(f"{option}: '{lab}' is not a species label", "write e.g. 1980:A1 or 1980:A1(2)")
-        out.append(Observation(v, lab))
+        label = lab.strip() or None
+        if label is not None and not _LABEL.match(label):
+            raise InputError(f"{option}: '{label}' is not a species label", "write e.g. 1980:A1 or 1980:A1(2)")
+        out.append(Observation(v, label))
     if not out:
         raise InputError(f"{option}: no wavenumbers given", f"write e.g. {option} 2045,1980,1932")
     return tuple(sorted(out, key=lambda o: (-o.wavenumber, o.label or "")))
@@ -106,9 +137,10 @@ class FitResult:
     """A fitted force field.
 
     ``constants``: (name, value, uncertainty or None, how) with how
-    'fitted', 'fixed' or 'tied'; ``assignment``: (measured, band name,
-    calculated, residual); ``rms`` in cm^-1; ``dof`` = bands − free
-    constants."""
+    'fitted', 'fixed' or 'tied' (mdyn/Å); ``assignment``: (measured, band
+    name, calculated, residual) in cm-1; ``rms`` in cm-1; ``dof`` = bands −
+    free constants; ``tried`` the number of assignments considered.
+    """
 
     isomer_id: str
     reporter_class: str
@@ -122,12 +154,14 @@ class FitResult:
     tried: int = 1
 
     def value(self, name: str) -> float:
+        """The value of one constant (KeyError if the model has none of that name)."""
         for n, v, _, _ in self.constants:
             if n == name:
                 return v
         raise KeyError(name)
 
-    def to_json(self) -> dict:
+    def to_dict(self) -> dict[str, Any]:
+        """The fit's JSON object (rounded for byte-stable output)."""
         return {
             "constants": [
                 {"name": n, "value": round(v, 4), "uncertainty": None if s is None else round(s, 4), "status": how}
@@ -151,26 +185,28 @@ class FitResult:
 
 @dataclass(frozen=True)
 class _Problem:
+    """F = f0 + Σ v_p mats[p] on one model, with its symmetry blocks."""
+
     model: Model
     isomer: Isomer
     f0: np.ndarray = field(compare=False)
     names: tuple[str, ...]
     mats: tuple[np.ndarray, ...] = field(compare=False)
-    blocks: tuple = field(default=None, compare=False)
+    blocks: SymmetryBlocks = field(compare=False)
 
 
-def _modes_for(problem: _Problem, v: np.ndarray):
+def _modes_for(problem: _Problem, v: np.ndarray) -> tuple[Mode, ...]:
     f = problem.f0 + sum(x * m for x, m in zip(v, problem.mats))
-    return _solve_modes(problem.model, problem.isomer, None, f=f, blocks_info=problem.blocks)[0]
+    return solve_modes(problem.model, problem.isomer, f=f, blocks=problem.blocks).modes
 
 
-def _key(b: Band) -> tuple[str | None, int]:
-    return (b.species, b.order)
-
-
-def _evaluate(problem: _Problem, v: np.ndarray, targets: Sequence[tuple[str | None, int]]):
+def _evaluate(
+    problem: _Problem, v: np.ndarray, targets: Sequence[BandKey]
+) -> tuple[np.ndarray, np.ndarray, tuple[Mode, ...]] | None:
+    """Calculated wavenumbers of the target bands and their Jacobian
+    (Hellmann–Feynman); None when a target band does not exist."""
     modes = _modes_for(problem, v)
-    index = {_key(m.band): m for m in modes}
+    index = {m.band.key: m for m in modes}
     gh = np.sqrt(problem.model.g_diag())
     calc = np.zeros(len(targets))
     jac = np.zeros((len(targets), len(problem.mats)))
@@ -189,12 +225,19 @@ def _evaluate(problem: _Problem, v: np.ndarray, targets: Sequence[tuple[str | No
     return calc, jac, modes
 
 
-def _lm(problem: _Problem, v0: np.ndarray, targets, observed: np.ndarray, iterations: int = 60):
-    v = v0.astype(float).copy()
+def _try_evaluate(problem: _Problem, v: np.ndarray, targets: Sequence[BandKey]):
+    """:func:`_evaluate`, with an imaginary frequency counted as a failed step."""
     try:
-        got = _evaluate(problem, v, targets)
+        return _evaluate(problem, v, targets)
     except InputError:
         return None
+
+
+def _lm(problem: _Problem, v0: np.ndarray, targets: Sequence[BandKey], observed: np.ndarray, iterations: int = 60):
+    """Levenberg–Marquardt on the wavenumber residuals: (values, calculated,
+    Jacobian, modes, RSS) at the end, or None if the start fails."""
+    v = v0.astype(float).copy()
+    got = _try_evaluate(problem, v, targets)
     if got is None:
         return None
     calc, jac, modes = got
@@ -210,10 +253,7 @@ def _lm(problem: _Problem, v0: np.ndarray, targets, observed: np.ndarray, iterat
         except np.linalg.LinAlgError:
             step = -np.linalg.lstsq(jtj + damp, g, rcond=None)[0]
         trial = v + step
-        try:
-            got2 = _evaluate(problem, trial, targets)
-        except InputError:
-            got2 = None
+        got2 = _try_evaluate(problem, trial, targets)
         if got2 is not None:
             rss2 = float(np.sum((got2[0] - observed) ** 2))
             if rss2 <= rss:
@@ -236,18 +276,45 @@ def fit_linear_model(
     names: Sequence[str],
     mats: Sequence[np.ndarray],
     start: Sequence[float],
-    targets: Sequence[tuple[str | None, int]],
+    targets: Sequence[BandKey],
     observed: Sequence[float],
-):
-    """Fit F = f0 + Σ v_p mats[p] to observed wavenumbers of the target bands;
-    returns (values, calculated, jacobian, rss) or None if it fails."""
+) -> tuple[np.ndarray, np.ndarray, np.ndarray, float] | None:
+    """Fit F = f0 + Σ v_p mats[p] to observed wavenumbers of the target bands
+    by Levenberg–Marquardt, with the Hellmann–Feynman Jacobian.
+
+    Parameters
+    ----------
+    model : Model
+        The oscillators (G) of the problem.
+    isomer : Isomer
+        The isomer the model belongs to (symmetry blocks, site vectors).
+    f0 : numpy.ndarray
+        The part of F that is held (mdyn/Å).
+    names : Sequence[str]
+        Names of the free parameters.
+    mats : Sequence[numpy.ndarray]
+        ∂F/∂v_p for each free parameter.
+    start : Sequence[float]
+        Starting values.
+    targets : Sequence[tuple[str | None, int]]
+        (species, rank) of the band each observation belongs to.
+    observed : Sequence[float]
+        Measured wavenumbers (cm-1), one per target.
+
+    Returns
+    -------
+    tuple or None
+        (values, calculated wavenumbers, Jacobian, residual sum of squares),
+        or None when the fit cannot start (a target band missing, or an
+        imaginary frequency at the start).
+    """
     problem = _Problem(
         model,
         isomer,
         np.asarray(f0, float),
         tuple(names),
         tuple(np.asarray(m, float) for m in mats),
-        _blocks_cached(isomer, model.sites),
+        symmetry_blocks(isomer, model.sites),
     )
     got = _lm(problem, np.asarray(start, float), list(targets), np.asarray(observed, float))
     if got is None:
@@ -257,59 +324,57 @@ def fit_linear_model(
 
 
 # --------------------------------------------------------------------------
-# the user-facing fit
+# assignments
 
 
 def _scale(name: str) -> float:
     return 0.2 if name in ("kc", "kt") else 0.5
 
 
-def _assignments(obs: Sequence[Observation], bands: Sequence[Band]) -> tuple[list[list[tuple[str | None, int]]], bool]:
-    """Candidate target lists (one band key per observation)."""
-    options: list[list[tuple[str | None, int]]] = []
-    for o in obs:
-        if o.label is None:
-            cands = [_key(b) for b in bands if b.ir_active]
-        else:
-            m = _LABEL.match(o.label)
-            assert m is not None
-            sp, order = m.group(1), m.group(2)
-            cands = [
-                _key(b)
-                for b in bands
-                if (b.species or "").lower() == sp.lower() and (order is None or b.order == int(order))
-            ]
-            if not cands:
-                names = sorted({b.name for b in bands})
-                raise InputError(
-                    f"no predicted band '{o.label}' to assign {o.wavenumber:g} cm-1 to",
-                    f"bands of this isomer: {', '.join(names)}",
-                )
-        options.append(cands)
-    total = 1
-    for c in options:
-        total *= max(1, len(c))
-    full = total <= MAX_ASSIGNMENTS * 4
+def _candidates_for(o: Observation, bands: Sequence[Band]) -> list[BandKey]:
+    """The bands one observation may belong to: every IR-active band, or those its label names."""
+    if o.label is None:
+        return [b.key for b in bands if b.ir_active]
+    m = _LABEL.match(o.label)
+    assert m is not None
+    sp, order = m.group(1), m.group(2)
+    cands = [
+        b.key for b in bands if (b.species or "").lower() == sp.lower() and (order is None or b.order == int(order))
+    ]
+    if not cands:
+        names = sorted({b.name for b in bands})
+        raise InputError(
+            f"no predicted band '{o.label}' to assign {o.wavenumber:g} cm-1 to",
+            f"bands of this isomer: {', '.join(names)}",
+        )
+    return cands
+
+
+def _one_to_one(options: Sequence[Sequence[BandKey]]) -> list[list[BandKey]]:
+    return [list(combo) for combo in itertools.product(*options) if len(set(combo)) == len(combo)]
+
+
+def _order_keeping(options: Sequence[Sequence[BandKey]], bands: Sequence[Band]) -> list[list[BandKey]]:
+    """Assignments of measured (descending) onto predicted (descending) bands, at most MAX_ASSIGNMENTS."""
+    order = {b.key: k for k, b in enumerate(bands)}
     out = []
-    if full:
-        for combo in itertools.product(*options):
-            if len(set(combo)) == len(combo):
-                out.append(list(combo))
+    for combo in itertools.product(*options):
+        ks = [order[c] for c in combo]
+        if all(a < b for a, b in zip(ks, ks[1:])):
+            out.append(list(combo))
+            if len(out) >= MAX_ASSIGNMENTS:
+                break
+    return out
+
+
+def _assignments(obs: Sequence[Observation], bands: Sequence[Band]) -> tuple[list[list[BandKey]], bool]:
+    """Candidate target lists (one band key per observation), and whether the list was cut short."""
+    options = [_candidates_for(o, bands) for o in obs]
+    full = math.prod(max(1, len(c)) for c in options) <= MAX_ASSIGNMENTS * 4
+    out = _one_to_one(options) if full else []
     if not full or len(out) > MAX_ASSIGNMENTS:
-        # order-preserving only: measured (descending) onto predicted (descending)
-        order = {_key(b): k for k, b in enumerate(bands)}
-        out = []
-        for combo in itertools.product(*options):
-            ks = [order[c] for c in combo]
-            if all(a < b for a, b in zip(ks, ks[1:])):
-                out.append(list(combo))
-                if len(out) >= MAX_ASSIGNMENTS:
-                    break
+        out = _order_keeping(options, bands)
     return out, not full or len(out) >= MAX_ASSIGNMENTS
-
-
-#: How many assignments survive the linearised screen and get a full fit.
-SCREEN_KEEP = 12
 
 
 def _screen(problem: _Problem, start: np.ndarray, cands, observed: np.ndarray, names) -> list:
@@ -339,30 +404,27 @@ def _screen(problem: _Problem, start: np.ndarray, cands, observed: np.ndarray, n
     return [c for _, c in scored[:SCREEN_KEEP]]
 
 
-def fit_constants(
-    isomer: Isomer,
-    reporter_class: str,
-    measured: Sequence[float | Observation],
-    *,
-    fixed: Mapping[str, float] | None = None,
-    tie_ck: bool = False,
-    start: Mapping[str, float] | None = None,
-    rules: RuleSet | None = None,
-) -> FitResult:
-    """Fit the force constants of ``reporter_class`` on ``isomer`` to the
-    measured wavenumbers (cm^-1).  ``fixed`` holds constants at given values
-    (``k`` holds every stretching constant); ``tie_ck`` sets kt = 2 kc;
-    ``start`` overrides the default starting values."""
-    model = build_model(isomer, reporter_class, rules)
-    obs = tuple(
-        sorted(
-            (m if isinstance(m, Observation) else Observation(float(m)) for m in measured), key=lambda o: -o.wavenumber
-        )
-    )
-    if not obs:
-        raise InputError("no measured bands to fit", "give e.g. --fit 2045,1980,1932")
-    values = model.resolve(start)
-    fixed = dict(fixed or {})
+# --------------------------------------------------------------------------
+# the user-facing fit
+
+
+@dataclass(frozen=True)
+class _Free:
+    """The free parameters of a fit: F = f0 + Σ v_p mats[p], starting at v0."""
+
+    f0: np.ndarray = field(compare=False)
+    names: tuple[str, ...]
+    mats: tuple[np.ndarray, ...] = field(compare=False)
+    v0: tuple[float, ...]
+
+
+def _observations(measured: Sequence[float | Observation]) -> tuple[Observation, ...]:
+    obs = (m if isinstance(m, Observation) else Observation(float(m)) for m in measured)
+    return tuple(sorted(obs, key=lambda o: -o.wavenumber))
+
+
+def _held(model: Model, fixed: Mapping[str, float], tie_ck: bool) -> dict[str, float]:
+    """The constants held at given values (``k`` holds every stretching constant)."""
     for name in fixed:
         if name not in ("k",) + model.parameter_names:
             raise InputError(
@@ -377,35 +439,43 @@ def fit_constants(
         raise InputError(
             "kt = 2 kc (tie) conflicts with fixing only one of kc, kt", "fix both or neither, or drop the tie"
         )
+    return held
+
+
+def _free(model: Model, values: Mapping[str, float], held: Mapping[str, float], tie_ck: bool) -> _Free:
+    """Split F into the held part and one matrix per free constant (kc and kt
+    as one parameter under the tie; an interaction with no pair of its kind
+    plays no part)."""
     n = len(model.oscillators)
     f0 = np.zeros((n, n))
     names: list[str] = []
     mats: list[np.ndarray] = []
     v0: list[float] = []
+
+    def free(name: str, mat: np.ndarray) -> None:
+        names.append(name)
+        mats.append(mat)
+        v0.append(values[name])
+
     for s in model.sets:
         if s.name in held:
             f0 += held[s.name] * model.derivative(s.name)
         else:
-            names.append(s.name)
-            mats.append(model.derivative(s.name))
-            v0.append(values[s.name])
-    if tie_ck:
-        if "kc" in held:
-            f0 += held["kc"] * model.derivative("kc") + held["kt"] * model.derivative("kt")
-        else:
-            names.append("kc")
-            mats.append(model.derivative("kc") + 2.0 * model.derivative("kt"))
-            v0.append(values["kc"])
+            free(s.name, model.derivative(s.name))
+    if tie_ck and "kc" in held:
+        f0 += held["kc"] * model.derivative("kc") + held["kt"] * model.derivative("kt")
+    elif tie_ck:
+        free("kc", model.derivative("kc") + 2.0 * model.derivative("kt"))
     else:
         for name in ("kc", "kt"):
             if name in held:
                 f0 += held[name] * model.derivative(name)
             elif np.any(model.derivative(name)):
-                names.append(name)
-                mats.append(model.derivative(name))
-                v0.append(values[name])
-            else:
-                held[name] = values[name]  # no such pair: the constant plays no part
+                free(name, model.derivative(name))
+    return _Free(f0, tuple(names), tuple(mats), tuple(v0))
+
+
+def _check_count(obs: Sequence[Observation], names: Sequence[str]) -> None:
     p = len(names)
     if p == 0:
         raise InputError("every constant is fixed: nothing to fit", "free at least one constant (drop a --fix)")
@@ -414,27 +484,19 @@ def fit_constants(
             f"{len(obs)} band(s) cannot determine {p} free constants ({', '.join(names)})",
             "give more bands, hold some with --fix (e.g. --fix kt=0.6) or tie kt = 2 kc with --ck",
         )
-    base = _solve_modes(model, isomer, values)[0]
-    base_bands = [m.band for m in base]
-    auto = any(o.label is None or "(" not in o.label for o in obs)
-    cands, truncated = _assignments(obs, base_bands)
-    if not cands:
-        ir = sum(1 for b in base_bands if b.ir_active)
-        raise InputError(
-            f"{len(obs)} measured bands cannot be matched one-to-one to the {ir} IR-active bands of isomer {isomer.id}",
-            "give fewer bands, assign some to Raman bands (e.g. 2020:Eg), or try another isomer",
-        )
-    observed = np.array([o.wavenumber for o in obs])
-    problem = _Problem(model, isomer, f0, tuple(names), tuple(mats), _blocks_cached(isomer, model.sites))
-    start_v = np.array(v0)
+
+
+def _best(problem: _Problem, start: np.ndarray, cands, observed: np.ndarray):
+    """The full fit of each screened assignment; the best by (RMS to 0.1 cm-1,
+    distance from the start in units of each constant's scale)."""
     best = None
-    for targets in _screen(problem, start_v, cands, observed, names):
-        got = _lm(problem, start_v, targets, observed)
+    for targets in _screen(problem, start, cands, observed, problem.names):
+        got = _lm(problem, start, targets, observed)
         if got is None:
             continue
         v, calc, jac, modes, rss = got
-        rms = math.sqrt(rss / len(obs))
-        penalty = float(sum(((a - b) / _scale(nm)) ** 2 for a, b, nm in zip(v, start_v, names)))
+        rms = math.sqrt(rss / len(observed))
+        penalty = float(sum(((a - b) / _scale(nm)) ** 2 for a, b, nm in zip(v, start, problem.names)))
         score = (round(rms, 1), penalty)
         if best is None or score < best[0]:
             best = (score, targets, v, calc, jac, modes, rss)
@@ -443,52 +505,131 @@ def fit_constants(
             "the fit did not converge for any assignment",
             "give better starting constants with --constants or assign the bands",
         )
-    _, targets, v, calc, jac, modes, rss = best
+    return best[1:]
+
+
+def _check_rank(jac: np.ndarray, names: Sequence[str]) -> None:
+    p = len(names)
     sv = np.linalg.svd(jac, compute_uv=False)
     rank = int(np.sum(sv > 1e-8 * max(1.0, float(sv[0]) if len(sv) else 1.0)))
     if rank < p:
         raise InputError(
             f"the assigned bands fix only {rank} combination(s) of the {p} free constants ({', '.join(names)})",
-            "hold some with --fix (e.g. --fix kt=0.6), tie kt = 2 kc with --ck, or add bands of other species (e.g. Raman)",
+            "hold some with --fix (e.g. --fix kt=0.6), tie kt = 2 kc with --ck, "
+            "or add bands of other species (e.g. Raman)",
         )
-    dof = len(obs) - p
-    notes = []
-    sig: list[float | None]
-    if dof > 0:
-        s2 = rss / dof
-        cov = s2 * np.linalg.inv(jac.T @ jac)
-        sig = [math.sqrt(max(0.0, float(cov[k, k]))) for k in range(p)]
-    else:
-        sig = [None] * p
-        notes.append("exactly determined (as many bands as free constants): no uncertainties can be given")
-    if truncated:
-        notes.append(f"only {len(cands)} order-keeping assignments were tried (too many to try all)")
-    fitted = dict(zip(names, v))
-    sig_of = dict(zip(names, sig))
-    rows = []
+
+
+def _uncertainties(jac: np.ndarray, rss: float, dof: int) -> list[float | None]:
+    """sqrt(diag(s²(JᵀJ)⁻¹)), s² = RSS/dof; None each when exactly determined."""
+    if dof <= 0:
+        return [None] * jac.shape[1]
+    cov = rss / dof * np.linalg.inv(jac.T @ jac)
+    return [math.sqrt(max(0.0, float(cov[k, k]))) for k in range(jac.shape[1])]
+
+
+def _constant_rows(
+    model: Model,
+    fitted: Mapping[str, float],
+    sigma: Mapping[str, float | None],
+    held: Mapping[str, float],
+    values: Mapping[str, float],
+    tie_ck: bool,
+) -> tuple[tuple[str, float, float | None, str], ...]:
+    rows: list[tuple[str, float, float | None, str]] = []
     for name in model.parameter_names:
         if name in fitted:
-            rows.append((name, float(fitted[name]), sig_of[name], "fitted"))
+            rows.append((name, float(fitted[name]), sigma[name], "fitted"))
         elif tie_ck and name == "kt" and "kc" in fitted:
-            s = sig_of["kc"]
+            s = sigma["kc"]
             rows.append(("kt", 2.0 * float(fitted["kc"]), None if s is None else 2.0 * s, "tied"))
         else:
             rows.append((name, float(held.get(name, values[name])), None, "fixed"))
-    name_of = {_key(m.band): m.band.name for m in modes}
+    return tuple(rows)
+
+
+def fit_constants(
+    isomer: Isomer,
+    reporter_class: str,
+    measured: Sequence[float | Observation],
+    *,
+    fixed: Mapping[str, float] | None = None,
+    tie_ck: bool = False,
+    start: Mapping[str, float] | None = None,
+    rules: RuleSet | None = None,
+) -> FitResult:
+    """Fit the force constants of one reporter class on one isomer to measured bands.
+
+    Parameters
+    ----------
+    isomer : Isomer
+    reporter_class : str
+        'CO', 'CN', 'NO', ...
+    measured : Sequence[float | Observation]
+        Measured wavenumbers (cm-1), optionally assigned (:class:`Observation`).
+    fixed : Mapping[str, float], optional
+        Constants held at given values (mdyn/Å); ``k`` holds every stretching constant.
+    tie_ck : bool
+        Tie kt = 2 kc (the Cotton–Kraihanzel approximation).
+    start : Mapping[str, float], optional
+        Overrides of the default starting values.
+    rules : RuleSet, optional
+        Where the defaults come from (default: the built-in rules).
+
+    Returns
+    -------
+    FitResult
+
+    Raises
+    ------
+    InputError
+        With no bands, fewer bands than free constants, an assignment that
+        names no predicted band, no one-to-one matching, no convergence, or
+        bands that fix only some combinations of the constants.
+    """
+    model = build_model(isomer, reporter_class, rules)
+    obs = _observations(measured)
+    if not obs:
+        raise InputError("no measured bands to fit", "give e.g. --fit 2045,1980,1932")
+    values = model.resolve(start)
+    held = _held(model, fixed or {}, tie_ck)
+    free = _free(model, values, held, tie_ck)
+    _check_count(obs, free.names)
+    base_bands = solve_modes(model, isomer, values).bands
+    cands, truncated = _assignments(obs, base_bands)
+    if not cands:
+        ir = sum(1 for b in base_bands if b.ir_active)
+        raise InputError(
+            f"{len(obs)} measured bands cannot be matched one-to-one to the {ir} IR-active bands of isomer {isomer.id}",
+            "give fewer bands, assign some to Raman bands (e.g. 2020:Eg), or try another isomer",
+        )
+    observed = np.array([o.wavenumber for o in obs])
+    problem = _Problem(model, isomer, free.f0, free.names, free.mats, symmetry_blocks(isomer, model.sites))
+    targets, v, calc, jac, modes, rss = _best(problem, np.array(free.v0), cands, observed)
+    _check_rank(jac, free.names)
+    dof = len(obs) - len(free.names)
+    notes = []
+    if dof <= 0:
+        notes.append("exactly determined (as many bands as free constants): no uncertainties can be given")
+    if truncated:
+        notes.append(f"only {len(cands)} order-keeping assignments were tried (too many to try all)")
+    sig = _uncertainties(jac, rss, dof)
+    rows = _constant_rows(model, dict(zip(free.names, v)), dict(zip(free.names, sig)), held, values, tie_ck)
+    name_of = {m.band.key: m.band.name for m in modes}
     assignment = tuple(
         (float(o.wavenumber), name_of[t], float(c), float(c - o.wavenumber)) for o, t, c in zip(obs, targets, calc)
     )
-    for n_, val, _, _ in rows:
-        if n_ in ("kc", "kt") and val < 0:
-            notes.append(f"{n_} came out negative ({val:.3f}): the assignment or the isomer may be wrong")
+    for name, val, _, _ in rows:
+        if name in ("kc", "kt") and val < 0:
+            notes.append(f"{name} came out negative ({val:.3f}): the assignment or the isomer may be wrong")
     return FitResult(
         isomer_id=isomer.id,
         reporter_class=model.reporter_class,
-        constants=tuple(rows),
+        constants=rows,
         assignment=assignment,
         rms=math.sqrt(rss / len(obs)),
         dof=dof,
-        auto_assigned=auto,
+        auto_assigned=any(o.label is None or "(" not in o.label for o in obs),
         bands=tuple(m.band for m in modes),
         notes=tuple(notes),
         tried=len(cands),

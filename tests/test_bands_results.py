@@ -1,0 +1,89 @@
+"""The bands and match results (enumerator.workflow.bands) and their renderers (enumerator.render.bands):
+the CLI prints exactly what the library computes, and the JSON shape lives in to_dict()."""
+
+import json
+import subprocess
+import sys
+
+from _cli import cli
+
+from enumerator.render.bands import bands_text, match_text
+from enumerator.render.jsonout import dumps
+from enumerator.vibrations.fitting import parse_bands
+from enumerator.workflow.bands import match_spectrum, predict_spectra
+from enumerator.workflow.pipeline import Request
+
+MA4B2 = Request("Ma4b2", reporters=(("a", "CO"),))
+
+
+def test_bands_cli_is_the_result_rendered():
+    result = predict_spectra(Request("[Cr(CO)5(PPh3)]"))
+    code, out, err = cli(["bands", "[Cr(CO)5(PPh3)]", "--json"])
+    assert code == 0, err
+    assert out == dumps(result.to_dict())
+    assert list(json.loads(out)) == ["formula", "geometry", "geometry_reason", "isomers", "safety"]
+    code, out, _ = cli(["bands", "[Cr(CO)5(PPh3)]"])
+    assert out == bands_text(result)
+
+
+def test_bands_fit_rides_on_its_pattern():
+    result = predict_spectra(MA4B2, isomer_id="1", measured=parse_bands("2030,1940,1915,1890"), tie_ck=True)
+    (entry,) = result.isomers
+    assert entry.label == "1" and result.measured == (2030.0, 1940.0, 1915.0, 1890.0)
+    doc = entry.patterns[0].to_dict()
+    assert doc["fit"]["dof"] == 1 and [c["status"] for c in doc["fit"]["constants"]][-1] == "tied"
+    code, out, _ = cli(
+        ["bands", "Ma4b2", "--reporter", "a=CO", "--isomer", "1", "--fit", "2030,1940,1915,1890", "--ck"]
+    )
+    assert code == 0 and out == bands_text(result) and "  fit:" in out
+
+
+def test_bands_enantiomers_share_one_entry():
+    result = predict_spectra(Request("[RuCl2(CO)2(PPh3)2]"))
+    labels = [e.label for e in result.isomers]
+    assert labels[0] == "1a/1b" and not any(e.isomer_id.endswith("b") for e in result.isomers)
+
+
+def test_bands_refusals_are_one_line():
+    for args, words in (
+        (["bands", "Ma4b2", "--reporter", "a=CO", "--fit", "2030,1940,1915,1890"], "--fit needs one isomer"),
+        (["bands", "Ma4b2", "--reporter", "a=CO", "--isomer", "1", "--fit", "2030", "--fix", "kt=abc"], "--fix"),
+        (["bands", "Ma4b2"], "no stretch reporter"),
+        (["bands", "[Cr(CO)6]", "--plot", "x.pdf"], "is not .svg or .png"),
+    ):
+        code, out, err = cli(args)
+        assert code == 2 and out == "" and words in err and err.count("\n") == 1, (args, err)
+
+
+def test_match_cli_is_the_report_rendered():
+    report = match_spectrum(Request("[RuCl2(CO)2(PPh3)2]"), [2061.0, 1998.0], [1.0, 0.75])
+    args = ["match", "[RuCl2(CO)2(PPh3)2]", "--bands", "2061 (vs), 1998 (s)"]
+    code, out, err = cli(args + ["--json"])
+    assert code == 0, err
+    assert out == dumps(report.to_dict())
+    keys = list(json.loads(out))
+    assert keys[:4] == ["formula", "geometry", "geometry_reason", "reporter_class"] and keys[-1] == "safety"
+    code, out, _ = cli(args)
+    assert out == match_text(report)
+
+
+def test_match_candidates_carry_their_shifted_bands():
+    report = match_spectrum(MA4B2, [2030.0, 1940.0, 1915.0], tolerance=15.0)
+    for c in report.match.candidates:
+        assert len(c.shifted) == len(c.predicted)
+        # a common shift moves every band the same way (common practice: the pattern keeps its shape)
+        moved = [s.wavenumber - p.wavenumber for s, p in zip(c.shifted, c.predicted)]
+        assert all(m * c.shift >= 0 for m in moved)
+
+
+def test_plots_leave_pyplot_alone():
+    # drawing a spectrum must not load pyplot (its global figure list and backend switch) in the caller's process
+    code = (
+        "import sys;"
+        "from enumerator.render.plots import stick_spectrum;"
+        "from enumerator.vibrations.solver import Band;"
+        "stick_spectrum([Band(2000.0, 1.0, 'A1')]); stick_spectrum([Band(2000.0, 1.0, 'A1')], fmt='png');"
+        "print('matplotlib.pyplot' in sys.modules)"
+    )
+    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True).stdout
+    assert out.split() == ["False"]
