@@ -200,7 +200,7 @@ EVERYDAY = [
     "C2F4", "coe", "C2H2", "PhC2Ph", "allyl", "C3H5", "methallyl", "butadiene", "C4H6", "nbd", "chd", "C4H4", "C4Ph4",
     "Cp'", "C5H4Me", "Ind", "C6H5Me", "toluene", "mesitylene", "cht", "cot", "dihydrogen",
     # chelates and tripods
-    "dppb", "dppf", "dcpe", "dmpm", "diars", "pn", "dmbpy", "dtbbpy", "bpm", "dpa", "tfac", "mal", "cat", "Et2dtc",
+    "dppb", "dppf", "dcpe", "dmpm", "diars", "dmbpy", "dtbbpy", "bpm", "dpa", "mal", "cat", "Et2dtc",
     "S2CNEt2", "kappa2-OAc", "salen", "Tp*", "Tp^Ph", "tpm", "pybox",
     # anions and sigma-bonded groups
     "OCN", "NCSe", "OEt", "OPh", "NO3", "ClO4", "OTf", "SO4", "CH2Ph", "Bn", "CH2SiMe3", "C6F5", "SiMe3", "SiCl3",
@@ -396,3 +396,42 @@ def test_no_h2_spelling():
     # 'H2' must stay two hydrides: dihydrogen is spelled out (common practice writes it eta2-H2)
     assert "H2" not in _spellings()
     assert _parts("[RuH2(CO)(PPh3)3]")[0][0] == ("H", 2)
+
+
+def _end_ranks(smiles, n):
+    """Symmetry classes (RDKit canonical ranks without tie-breaking) of bound atoms :1 and :n on the
+    bare skeleton: bond orders, charges and hydrogens are dropped, so resonance forms of one
+    delocalised chelate (acac, the [O:1]=/[O-:2] pair) compare equal."""
+    mol = Chem.RWMol(Chem.MolFromSmiles(smiles, sanitize=False))
+    where = {}
+    for a in mol.GetAtoms():
+        if a.GetAtomMapNum():
+            where[a.GetAtomMapNum()] = a.GetIdx()
+        a.SetAtomMapNum(0)
+        a.SetFormalCharge(0)
+        a.SetIsAromatic(False)
+        a.SetNoImplicit(True)
+        a.SetNumExplicitHs(0)
+        a.SetIsotope(0)
+    for b in mol.GetBonds():
+        b.SetBondType(Chem.BondType.SINGLE)
+        b.SetIsAromatic(False)
+    mol.UpdatePropertyCache(strict=False)
+    ranks = list(Chem.CanonicalRankAtoms(mol, breakTies=False, includeChirality=False))
+    return ranks[where[1]], ranks[where[n]]
+
+
+@pytest.mark.parametrize(
+    "name",
+    sorted(
+        n for n, e in CAT.items() if e.denticity >= 2 and not e.ring and not e.hapticity and e.donors == e.donors[::-1]
+    ),
+)
+def test_palindromic_chains_are_symmetric(name):
+    """The enumerator takes a chain whose donor elements read the same both ways as symmetric
+    (one placement whichever way round).  Its two ends must then be equivalent in the ligand
+    itself; an unsymmetrical O,O or N,N chelate (tfac, propane-1,2-diamine) would lose its fac/mer
+    isomers (e.g. fac- and mer-[Cr(tfac)3], common practice), so such ligands stay out of the catalogue."""
+    e = CAT[name]
+    first, last = _end_ranks(e.smiles, e.denticity)
+    assert first == last
