@@ -350,11 +350,7 @@ def _identify(infos: Sequence[OpInfo]) -> str:
     """The flow chart: no rotation axis, several high-order axes, three C2 axes, one principal axis."""
     has_inv = any(o.kind == "i" for o in infos)
     mirrors = [o.axis for o in infos if o.kind == "s" and o.axis is not None]
-    axes: dict[Axis, int] = {}
-    for o in infos:
-        if o.kind == "C":
-            assert o.axis is not None
-            axes[o.axis] = max(axes.get(o.axis, 1), o.order)
+    axes = _axis_orders(infos)
     if not axes:
         if mirrors:
             return "Cs"
@@ -369,6 +365,15 @@ def _identify(infos: Sequence[OpInfo]) -> str:
         return "D2h" if has_inv else "D2d"
     principal = np.array(next(a for a, k in axes.items() if k == n))
     return _axial_group(infos, n, principal, c2_axes, mirrors)
+
+
+def _axis_orders(infos: Sequence[OpInfo]) -> dict[Axis, int]:
+    """Each proper rotation axis -> the highest order of rotation about it."""
+    axes: dict[Axis, int] = {}
+    for o in infos:
+        if o.kind == "C" and o.axis is not None:
+            axes[o.axis] = max(axes.get(o.axis, 1), o.order)
+    return axes
 
 
 def _cubic_group(orders: set[int], has_inv: bool, has_mirror: bool) -> str:
