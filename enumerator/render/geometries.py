@@ -8,7 +8,7 @@ from enumerator.workflow.queries import GeometryCatalogue
 
 __all__ = ["render_geometries"]
 
-_HEADER = ["symbol", "name", "CN", "group", "operations", "edges", "often fluxional"]
+_HEADER = ("symbol", "name", "CN", "group", "operations", "edges", "often fluxional")
 _LINEAR_NOTE = "* a linear centre's group is infinite; its action on the sites is carried by a finite D2h subgroup."
 
 

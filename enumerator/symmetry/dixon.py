@@ -140,7 +140,8 @@ def _common_eigenvectors(A: np.ndarray, shift: int) -> np.ndarray | None:
     M = np.tensordot(np.array(w), A, axes=1)
     vals, vecs = np.linalg.eig(M)
     if r > 1:
-        gaps = np.abs(vals[:, None] - vals[None, :]) + np.eye(r) * 1e9
+        gaps = np.abs(vals[:, None] - vals[None, :])
+        np.fill_diagonal(gaps, np.inf)
         if gaps.min() < EIGENVALUE_GAP_TOL:
             return None
     omegas = vecs / vecs[0:1, :]  # row 0 is the identity class: omega = 1 there

@@ -32,10 +32,10 @@ from enumerator.tolerances import PROJECTION_TOL
 
 __all__ = ["function_sets", "DISPLAY_ORDER"]
 
-_LIN = ["x", "y", "z"]
-_ROT = ["Rx", "Ry", "Rz"]
-_QUAD_BASIS = [(0, 0), (1, 1), (2, 2), (0, 1), (0, 2), (1, 2)]
-_QUAD_CANDS = [
+_LIN = ("x", "y", "z")
+_ROT = ("Rx", "Ry", "Rz")
+_QUAD_BASIS = ((0, 0), (1, 1), (2, 2), (0, 1), (0, 2), (1, 2))
+_QUAD_CANDS = (
     ("x2", [1, 0, 0, 0, 0, 0]),
     ("y2", [0, 1, 0, 0, 0, 0]),
     ("z2", [0, 0, 1, 0, 0, 0]),
@@ -46,7 +46,7 @@ _QUAD_CANDS = [
     ("x2+y2+z2", [1, 1, 1, 0, 0, 0]),
     ("x2-y2", [1, -1, 0, 0, 0, 0]),
     ("2z2-x2-y2", [-1, -1, 2, 0, 0, 0]),
-]
+)
 #: The order in which functions are listed in a species' row.
 DISPLAY_ORDER = (
     "x",

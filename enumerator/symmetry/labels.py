@@ -30,6 +30,7 @@ from __future__ import annotations
 import math
 from collections.abc import Callable, Sequence
 from dataclasses import dataclass
+from types import MappingProxyType
 
 import numpy as np
 
@@ -40,7 +41,7 @@ from enumerator.tolerances import ELEMENT_TOL
 __all__ = ["GroupView", "Species", "class_labels", "mulliken_labels"]
 
 _LETTERS = "ABETGH"
-_DIMENSION_LETTER = {1: "A", 2: "E", 3: "T", 4: "G", 5: "H"}
+_DIMENSION_LETTER = MappingProxyType({1: "A", 2: "E", 3: "T", 4: "G", 5: "H"})
 
 
 @dataclass(frozen=True, eq=False)
