@@ -9,6 +9,9 @@
   3rd ed., Wiley 1990, Appendix IIA), typed here from memory of that book.
 * Orthogonality for every stabiliser that occurs across many compositions on
   every geometry (the great orthogonality theorem: a fact of group theory).
+* The steps one by one (classes, a joined complex pair, the axis rule, named
+  groups) on small groups whose tables are common practice, and the command's
+  output against stored files (tests/support/golden).
 """
 
 from __future__ import annotations
@@ -18,6 +21,8 @@ import math
 
 import numpy as np
 import pytest
+from _cli import cli  # tests/ is on sys.path under pytest
+from support.golden import GOLDEN, GOLDEN_DIR
 
 from enumerator.errors import InputError
 from enumerator.isomers.enumeration import enumerate_isomers
@@ -30,6 +35,11 @@ from enumerator.symmetry.chartable import (
     named_table,
     table_from_matrices,
 )
+from enumerator.symmetry.dixon import burnside_dixon, conjugacy_classes, multiplication_table, real_species
+from enumerator.symmetry.frames import choose_frame
+from enumerator.symmetry.groups import close_group, group_generators, group_matrices
+from enumerator.symmetry.operations import describe_exact
+from enumerator.workflow.queries import character_tables
 
 # --------------------------------------------------------------------------
 # phonopy: the 32 crystallographic point groups
@@ -329,10 +339,10 @@ def test_orthogonality_of_every_stabiliser_table():
                 # x, y, z: the trace of each operation reduces to the species holding x, y, z
                 ops = geo.operations
                 vec = t.reduce({k: float(np.trace(ops[k].array)) for k in iso.stabiliser})
-                assert sum(n * t.irrep(l).dimension for l, n in vec.items()) == 3
+                assert sum(n * t.irrep(lab).dimension for lab, n in vec.items()) == 3
                 assert all(
-                    "x" in t.irrep(l).functions or "y" in t.irrep(l).functions or "z" in t.irrep(l).functions
-                    for l in vec
+                    "x" in t.irrep(lab).functions or "y" in t.irrep(lab).functions or "z" in t.irrep(lab).functions
+                    for lab in vec
                 )
                 groups.add(t.group)
     # the geometries reach a broad set of groups (check values: the ones named in the handbook tests)
@@ -411,6 +421,82 @@ def _run(args):
     except SystemExit as e:
         return e.code or 0
     return 0
+
+
+# --------------------------------------------------------------------------
+# the steps one by one
+
+
+def test_classes_of_c3v():
+    # C3v has classes E, 2C3, 3sigma_v (common practice)
+    mats = group_matrices("C3v")
+    mult, inv, ident = multiplication_table(mats)
+    assert sorted(len(c) for c in conjugacy_classes(mult, inv, ident)) == [1, 2, 3]
+
+
+def test_complex_pair_joined_into_one_e():
+    # C3: A and a separably degenerate E with characters 2, -1, -1 (common practice)
+    mats = group_matrices("C3")
+    mult, inv, ident = multiplication_table(mats)
+    classes = conjugacy_classes(mult, inv, ident)
+    species = real_species(burnside_dixon(mult, inv, classes))
+    assert sorted((parts, tuple(float(x) for x in ch)) for ch, parts in species) == [
+        (1, (1.0, 1.0, 1.0)),
+        (2, (2.0, -1.0, -1.0)),
+    ]
+    t = named_table("C3")
+    assert [(i.label, i.parts) for i in t.irreps] == [("A", 1), ("E", 2)]
+    # x, y, z span A + E in C3, and the joined E counts once (common practice)
+    assert t.reduce([float(np.trace(m)) for m in mats]) == {"A": 1, "E": 1}
+
+
+def test_axis_rule_puts_z_on_the_principal_axis():
+    # a C4v group turned so that its C4 lies along x: the rule must bring z back onto it
+    turn = np.array([[0.0, 0.0, 1.0], [0.0, 1.0, 0.0], [-1.0, 0.0, 0.0]])
+    mats = [turn @ m @ turn.T for m in group_matrices("C4v")]
+    frame = choose_frame(describe_exact(mats), np.zeros((0, 3)), None)
+    assert frame.kind == "axial"
+    assert np.allclose(np.abs(frame.axes[2]), [1.0, 0.0, 0.0])
+
+
+def test_named_groups_close_and_refuse_second_names():
+    assert len(close_group(group_generators("Oh"))) == 48  # order of Oh (common practice)
+    with pytest.raises(InputError, match="it is Ci"):
+        named_table("S2")  # S2 is the same group as Ci (common practice)
+    with pytest.raises(InputError, match="not a point-group name"):
+        group_generators("Q7")
+
+
+def test_any_object_with_site_vectors_gives_the_same_table(rules):
+    from dataclasses import dataclass
+
+    @dataclass(frozen=True)
+    class Sites:
+        symbol: str
+        linear: bool
+        vectors: tuple
+
+    oc = rules.geometry("OC-6")
+    ops = tuple(range(len(oc.operations)))
+    assert character_table(Sites("OC-6", False, oc.vectors), ops) == character_table(oc, ops)
+
+
+def test_formula_tables_json_is_the_isomers_tables(rules):
+    res = character_tables("Ma2b2c2", isomer_id="2")
+    iso = enumerate_isomers(parse_abstract("Ma2b2c2"), rules.geometry("OC-6")).get("2")
+    assert res.to_dict() == {"isomer": "2", **table_for_isomer(iso).to_dict()}
+    every = character_tables("Ma2b2c2", geometry="OC-6").to_dict()
+    assert isinstance(every, list) and [d["isomer"] for d in every] == ["1a", "1b", "2", "3", "4", "5"]
+
+
+_GOLDEN_CHARTABLE = [name for name in GOLDEN if name.startswith("chartable_")]
+
+
+@pytest.mark.parametrize("name", _GOLDEN_CHARTABLE)
+def test_chartable_output_is_byte_identical(name):
+    code, out, err = cli(GOLDEN[name])
+    assert code == 0, err
+    assert out.encode("utf-8") == (GOLDEN_DIR / name).read_bytes()
 
 
 def test_chartable_command(capsys):

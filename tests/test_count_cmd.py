@@ -12,14 +12,17 @@ import json
 from contextlib import redirect_stderr, redirect_stdout
 
 import pytest
+from support.golden import GOLDEN, GOLDEN_DIR  # tests/ is on sys.path under pytest
 
 from enumerator.cli import main
 from enumerator.errors import InputError
-from enumerator.isomers.counting import burnside_counts
+from enumerator.isomers.counting import CountResult, GeometryCount, burnside_counts, count_isomers
 from enumerator.isomers.enumeration import enumerate_isomers
 from enumerator.parse.abstract import parse_abstract
+from enumerator.render.count import render_count
 from enumerator.rules.ruleset import load_rules
 from enumerator.workflow.pipeline import apply_settings
+from enumerator.workflow.queries import count_formula
 
 RULES = load_rules()
 
@@ -158,3 +161,29 @@ def test_count_command_text_and_json():
 def test_count_command_errors_are_one_line():
     code, out, err = _cli(["count", "M(AA)3", "-g", "TP-3"])
     assert code == 2 and out == "" and len(err.strip().splitlines()) == 1 and err.startswith("isosieve: error:")
+
+
+def test_count_result_json_shape():
+    # one geometry: the reason is reported; every geometry: it is not
+    one = count_formula("Ma4b2", geometry="OC-6").to_dict()
+    assert list(one) == ["formula", "method", "counts", "geometry_reason"]
+    assert one["counts"] == [{"geometry": "OC-6", "name": "octahedron", "geometric_isomers": 2, "stereoisomers": 2}]
+    every = count_formula("Ma4b2", every=True).to_dict()
+    assert "geometry_reason" not in every and [c["geometry"] for c in every["counts"]] == ["HP-6", "OC-6", "TPR-6"]
+
+
+def test_unplaceable_ligands_are_said_in_text():
+    res = CountResult("M(AA)3", (GeometryCount("TPR-6", "trigonal prism", 0, 0),))
+    assert "cannot all be placed together" in render_count(res)
+
+
+def test_count_isomers_runs_the_enumerators_checks():
+    with pytest.raises(InputError):
+        count_isomers(parse_abstract("Ma5"), [RULES.geometry("OC-6")])
+
+
+@pytest.mark.parametrize("name", [n for n in GOLDEN if n.startswith("count_")])
+def test_count_output_is_byte_identical(name):
+    code, out, err = _cli(list(GOLDEN[name]))
+    assert code == 0, err
+    assert out.encode("utf-8") == (GOLDEN_DIR / name).read_bytes()

@@ -17,7 +17,11 @@ import numpy as np
 import pytest
 
 from enumerator.errors import InputError, RuleError
+from enumerator.model.geometry import TRANS_ANGLE
 from enumerator.rules.ruleset import load_rules
+from enumerator.symmetry.derive import derive_operations, is_collinear, polyhedron_edges
+from enumerator.tolerances import TRANS_ANGLE_DEG
+from enumerator.workflow.queries import geometry_catalogue
 
 # (symbol, Schoenflies group, order, polyhedron edges) -- Cotton 1990 for the
 # groups; edge counts are Euler's V - E + F = 2 for each polyhedron (common practice)
@@ -177,3 +181,32 @@ def test_bent_pair_of_general_directions_is_c2v(tmp_path):
     (d / "X.toml").write_text('symbol = "XB-2"\nname = "bent pair"\nsites = [[0.0, 0.0, 1.0], [1.0, 1.0, 0.5]]\n')
     g = load_rules([tmp_path]).geometry("XB-2")
     assert g.point_group == "C2v" and len(g.operations) == 4
+
+
+def test_derived_symmetry_is_a_pure_function_of_the_vectors(rules):
+    # the same vectors give the same operations and edges, with no geometry object in sight
+    oc = rules.geometry("OC-6")
+    assert derive_operations(oc.vectors) == oc.operations
+    assert polyhedron_edges(oc.vectors) == oc.edges
+    square = ((1.0, 0.0, 0.0), (0.0, 1.0, 0.0), (-1.0, 0.0, 0.0), (0.0, -1.0, 0.0))
+    assert sorted(polyhedron_edges(square)) == [(0, 1), (0, 3), (1, 2), (2, 3)]  # a square's four sides
+    assert is_collinear(((0.0, 0.0, 1.0), (0.0, 0.0, -1.0))) and not is_collinear(square)
+
+
+def test_trans_angle_is_the_documented_tolerance():
+    assert TRANS_ANGLE == TRANS_ANGLE_DEG == 179.0
+
+
+def test_geometry_catalogue_json(rules):
+    doc = geometry_catalogue().to_dict()
+    assert [d["symbol"] for d in doc][:3] == ["L-2", "TP-3", "TS-3"]
+    oc = next(d for d in doc if d["symbol"] == "OC-6")
+    assert oc == {
+        "symbol": "OC-6",
+        "name": "octahedron",
+        "coordination_number": 6,
+        "point_group": "Oh",
+        "operations": 48,
+        "polyhedron_edges": 12,
+        "fluxional": False,
+    }

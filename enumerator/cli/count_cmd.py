@@ -48,56 +48,15 @@ def count(ctx, formula, geometry, every, spans, arrangements, as_json, out):
       isosieve count Ma4b2 --all
       isosieve count "M(AA)b4" --span AA=trans --json
     """
-    from enumerator.isomers.counting import burnside_counts
-    from enumerator.isomers.enumeration import generate
-    from enumerator.rules.ruleset import load_rules
-    from enumerator.workflow.pipeline import Request, prepare
+    from enumerator.render.count import render_count
+    from enumerator.workflow.queries import count_formula
 
-    req = Request(
-        formula=formula,
+    result = count_formula(
+        formula,
         geometry=geometry,
+        every=every,
         spans=parse_pairs(spans, "--span", "AA=trans"),
         arrangements=parse_pairs(arrangements, "--arrangement", "AAA=fac"),
         rules=rules_of(ctx),
     )
-    comp, geo, reason = prepare(req)
-    if every:
-        if geometry:
-            from enumerator.errors import InputError
-
-            raise InputError("--all and --geometry both given", "give one of them")
-        rules = load_rules(req.rules)
-        geos = sorted(
-            (g for g in rules.geometries.values() if g.coordination_number == comp.donor_count),
-            key=lambda g: g.symbol,
-        )
-    else:
-        geos = [geo]
-    rows = []
-    for g in geos:
-        generate(comp, g)  # the enumerator's own checks (donor count, placeable ligands), nothing listed
-        n_geo, n_stereo = burnside_counts(comp, g) or (0, 0)
-        rows.append({"geometry": g.symbol, "name": g.name, "geometric_isomers": n_geo, "stereoisomers": n_stereo})
-    if as_json:
-        from enumerator.render.jsonout import dumps
-
-        doc = {"formula": comp.formula, "method": "Burnside's lemma", "counts": rows}
-        if not every:
-            doc["geometry_reason"] = reason
-        emit(dumps(doc), out)
-        return
-    lines = []
-    for r in rows:
-        lines.append(
-            f"{comp.formula} on {r['geometry']} ({r['name']}): "
-            f"{r['geometric_isomers']:,} geometric isomer(s), {r['stereoisomers']:,} stereoisomer(s)"
-            + (
-                " (the ligands cannot all be placed together; allow wider chelate spans with --span)"
-                if not r["stereoisomers"]
-                else ""
-            )
-        )
-    if not every:
-        lines.append(f"geometry: {reason}")
-    lines.append("counted by Burnside's lemma; nothing was enumerated (list them with 'isosieve isomers')")
-    emit("\n".join(lines) + "\n", out)
+    emit(render_count(result, as_json), out)

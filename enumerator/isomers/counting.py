@@ -24,20 +24,121 @@ uncovered site, so each decoration is counted once).  Burnside's lemma
 (15, 30)
 >>> burnside_counts(parse_abstract("M(AA)2b2"), oc)
 (2, 3)
+
+:func:`count_isomers` checks a composition on one or more geometries and gives
+the counts as a :class:`CountResult` (what ``isosieve count`` prints):
+
+>>> count_isomers(parse_abstract("Ma4b2"), [oc]).to_dict()["counts"][0]["geometric_isomers"]
+2
 """
 
 from __future__ import annotations
 
+from collections.abc import Iterable
+from dataclasses import dataclass
 from functools import cache, lru_cache
+from typing import Any
 
-from enumerator.model.composition import Composition
+from enumerator.isomers.enumeration import canonical_placement, generate, placements_for
+from enumerator.model.composition import Composition, LigandKind
 from enumerator.model.geometry import Geometry
 
-__all__ = ["burnside_counts", "cycle_type", "fixed_decorations"]
+__all__ = ["burnside_counts", "cycle_type", "fixed_decorations", "count_isomers", "CountResult", "GeometryCount"]
+
+#: How the counts are found, as the JSON document names it.
+METHOD = "Burnside's lemma"
+
+
+@dataclass(frozen=True)
+class GeometryCount:
+    """The counts of one composition on one geometry."""
+
+    geometry: str
+    name: str
+    geometric_isomers: int
+    stereoisomers: int
+
+    def to_dict(self) -> dict[str, Any]:
+        """Plain data for JSON."""
+        return {
+            "geometry": self.geometry,
+            "name": self.name,
+            "geometric_isomers": self.geometric_isomers,
+            "stereoisomers": self.stereoisomers,
+        }
+
+
+@dataclass(frozen=True)
+class CountResult:
+    """Up-front counts of a formula: one row per geometry tried.
+
+    ``geometry_reason`` says why the geometry was chosen when one geometry was
+    counted; it is None when every geometry of the coordination number was."""
+
+    formula: str
+    counts: tuple[GeometryCount, ...]
+    geometry_reason: str | None = None
+    method: str = METHOD
+
+    def to_dict(self) -> dict[str, Any]:
+        """Plain data for JSON (the shape of ``isosieve count --json``)."""
+        doc: dict[str, Any] = {
+            "formula": self.formula,
+            "method": self.method,
+            "counts": [c.to_dict() for c in self.counts],
+        }
+        if self.geometry_reason is not None:
+            doc["geometry_reason"] = self.geometry_reason
+        return doc
+
+
+def count_isomers(
+    composition: Composition, geometries: Iterable[Geometry], geometry_reason: str | None = None
+) -> CountResult:
+    """Count the isomers of a composition on each geometry, without enumerating.
+
+    Parameters
+    ----------
+    composition : Composition
+        Span and arrangement settings already applied.
+    geometries : iterable of Geometry
+        The geometries to count on, in the order to report them.
+    geometry_reason : str, optional
+        Why the geometry was chosen, when there is one (reported as given).
+
+    Returns
+    -------
+    CountResult
+        A geometry where the ligands cannot all be placed together counts (0, 0).
+
+    Raises
+    ------
+    InputError
+        Where the enumerator itself would refuse the composition on a geometry
+        (donor count, ligands that cannot be placed): the same checks, run
+        without listing anything.
+    """
+    rows = []
+    for g in geometries:
+        generate(composition, g)  # the enumerator's own checks; nothing is listed
+        n_geo, n_stereo = burnside_counts(composition, g) or (0, 0)
+        rows.append(GeometryCount(g.symbol, g.name, n_geo, n_stereo))
+    return CountResult(composition.formula, tuple(rows), geometry_reason)
 
 
 def cycle_type(perm: tuple[int, ...]) -> tuple[int, ...]:
-    """Sorted cycle lengths of a permutation."""
+    """Sorted cycle lengths of a permutation.
+
+    Parameters
+    ----------
+    perm : tuple of int
+        Site ``i`` goes to ``perm[i]``.
+
+    Returns
+    -------
+    tuple of int
+        The lengths of its cycles, ascending.
+    """
     seen = [False] * len(perm)
     out = []
     for i in range(len(perm)):
@@ -74,6 +175,17 @@ def burnside_counts(composition: Composition, geometry: Geometry) -> tuple[int, 
     setting, fac/mer-limited tridentates and face-capping rings (placement
     cycles, see the module docstring).  None when the donor count does not
     match the geometry; (0, 0) when the ligands cannot be placed together.
+
+    Parameters
+    ----------
+    composition : Composition
+    geometry : Geometry
+
+    Returns
+    -------
+    (int, int) or None
+        Orbits under the full group (geometric isomers) and under the proper
+        rotations (stereoisomers, enantiomers counted apart).
     """
     if composition.donor_count != geometry.coordination_number:
         return None
@@ -81,7 +193,7 @@ def burnside_counts(composition: Composition, geometry: Geometry) -> tuple[int, 
 
 
 @lru_cache(maxsize=256)
-def _counts(parts: tuple, geometry: Geometry) -> tuple[int, int]:
+def _counts(parts: tuple[tuple[LigandKind, int], ...], geometry: Geometry) -> tuple[int, int]:
     ops = geometry.operations
     if all(k.denticity == 1 for k, _ in parts):
         counts = tuple(sorted(n for _, n in parts))
@@ -96,39 +208,26 @@ def _counts(parts: tuple, geometry: Geometry) -> tuple[int, int]:
     return geo, stereo
 
 
-def fixed_decorations(parts: tuple, geometry: Geometry, perm: tuple[int, ...]) -> int:
-    """How many decorations of the sites with ``parts`` ((LigandKind, count)
-    pairs) the site permutation ``perm`` maps onto themselves."""
-    from enumerator.isomers.enumeration import placements_for  # numpy-heavy; only when counting chelates
+def fixed_decorations(parts: tuple[tuple[LigandKind, int], ...], geometry: Geometry, perm: tuple[int, ...]) -> int:
+    """How many decorations of the sites with ``parts`` the site permutation
+    ``perm`` maps onto themselves.
 
-    n = geometry.coordination_number
-    full_mask = (1 << n) - 1
-    # items[site] = (kind index, mask, molecules) for each usable placement
-    # cycle whose lowest site is ``site``
-    items: list[list[tuple[int, int, int]]] = [[] for _ in range(n)]
-    for kk, (kind, _) in enumerate(parts):
-        cands = placements_for(kind, geometry)
-        index = {t: k for k, t in enumerate(cands)}
-        image = [index[_canon(kind, tuple(perm[x] for x in t))] for t in cands]
-        seen = [False] * len(cands)
-        for start in range(len(cands)):
-            if seen[start]:
-                continue
-            mask = 0
-            size = 0
-            ok = True
-            j = start
-            while not seen[j]:
-                seen[j] = True
-                m = _mask(cands[j])
-                if mask & m:
-                    ok = False
-                mask |= m
-                size += 1
-                j = image[j]
-            if ok:
-                low = (mask & -mask).bit_length() - 1
-                items[low].append((kk, mask, size))
+    Parameters
+    ----------
+    parts : tuple of (LigandKind, int)
+        Each ligand kind and how many molecules of it.
+    geometry : Geometry
+    perm : tuple of int
+        A symmetry operation's site permutation.
+
+    Returns
+    -------
+    int
+        The number of fixed decorations (unions of whole placement cycles,
+        each cycle's members pairwise disjoint, covering every site once).
+    """
+    items = _cycle_items(parts, geometry, perm)
+    full_mask = (1 << geometry.coordination_number) - 1
     memo: dict[tuple[int, tuple[int, ...]], int] = {}
 
     def count(covered: int, left: tuple[int, ...]) -> int:
@@ -152,14 +251,36 @@ def fixed_decorations(parts: tuple, geometry: Geometry, perm: tuple[int, ...]) -
     return count(0, tuple(c for _, c in parts))
 
 
-def _canon(kind, t: tuple[int, ...]) -> tuple[int, ...]:
-    # the same canonical form of a placement as the enumerator uses
-    if kind.ring:
-        return tuple(sorted(t))
-    if kind.palindromic:
-        r = t[::-1]
-        return r if r < t else t
-    return t
+def _cycle_items(
+    parts: tuple[tuple[LigandKind, int], ...], geometry: Geometry, perm: tuple[int, ...]
+) -> list[list[tuple[int, int, int]]]:
+    """Per site, (kind index, site mask, molecules) of each usable placement
+    cycle of ``perm`` whose lowest site it is (members pairwise disjoint)."""
+    items: list[list[tuple[int, int, int]]] = [[] for _ in range(geometry.coordination_number)]
+    for kk, (kind, _) in enumerate(parts):
+        cands = placements_for(kind, geometry)
+        index = {t: k for k, t in enumerate(cands)}
+        image = [index[canonical_placement(kind, tuple(perm[x] for x in t))] for t in cands]
+        seen = [False] * len(cands)
+        for start in range(len(cands)):
+            if seen[start]:
+                continue
+            mask = 0
+            size = 0
+            ok = True
+            j = start
+            while not seen[j]:
+                seen[j] = True
+                m = _mask(cands[j])
+                if mask & m:
+                    ok = False
+                mask |= m
+                size += 1
+                j = image[j]
+            if ok:
+                low = (mask & -mask).bit_length() - 1
+                items[low].append((kk, mask, size))
+    return items
 
 
 def _mask(t: tuple[int, ...]) -> int:

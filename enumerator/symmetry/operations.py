@@ -2,7 +2,7 @@
 Schoenflies identification.
 
 A group here is a finite set of 3x3 orthogonal matrices that is closed under
-multiplication.  The groups come from geometry (see :mod:`enumerator.model.geometry`);
+multiplication.  The groups come from geometry (see :mod:`enumerator.symmetry.derive`);
 nothing in this module types a group in.
 
 >>> import numpy as np
@@ -20,14 +20,23 @@ from functools import lru_cache
 
 import numpy as np
 
-from enumerator.symmetry.linalg import matrix_key
+from enumerator.tolerances import (
+    ANGLE_TOL,
+    KEY_DECIMALS,
+    MAX_ROTATION_ORDER,
+    TURN_FRACTION_TOL,
+    VECTOR_TOL,
+)
 
 __all__ = [
     "SymOp",
     "OpInfo",
+    "ExactOp",
     "describe",
+    "describe_exact",
     "schoenflies",
     "axis_key",
+    "matrix_key",
     "GroupIdentificationError",
     "LINEAR_GROUPS",
 ]
@@ -90,16 +99,43 @@ class OpInfo:
         return base if self.power == 1 else f"{base}^{self.power}"
 
 
+def matrix_key(m: np.ndarray) -> tuple[float, ...]:
+    """A hashable, rounding-stable key for a 3x3 matrix (by value).
+
+    Parameters
+    ----------
+    m : array_like, shape (3, 3)
+
+    Returns
+    -------
+    tuple of float
+        The nine elements row by row, rounded to ``KEY_DECIMALS`` places (-0.0 written as 0.0).
+    """
+    r = np.round(np.asarray(m, dtype=float), KEY_DECIMALS) + 0.0
+    return tuple(float(x) for x in r.ravel())
+
+
 def axis_key(v: np.ndarray) -> tuple[float, float, float]:
-    """Sign-normalised, rounded axis direction usable as a dict key."""
+    """Sign-normalised, rounded axis direction usable as a dict key.
+
+    Parameters
+    ----------
+    v : array_like, shape (3,)
+        Any non-zero direction.
+
+    Returns
+    -------
+    tuple of float
+        The unit vector with its first non-zero component positive, rounded to ``KEY_DECIMALS`` places.
+    """
     v = np.asarray(v, dtype=float)
     v = v / np.linalg.norm(v)
     for x in v:
-        if abs(x) > 1e-6:
+        if abs(x) > VECTOR_TOL:
             if x < 0:
                 v = -v
             break
-    r = np.round(v, 6) + 0.0
+    r = np.round(v, KEY_DECIMALS) + 0.0
     return (float(r[0]), float(r[1]), float(r[2]))
 
 
@@ -111,24 +147,40 @@ def _eigvec(m: np.ndarray, value: float) -> np.ndarray:
 
 
 def _angle_to_fraction(theta: float) -> tuple[int, int]:
-    """theta in (0, 2pi) as k/n of a full turn, in lowest terms (n up to 60)."""
-    for n in range(1, 61):
+    """theta in (0, 2pi) as k/n of a full turn, in lowest terms (n up to MAX_ROTATION_ORDER)."""
+    for n in range(1, MAX_ROTATION_ORDER + 1):
         k = theta * n / (2 * math.pi)
         kr = round(k)
-        if abs(k - kr) < 1e-4 and kr > 0:
+        if abs(k - kr) < TURN_FRACTION_TOL and kr > 0:
             g = math.gcd(kr, n)
             return kr // g, n // g
     raise GroupIdentificationError(f"rotation angle {math.degrees(theta):.4f} deg is not a rational fraction of a turn")
 
 
 def describe(m: np.ndarray) -> OpInfo:
-    """Describe an orthogonal matrix as E, C_n^k, i, sigma or S_n^k."""
+    """Describe an orthogonal matrix as E, C_n^k, i, sigma or S_n^k.
+
+    Parameters
+    ----------
+    m : array_like, shape (3, 3)
+        An orthogonal matrix of finite order.
+
+    Returns
+    -------
+    OpInfo
+        Kind, order, power and the sign-normalised, rounded axis (see :func:`axis_key`).
+
+    Raises
+    ------
+    GroupIdentificationError
+        If the rotation angle is not k/n of a turn with n up to ``MAX_ROTATION_ORDER``.
+    """
     m = np.asarray(m, dtype=float)
     det = float(np.linalg.det(m))
     tr = float(np.trace(m))
     if det > 0:
         theta = _turn(m, (tr - 1) / 2)
-        if theta < _ANGLE_TOL:
+        if theta < ANGLE_TOL:
             return OpInfo("E", 1, 1, None)
         axis = _eigvec(m, 1.0)
         # orient the axis so that the rotation is counter-clockwise about it
@@ -141,11 +193,11 @@ def describe(m: np.ndarray) -> OpInfo:
         if np.dot(key, axis) < 0:
             k = n - k
         return OpInfo("C", n, k, key)
-    if abs(tr + 3) < 1e-6:
+    if abs(tr + 3) < VECTOR_TOL:
         return OpInfo("i", 2, 1, None)
     axis = _eigvec(m, -1.0)
     theta = _turn(m, (tr + 1) / 2)
-    if theta < _ANGLE_TOL:
+    if theta < ANGLE_TOL:
         return OpInfo("s", 2, 1, axis_key(axis))
     s = _rotation_sense(m @ _householder(axis), axis)
     if s < 0:
@@ -157,9 +209,57 @@ def describe(m: np.ndarray) -> OpInfo:
     return OpInfo("S", n, k, key)
 
 
-#: Rotation angles below this (radians) count as none: matrices are compared
-#: after rounding to 6 decimals, and the smallest true angle here is 2pi/60.
-_ANGLE_TOL = 1e-4
+@dataclass(frozen=True, eq=False)
+class ExactOp:
+    """:class:`OpInfo` with the axis as an unrounded unit vector (an array), for
+    geometric work where the rounded key would lose precision.  The axis points
+    the same way as the rounded one; it is None for E and i."""
+
+    kind: str
+    order: int
+    power: int
+    axis: np.ndarray | None
+
+    @property
+    def direction(self) -> np.ndarray:
+        """The axis, for an operation that has one (C, S, sigma).
+
+        Raises
+        ------
+        ValueError
+            For E and i, which have no axis.
+        """
+        if self.axis is None:
+            raise ValueError(f"{self.kind} has no axis")
+        return self.axis
+
+
+def describe_exact(matrices: Sequence[np.ndarray]) -> tuple[ExactOp, ...]:
+    """:func:`describe` each matrix, keeping the exact axis.
+
+    Parameters
+    ----------
+    matrices : sequence of array_like, shape (3, 3)
+
+    Returns
+    -------
+    tuple of ExactOp
+        One per matrix, in order; the axis is the eigenvector of eigenvalue +1
+        (rotations) or -1 (reflections, improper rotations), normalised and
+        signed like :attr:`OpInfo.axis`.
+    """
+    out = []
+    for m in matrices:
+        d = describe(m)
+        axis = None
+        if d.axis is not None:
+            w, v = np.linalg.eig(np.asarray(m, dtype=float))
+            target = 1.0 if d.kind == "C" else -1.0
+            a = np.real(v[:, int(np.argmin(np.abs(w - target)))])
+            a = a / np.linalg.norm(a)
+            axis = a if np.dot(a, d.axis) > 0 else -a
+        out.append(ExactOp(d.kind, d.order, d.power, axis))
+    return tuple(out)
 
 
 def _turn(m: np.ndarray, cos_t: float) -> float:
@@ -179,7 +279,7 @@ def _householder(a: np.ndarray) -> np.ndarray:
 def _rotation_sense(m: np.ndarray, axis: np.ndarray) -> float:
     """+1 if the proper rotation m turns counter-clockwise about axis."""
     ref = np.array([1.0, 0.0, 0.0])
-    if abs(np.dot(ref, axis)) > 0.9:
+    if abs(np.dot(ref, axis)) > 0.9:  # a reference direction well away from the axis
         ref = np.array([0.0, 1.0, 0.0])
     u = ref - np.dot(ref, axis) * axis
     v = m @ u
@@ -193,6 +293,21 @@ def schoenflies(matrices: Iterable[np.ndarray]) -> str:
     The decision follows the usual flow chart of the trade (high-order
     groups first, then the principal axis, perpendicular C2 axes and mirror
     planes), and the result is checked against the group order.
+
+    Parameters
+    ----------
+    matrices : iterable of array_like, shape (3, 3)
+        Every operation of the group, once each.
+
+    Returns
+    -------
+    str
+        The Schoenflies symbol.
+
+    Raises
+    ------
+    GroupIdentificationError
+        If the symbol found does not fit the number of operations.
     """
     mats = [np.asarray(m, dtype=float) for m in matrices]
     return _schoenflies_cached(tuple(sorted(matrix_key(m) for m in mats)))
@@ -228,54 +343,69 @@ def _group_order(name: str) -> int:
     raise GroupIdentificationError(f"unknown group name {name}")
 
 
+Axis = tuple[float, float, float]
+
+
 def _identify(infos: Sequence[OpInfo]) -> str:
+    """The flow chart: no rotation axis, several high-order axes, three C2 axes, one principal axis."""
     has_inv = any(o.kind == "i" for o in infos)
-    mirrors = [o.axis for o in infos if o.kind == "s"]
-    axes: dict[tuple[float, float, float], int] = {}
-    for o in infos:
-        if o.kind == "C":
-            assert o.axis is not None
-            axes[o.axis] = max(axes.get(o.axis, 1), o.order)
+    mirrors = [o.axis for o in infos if o.kind == "s" and o.axis is not None]
+    axes = _axis_orders(infos)
     if not axes:
         if mirrors:
             return "Cs"
         return "Ci" if has_inv else "C1"
-    high = [a for a, n in axes.items() if n >= 3]
-    if len(high) >= 2:
-        orders = set(axes.values())
-        if 5 in orders:
-            return "Ih" if has_inv else "I"
-        if 4 in orders:
-            return "Oh" if has_inv else "O"
-        if has_inv:
-            return "Th"
-        return "Td" if mirrors else "T"
+    if len([a for a, n in axes.items() if n >= 3]) >= 2:
+        return _cubic_group(set(axes.values()), has_inv, bool(mirrors))
     n = max(axes.values())
     c2_axes = [a for a, k in axes.items() if k % 2 == 0]
     if n == 2 and len(c2_axes) == 3:
         if len(infos) == 4:
             return "D2"
-        if has_inv:
-            return "D2h"
-        return "D2d"
+        return "D2h" if has_inv else "D2d"
     principal = np.array(next(a for a, k in axes.items() if k == n))
-    perp_c2 = [a for a in c2_axes if abs(np.dot(a, principal)) < 1e-6]
-    sigma_h = any(abs(abs(np.dot(m, principal)) - 1) < 1e-6 for m in mirrors)
-    sigma_v = any(abs(np.dot(m, principal)) < 1e-6 for m in mirrors)
+    return _axial_group(infos, n, principal, c2_axes, mirrors)
+
+
+def _axis_orders(infos: Sequence[OpInfo]) -> dict[Axis, int]:
+    """Each proper rotation axis -> the highest order of rotation about it."""
+    axes: dict[Axis, int] = {}
+    for o in infos:
+        if o.kind == "C" and o.axis is not None:
+            axes[o.axis] = max(axes.get(o.axis, 1), o.order)
+    return axes
+
+
+def _cubic_group(orders: set[int], has_inv: bool, has_mirror: bool) -> str:
+    """T, Td, Th, O, Oh, I or Ih from the rotation orders present."""
+    if 5 in orders:
+        return "Ih" if has_inv else "I"
+    if 4 in orders:
+        return "Oh" if has_inv else "O"
+    if has_inv:
+        return "Th"
+    return "Td" if has_mirror else "T"
+
+
+def _axial_group(
+    infos: Sequence[OpInfo], n: int, principal: np.ndarray, c2_axes: list[Axis], mirrors: list[Axis]
+) -> str:
+    """Dn, Dnh, Dnd, Cn, Cnh, Cnv or S2n about one principal n-fold axis."""
+    perp_c2 = [a for a in c2_axes if abs(np.dot(a, principal)) < VECTOR_TOL]
+    sigma_h = any(abs(abs(np.dot(m, principal)) - 1) < VECTOR_TOL for m in mirrors)
+    sigma_v = any(abs(np.dot(m, principal)) < VECTOR_TOL for m in mirrors)
     if len(perp_c2) == n:
         if sigma_h:
             return f"D{n}h"
-        if sigma_v:
-            return f"D{n}d"
-        return f"D{n}"
+        return f"D{n}d" if sigma_v else f"D{n}"
     if sigma_h:
         return f"C{n}h"
     if sigma_v:
         return f"C{n}v"
     s2n = any(
-        o.kind in ("S", "i") and (o.axis is None or abs(abs(np.dot(o.axis, principal)) - 1) < 1e-6) and o.order == 2 * n
+        o.kind in ("S", "i")
+        and (o.axis is None or abs(abs(np.dot(o.axis, principal)) - 1) < VECTOR_TOL)
+        and o.order == 2 * n
         for o in infos
     )
-    if s2n:
-        return f"S{2 * n}"
-    return f"C{n}"
+    return f"S{2 * n}" if s2n else f"C{n}"

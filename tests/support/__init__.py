@@ -1,0 +1,1 @@
+"""Helpers shared by the tests: stored command outputs (``golden/``) and how to compare with them."""
