@@ -96,10 +96,6 @@ class ElectronCount:
         return s
 
 
-def _meta(kind) -> dict[str, Any]:
-    return dict(kind.meta)
-
-
 def count_electrons(comp: Composition) -> ElectronCount:
     """Oxidation state, d-count and valence electrons of a real composition."""
 
@@ -113,7 +109,7 @@ def count_electrons(comp: Composition) -> ElectronCount:
     known = True
     nitrosyls = []
     for kind, n in comp.parts:
-        m = _meta(kind)
+        m = kind.info_dict()
         if "charge" not in m:
             known = False
             continue

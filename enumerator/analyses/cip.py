@@ -337,12 +337,11 @@ def rank_smiles(donors: Iterable[str | tuple[str, int]], metal: str = "M") -> tu
 
 def uses_letters(composition: Composition) -> bool:
     """True when the ligands are abstract letters (no SMILES in their meta)."""
-    return not any("smiles" in dict(k.meta) for k in composition.kinds)
+    return not any(k.info("smiles") is not None for k in composition.kinds)
 
 
 def _kind_keys(kind: LigandKind, metal: str) -> list[BranchKey]:
-    meta = dict(kind.meta)
-    smiles = meta.get("smiles")
+    smiles = kind.info("smiles")
     if not isinstance(smiles, str) or not smiles:
         raise InputError(
             f"ligand '{kind.name}' has no SMILES, so its CIP priority cannot be computed",
@@ -350,7 +349,7 @@ def _kind_keys(kind: LigandKind, metal: str) -> list[BranchKey]:
         )
     if kind.ring:
         atoms, _, donors = _graph(_structures(smiles)[0], metal)
-        hap = int(meta.get("hapticity", len(donors) or kind.denticity))
+        hap = int(kind.info("hapticity", len(donors) or kind.denticity))
         if len(donors) >= 2:
             zs = [atoms[i][0] for i in donors.values()]
             ms = [atoms[i][1] for i in donors.values()]

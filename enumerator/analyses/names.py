@@ -140,7 +140,7 @@ def _number(comp: Composition) -> str | None:
     oxidation state cannot be computed."""
     from enumerator.analyses.centre import count_electrons, roman
 
-    nitrosyl = any("nitrosyl" in dict(k.meta) for k in comp.kinds)
+    nitrosyl = any(k.info("nitrosyl") is not None for k in comp.kinds)
     if nitrosyl:
         q = comp.charge
         if q == 0:
@@ -177,14 +177,13 @@ def additive_name(comp: Composition, ruleset, descriptor: str | None) -> Complex
         return ComplexName(None, "abstract letters have no names")
     parts = []
     for kind, count in comp.parts:
-        meta = dict(kind.meta)
-        name = meta.get("iupac")
+        name = kind.info("iupac")
         if not isinstance(name, str):
             return ComplexName(
                 None,
                 f"ligand '{kind.name}' has no IUPAC name in the catalogue (iupac = \"...\" in its ligands.toml entry)",
             )
-        parts.append((ligand_sort_key(name), name, bool(meta.get("enclose")), count))
+        parts.append((ligand_sort_key(name), name, bool(kind.info("enclose")), count))
     metals = element_names(ruleset)
     if comp.metal not in metals:
         return ComplexName(

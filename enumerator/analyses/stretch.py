@@ -570,7 +570,7 @@ def _nucleus_for(kind, reporters: Reporters) -> tuple[str | None, bool]:
     environments with no nucleus named."""
     if kind.reporter:
         return reporters.get(kind.reporter).nucleus, True
-    if not kind.meta:  # abstract letter
+    if not kind.info_dict():  # abstract letter
         return None, True
     for el in kind.donors:
         nuc = reporters.nucleus_of(el)

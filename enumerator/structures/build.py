@@ -124,13 +124,6 @@ def _round(x: float) -> float:
     return 0.0 if v == 0 else v
 
 
-def _meta(kind: LigandKind, key: str, default=None):
-    for k, v in kind.meta:
-        if k == key:
-            return v
-    return default
-
-
 def _norm(v: Sequence[float]) -> Vec:
     n = math.sqrt(sum(c * c for c in v))
     return tuple(c / n for c in v)  # type: ignore[return-value]
@@ -193,7 +186,7 @@ def _why_not_full(comp: Composition) -> str:
     if not element_or_none(comp.metal):
         return f"metal '{comp.metal}' is not an element"
     for k in comp.kinds:
-        if not _meta(k, "smiles"):
+        if not k.info("smiles"):
             return f"no SMILES for ligand '{k.name}'"
     return ""
 
@@ -227,7 +220,7 @@ def _core(isomer: Isomer, comp: Composition, reason: str, label: str) -> Structu
 def _ligand_mol(kind: LigandKind):
     from rdkit import Chem, rdBase
 
-    smi = str(_meta(kind, "smiles"))
+    smi = str(kind.info("smiles"))
     with rdBase.BlockLogs():  # '[H-:1]' (hydride) draws a warning about a lone H
         m = Chem.MolFromSmiles(smi)
     if m is None:
@@ -242,7 +235,7 @@ def _ligand_mol(kind: LigandKind):
 
 def _ring_atoms(m, kind: LigandKind) -> list[int]:
     """The atoms of an eta-ring bound to the metal, in ring order."""
-    size = int(_meta(kind, "hapticity", 0) or 0)
+    size = int(kind.info("hapticity", 0) or 0)
     mapped = {a.GetIdx() for a in m.GetAtoms() if a.GetAtomMapNum()}
     for ring in m.GetRingInfo().AtomRings():
         if (not size or len(ring) == size) and (not mapped or mapped <= set(ring) or mapped & set(ring)):
