@@ -15,8 +15,9 @@ import time
 
 import pytest
 
-from enumerator.analyses.stretch import StretchAnalysis, load_reporters, stretch_modes
+from enumerator.analyses.stretch import StretchAnalysis, stretch_modes
 from enumerator.errors import InputError
+from enumerator.rules.reporters import load_reporters
 from enumerator.rules.ruleset import load_rules
 from enumerator.workflow.pipeline import analyse
 

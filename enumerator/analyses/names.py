@@ -7,8 +7,9 @@ The parts come from the rule data, never from the formula text:
 * each ligand's name is the ``iupac`` key of its catalogue entry, with
   ``enclose`` saying whether it goes in parentheses (organic ligands and
   names with locants, spaces or multiplying prefixes of their own);
-* the central atom's name is in ``rules/element_names.toml`` (its -ate
-  form for an anionic complex).
+* the central atom's name is in ``rules/element_names.toml``, read by
+  :func:`enumerator.rules.element_names.element_names` (its -ate form for
+  an anionic complex).
 
 Assembly (IR-9.2.2):
 
@@ -40,14 +41,13 @@ isotope-labelled entries) or metal gets no name, with the reason.
 from __future__ import annotations
 
 import re
-from collections.abc import Mapping
 from dataclasses import dataclass
-from functools import lru_cache
 
-from enumerator.errors import IsosieveError, RuleError
+from enumerator.errors import IsosieveError
 from enumerator.model.composition import Composition
+from enumerator.rules.element_names import element_names
 
-__all__ = ["ComplexName", "additive_name", "element_names", "ligand_sort_key"]
+__all__ = ["ComplexName", "additive_name", "ligand_sort_key"]
 
 _SIMPLE = {
     1: "",
@@ -103,36 +103,6 @@ def ligand_sort_key(name: str) -> str:
     """
     body = _FRONT.sub("", name)
     return "".join(ch for ch in body.lower() if ch.isalpha() and ch not in "κη")
-
-
-def element_names(ruleset) -> Mapping[str, tuple[str, str]]:
-    """Symbol -> (name, anion name) from every element_names.toml in force."""
-    return _element_names(tuple(ruleset.files("element_names.toml")))
-
-
-@lru_cache(maxsize=16)
-def _element_names(paths) -> Mapping[str, tuple[str, str]]:
-    from enumerator.rules.ruleset import check_keys, read_toml
-
-    out: dict[str, tuple[str, str]] = {}
-    for path in paths:
-        data = read_toml(path)
-        check_keys(data, str(path), (), ("element",))
-        entries = data.get("element") or []
-        if not isinstance(entries, list):
-            raise RuleError(f"{path}: 'element' must be an array of tables", "write [[element]] before each entry")
-        for k, e in enumerate(entries, 1):
-            where = f"{path}: [[element]] #{k}"
-            if not isinstance(e, dict):
-                raise RuleError(f"{where} is not a table", "write [[element]] with symbol, name, anion")
-            check_keys(e, where, ("symbol", "name", "anion"), ())
-            for key in ("symbol", "name", "anion"):
-                if not isinstance(e[key], str) or not re.fullmatch(r"[A-Za-z]+", e[key]):
-                    raise RuleError(
-                        f"{where}: {key} must be a word of letters, not {e[key]!r}", f'write e.g. {key} = "cobalt"'
-                    )
-            out[e["symbol"]] = (e["name"], e["anion"])
-    return out
 
 
 def _number(comp: Composition) -> str | None:

@@ -32,14 +32,12 @@ from dataclasses import dataclass
 from functools import lru_cache
 from typing import Any
 
-from enumerator.errors import InputError, RuleError
+from enumerator.errors import InputError
+from enumerator.rules.reporters import ReporterClass, Reporters, load_reporters
 from enumerator.symmetry.linear import LINEAR_CORRELATION, LINEAR_IR, LINEAR_RAMAN
 from enumerator.workflow.result import Column, Section
 
 __all__ = [
-    "ReporterClass",
-    "Reporters",
-    "load_reporters",
     "ModeSet",
     "stretch_modes",
     "environments",
@@ -52,97 +50,6 @@ __all__ = [
 #: Techniques from cheapest to dearest (routine solution IR first; Raman needs
 #: a separate instrument; 13C/15N NMR of reporters needs long runs or labelling).
 COST_ORDER = ("IR", "Raman", "NMR")
-
-
-# --------------------------------------------------------------------------
-# rules
-
-
-@dataclass(frozen=True)
-class ReporterClass:
-    """One reporter class from rules/reporters.toml."""
-
-    key: str
-    name: str
-    bond: str
-    nucleus: str
-    window: tuple[float, float]
-    source: str
-    caution: str = ""
-
-
-@dataclass(frozen=True)
-class Reporters:
-    classes: tuple[ReporterClass, ...]
-    nuclei: tuple[tuple[str, str], ...]
-
-    def get(self, key: str) -> ReporterClass:
-        for c in self.classes:
-            if c.key == key:
-                return c
-        raise KeyError(key)
-
-    @property
-    def names(self) -> tuple[str, ...]:
-        return tuple(c.key for c in self.classes)
-
-    def nucleus_of(self, element: str) -> str | None:
-        return dict(self.nuclei).get(element)
-
-
-def load_reporters(ruleset) -> Reporters:
-    """Reporter classes of a RuleSet (built-in reporters.toml, then user
-    folders' files, a later entry replacing an earlier one); validated once,
-    cached by value."""
-    return _load_reporters(tuple(ruleset.files("reporters.toml")))
-
-
-@lru_cache(maxsize=16)
-def _load_reporters(paths) -> Reporters:
-    from enumerator.rules.ruleset import check_keys, read_toml
-
-    classes: dict[str, ReporterClass] = {}
-    nuclei: dict[str, str] = {}
-    for path in paths:
-        data = read_toml(path)
-        check_keys(data, str(path), (), ("class", "nuclei"))
-        for key, entry in (data.get("class") or {}).items():
-            where = f"{path}: [class.{key}]"
-            if not isinstance(entry, dict):
-                raise RuleError(
-                    f"{where} is not a table",
-                    "write [class.NAME] with name, bond, nucleus, ir_window_cm1, window_source",
-                )
-            check_keys(entry, where, ("name", "bond", "nucleus", "ir_window_cm1", "window_source"), ("caution",))
-            w = entry["ir_window_cm1"]
-            ok = (
-                isinstance(w, list)
-                and len(w) == 2
-                and all(isinstance(x, (int, float)) and not isinstance(x, bool) for x in w)
-                and 0 < w[0] < w[1] < 5000
-            )
-            if not ok:
-                raise RuleError(
-                    f"{where}: ir_window_cm1 = {w!r} is not [low, high] in cm-1",
-                    "write e.g. ir_window_cm1 = [1850, 2125]",
-                )
-            for k in ("name", "bond", "nucleus", "window_source"):
-                if not isinstance(entry[k], str) or not entry[k].strip():
-                    raise RuleError(f"{where}: {k} must be a non-empty string", f'write {k} = "..."')
-            classes[key] = ReporterClass(
-                key,
-                entry["name"],
-                entry["bond"],
-                entry["nucleus"],
-                (float(w[0]), float(w[1])),
-                entry["window_source"],
-                str(entry.get("caution", "")),
-            )
-        for el, nuc in (data.get("nuclei") or {}).items():
-            if not isinstance(nuc, str):
-                raise RuleError(f'{path}: [nuclei] {el} must be a string such as "31P"', "quote the nucleus")
-            nuclei[el] = nuc
-    return Reporters(tuple(classes[k] for k in sorted(classes)), tuple(sorted(nuclei.items())))
 
 
 # --------------------------------------------------------------------------
