@@ -142,11 +142,9 @@ def test_unknown_reporter_class_is_a_clear_input_error():
 
 
 def test_pairs_json_and_enantiomers():
-    from enumerator.render.jsonout import result_to_dict
-
     # cis-M(AA)2b2 is chiral (Delta/Lambda; Cotton; common practice): enantiomers never distinct
     r = analyse("M(AA)2b2", geometry="OC-6", reporters=(("b", "CO"),))
-    doc = result_to_dict(r)
+    doc = r.to_dict()
     n = len(doc["isomers"])
     assert len(doc["pairs"]) == n * (n - 1) // 2
     en = [p for p in doc["pairs"] if p.get("note") == "enantiomers"]

@@ -40,7 +40,6 @@ from enumerator.errors import InputError
 from enumerator.model.composition import Composition
 from enumerator.model.elements import atomic_number, group_of
 from enumerator.rules.ruleset import RuleSet
-from enumerator.workflow.result import Column, Section
 
 __all__ = [
     "ElectronCount",
@@ -311,34 +310,6 @@ class CentreAnalysis:
                 "notes": list(self.notes),
             }
         }
-
-    def columns(self) -> Sequence[Column]:
-        return ()
-
-    def sections(self) -> Sequence[Section]:
-        c = self.count
-        lines = [f"{c.label}" + (f", {c.enemark_feltham} (Enemark–Feltham)" if c.enemark_feltham else "")]
-        if c.valence_electrons is not None and c.group is not None:
-            cov = " + ".join([f"{c.metal} {c.group}"] + [f"{name} {n}×{ec}" for name, n, _, ec, _, _ in c.ligands])
-            if c.charge:
-                cov += f" - charge ({c.charge:+d})"
-            ion = " + ".join([f"d{c.d_electrons}"] + [f"{name} {n}×{ei}" for name, n, _, _, ei, _ in c.ligands])
-            lines.append(f"covalent count: {cov} = {c.valence_electrons}")
-            lines.append(f"ionic count:    {ion} = {c.valence_electrons_ionic}")
-            lines.append(f"valence electrons: {c.valence_electrons}" + _ve_comment(c, self.geometry))
-        for name, n, b in c.nitrosyls:
-            lines.append(f"{name}: {b} M-N-O, counted as {'NO+ (3-electron)' if b == 'linear' else 'NO- (1-electron)'}")
-        lines += [f"note: {n}" for n in self.notes]
-        return (Section("Metal centre", "\n".join(lines)),)
-
-
-def _ve_comment(c: ElectronCount, geometry: str) -> str:
-    ve = c.valence_electrons
-    if ve == 18:
-        return " (18-electron rule obeyed)"
-    if ve == 16 and c.d_electrons == 8 and geometry == "SP-4":
-        return " (16 electrons: usual for square-planar d8)"
-    return f" ({ve - 18:+d} from 18)" if ve is not None else ""
 
 
 def _notes(comp: Composition, c: ElectronCount, geometry: str) -> tuple[str, ...]:

@@ -108,7 +108,7 @@ from enumerator.errors import InputError, IsosieveError
 from enumerator.isomers.enumeration import Isomer, IsomerSet
 from enumerator.model.composition import Composition
 from enumerator.model.geometry import Geometry
-from enumerator.workflow.result import Column, Result, Section
+from enumerator.workflow.result import Result
 
 __all__ = [
     "Descriptor",
@@ -130,7 +130,6 @@ SUPPORTED = ("TS-3", "SP-4", "SS-4", "T-4", "OC-6", "SPY-5", "TBPY-5", "PBPY-7",
 _BIPYRAMIDS = ("TBPY-5", "PBPY-7", "HBPY-8")
 _PREFIX_GEOMETRIES = ("SP-4", "OC-6")
 _SYMBOL_TEXT = {"Delta": "Δ", "Lambda": "Λ"}
-_SYMBOL_LATEX = {"Delta": r"$\Delta$", "Lambda": r"$\Lambda$"}
 #: At most this many isomers are enumerated to decide whether priming is needed.
 PRIMING_SCAN = 3000
 #: At most this many prime assignments are tried.
@@ -767,57 +766,6 @@ class DescriptorAnalysis:
         if self.name_note:
             doc["descriptor_rules"]["names"] = self.name_note
         return doc
-
-    def columns(self) -> Sequence[Column]:
-        if not self.descriptors:
-            return []
-        values = {k: d.text for k, d in self.descriptors}
-        latex = {}
-        for k, d in self.descriptors:
-            sym = d.chirality
-            tail = f"-{_SYMBOL_LATEX.get(sym, sym)}" if sym else ""
-            latex[k] = d.stereo_free + tail
-        cols = [Column("descriptor", values, latex)]
-        if any(d.prefix for _, d in self.descriptors):
-            cols.append(Column("prefix", {k: d.prefix or "-" for k, d in self.descriptors}))
-        if self.names:
-            from enumerator.render.tables import latex_escape
-
-            names = dict(self.names)
-            cols.append(Column("IUPAC name", names, {k: latex_escape(v) for k, v in names.items()}, wide=True))
-        return cols
-
-    def sections(self) -> Sequence[Section]:
-        lines = []
-        if self.error:
-            lines.append(f"not assigned: {self.error}")
-        else:
-            lines.append(
-                f"IUPAC 2005 IR-9.3; priority numbers from {self.basis}"
-                + ("; priming convention applied" if self.primed else "")
-            )
-        for desc, ids in self.shared:
-            lines.append(
-                f"{desc} is shared by isomers {', '.join(ids)}: the configuration index does not tell them apart"
-            )
-        if self.no_symbol:
-            lines.append(
-                f"isomers {', '.join(self.no_symbol)} are chiral, but neither C/A nor the skew-lines convention decides a "
-                "symbol for them: tell the enantiomers apart by isomer id"
-            )
-        out = [Section("Descriptors", "\n".join(lines))]
-        if self.names:
-            width = max(len(k) for k, _ in self.names)
-            out.append(
-                Section(
-                    "IUPAC names (IR-9.2, descriptor of IR-9.3 in front)",
-                    "\n".join(f"{k:<{width}}  {v}" for k, v in self.names),
-                )
-            )
-        elif self.name_note:
-            out.append(Section("IUPAC names", f"not given: {self.name_note}"))
-        return out
-
 
 def _analysis(isomer_set: IsomerSet) -> DescriptorAnalysis:
     from enumerator.analyses.cip import uses_letters

@@ -16,12 +16,11 @@ True
 
 from __future__ import annotations
 
-from collections.abc import Mapping, Sequence
+from collections.abc import Mapping
 from dataclasses import dataclass
 from typing import Any
 
 from enumerator.model.composition import Composition
-from enumerator.workflow.result import Column, Section
 
 __all__ = ["cautions", "hazard_classes", "SafetyAnalysis", "stage", "GENERAL", "TEXT", "README_TEXT"]
 
@@ -105,7 +104,7 @@ def cautions(comp: Composition) -> tuple[str, ...]:
 
 @dataclass(frozen=True)
 class SafetyAnalysis:
-    """Adds top-level JSON ``"safety": [str]`` and a "Safety" text section."""
+    """The caution lines of a result; adds top-level JSON ``"safety": [str]``."""
 
     lines: tuple[str, ...]
 
@@ -114,12 +113,6 @@ class SafetyAnalysis:
 
     def top_json(self) -> Mapping[str, Any]:
         return {"safety": list(self.lines)}
-
-    def columns(self) -> Sequence[Column]:
-        return ()
-
-    def sections(self) -> Sequence[Section]:
-        return (Section("Safety", "\n".join(f"- {line}" for line in self.lines)),)
 
 
 def stage(res, req) -> SafetyAnalysis | None:

@@ -35,7 +35,6 @@ from typing import Any
 from enumerator.errors import InputError
 from enumerator.rules.reporters import ReporterClass, Reporters, load_reporters
 from enumerator.symmetry.linear import LINEAR_CORRELATION, LINEAR_IR, LINEAR_RAMAN
-from enumerator.workflow.result import Column, Section
 
 __all__ = [
     "ModeSet",
@@ -301,11 +300,13 @@ class StretchAnalysis:
             "axes": self.axes[k],
         }
 
+    def fluxional_note(self) -> str | None:
+        """The NMR caution for a geometry marked fluxional, else None."""
+        return FLUXIONAL_NOTE.format(geo=self.geometry) if self.fluxional else None
+
     def top_json(self) -> Mapping[str, Any]:
-        notes = []
-        if self.fluxional:
-            notes.append(_FLUX.format(geo=self.geometry))
-        notes.append(_ENANT)
+        flux = self.fluxional_note()
+        notes = [flux, ENANTIOMER_NOTE] if flux else [ENANTIOMER_NOTE]
         return {
             **self._pairs_json(),
             "reporter_classes": {
@@ -337,49 +338,6 @@ class StretchAnalysis:
             doc["pairs"] = [p.to_dict() for p in self.pairs()]
             doc["pairs_listed"] = True
         return doc
-
-    def columns(self) -> Sequence[Column]:
-        cols = []
-        for ci, cls in enumerate(self.classes):
-            nuc = self.info[ci].nucleus
-            cols.append(Column(f"{cls} species", {i: self.modes[k][ci].species for k, i in enumerate(self.ids)}))
-            cols.append(Column(f"{cls} IR", {i: str(self.modes[k][ci].ir) for k, i in enumerate(self.ids)}))
-            cols.append(Column(f"{cls} Raman", {i: str(self.modes[k][ci].raman) for k, i in enumerate(self.ids)}))
-            cols.append(Column(f"{cls} {nuc} NMR", {i: str(self.modes[k][ci].nmr) for k, i in enumerate(self.ids)}))
-        other = {}
-        for k, i in enumerate(self.ids):
-            cells = [
-                f"{x.ligand}{'(' + x.nucleus + ')' if x.nucleus else ''}:{x.environments}"
-                for x in self.nmr[k]
-                if x.ligand not in self.reporter_ligands
-            ]
-            other[i] = " ".join(cells)
-        if any(other.values()):
-            cols.append(Column("NMR environments", other))
-        return cols
-
-    def sections(self) -> Sequence[Section]:
-        out = []
-        lines = []
-        seen = 0
-        for k, i in enumerate(self.ids):
-            if seen >= 40:
-                lines.append(f"... {len(self.ids) - seen} more in --json ('axes')")
-                break
-            lines.append(f"{i} ({self.groups[k]}): {self.axes[k]}")
-            seen += 1
-        out.append(Section("Axes behind the Mulliken labels (rule in the README)", "\n".join(lines)))
-        out.append(
-            Section("Which isomer pairs IR, Raman or NMR tell apart (band / signal counts)", self._matrix_text())
-        )
-        notes = []
-        if self.fluxional:
-            notes.append(_FLUX.format(geo=self.geometry))
-        for c in self.info:
-            notes.append(f"{c.key}: typical {c.bond} stretch {c.window[0]:g}-{c.window[1]:g} cm-1 ({c.source})")
-        if notes:
-            out.append(Section("Spectroscopy notes", "\n".join(notes)))
-        return out
 
     def pair_tally(self) -> dict[str, int]:
         """How many pairs each technique tells apart first ('IR', 'Raman',
@@ -413,62 +371,14 @@ class StretchAnalysis:
             tally["en"] = en
         return tally
 
-    def _tally_text(self) -> str:
-        n = len(self.ids)
-        tally = self.pair_tally()
-        total = n * (n - 1) // 2
-        body = f"{n} isomers, {total} pairs (list in --json 'pairs'): " + ", ".join(
-            f"{k} {v}" for k, v in sorted(tally.items())
-        )
-        legend = (
-            "first technique whose counts differ (cost order IR < Raman < NMR); "
-            "-- = same counts by all three; en = enantiomers (same by IR, Raman and NMR in achiral media: use CD or X-ray)"
-        )
-        return "\n".join([body, legend])
 
-    def _matrix_text(self) -> str:
-        n = len(self.ids)
-        if n > 24:
-            return self._tally_text()
-        pairs = self.pairs()
-        if n < 2:
-            return "only one isomer: nothing to tell apart"
-        code = {"IR": "IR", "Raman": "Ra", "NMR": "NMR"}
-        cell: dict[tuple[str, str], str] = {}
-        for p in pairs:
-            c = "en" if p.note == "enantiomers" else (code[p.cheapest] if p.cheapest else "--")
-            cell[(p.a, p.b)] = cell[(p.b, p.a)] = c
-        legend = (
-            "cell = cheapest technique whose counts differ (cost order IR < Raman < NMR); "
-            "-- = same counts by all three; en = enantiomers (same by IR, Raman and NMR in achiral media: use CD or X-ray)"
-        )
-        if n > 24:
-            return self._tally_text()
-        if n <= 24:
-            w = max(3, max(len(i) for i in self.ids))
-            head = " " * w + " " + " ".join(i.rjust(w) for i in self.ids)
-            rows = [head]
-            for a in self.ids:
-                rows.append(a.rjust(w) + " " + " ".join(("." if a == b else cell[(a, b)]).rjust(w) for b in self.ids))
-            body = "\n".join(rows)
-        else:
-            counts: dict[str, int] = {}
-            for p in pairs:
-                c = cell[(p.a, p.b)]
-                counts[c] = counts.get(c, 0) + 1
-            body = f"{n} isomers, {len(pairs)} pairs (matrix in --json 'pairs'): " + ", ".join(
-                f"{k} {v}" for k, v in sorted(counts.items())
-            )
-        same = [(p.a, p.b) for p in pairs if p.cheapest is None and p.note != "enantiomers"]
-        tail = []
-        if same:
-            shown = ", ".join(f"{a}/{b}" for a, b in same[:12]) + (" ..." if len(same) > 12 else "")
-            tail.append(f"not told apart by counts: {shown}")
-        return "\n".join([body, legend] + tail)
-
-
-_FLUX = "{geo} centres are often fluxional (e.g. Berry pseudorotation): NMR may show averaged signals, fewer than the environments listed"
-_ENANT = "enantiomers have the same IR, Raman and NMR counts in achiral media; pairs of enantiomers are never marked distinct"
+#: The NMR caution for geometries marked fluxional (``{geo}``: the polyhedral symbol).
+FLUXIONAL_NOTE = (
+    "{geo} centres are often fluxional (e.g. Berry pseudorotation): NMR may show averaged signals, "
+    "fewer than the environments listed"
+)
+#: Why enantiomer pairs are never marked distinct.
+ENANTIOMER_NOTE = "enantiomers have the same IR, Raman and NMR counts in achiral media; pairs of enantiomers are never marked distinct"
 
 
 def _nucleus_for(kind, reporters: Reporters) -> tuple[str | None, bool]:
