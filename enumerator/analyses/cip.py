@@ -369,11 +369,12 @@ def donor_priorities(composition: Composition) -> dict[tuple[str, int], int]:
     >>> sorted(donor_priorities(parse_abstract("M(AB)2c2")).items())
     [(('AB', 0), 1), (('AB', 1), 2), (('c', 0), 3)]
     """
-    return dict(_donor_priorities(composition))
+    return dict(_donor_priorities(composition, tuple(k.meta for k in composition.kinds)))
 
 
 @lru_cache(maxsize=1024)
-def _donor_priorities(composition: Composition) -> tuple[tuple[tuple[str, int], int], ...]:
+def _donor_priorities(composition: Composition, catalogue: tuple) -> tuple[tuple[tuple[str, int], int], ...]:
+    # ``catalogue`` (the kinds' SMILES and other data, which Composition equality leaves out) completes the key
     labels: list[tuple[str, int]] = []
     values: list = []
     if uses_letters(composition):

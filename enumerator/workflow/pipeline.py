@@ -50,7 +50,7 @@ class Request:
 STAGES: tuple[str, ...] = (
     "enumerator.analyses.centre:stage",
     "enumerator.analyses.safety:stage",
-    "enumerator.analyses.descriptors:descriptor_stage",
+    "enumerator.analyses.descriptors.analysis:descriptor_stage",
     "enumerator.analyses.stretch:stage",
 )
 
