@@ -51,7 +51,7 @@ STAGES: tuple[str, ...] = (
     "enumerator.analyses.centre:stage",
     "enumerator.analyses.safety:stage",
     "enumerator.analyses.descriptors.analysis:descriptor_stage",
-    "enumerator.analyses.stretch:stage",
+    "enumerator.analyses.stretch.analysis:stage",
 )
 
 
