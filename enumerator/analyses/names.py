@@ -43,6 +43,7 @@ from __future__ import annotations
 import re
 from dataclasses import dataclass
 
+from enumerator.analyses.centre.electrons import count_electrons, roman
 from enumerator.errors import IsosieveError
 from enumerator.model.composition import Composition
 from enumerator.rules.element_names import element_names
@@ -108,8 +109,6 @@ def ligand_sort_key(name: str) -> str:
 def _number(comp: Composition) -> str | None:
     """'(III)', '(0)', '(2−)' or '' (neutral nitrosyl complex); None when the
     oxidation state cannot be computed."""
-    from enumerator.analyses.centre import count_electrons, roman
-
     nitrosyl = any(k.info("nitrosyl") is not None for k in comp.kinds)
     if nitrosyl:
         q = comp.charge
