@@ -149,13 +149,10 @@ MAX_RESONANCE = 12
 def _structures(smiles: str) -> tuple:
     """The Kekulé/resonance structures RDKit enumerates for a ligand (one
     structure when the SMILES does not sanitize strictly)."""
-    from rdkit import Chem, RDLogger
+    from rdkit import Chem, rdBase
 
-    RDLogger.DisableLog("rdApp.*")
-    try:
+    with rdBase.BlockLogs():  # a valence-formal SMILES is read leniently below, not reported
         strict = Chem.MolFromSmiles(smiles)
-    finally:
-        RDLogger.EnableLog("rdApp.*")
     if strict is None:
         return (_lenient(smiles),)
     out = []
@@ -199,16 +196,17 @@ def _graph(mol, metal: str):
     return atoms, nbrs, donors
 
 
-def _build(atoms, nbrs, root: int, spheres: int) -> _Node:
+def _build(atoms, nbrs, root: int, spheres: int) -> tuple[_Node, int]:
     """The hierarchical digraph of the branch rooted at ``root`` (the metal
-    is its parent), breadth first, to ``spheres`` spheres or MAX_NODES."""
+    is its parent), breadth first, to ``spheres`` spheres or MAX_NODES;
+    with the number of spheres built in full."""
     z, m, _ = atoms[root]
     top = _Node(z, m)
     frontier = [(top, root, -1, frozenset((-1, root)))]
     count = 1
     reached = spheres
     for level in range(spheres - 1):
-        nxt = []
+        nxt: list[tuple[_Node, int, int, frozenset[int]]] = []
         for node, atom, parent, path in frontier:
             for other, order in nbrs[atom]:
                 oz, om, _ = atoms[other]
@@ -243,7 +241,7 @@ def _levels(node: _Node, depth: int, attr: str, memo: dict, order_memo: dict | N
     frontier = [node]
     for k in range(1, depth + 1):
         sets = []
-        nxt = []
+        nxt: list[_Node] = []
         for n in frontier:
             ch = _ordered(n, depth - k, attr, memo, order_memo)
             vals = tuple(getattr(c, attr) for c in ch)

@@ -47,37 +47,40 @@ from enumerator.analyses.centre.electrons import count_electrons, roman
 from enumerator.errors import IsosieveError
 from enumerator.model.composition import Composition
 from enumerator.rules.element_names import element_names
+from enumerator.rules.ruleset import RuleSet
 
 __all__ = ["ComplexName", "additive_name", "ligand_sort_key"]
 
-_SIMPLE = {
-    1: "",
-    2: "di",
-    3: "tri",
-    4: "tetra",
-    5: "penta",
-    6: "hexa",
-    7: "hepta",
-    8: "octa",
-    9: "nona",
-    10: "deca",
-    11: "undeca",
-    12: "dodeca",
-}
-_ENCLOSED = {
-    1: "",
-    2: "bis",
-    3: "tris",
-    4: "tetrakis",
-    5: "pentakis",
-    6: "hexakis",
-    7: "heptakis",
-    8: "octakis",
-    9: "nonakis",
-    10: "decakis",
-    11: "undecakis",
-    12: "dodecakis",
-}
+#: Multiplying prefixes for plain ligand names, by count from 1 (IR-9.2.2; no elision).
+_SIMPLE = (
+    "",
+    "di",
+    "tri",
+    "tetra",
+    "penta",
+    "hexa",
+    "hepta",
+    "octa",
+    "nona",
+    "deca",
+    "undeca",
+    "dodeca",
+)
+#: Multiplying prefixes for enclosed ligand names, by count from 1.
+_ENCLOSED = (
+    "",
+    "bis",
+    "tris",
+    "tetrakis",
+    "pentakis",
+    "hexakis",
+    "heptakis",
+    "octakis",
+    "nonakis",
+    "decakis",
+    "undecakis",
+    "dodecakis",
+)
 #: designators and italic prefixes at the front of a ligand name, ignored in ordering
 _FRONT = re.compile(
     r"^(?:η\d*-|κ\d*[A-Za-z,′″']*-|\d[\d,:′″']*-|[A-Z](?:,[A-Z])*[′″']*(?:,[A-Z][′″']*)*-|tert-|sec-|cis-|trans-)+"
@@ -139,9 +142,24 @@ def _enclosed(name: str) -> str:
     return marks[0] + name + marks[1]
 
 
-def additive_name(comp: Composition, ruleset, descriptor: str | None) -> ComplexName:
-    """The additive name of ``comp`` with ``descriptor`` in front (see the
-    module docstring)."""
+def additive_name(comp: Composition, ruleset: RuleSet, descriptor: str | None) -> ComplexName:
+    """The additive name of a composition (IR-9.2) with its descriptor in front.
+
+    Parameters
+    ----------
+    comp : Composition
+        A real composition (catalogue ligands with ``iupac`` names).
+    ruleset : RuleSet
+        The rule folders in force (for the central atom's name).
+    descriptor : str or None
+        The stereodescriptor to put in front, in parentheses (None: no descriptor).
+
+    Returns
+    -------
+    ComplexName
+        The name, or None with the reason (abstract letters, an unnamed ligand or metal, an uncountable
+        oxidation state, more than 12 identical ligands).
+    """
     if comp.metal == "M":
         return ComplexName(None, "abstract letters have no names")
     parts = []
@@ -165,7 +183,7 @@ def additive_name(comp: Composition, ruleset, descriptor: str | None) -> Complex
     for _, name, enclose, count in sorted(parts):
         if count > 12:
             return ComplexName(None, f"{count} identical ligands: no multiplying prefix is tabulated here")
-        pieces.append((_ENCLOSED[count] + _enclosed(name)) if enclose else (_SIMPLE[count] + name))
+        pieces.append((_ENCLOSED[count - 1] + _enclosed(name)) if enclose else (_SIMPLE[count - 1] + name))
     pieces.append(metals[comp.metal][1 if comp.charge < 0 else 0] + number)
     text = ""
     for piece in pieces:

@@ -61,7 +61,7 @@ class LigandCount(NamedTuple):
     """One ligand's share of the count: catalogue charge and electrons donated in each model."""
 
     ligand: str
-    count: int
+    number: int
     charge: int
     electrons_covalent: int
     electrons_ionic: int
@@ -72,7 +72,7 @@ class NitrosylBinding(NamedTuple):
     """A nitrosyl ligand and its binding, 'linear' (NO+) or 'bent' (NO-)."""
 
     ligand: str
-    count: int
+    number: int
     binding: str
 
 
