@@ -21,7 +21,7 @@ from dataclasses import dataclass
 from types import MappingProxyType
 from typing import Any
 
-from enumerator.analyses.stage import StageInput, StageRequest
+from enumerator.analyses.views import ResultView, RequestView
 from enumerator.model.composition import Composition
 
 __all__ = ["cautions", "hazard_classes", "SafetyAnalysis", "stage", "GENERAL", "TEXT", "README_TEXT"]
@@ -145,7 +145,7 @@ class SafetyAnalysis:
         return {"safety": list(self.lines)}
 
 
-def stage(res: StageInput, req: StageRequest) -> SafetyAnalysis | None:
+def stage(res: ResultView, req: RequestView) -> SafetyAnalysis | None:
     """Pipeline stage: cautions whenever CO, CN or NO (or CNR, CS) are present."""
     lines = cautions(res.composition)
     return SafetyAnalysis(lines) if lines else None

@@ -21,7 +21,7 @@ from typing import Any
 
 from enumerator.analyses.centre.electrons import ElectronCount, count_electrons
 from enumerator.analyses.centre.geometry import default_geometry
-from enumerator.analyses.stage import StageInput, StageRequest
+from enumerator.analyses.views import ResultView, RequestView
 from enumerator.errors import InputError
 from enumerator.model.composition import Composition
 from enumerator.rules.ruleset import load_rules
@@ -104,7 +104,7 @@ def centre_notes(comp: Composition, c: ElectronCount, geometry: str) -> tuple[st
     return tuple(notes)
 
 
-def stage(res: StageInput, req: StageRequest) -> CentreAnalysis | None:
+def stage(res: ResultView, req: RequestView) -> CentreAnalysis | None:
     """Pipeline stage: the centre of a real (catalogue) composition; None for abstract letters."""
     comp = res.composition
     if comp.metal == "M":

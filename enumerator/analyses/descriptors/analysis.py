@@ -28,7 +28,7 @@ from enumerator.analyses.cip import uses_letters
 from enumerator.analyses.descriptors.describe import Descriptor, describe_set
 from enumerator.analyses.descriptors.select import picked_ids
 from enumerator.analyses.names import additive_name
-from enumerator.analyses.stage import StageInput, StageRequest
+from enumerator.analyses.views import ResultView, RequestView
 from enumerator.errors import IsosieveError
 from enumerator.isomers.enumeration import IsomerSet
 from enumerator.rules.ruleset import load_rules
@@ -145,7 +145,7 @@ def descriptor_analysis(isomer_set: IsomerSet) -> DescriptorAnalysis:
     )
 
 
-def _with_names(a: DescriptorAnalysis, res: StageInput, req: StageRequest) -> DescriptorAnalysis:
+def _with_names(a: DescriptorAnalysis, res: ResultView, req: RequestView) -> DescriptorAnalysis:
     """Add the additive names (real formulas only)."""
     comp = res.composition
     if comp.metal == "M" or a.error or not a.descriptors:
@@ -161,7 +161,7 @@ def _with_names(a: DescriptorAnalysis, res: StageInput, req: StageRequest) -> De
     return replace(a, names=tuple(names))
 
 
-def descriptor_stage(res: StageInput, req: StageRequest) -> DescriptorAnalysis:
+def descriptor_stage(res: ResultView, req: RequestView) -> DescriptorAnalysis:
     """Pipeline stage: descriptors and names for every isomer.
 
     Raises
@@ -176,7 +176,7 @@ def descriptor_stage(res: StageInput, req: StageRequest) -> DescriptorAnalysis:
     return a
 
 
-R = TypeVar("R", bound=StageInput)
+R = TypeVar("R", bound=ResultView)
 
 
 def select_isomers(res: R, text: str) -> R:

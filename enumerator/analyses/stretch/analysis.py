@@ -21,7 +21,7 @@ from collections.abc import Mapping
 from dataclasses import dataclass
 from typing import Any
 
-from enumerator.analyses.stage import StageInput, StageRequest
+from enumerator.analyses.views import ResultView, RequestView
 from enumerator.analyses.stretch.modes import ModeSet, environments, stretch_modes
 from enumerator.analyses.stretch.pairs import COST_ORDER, Pair, Signatures, list_pairs, pair_tally, signature_ids
 from enumerator.errors import InputError
@@ -194,7 +194,7 @@ def _ligand_nmr(iso: Isomer, comp: Composition, reporters: Reporters) -> tuple[L
     return tuple(out)
 
 
-def stage(res: StageInput, req: StageRequest) -> StretchAnalysis:
+def stage(res: ResultView, req: RequestView) -> StretchAnalysis:
     """Pipeline stage: validate the reporter classes and analyse every isomer.
 
     Raises

@@ -1,9 +1,11 @@
-"""What a pipeline stage reads: the shape of its two arguments.
+"""What the analyses (and the layers between them and the workflow) read of
+a result and a request.
 
 A stage is a function ``(result, request) -> analysis | None`` listed in
 :data:`enumerator.workflow.pipeline.STAGES`.  The workflow layer sits above
-the analyses, so the analyses do not import its ``Result`` and ``Request``;
-they state here, as protocols, the little they use of them.
+the analyses, so they do not import its ``Result`` and ``Request``; they
+state here, as protocols, the little they use of them.  The workflow's
+frozen dataclasses satisfy both.
 """
 
 from __future__ import annotations
@@ -15,11 +17,11 @@ from enumerator.isomers.enumeration import Isomer, IsomerSet
 from enumerator.model.composition import Composition
 from enumerator.model.geometry import Geometry
 
-__all__ = ["StageInput", "StageRequest"]
+__all__ = ["ResultView", "RequestView"]
 
 
-class StageInput(Protocol):
-    """The result so far: composition, geometry, isomers and earlier analyses (a frozen dataclass)."""
+class ResultView(Protocol):
+    """A result (so far): composition, geometry, isomers, notes and earlier analyses; a frozen dataclass."""
 
     __dataclass_fields__: ClassVar[dict[str, Field[Any]]]
 
@@ -44,7 +46,7 @@ class StageInput(Protocol):
     def analysis(self, cls: type) -> Any | None: ...
 
 
-class StageRequest(Protocol):
+class RequestView(Protocol):
     """The request's rule folders and stage options."""
 
     @property
