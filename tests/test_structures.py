@@ -11,7 +11,7 @@ from click.testing import CliRunner
 from enumerator.isomers.enumeration import enumerate_isomers
 from enumerator.model.composition import Composition, LigandKind
 from enumerator.rules.ruleset import load_rules
-from enumerator.structures.build import bond_length, build_structure, to_sdf, to_xyz
+from enumerator.structures import bond_length, build_structure, to_sdf, to_xyz
 
 # Hand-built catalogue-style kinds (contract 3: donor atoms carry atom maps 1..denticity).
 # SMILES written from the ligands' structures (common practice); CO as the
@@ -171,7 +171,7 @@ def test_closest_contact_flags_overlapping_ligands():
     # below 70% of the vdW sum, common practice); on opposite sites they are not
     from rdkit import Chem
 
-    from enumerator.structures.build import CLASH_FRACTION, closest_contact
+    from enumerator.structures import CLASH_FRACTION, closest_contact
 
     mol = Chem.MolFromSmiles("[Mo](Cl)Cl", sanitize=False)
     d, i, j, limit = closest_contact(mol, [(0, 0, 0), (2.4, 0, 0), (2.4, 0.5, 0)])
@@ -188,7 +188,7 @@ def test_written_structures_are_clash_free_or_say_so(formula):
     # the clash limit, or its title, note and SDF record carry the warning
     from rdkit import Chem
 
-    from enumerator.structures.build import closest_contact, structures_for
+    from enumerator.structures import closest_contact, structures_for
     from enumerator.workflow.pipeline import analyse
 
     res = analyse(formula, geometry="OC-6")
