@@ -96,6 +96,13 @@ class BranchKey:
     spheres: int = MAX_SPHERES
 
     def value(self) -> tuple:
+        """The key to compare.
+
+        Returns
+        -------
+        tuple
+            (rule1, rule2), compared in that order.
+        """
         return (self.rule1, self.rule2)
 
 
@@ -268,7 +275,28 @@ def _ordered(n: _Node, depth: int, attr: str, memo: dict, order_memo: dict | Non
 @lru_cache(maxsize=4096)
 def branch_key(smiles: str, donor: int, metal: str = "M", spheres: int = MAX_SPHERES) -> BranchKey:
     """The CIP value of the branch from the metal through the ligating atom
-    with atom-map number ``donor`` in ``smiles`` (cached by value)."""
+    with atom-map number ``donor`` in ``smiles`` (cached by value).
+
+    Parameters
+    ----------
+    smiles : str
+        The ligand's SMILES, ligating atoms mapped :1, :2, ...
+    donor : int
+        The map number of the ligating atom.
+    metal : str, optional
+        The metal's symbol (its duplicate closes chelate rings); 'M' for none.
+    spheres : int, optional
+        How deep to build the digraph.
+
+    Returns
+    -------
+    BranchKey
+
+    Raises
+    ------
+    InputError
+        The SMILES cannot be read, or has no atom with that map number.
+    """
     atoms, nbrs, donors = _graph(_structures(smiles)[0], metal)
     if donor not in donors:
         raise InputError(
@@ -288,7 +316,19 @@ def branch_key(smiles: str, donor: int, metal: str = "M", spheres: int = MAX_SPH
 
 
 def ring_key(z_sum: int, mass_sum: float) -> BranchKey:
-    """An η-bonded ring as one pseudo-atom (sum of its ligating atoms' atomic numbers)."""
+    """An η-bonded ring as one pseudo-atom (sum of its ligating atoms' atomic numbers).
+
+    Parameters
+    ----------
+    z_sum : int
+        Sum of the atomic numbers of the ring's ligating atoms.
+    mass_sum : float
+        Sum of their masses.
+
+    Returns
+    -------
+    BranchKey
+    """
     return BranchKey(((z_sum,), (z_sum,)), ((mass_sum,), (mass_sum,)))
 
 
@@ -296,7 +336,22 @@ def letter_key(letter: str, chelate: bool, chain_neighbours: int = 0) -> tuple:
     """Sort key of an abstract ligand letter: smaller = higher priority
     (a > b > ...; a chelate's A just above the monodentate a; within one
     letter of a chelate chain, a donor with two chain neighbours above a
-    terminal one, as CIP ranks the NH of dien above its NH2)."""
+    terminal one, as CIP ranks the NH of dien above its NH2).
+
+    Parameters
+    ----------
+    letter : str
+        The donor letter.
+    chelate : bool
+        Whether the donor belongs to a chelate.
+    chain_neighbours : int, optional
+        Its neighbours along the chelate chain (0, 1 or 2).
+
+    Returns
+    -------
+    tuple
+        Compared in ascending order.
+    """
     return (letter.lower(), 0 if chelate else 1, -chain_neighbours)
 
 
@@ -313,6 +368,18 @@ def dense_ranks(values: Sequence, *, larger_first: bool = True) -> tuple[int, ..
 
     >>> dense_ranks([5, 9, 5, 1])
     (2, 1, 2, 3)
+
+    Parameters
+    ----------
+    values : sequence
+        Comparable values.
+    larger_first : bool, optional
+        Whether the largest value ranks 1.
+
+    Returns
+    -------
+    tuple of int
+        One rank per value, in input order.
     """
     distinct = sorted(set(values), reverse=larger_first)
     pos = {v: k + 1 for k, v in enumerate(distinct)}
@@ -326,7 +393,20 @@ def _pad(key: BranchKey, n: int) -> tuple:
 
 def rank_smiles(donors: Iterable[str | tuple[str, int]], metal: str = "M") -> tuple[int, ...]:
     """Priority numbers of ligating atoms given as SMILES (map number 1 on
-    the donor) or (SMILES, map number) pairs, in input order."""
+    the donor) or (SMILES, map number) pairs, in input order.
+
+    Parameters
+    ----------
+    donors : iterable of str or (str, int)
+        Ligand SMILES (donor mapped :1), or (SMILES, map number).
+    metal : str, optional
+        The metal's symbol.
+
+    Returns
+    -------
+    tuple of int
+        Dense priority numbers, 1 = highest.
+    """
     items = [(d, 1) if isinstance(d, str) else (d[0], int(d[1])) for d in donors]
     keys = [branch_key(s, k, metal) for s, k in items]
     n = min(k.spheres for k in keys)
@@ -334,7 +414,16 @@ def rank_smiles(donors: Iterable[str | tuple[str, int]], metal: str = "M") -> tu
 
 
 def uses_letters(composition: Composition) -> bool:
-    """True when the ligands are abstract letters (no SMILES in their meta)."""
+    """True when the ligands are abstract letters (no SMILES in their meta).
+
+    Parameters
+    ----------
+    composition : Composition
+
+    Returns
+    -------
+    bool
+    """
     return not any(k.info("smiles") is not None for k in composition.kinds)
 
 
@@ -366,6 +455,22 @@ def donor_priorities(composition: Composition) -> dict[tuple[str, int], int]:
     >>> from enumerator.parse.abstract import parse_abstract
     >>> sorted(donor_priorities(parse_abstract("M(AB)2c2")).items())
     [(('AB', 0), 1), (('AB', 1), 2), (('c', 0), 3)]
+
+    Parameters
+    ----------
+    composition : Composition
+        The ligands on the centre.
+
+    Returns
+    -------
+    dict
+        (ligand name, donor index) -> dense priority number, 1 = highest; cached by the composition and its
+        ligands' catalogue data.
+
+    Raises
+    ------
+    InputError
+        A catalogue ligand has no SMILES, or it cannot be read.
     """
     return dict(_donor_priorities(composition, tuple(k.meta for k in composition.kinds)))
 
@@ -393,6 +498,18 @@ def _donor_priorities(composition: Composition, catalogue: tuple) -> tuple[tuple
 
 
 def priorities_by_site(composition: Composition, sites: Iterable) -> Mapping[int, int]:
-    """{site index: priority number} for an isomer's sites."""
+    """{site index: priority number} for an isomer's sites.
+
+    Parameters
+    ----------
+    composition : Composition
+        The ligands on the centre.
+    sites : iterable of Site
+        An isomer's sites.
+
+    Returns
+    -------
+    Mapping[int, int]
+    """
     table = donor_priorities(composition)
     return {s.index: table[(s.ligand, s.donor_index)] for s in sites}

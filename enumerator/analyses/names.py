@@ -104,6 +104,15 @@ def ligand_sort_key(name: str) -> str:
     'bisaminoethylethanediamine'
     >>> ligand_sort_key("η5-cyclopentadienyl")
     'cyclopentadienyl'
+
+    Parameters
+    ----------
+    name : str
+        A ligand name as it appears in an additive name.
+
+    Returns
+    -------
+    str
     """
     body = _FRONT.sub("", name)
     return "".join(ch for ch in body.lower() if ch.isalpha() and ch not in "κη")

@@ -21,7 +21,7 @@ from dataclasses import dataclass
 from types import MappingProxyType
 from typing import Any
 
-from enumerator.analyses.views import ResultView, RequestView
+from enumerator.analyses.views import RequestView, ResultView
 from enumerator.model.composition import Composition
 
 __all__ = ["cautions", "hazard_classes", "SafetyAnalysis", "stage", "GENERAL", "TEXT", "README_TEXT"]
@@ -146,6 +146,19 @@ class SafetyAnalysis:
 
 
 def stage(res: ResultView, req: RequestView) -> SafetyAnalysis | None:
-    """Pipeline stage: cautions whenever CO, CN or NO (or CNR, CS) are present."""
+    """Pipeline stage: cautions whenever CO, CN or NO (or CNR, CS) are present.
+
+    Parameters
+    ----------
+    res : Result
+        The result so far.
+    req : Request
+        Its request (unused: the cautions depend on the ligands only).
+
+    Returns
+    -------
+    SafetyAnalysis or None
+        None when no caution applies.
+    """
     lines = cautions(res.composition)
     return SafetyAnalysis(lines) if lines else None

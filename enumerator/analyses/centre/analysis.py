@@ -21,7 +21,7 @@ from typing import Any
 
 from enumerator.analyses.centre.electrons import ElectronCount, count_electrons
 from enumerator.analyses.centre.geometry import default_geometry
-from enumerator.analyses.views import ResultView, RequestView
+from enumerator.analyses.views import RequestView, ResultView
 from enumerator.errors import InputError
 from enumerator.model.composition import Composition
 from enumerator.rules.ruleset import load_rules
@@ -82,7 +82,21 @@ class CentreAnalysis:
 
 
 def centre_notes(comp: Composition, c: ElectronCount, geometry: str) -> tuple[str, ...]:
-    """The count's own notes, then the cautions on the site idealisation and the nitrosyl binding."""
+    """The count's own notes, then the cautions on the site idealisation and the nitrosyl binding.
+
+    Parameters
+    ----------
+    comp : Composition
+        The ligands on the centre.
+    c : ElectronCount
+        Its electron count.
+    geometry : str
+        The polyhedral symbol in use.
+
+    Returns
+    -------
+    tuple of str
+    """
     notes = list(c.notes)
     if any(k.ring for k in comp.kinds):
         notes.append(
@@ -105,7 +119,19 @@ def centre_notes(comp: Composition, c: ElectronCount, geometry: str) -> tuple[st
 
 
 def stage(res: ResultView, req: RequestView) -> CentreAnalysis | None:
-    """Pipeline stage: the centre of a real (catalogue) composition; None for abstract letters."""
+    """Pipeline stage: the centre of a real (catalogue) composition; None for abstract letters.
+
+    Parameters
+    ----------
+    res : Result
+        The result so far.
+    req : Request
+        Its request (rule folders, for the alternatives).
+
+    Returns
+    -------
+    CentreAnalysis or None
+    """
     comp = res.composition
     if comp.metal == "M":
         return None

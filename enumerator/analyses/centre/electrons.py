@@ -45,6 +45,15 @@ def roman(n: int) -> str:
 
     >>> roman(2), roman(0), roman(-1), roman(8)
     ('II', '0', '-I', 'VIII')
+
+    Parameters
+    ----------
+    n : int
+        The oxidation state.
+
+    Returns
+    -------
+    str
     """
     if n == 0:
         return "0"

@@ -28,7 +28,7 @@ from enumerator.analyses.cip import uses_letters
 from enumerator.analyses.descriptors.describe import Descriptor, describe_set
 from enumerator.analyses.descriptors.select import picked_ids
 from enumerator.analyses.names import additive_name
-from enumerator.analyses.views import ResultView, RequestView
+from enumerator.analyses.views import RequestView, ResultView
 from enumerator.errors import IsosieveError
 from enumerator.isomers.enumeration import IsomerSet
 from enumerator.rules.ruleset import load_rules
@@ -168,6 +168,17 @@ def descriptor_stage(res: ResultView, req: RequestView) -> DescriptorAnalysis:
     ------
     InputError
         With the request option ``pick``, when no isomer matches it (the message lists the descriptors present).
+
+    Parameters
+    ----------
+    res : Result
+        The result so far.
+    req : Request
+        Its request (rule folders; option ``pick``).
+
+    Returns
+    -------
+    DescriptorAnalysis
     """
     a = _with_names(descriptor_analysis(res.isomer_set), res, req)
     pick = req.option("pick")

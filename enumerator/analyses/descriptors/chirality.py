@@ -67,6 +67,16 @@ def rs_symbol(v1: ArrayLike, v2: ArrayLike, v3: ArrayLike, v4: ArrayLike) -> str
 
     >>> rs_symbol([1, 1, 1], [1, -1, -1], [-1, 1, -1], [-1, -1, 1])
     'S'
+
+    Parameters
+    ----------
+    v1, v2, v3, v4 : array_like
+        Bond vectors of the priority-1, 2, 3 and 4 atoms.
+
+    Returns
+    -------
+    str
+        'R' or 'S'.
     """
     a1, a2, a3, a4 = (np.asarray(v, dtype=float) for v in (v1, v2, v3, v4))
     normal = np.cross(a2 - a1, a3 - a1)
@@ -85,6 +95,19 @@ def skew_lines_sense(p1: ArrayLike, p2: ArrayLike, q1: ArrayLike, q2: ArrayLike,
 
     >>> skew_lines_sense([0, 0, -1], [0, 0, 1], [1, 0, 0], [1, 1, 1])  # tangent of a right-handed helix
     'Delta'
+
+    Parameters
+    ----------
+    p1, p2 : array_like
+        The ends of the first line.
+    q1, q2 : array_like
+        The ends of the second line.
+    tol : float, optional
+        Relative tolerance below which the lines count as parallel, orthogonal or meeting.
+
+    Returns
+    -------
+    str or None
     """
     a1, a2, b1, b2 = (np.asarray(v, dtype=float) for v in (p1, p2, q1, q2))
     u1, u2 = a2 - a1, b2 - b1
@@ -104,6 +127,15 @@ def skew_lines_symbol(isomer: Isomer) -> str | None:
     :func:`skew_lines_sense` (rings of one ligand count too: the two outer
     rings of cis-α-trien); the symbol is given only when every skew pair
     agrees.  η-rings take no part.
+
+    Parameters
+    ----------
+    isomer : Isomer
+        One stereoisomer (its chelate links and site vectors).
+
+    Returns
+    -------
+    str or None
     """
     ring = {s.index for s in isomer.sites if s.ring}
     links = [(a, b) for a, b, _ in isomer.links() if a not in ring]

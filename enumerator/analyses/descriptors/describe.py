@@ -202,6 +202,14 @@ def describe_set(isomer_set: IsomerSet) -> dict[str, Descriptor]:
     ------
     InputError
         A catalogue ligand has no SMILES.
+
+    Parameters
+    ----------
+    isomer_set : IsomerSet
+
+    Returns
+    -------
+    dict[str, Descriptor]
     """
     comp = isomer_set.composition
     return {i.id: describe_isomer(i, comp) for i in isomer_set.isomers}

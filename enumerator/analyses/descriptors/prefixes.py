@@ -27,7 +27,17 @@ PREFIX_GEOMETRIES = ("SP-4", "OC-6")
 
 def everyday_prefixes(isomer: Isomer) -> tuple[tuple[str, str], ...]:
     """(label, word) for each set of identical ligating atoms (label: the ligand, or ligand/donor within a
-    chelate), then (ligand, 'fac' | 'mer') for tridentate chelates on OC-6; empty off SP-4 and OC-6."""
+    chelate), then (ligand, 'fac' | 'mer') for tridentate chelates on OC-6; empty off SP-4 and OC-6.
+
+    Parameters
+    ----------
+    isomer : Isomer
+        One stereoisomer.
+
+    Returns
+    -------
+    tuple of (str, str)
+    """
     g = isomer.geometry
     if g.symbol not in PREFIX_GEOMETRIES:
         return ()
@@ -71,7 +81,17 @@ def _shape(g: Geometry, sites: Sequence[int]) -> str | None:
 
 
 def prefix_text(words: Sequence[tuple[str, str]]) -> str | None:
-    """The prefix as written: one word when all sets agree, else ``word(label)`` per set; None without sets."""
+    """The prefix as written: one word when all sets agree, else ``word(label)`` per set; None without sets.
+
+    Parameters
+    ----------
+    words : sequence of (str, str)
+        (label, word) pairs from :func:`everyday_prefixes`.
+
+    Returns
+    -------
+    str or None
+    """
     if not words:
         return None
     distinct = {w for _, w in words}

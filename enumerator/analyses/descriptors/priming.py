@@ -44,13 +44,33 @@ def base_ranks(isomer: Isomer, composition: Composition) -> dict[int, Rank]:
     ------
     InputError
         A catalogue ligand has no SMILES, so its CIP priority cannot be computed.
+
+    Parameters
+    ----------
+    isomer : Isomer
+        One stereoisomer.
+    composition : Composition
+        Its composition.
+
+    Returns
+    -------
+    dict[int, Rank]
     """
     table = donor_priorities(composition)
     return {s.index: (table[(s.ligand, s.donor_index)], 0) for s in isomer.sites}
 
 
 def has_repeated_chelate(composition: Composition) -> bool:
-    """Two or more polydentate ligands whose donors share a priority number."""
+    """Two or more polydentate ligands whose donors share a priority number.
+
+    Parameters
+    ----------
+    composition : Composition
+
+    Returns
+    -------
+    bool
+    """
     table = donor_priorities(composition)
     seen: set[int] = set()
     for kind, n in composition.parts:
@@ -65,7 +85,22 @@ def has_repeated_chelate(composition: Composition) -> bool:
 
 def prime_groups(isomer: Isomer, composition: Composition, base: Mapping[int, Rank]) -> list[int]:
     """Polydentate units (unit numbers) that share a priority number with
-    another polydentate unit: the ones the priming convention tells apart."""
+    another polydentate unit: the ones the priming convention tells apart.
+
+    Parameters
+    ----------
+    isomer : Isomer
+        One stereoisomer.
+    composition : Composition
+        Its composition.
+    base : Mapping[int, Rank]
+        The unprimed ranks (:func:`base_ranks`).
+
+    Returns
+    -------
+    list of int
+        Unit numbers, sorted.
+    """
     poly = {k.name for k in composition.kinds if k.denticity >= 2 and not k.ring}
     numbers: dict[int, set[int]] = {}
     for s in isomer.sites:
@@ -76,7 +111,21 @@ def prime_groups(isomer: Isomer, composition: Composition, base: Mapping[int, Ra
 
 def primed_maps(isomer: Isomer, composition: Composition, base: Mapping[int, Rank]) -> list[dict[int, Rank]]:
     """Every assignment of primes to the units of :func:`prime_groups` (one unit unprimed, the next
-    primed once, ...), at most :data:`MAX_PRIMINGS`; just ``base`` when fewer than two units need them."""
+    primed once, ...), at most :data:`MAX_PRIMINGS`; just ``base`` when fewer than two units need them.
+
+    Parameters
+    ----------
+    isomer : Isomer
+        One stereoisomer.
+    composition : Composition
+        Its composition.
+    base : Mapping[int, Rank]
+        The unprimed ranks (:func:`base_ranks`).
+
+    Returns
+    -------
+    list of dict[int, Rank]
+    """
     units = prime_groups(isomer, composition, base)
     if len(units) < 2:
         return [dict(base)]

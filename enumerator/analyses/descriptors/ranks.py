@@ -21,30 +21,69 @@ import numpy as np
 
 from enumerator.model.geometry import Geometry
 
-__all__ = ["Rank", "Choice", "format_rank", "trans_partners", "site_vector", "ring_sequences"]
+__all__ = ["Rank", "Sequences", "Choice", "format_rank", "trans_partners", "site_vector", "ring_sequences"]
 
 #: (priority number, primes): smaller = higher priority.
 Rank = tuple[int, int]
+#: C/A candidates: (sequence of ranks, 'C' or 'A') pairs.
+Sequences = tuple[tuple[tuple[Rank, ...], str], ...]
 
 
 @dataclass(frozen=True)
 class Choice:
+    """One admissible choice of reference atoms under a rule.
+
+    ``key`` is the configuration index as ranks (the largest key wins: the
+    "highest numerical value" rule); ``seqs`` the C/A candidates read for
+    it; ``split`` puts a hyphen after that many digits (0: none)."""
+
     key: tuple[Rank, ...]
-    seqs: tuple[tuple[tuple[Rank, ...], str], ...] = ()
-    #: a hyphen goes after this many digits (0: none)
+    seqs: Sequences = ()
     split: int = 0
 
 
 def format_rank(r: Rank) -> str:
+    """A rank as written in an index: the number, then its primes.
+
+    Parameters
+    ----------
+    r : Rank
+
+    Returns
+    -------
+    str
+    """
     return f"{r[0]}" + "'" * r[1]
 
 
 def trans_partners(g: Geometry) -> dict[int, int]:
+    """Site index -> the index of the site trans to it (sites with no trans partner are left out).
+
+    Parameters
+    ----------
+    g : Geometry
+
+    Returns
+    -------
+    dict[int, int]
+    """
     n = g.coordination_number
     return {i: j for i in range(n) for j in range(n) if i != j and g.relation(i, j) == "trans"}
 
 
 def site_vector(g: Geometry, i: int) -> np.ndarray:
+    """The direction of site ``i`` as a numpy vector.
+
+    Parameters
+    ----------
+    g : Geometry
+    i : int
+        0-based site index.
+
+    Returns
+    -------
+    numpy.ndarray
+    """
     return np.array(g.vectors[i], dtype=float)
 
 
@@ -68,7 +107,37 @@ def _ring_orders(g: Geometry, view: np.ndarray, ring: Sequence[int], start: int)
     return acw, cw
 
 
-def ring_sequences(g: Geometry, r: Mapping[int, Rank], view: np.ndarray, ring: Sequence[int], start: int, tail=None):
+def ring_sequences(
+    g: Geometry,
+    r: Mapping[int, Rank],
+    view: np.ndarray,
+    ring: Sequence[int],
+    start: int,
+    tail: Mapping[int, int] | None = None,
+) -> Sequences:
+    """The C/A candidates of one ring of sites read from ``start``.
+
+    Parameters
+    ----------
+    g : Geometry
+        The polyhedron.
+    r : Mapping[int, Rank]
+        Site index -> rank.
+    view : numpy.ndarray
+        Where the viewer sits, looking towards the metal.
+    ring : sequence of int
+        The sites read round.
+    start : int
+        The site the reading starts from.
+    tail : Mapping[int, int], optional
+        Each ring site's partner, whose ranks follow the ring's (TPR-6: the
+        preferred-face atoms eclipsed).
+
+    Returns
+    -------
+    Sequences
+        The clockwise reading labelled 'C' and the anticlockwise one 'A'.
+    """
     acw, cw = _ring_orders(g, view, ring, start)
     out = []
     for order, sym in ((cw, "C"), (acw, "A")):

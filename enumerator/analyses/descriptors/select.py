@@ -51,7 +51,19 @@ def _forms(d: Descriptor) -> list[str]:
 
 
 def matches(d: Descriptor, text: str) -> bool:
-    """Whether the typed ``text`` names the descriptor ``d`` (forms in the module docstring)."""
+    """Whether the typed ``text`` names the descriptor ``d`` (forms in the module docstring).
+
+    Parameters
+    ----------
+    d : Descriptor
+        One isomer's descriptor.
+    text : str
+        What was typed.
+
+    Returns
+    -------
+    bool
+    """
     t = text.strip()
     low = t.lower()
     if low in _WORDS:

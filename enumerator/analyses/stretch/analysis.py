@@ -21,9 +21,9 @@ from collections.abc import Mapping
 from dataclasses import dataclass
 from typing import Any
 
-from enumerator.analyses.views import ResultView, RequestView
 from enumerator.analyses.stretch.modes import ModeSet, environments, stretch_modes
 from enumerator.analyses.stretch.pairs import COST_ORDER, Pair, Signatures, list_pairs, pair_tally, signature_ids
+from enumerator.analyses.views import RequestView, ResultView
 from enumerator.errors import InputError
 from enumerator.isomers.enumeration import Isomer
 from enumerator.isomers.tables import table_for_isomer
@@ -158,7 +158,19 @@ class StretchAnalysis:
 def nucleus_for(kind: LigandKind, reporters: Reporters) -> tuple[str | None, bool]:
     """(nucleus, counted) for a ligand kind: a reporter's nucleus; a catalogue
     ligand's donor-element nucleus ([nuclei]); an abstract letter counts its
-    environments with no nucleus named."""
+    environments with no nucleus named.
+
+    Parameters
+    ----------
+    kind : LigandKind
+        A ligand kind.
+    reporters : Reporters
+        The reporter classes and donor-element nuclei in force.
+
+    Returns
+    -------
+    (str or None, bool)
+    """
     if kind.reporter:
         return reporters.get(kind.reporter).nucleus, True
     if not kind.info_dict():  # abstract letter
@@ -201,6 +213,17 @@ def stage(res: ResultView, req: RequestView) -> StretchAnalysis:
     ------
     InputError
         A ligand names a reporter class no rule file defines.
+
+    Parameters
+    ----------
+    res : Result
+        The result so far.
+    req : Request
+        Its request (rule folders for the reporter classes).
+
+    Returns
+    -------
+    StretchAnalysis
     """
     reporters = load_reporters(load_rules(req.rules))
     comp = res.composition

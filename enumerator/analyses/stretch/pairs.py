@@ -68,7 +68,17 @@ class Pair:
 
 
 def signature_ids(signatures: Sequence[Hashable]) -> list[int]:
-    """Number the distinct signatures in order of first appearance (equal signatures, equal numbers)."""
+    """Number the distinct signatures in order of first appearance (equal signatures, equal numbers).
+
+    Parameters
+    ----------
+    signatures : sequence of hashable
+        One count signature per isomer.
+
+    Returns
+    -------
+    list of int
+    """
     table: dict[Hashable, int] = {}
     return [table.setdefault(s, len(table)) for s in signatures]
 
