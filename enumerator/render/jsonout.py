@@ -26,7 +26,17 @@ __all__ = ["dumps", "result_to_dict", "isomer_to_dict"]
 
 
 def result_to_dict(res: Result) -> dict[str, Any]:
-    """The JSON document of a result; the same as ``res.to_dict()``."""
+    """The JSON document of a result; the same as ``res.to_dict()``.
+
+    Parameters
+    ----------
+    res : Result
+        The analysed formula.
+
+    Returns
+    -------
+    dict
+    """
     return res.to_dict()
 
 

@@ -101,17 +101,49 @@ def sections(analysis: object) -> tuple[Section, ...]:
 
 
 def result_columns(res: Result, wide: bool = True) -> list[Column]:
-    """Every analysis's columns in stage order; ``wide=False`` leaves out the wide ones (the terminal table)."""
+    """Every analysis's columns in stage order; ``wide=False`` leaves out the wide ones (the terminal table).
+
+    Parameters
+    ----------
+    res : Result
+        The analysed formula.
+    wide : bool, optional
+        Keep the wide columns.
+
+    Returns
+    -------
+    list of Column
+    """
     return [c for a in res.analyses for c in columns(a) if wide or not c.wide]
 
 
 def result_sections(res: Result) -> list[Section]:
-    """Every analysis's sections in stage order."""
+    """Every analysis's sections in stage order.
+
+    Parameters
+    ----------
+    res : Result
+        The analysed formula.
+
+    Returns
+    -------
+    list of Section
+    """
     return [s for a in res.analyses for s in sections(a)]
 
 
 def safety_lines(res: Result) -> tuple[str, ...]:
-    """The safety cautions the pipeline attached to a result (empty when none apply)."""
+    """The safety cautions the pipeline attached to a result (empty when none apply).
+
+    Parameters
+    ----------
+    res : Result
+        The analysed formula.
+
+    Returns
+    -------
+    tuple of str
+    """
     a = res.analysis(SafetyAnalysis)
     return a.lines if a is not None else ()
 
@@ -121,7 +153,16 @@ def safety_lines(res: Result) -> tuple[str, ...]:
 
 @sections.register(SafetyAnalysis)
 def safety_sections(a: SafetyAnalysis) -> tuple[Section, ...]:
-    """One "Safety" section: the cautions as a bulleted list."""
+    """One "Safety" section: the cautions as a bulleted list.
+
+    Parameters
+    ----------
+    a : SafetyAnalysis
+
+    Returns
+    -------
+    tuple of Section
+    """
     return (Section("Safety", "\n".join(f"- {line}" for line in a.lines)),)
 
 
@@ -151,7 +192,16 @@ def _count_lines(c: ElectronCount, geometry: str) -> list[str]:
 
 @sections.register(CentreAnalysis)
 def centre_sections(a: CentreAnalysis) -> tuple[Section, ...]:
-    """One "Metal centre" section: the label, both electron counts worked out, nitrosyl binding, notes."""
+    """One "Metal centre" section: the label, both electron counts worked out, nitrosyl binding, notes.
+
+    Parameters
+    ----------
+    a : CentreAnalysis
+
+    Returns
+    -------
+    tuple of Section
+    """
     c = a.count
     lines = [f"{c.label}" + (f", {c.enemark_feltham} (Enemark–Feltham)" if c.enemark_feltham else "")]
     if c.valence_electrons is not None and c.group is not None:
@@ -169,7 +219,17 @@ _SYMBOL_LATEX = {"Delta": r"$\Delta$", "Lambda": r"$\Lambda$"}
 
 @columns.register(DescriptorAnalysis)
 def descriptor_columns(a: DescriptorAnalysis) -> tuple[Column, ...]:
-    """The descriptor (chirality symbol typeset for LaTeX), the everyday prefix where any, and the IUPAC name (wide)."""
+    """The descriptor (chirality symbol typeset for LaTeX), the everyday prefix where any, and the IUPAC name (wide).
+
+    Parameters
+    ----------
+    a : DescriptorAnalysis
+
+    Returns
+    -------
+    tuple of Column
+        Empty when no descriptor could be assigned.
+    """
     if not a.descriptors:
         return ()
     values = {k: d.text for k, d in a.descriptors}
@@ -189,7 +249,16 @@ def descriptor_columns(a: DescriptorAnalysis) -> tuple[Column, ...]:
 
 @sections.register(DescriptorAnalysis)
 def descriptor_sections(a: DescriptorAnalysis) -> tuple[Section, ...]:
-    """ "Descriptors" (the basis, shared descriptors, chiral isomers without a symbol) and "IUPAC names"."""
+    """ "Descriptors" (the basis, shared descriptors, chiral isomers without a symbol) and "IUPAC names".
+
+    Parameters
+    ----------
+    a : DescriptorAnalysis
+
+    Returns
+    -------
+    tuple of Section
+    """
     lines = []
     if a.error:
         lines.append(f"not assigned: {a.error}")
@@ -231,7 +300,16 @@ _LEGEND_TAIL = (
 
 @columns.register(StretchAnalysis)
 def stretch_columns(a: StretchAnalysis) -> tuple[Column, ...]:
-    """Per reporter class: species, IR and Raman band counts, NMR signal count; then the other ligands' environments."""
+    """Per reporter class: species, IR and Raman band counts, NMR signal count; then the other ligands' environments.
+
+    Parameters
+    ----------
+    a : StretchAnalysis
+
+    Returns
+    -------
+    tuple of Column
+    """
     cols = []
     for ci, cls in enumerate(a.classes):
         nuc = a.info[ci].nucleus
@@ -254,7 +332,16 @@ def stretch_columns(a: StretchAnalysis) -> tuple[Column, ...]:
 
 @sections.register(StretchAnalysis)
 def stretch_sections(a: StretchAnalysis) -> tuple[Section, ...]:
-    """The axes behind the Mulliken labels, the pair matrix (or tally), and the spectroscopy notes."""
+    """The axes behind the Mulliken labels, the pair matrix (or tally), and the spectroscopy notes.
+
+    Parameters
+    ----------
+    a : StretchAnalysis
+
+    Returns
+    -------
+    tuple of Section
+    """
     lines = [f"{i} ({a.groups[k]}): {a.axes[k]}" for k, i in enumerate(a.ids[:AXES_MAX])]
     if len(a.ids) > AXES_MAX:
         lines.append(f"... {len(a.ids) - AXES_MAX} more in --json ('axes')")
@@ -274,7 +361,16 @@ def stretch_sections(a: StretchAnalysis) -> tuple[Section, ...]:
 
 
 def pair_tally_text(a: StretchAnalysis) -> str:
-    """How many pairs each technique tells apart first, with the legend (for many isomers)."""
+    """How many pairs each technique tells apart first, with the legend (for many isomers).
+
+    Parameters
+    ----------
+    a : StretchAnalysis
+
+    Returns
+    -------
+    str
+    """
     n = len(a.ids)
     tally = a.pair_tally()
     total = n * (n - 1) // 2
@@ -287,7 +383,16 @@ def pair_tally_text(a: StretchAnalysis) -> str:
 
 def pair_matrix_text(a: StretchAnalysis) -> str:
     """The isomer-by-isomer matrix of the cheapest technique that tells each pair apart, its legend and the
-    pairs no count tells apart; the tally (:func:`pair_tally_text`) above :data:`MATRIX_MAX` isomers."""
+    pairs no count tells apart; the tally (:func:`pair_tally_text`) above :data:`MATRIX_MAX` isomers.
+
+    Parameters
+    ----------
+    a : StretchAnalysis
+
+    Returns
+    -------
+    str
+    """
     n = len(a.ids)
     if n > MATRIX_MAX:
         return pair_tally_text(a)

@@ -35,6 +35,14 @@ def file_stem(text: str) -> str:
 
     >>> file_stem("[RuCl2(CO)2(PPh3)2]")
     'RuCl2_CO_2_PPh3_2'
+
+    Parameters
+    ----------
+    text : str
+
+    Returns
+    -------
+    str
     """
     s = re.sub(r"[^A-Za-z0-9]+", "_", text).strip("_")
     return s or "complex"
@@ -68,14 +76,38 @@ def structure_files(ss: StructureSet, fmt: str) -> list[tuple[str, str]]:
 
 
 def describe_structure(s: Structure) -> str:
-    """'full ligands' (with a remaining clash) or 'DONOR-ONLY CORE (why)'."""
+    """'full ligands' (with a remaining clash) or 'DONOR-ONLY CORE (why)'.
+
+    Parameters
+    ----------
+    s : Structure
+
+    Returns
+    -------
+    str
+    """
     if s.kind == "full":
         return "full ligands" + (f" - WARNING {s.note}" if s.note else "")
     return f"DONOR-ONLY CORE ({s.note})"
 
 
 def structure_listing(ss: StructureSet, fmt: str, folder: Path) -> str:
-    """One line per isomer: the file written in ``folder``, the isomer id and what was built."""
+    """One line per isomer: the file written in ``folder``, the isomer id and what was built.
+
+    Parameters
+    ----------
+    ss : StructureSet
+        The structures written.
+    fmt : str
+        'xyz' or 'sdf'.
+    folder : pathlib.Path
+        Where the files were written.
+
+    Returns
+    -------
+    str
+        Lines without a final newline.
+    """
     return "\n".join(
         f"{folder / name}  isomer {s.isomer_id}: {describe_structure(s)}"
         for name, s in zip(_file_names(ss, fmt), ss.structures)

@@ -44,7 +44,17 @@ __all__ = [
 
 
 def rows(res: Result) -> tuple[list[str], list[list[str]], list[list[str]]]:
-    """(header, plain cells, LaTeX cells) of the isomer table."""
+    """(header, plain cells, LaTeX cells) of the isomer table.
+
+    Parameters
+    ----------
+    res : Result
+        The analysed formula.
+
+    Returns
+    -------
+    (list of str, list of list of str, list of list of str)
+    """
     extra = result_columns(res)
     header = ["isomer", "point group", "chiral", "enantiomer", *[c.header for c in extra], "sites"]
     plain, tex = [], []
@@ -73,7 +83,18 @@ def _md_cell(text: str) -> str:
 
 
 def markdown(res: Result) -> str:
-    """A GitHub-flavoured Markdown section for one result."""
+    """A GitHub-flavoured Markdown section for one result.
+
+    Parameters
+    ----------
+    res : Result
+        The analysed formula.
+
+    Returns
+    -------
+    str
+        The heading, the table, the sections in code blocks, notes and cautions.
+    """
     header, plain, _ = rows(res)
     out = [f"### {_md_cell(res.composition.formula)} on {res.geometry.symbol}", ""]
     out.append(f"Geometry: {_md_cell(res.geometry_reason)}.  ")
@@ -98,18 +119,50 @@ def markdown(res: Result) -> str:
 
 
 def csv_records(res: Result) -> tuple[list[str], list[list[str]]]:
-    """Header and records with the formula and geometry first."""
+    """Header and records with the formula and geometry first.
+
+    Parameters
+    ----------
+    res : Result
+        The analysed formula.
+
+    Returns
+    -------
+    (list of str, list of list of str)
+    """
     header, plain, _ = rows(res)
     return ["formula", "geometry", *header], [[res.composition.formula, res.geometry.symbol, *r] for r in plain]
 
 
 def csv(res: Result) -> str:
-    """RFC 4180 CSV of the isomer table (CRLF line ends, UTF-8)."""
+    """RFC 4180 CSV of the isomer table (CRLF line ends, UTF-8).
+
+    Parameters
+    ----------
+    res : Result
+        The analysed formula.
+
+    Returns
+    -------
+    str
+    """
     header, recs = csv_records(res)
     return write_csv(header, recs, safety_lines(res))
 
 
 def write_csv(header: Sequence[str], records: Sequence[Sequence[str]], cautions: Sequence[str] = ()) -> str:
+    """RFC 4180 CSV text: the header, the records padded to its width, then one ``# safety:`` record per caution.
+
+    Parameters
+    ----------
+    header : sequence of str
+    records : sequence of sequence of str
+    cautions : sequence of str, optional
+
+    Returns
+    -------
+    str
+    """
     buf = io.StringIO()
     w = _csv.writer(buf, lineterminator="\r\n", quoting=_csv.QUOTE_MINIMAL)
     w.writerow(header)
@@ -121,7 +174,17 @@ def write_csv(header: Sequence[str], records: Sequence[Sequence[str]], cautions:
 
 
 def latex(res: Result) -> str:
-    """A booktabs ``table`` environment (needs \\usepackage{booktabs})."""
+    """A booktabs ``table`` environment (needs \\usepackage{booktabs}).
+
+    Parameters
+    ----------
+    res : Result
+        The analysed formula.
+
+    Returns
+    -------
+    str
+    """
     header, _, tex = rows(res)
     cols = "l" * len(header)
     cap = f"Isomers of {latex_escape(res.composition.formula)} on {res.geometry.symbol}: {latex_escape(_summary(res))}."

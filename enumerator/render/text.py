@@ -95,7 +95,17 @@ def isomer_rows(res: Result, wide: bool = True) -> tuple[list[str], list[list[st
 
 
 def isomer_table(res: Result) -> str:
-    """The terminal isomer table (wide columns left out)."""
+    """The terminal isomer table (wide columns left out).
+
+    Parameters
+    ----------
+    res : Result
+        The analysed formula.
+
+    Returns
+    -------
+    str
+    """
     return table(*isomer_rows(res, wide=False))
 
 

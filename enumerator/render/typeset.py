@@ -50,7 +50,16 @@ _ESCAPES = {
 
 
 def latex_escape(text: str) -> str:
-    """Plain text made safe for LaTeX (special characters escaped, Greek letters and primes in math mode)."""
+    """Plain text made safe for LaTeX (special characters escaped, Greek letters and primes in math mode).
+
+    Parameters
+    ----------
+    text : str
+
+    Returns
+    -------
+    str
+    """
     return "".join(_ESCAPES.get(ch, ch) for ch in text)
 
 
@@ -79,7 +88,17 @@ def _irrep_tex(label: str) -> str | None:
 
 
 def latex_symbol(label: str) -> str:
-    """A point-group or Mulliken label in math mode, else escaped text."""
+    """A point-group or Mulliken label in math mode, else escaped text.
+
+    Parameters
+    ----------
+    label : str
+        'C2v', 'Dinfh', 'A1g', "E''", ...
+
+    Returns
+    -------
+    str
+    """
     tex = (
         _group_tex(label) if _GROUP.match(label) and not _IRREP.match(label) else _irrep_tex(label) or _group_tex(label)
     )
@@ -87,7 +106,17 @@ def latex_symbol(label: str) -> str:
 
 
 def latex_species(text: str) -> str:
-    """'2A1 + B1 + B2' -> '$2A_{1} + B_{1} + B_{2}$' (unknown text is escaped)."""
+    """'2A1 + B1 + B2' -> '$2A_{1} + B_{1} + B_{2}$' (unknown text is escaped).
+
+    Parameters
+    ----------
+    text : str
+        A species string as the reduction writes it.
+
+    Returns
+    -------
+    str
+    """
     terms = [t.strip() for t in text.split("+")] if text.strip() else []
     out = []
     for t in terms:
@@ -102,7 +131,17 @@ def latex_species(text: str) -> str:
 
 
 def markdown_symbol(label: str) -> str:
-    """'C2v' -> 'C<sub>2v</sub>' (renders on a code host)."""
+    """'C2v' -> 'C<sub>2v</sub>' (renders on a code host).
+
+    Parameters
+    ----------
+    label : str
+        A point-group label.
+
+    Returns
+    -------
+    str
+    """
     m = _GROUP.match(label)
     if not m:
         return label

@@ -81,7 +81,19 @@ def build_structure(isomer: Isomer, composition: Composition, *, label: str = ""
 
 
 def structures_for(result: ResultView, labels: Mapping[str, str] | None = None) -> tuple[Structure, ...]:
-    """One structure per isomer of a result, in listing order; ``labels`` by isomer id go into the titles."""
+    """One structure per isomer of a result, in listing order; ``labels`` by isomer id go into the titles.
+
+    Parameters
+    ----------
+    result : Result
+        An analysed formula.
+    labels : Mapping[str, str], optional
+        Isomer id -> text added to the title (e.g. the IUPAC descriptor).
+
+    Returns
+    -------
+    tuple of Structure
+    """
     labels = labels or {}
     return tuple(build_structure(i, result.composition, label=labels.get(i.id, "")) for i in result.isomers)
 

@@ -52,6 +52,15 @@ def ligand_mol(kind: LigandKind):
     ------
     EmbedFailed
         RDKit cannot read the SMILES, or the donors are not numbered in chain order.
+
+    Parameters
+    ----------
+    kind : LigandKind
+        A catalogue ligand (``smiles`` in its catalogue data).
+
+    Returns
+    -------
+    rdkit.Chem.Mol
     """
     from rdkit import Chem, rdBase
 
@@ -75,6 +84,17 @@ def ring_atoms(m, kind: LigandKind) -> list[int]:
     ------
     EmbedFailed
         No ring of the ligand's hapticity in its SMILES.
+
+    Parameters
+    ----------
+    m : rdkit.Chem.Mol
+        The ligand molecule.
+    kind : LigandKind
+        The ligand (its hapticity).
+
+    Returns
+    -------
+    list of int
     """
     size = int(kind.info("hapticity", 0) or 0)
     mapped = {a.GetIdx() for a in m.GetAtoms() if a.GetAtomMapNum()}
@@ -203,7 +223,19 @@ def embed(mol, fixed: Mapping[int, Vec]) -> np.ndarray:
 
 
 def hydrogens_by_unit(mol, spans: Sequence[tuple[int, int]]) -> list[list[int]]:
-    """The added hydrogens of each unit (atom indices in order), found by the heavy atom they sit on."""
+    """The added hydrogens of each unit (atom indices in order), found by the heavy atom they sit on.
+
+    Parameters
+    ----------
+    mol : rdkit.Chem.Mol
+        The assembled complex, hydrogens added after every heavy atom.
+    spans : sequence of (int, int)
+        Each unit's (offset, heavy-atom count).
+
+    Returns
+    -------
+    list of list of int
+    """
     out: list[list[int]] = [[] for _ in spans]
     for a in mol.GetAtoms():
         if a.GetAtomicNum() == 1 and a.GetIdx() >= spans[-1][0] + spans[-1][1]:

@@ -60,7 +60,16 @@ def molblock(mol, title: str, isomer: Isomer, comp: Composition, kind: str, warn
 
 
 def to_xyz(structure: Structure) -> str:
-    """One XYZ block: atom count, the title line, then 'El x y z' in angstrom."""
+    """One XYZ block: atom count, the title line, then 'El x y z' in angstrom.
+
+    Parameters
+    ----------
+    structure : Structure
+
+    Returns
+    -------
+    str
+    """
     lines = [str(len(structure.symbols)), structure.title.replace("\n", " ")]
     for sym, (x, y, z) in zip(structure.symbols, structure.coords):
         lines.append(f"{sym:<2} {x:12.6f} {y:12.6f} {z:12.6f}".replace("-0.000000", " 0.000000"))
@@ -68,5 +77,14 @@ def to_xyz(structure: Structure) -> str:
 
 
 def to_sdf(structures: Iterable[Structure]) -> str:
-    """An SD file of the given structures, one record each."""
+    """An SD file of the given structures, one record each.
+
+    Parameters
+    ----------
+    structures : iterable of Structure
+
+    Returns
+    -------
+    str
+    """
     return "".join(s.molblock + "$$$$\n" for s in structures)

@@ -44,7 +44,17 @@ RING_BOND = 1.40  # from memory: aromatic C-C in benzene 1.39-1.40 A, Cp 1.40-1.
 
 
 def element_or_none(label: str) -> str | None:
-    """The element symbol if ``label`` is one (exact case), else None."""
+    """The element symbol if ``label`` is one (exact case), else None.
+
+    Parameters
+    ----------
+    label : str
+        A donor or metal label ('Ru', 'C', 'a', 'M').
+
+    Returns
+    -------
+    str or None
+    """
     if not label or not label[0].isupper():
         return None
     return label if is_element(label) else None
@@ -53,14 +63,33 @@ def element_or_none(label: str) -> str | None:
 @cache
 def bond_length(metal: str, donor: str) -> float:
     """Metal-donor starting distance in angstrom: the sum of RDKit's covalent radii, or
-    :data:`DUMMY_DISTANCE` when either is not an element."""
+    :data:`DUMMY_DISTANCE` when either is not an element.
+
+    Parameters
+    ----------
+    metal, donor : str
+        Element symbols or abstract labels.
+
+    Returns
+    -------
+    float
+    """
     if not element_or_none(metal) or not element_or_none(donor):
         return DUMMY_DISTANCE
     return round(covalent_radius(metal) + covalent_radius(donor), 4)
 
 
 def round_coordinate(x: float) -> float:
-    """A coordinate as written: 5 decimals, never -0.0."""
+    """A coordinate as written: 5 decimals, never -0.0.
+
+    Parameters
+    ----------
+    x : float
+
+    Returns
+    -------
+    float
+    """
     v = round(float(x), 5)
     return 0.0 if v == 0 else v
 

@@ -41,6 +41,15 @@ def uff_relax(mol, pos: np.ndarray, fixed: Mapping[int, Vec]) -> np.ndarray | No
     -------
     numpy.ndarray or None
         The positions; None where UFF lacks parameters for some atom.
+
+    Parameters
+    ----------
+    mol : rdkit.Chem.Mol
+        The complex, metal as atom 0.
+    pos : numpy.ndarray
+        Atom positions (n x 3, angstrom).
+    fixed : Mapping[int, Vec]
+        Atoms held at their places.
     """
     from rdkit import Chem, rdBase
     from rdkit.Chem import rdForceFieldHelpers

@@ -46,7 +46,17 @@ class StructureSet:
 
 
 def descriptor_labels(result: ResultView) -> dict[str, str]:
-    """Isomer id -> IUPAC descriptor text, where the descriptor stage ran and assigned one."""
+    """Isomer id -> IUPAC descriptor text, where the descriptor stage ran and assigned one.
+
+    Parameters
+    ----------
+    result : Result
+        An analysed formula.
+
+    Returns
+    -------
+    dict[str, str]
+    """
     a = result.analysis(DescriptorAnalysis)
     if a is None:
         return {}
