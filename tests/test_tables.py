@@ -100,3 +100,32 @@ def test_markdown(res):
     sep = lines[lines.index(head) + 1]
     assert sep.count("|") == head.count("|") - head.count("\\|")
     assert "C<sub>2v</sub>" in m and "note\\|x" in m and "Safety" in m
+
+
+def test_an_analysis_without_renderers_adds_no_columns_or_sections(res):
+    from enumerator.render.sections import result_sections, sections
+
+    assert columns(object()) == () and sections(object()) == ()
+    # the registered fake adds its two columns and no section
+    assert [c.header for c in columns(res.analyses[-1])] == ["CO species", "note|x"]
+    assert all(s.title for s in result_sections(res))
+
+
+def test_json_shape_is_defined_by_the_result():
+    from enumerator.render.jsonout import result_to_dict
+
+    r = run(Request("[Fe(CN)4(CO)2]2-"))
+    doc = r.to_dict()
+    assert result_to_dict(r) == doc
+    assert list(doc)[:9] == [
+        "schema_version",
+        "formula",
+        "geometry",
+        "geometry_reason",
+        "stereoisomers",
+        "geometric_isomers",
+        "complete",
+        "isomers",
+        "notes",
+    ]
+    assert {"centre", "safety", "descriptor_rules", "pairs", "pair_tally"} <= set(doc)

@@ -3,7 +3,7 @@
 
 Each ``[[element]]`` gives ``symbol``, ``name`` (``cobalt``) and ``anion``,
 the -ate form used in an anionic complex (``cobaltate``; IUPAC 2005,
-IR-9.2.2.4).  A later file's entry replaces an earlier one.
+IR-9.2).  A later file's entry replaces an earlier one.
 
 >>> from enumerator.rules.ruleset import load_rules
 >>> element_names(load_rules())["Fe"]
