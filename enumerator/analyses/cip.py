@@ -54,6 +54,7 @@ from __future__ import annotations
 from collections.abc import Iterable, Mapping, Sequence
 from dataclasses import dataclass
 from functools import lru_cache
+from types import MappingProxyType
 
 from enumerator.errors import InputError
 from enumerator.model.composition import Composition, LigandKind
@@ -152,7 +153,6 @@ def _lenient(smiles: str):
 MAX_RESONANCE = 12
 
 
-@lru_cache(maxsize=1024)
 def _structures(smiles: str) -> tuple:
     """The Kekulé/resonance structures RDKit enumerates for a ligand (one
     structure when the SMILES does not sanitize strictly)."""
@@ -176,10 +176,20 @@ def _structures(smiles: str) -> tuple:
     return tuple(out) if out else (_lenient(smiles),)
 
 
-def _graph(mol, metal: str):
+#: A ligand's graph: atoms (z, mass, hydrogens), neighbours with bond orders, mapped donors, by atom index.
+_Graph = tuple[Mapping[int, tuple[int, float, int]], Mapping[int, tuple[tuple[int, int], ...]], Mapping[int, int]]
+
+
+@lru_cache(maxsize=1024)
+def _graphs(smiles: str, metal: str) -> tuple[_Graph, ...]:
+    """The graph of every resonance structure of a ligand, read-only (cached by SMILES and metal)."""
+    return tuple(_graph(m, metal) for m in _structures(smiles))
+
+
+def _graph(mol, metal: str) -> _Graph:
     """Atoms (z, mass, hydrogens), bonds with orders, and the mapped donors;
     the metal is atom index -1, bonded to every mapped donor."""
-    atoms = {}
+    atoms: dict[int, tuple[int, float, int]] = {}
     nbrs: dict[int, list[tuple[int, int]]] = {}
     donors: dict[int, int] = {}
     for a in mol.GetAtoms():
@@ -200,7 +210,11 @@ def _graph(mol, metal: str):
     nbrs[-1] = [(d, 1) for d in donors.values()]
     for d in donors.values():
         nbrs[d].append((-1, 1))
-    return atoms, nbrs, donors
+    return (
+        MappingProxyType(atoms),
+        MappingProxyType({k: tuple(v) for k, v in nbrs.items()}),
+        MappingProxyType(donors),
+    )
 
 
 def _build(atoms, nbrs, root: int, spheres: int) -> tuple[_Node, int]:
@@ -297,16 +311,15 @@ def branch_key(smiles: str, donor: int, metal: str = "M", spheres: int = MAX_SPH
     InputError
         The SMILES cannot be read, or has no atom with that map number.
     """
-    atoms, nbrs, donors = _graph(_structures(smiles)[0], metal)
-    if donor not in donors:
+    graphs = _graphs(smiles, metal)
+    if donor not in graphs[0][2]:
         raise InputError(
             f"ligand SMILES '{smiles}' has no atom with map number {donor}",
             "mark the ligating atoms :1, :2, ... in chain order, e.g. [NH2:1]CC[NH2:2]",
         )
     keys = []
     built = spheres
-    for mol in _structures(smiles):
-        atoms, nbrs, donors = _graph(mol, metal)
+    for atoms, nbrs, donors in graphs:
         tree, reached = _build(atoms, nbrs, donors[donor], spheres)
         built = min(built, reached)
         memo: dict = {}
@@ -435,7 +448,7 @@ def _kind_keys(kind: LigandKind, metal: str) -> list[BranchKey]:
             'add smiles = "..." with the ligating atoms mapped :1, :2, ... to its ligands.toml entry',
         )
     if kind.ring:
-        atoms, _, donors = _graph(_structures(smiles)[0], metal)
+        atoms, _, donors = _graphs(smiles, metal)[0]
         hap = int(kind.info("hapticity", len(donors) or kind.denticity))
         if len(donors) >= 2:
             zs = [atoms[i][0] for i in donors.values()]
