@@ -157,6 +157,17 @@ def _modes(isomer: Isomer, reporter_class: str) -> ModeSet:
     return _polyhedral_modes(isomer, reporter_class, sites, chars)
 
 
+def _activity(
+    labs: Sequence[tuple[str, int]], ir: frozenset[str], raman: frozenset[str]
+) -> tuple[tuple[str, ...], tuple[str, ...], tuple[str, ...], int, int]:
+    """IR-active species, Raman-active species, those active in both, and the IR and Raman band counts
+    (a degenerate species is one band)."""
+    ir_sp = tuple(lab for lab, _ in labs if lab in ir)
+    ra_sp = tuple(lab for lab, _ in labs if lab in raman)
+    both = tuple(x for x in ir_sp if x in ra_sp)
+    return ir_sp, ra_sp, both, sum(n for lab, n in labs if lab in ir), sum(n for lab, n in labs if lab in raman)
+
+
 def _polyhedral_modes(
     isomer: Isomer, reporter_class: str, sites: tuple[int, ...], chars: Mapping[int, float]
 ) -> ModeSet:
@@ -164,9 +175,8 @@ def _polyhedral_modes(
     table = table_for_isomer(isomer)
     mult = table.reduce(chars)
     labs = tuple((i.label, mult[i.label]) for i in table.irreps if i.label in mult)
-    active = {i.label: (i.ir_active, i.raman_active) for i in table.irreps}
-    ir_sp = tuple(lab for lab, _ in labs if active[lab][0])
-    ra_sp = tuple(lab for lab, _ in labs if active[lab][1])
+    ir = frozenset(i.label for i in table.irreps if i.ir_active)
+    raman = frozenset(i.label for i in table.irreps if i.raman_active)
     return ModeSet(
         reporter_class,
         sites,
@@ -175,11 +185,7 @@ def _polyhedral_modes(
         tuple(float(chars[c.members[0]]) for c in table.classes),
         labs,
         table.species_string(mult),
-        ir_sp,
-        ra_sp,
-        tuple(x for x in ir_sp if x in ra_sp),
-        sum(n for lab, n in labs if active[lab][0]),
-        sum(n for lab, n in labs if active[lab][1]),
+        *_activity(labs, ir, raman),
         environments(isomer, sites),
         table.axes_note,
     )
@@ -201,8 +207,6 @@ def _linear_modes(isomer: Isomer, reporter_class: str, sites: tuple[int, ...], c
         )
     labs = sorted(((corr[lab], n) for lab, n in mult.items()), key=lambda t: _LINEAR_ORDER.index(t[0]))
     species = " + ".join(lab if n == 1 else f"{n}{lab}" for lab, n in labs) or "0"
-    ir_sp = tuple(lab for lab, _ in labs if lab in LINEAR_IR)
-    ra_sp = tuple(lab for lab, _ in labs if lab in LINEAR_RAMAN)
     pairs = ", ".join(f"{a} -> {b}" for a, b in corr.items())
     return ModeSet(
         reporter_class,
@@ -212,11 +216,7 @@ def _linear_modes(isomer: Isomer, reporter_class: str, sites: tuple[int, ...], c
         tuple(float(chars[isomer.stabiliser[c.members[0]]]) for c in proxy.classes),
         tuple(labs),
         species,
-        ir_sp,
-        ra_sp,
-        tuple(x for x in ir_sp if x in ra_sp),
-        sum(n for lab, n in labs if lab in LINEAR_IR),
-        sum(n for lab, n in labs if lab in LINEAR_RAMAN),
+        *_activity(labs, LINEAR_IR, LINEAR_RAMAN),
         environments(isomer, sites),
         f"linear: z along the molecular axis; species by correlation from the {proxy.group} proxy ({pairs})",
     )
