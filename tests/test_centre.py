@@ -85,9 +85,7 @@ def test_override_and_json():
     s, reason = choose_geometry(comp, RS, "SPY-5")
     assert s == "SPY-5" and "as requested" in reason and "TBPY-5" in reason
     res = run(Request("[RuCl2(CO)2(PPh3)2]"))
-    from enumerator.render.jsonout import result_to_dict
-
-    c = result_to_dict(res)["centre"]
+    c = res.to_dict()["centre"]
     assert (c["metal"], c["oxidation_state"], c["d_electrons"], c["valence_electrons"]) == ("Ru", 2, 6, 18)
     assert isinstance(c["geometry_reason"], str) and c["geometry_reason"]
 

@@ -75,7 +75,7 @@ def test_letter_convention():
 
 
 def test_kinds_with_meta_smiles():
-    # LigandKind objects built by hand with catalogue-style meta (contract 3)
+    # LigandKind objects built by hand with catalogue-style meta (SMILES with the ligating atoms mapped :1, :2, ...)
     nh3 = LigandKind("NH3", ("N",), meta=(("smiles", "[NH3:1]"),))
     no2 = LigandKind("NO2", ("N",), meta=(("smiles", "O=[N:1][O-]"),))
     comp = Composition("[Co(NH3)3(NO2)3]", ((nh3, 3), (no2, 3)), metal="Co")
@@ -147,3 +147,16 @@ def test_priorities_reproduce_rdkit_cip_labels(smiles):
     Chem.AssignStereochemistryFrom3D(mol)
     rdCIPLabeler.AssignCIPLabels(mol)
     assert rs_symbol(*by_rank) == mol.GetAtomWithIdx(0).GetProp("_CIPCode")
+
+
+def test_priorities_follow_the_smiles_not_only_the_names():
+    # The same ligand names with other SMILES (a user catalogue) must not reuse cached priorities:
+    # Composition equality leaves the catalogue data out, the cache key must not (hand-worked: N > C at sphere 1).
+    a1 = LigandKind("X", ("N",), meta=(("smiles", "[NH3:1]"),))
+    b1 = LigandKind("Y", ("C",), meta=(("smiles", "[CH3-:1]"),))
+    a2 = LigandKind("X", ("N",), meta=(("smiles", "[CH3-:1]"),))
+    b2 = LigandKind("Y", ("C",), meta=(("smiles", "[NH3:1]"),))
+    first = donor_priorities(Composition("[CoX3Y3]", ((a1, 3), (b1, 3)), metal="Co"))
+    second = donor_priorities(Composition("[CoX3Y3]", ((a2, 3), (b2, 3)), metal="Co"))
+    assert first == {("X", 0): 1, ("Y", 0): 2}
+    assert second == {("X", 0): 2, ("Y", 0): 1}

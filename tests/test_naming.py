@@ -144,3 +144,22 @@ def test_json_and_tables():
     table_head = next(line for line in text.splitlines() if line.startswith("isomer"))
     assert "IUPAC name" not in table_head
     assert "IUPAC names" in text and "triamminetrinitrito-κN-cobalt(III)" in text
+
+
+def test_element_names_are_read_only_and_checked(tmp_path):
+    import pytest
+
+    from enumerator.errors import RuleError
+    from enumerator.rules.element_names import element_names
+
+    names = element_names(R)
+    assert names["Co"] == (
+        "cobalt",
+        "cobaltate",
+    )  # anionic complexes take the -ate form (IUPAC 2005, IR-9.2.2; from memory)
+    with pytest.raises(TypeError):
+        names["Co"] = ("x", "y")  # type: ignore[index]
+    (tmp_path / "element_names.toml").write_text('[[element]]\nsymbol = "Zz"\nname = "z1"\n', encoding="utf-8")
+    with pytest.raises(RuleError) as exc:
+        element_names(load_rules([tmp_path]))
+    assert "element_names.toml" in exc.value.line()

@@ -25,6 +25,7 @@ from enumerator.analyses.descriptors import (
 from enumerator.cli import cli, main
 from enumerator.isomers.enumeration import enumerate_isomers
 from enumerator.parse.abstract import parse_abstract
+from enumerator.render.sections import sections
 from enumerator.rules.ruleset import load_rules
 from enumerator.workflow.pipeline import analyse
 
@@ -306,7 +307,7 @@ def test_limits_are_reported_not_hidden():
     res = analyse("Ma6b2", geometry="CU-8")
     a = res.analysis(DescriptorAnalysis)
     assert a.shared
-    assert "shared" in a.sections()[0].text
+    assert "shared" in sections(a)[0].text
 
 
 def test_abstract_tridentate_ranks_like_dien():
@@ -340,9 +341,7 @@ def test_find_by_descriptor_forms():
 
 def test_json_keys():
     res = analyse("Ma2b2c2", geometry="OC-6")
-    from enumerator.render.jsonout import result_to_dict
-
-    doc = result_to_dict(res)
+    doc = res.to_dict()
     iso = doc["isomers"][0]
     assert iso["descriptor"] == "OC-6-32-A"
     assert set(iso["priorities"]) == {"1", "2", "3", "4", "5", "6"}  # site numbers
@@ -430,6 +429,6 @@ def test_chiral_without_symbol_is_reported():
     chiral = {i.id for i in res.isomer_set.isomers if i.chiral}
     assert a.no_symbol and set(a.no_symbol) <= chiral
     assert "chiral_without_symbol" in a.top_json()["descriptor_rules"]
-    assert "tell the enantiomers apart by isomer id" in a.sections()[0].text
+    assert "tell the enantiomers apart by isomer id" in sections(a)[0].text
     # and nothing is reported where every chiral isomer has its symbol
     assert not analyse("[Co(en)3]3+", geometry="OC-6").analysis(DescriptorAnalysis).no_symbol

@@ -15,8 +15,9 @@ import time
 
 import pytest
 
-from enumerator.analyses.stretch import StretchAnalysis, load_reporters, stretch_modes
+from enumerator.analyses.stretch import StretchAnalysis, stretch_modes
 from enumerator.errors import InputError
+from enumerator.rules.reporters import load_reporters
 from enumerator.rules.ruleset import load_rules
 from enumerator.workflow.pipeline import analyse
 
@@ -141,11 +142,9 @@ def test_unknown_reporter_class_is_a_clear_input_error():
 
 
 def test_pairs_json_and_enantiomers():
-    from enumerator.render.jsonout import result_to_dict
-
     # cis-M(AA)2b2 is chiral (Delta/Lambda; Cotton; common practice): enantiomers never distinct
     r = analyse("M(AA)2b2", geometry="OC-6", reporters=(("b", "CO"),))
-    doc = result_to_dict(r)
+    doc = r.to_dict()
     n = len(doc["isomers"])
     assert len(doc["pairs"]) == n * (n - 1) // 2
     en = [p for p in doc["pairs"] if p.get("note") == "enantiomers"]
@@ -208,3 +207,27 @@ def test_pair_tally_equals_counting_every_pair():
         a = analyse(formula, geometry=geo, reporters=((rep, "CO"),), limit=limit).analysis(StretchAnalysis)
         brute = Counter("en" if p.note else (p.cheapest or "--") for p in a.pairs())
         assert a.pair_tally() == dict(brute), formula
+
+
+def test_user_reporter_file_replaces_and_is_checked(tmp_path):
+    import pytest
+
+    from enumerator.errors import RuleError
+
+    # a later file's class replaces the built-in one of the same name
+    (tmp_path / "reporters.toml").write_text(
+        '[class.CO]\nname = "carbonyl"\nbond = "C-O"\nnucleus = "13C"\n'
+        'ir_window_cm1 = [1700, 2150]\nwindow_source = "test value"\n',
+        encoding="utf-8",
+    )
+    co = load_reporters(load_rules([tmp_path])).get("CO")
+    assert co.window == (1700.0, 2150.0) and co.source == "test value"
+    bad = tmp_path / "bad"
+    bad.mkdir()
+    (bad / "reporters.toml").write_text(
+        '[class.XY]\nname = "x"\nbond = "X-Y"\nnucleus = "1H"\nir_window_cm1 = [2000]\nwindow_source = "x"\n',
+        encoding="utf-8",
+    )
+    with pytest.raises(RuleError) as exc:
+        load_reporters(load_rules([bad]))
+    assert "reporters.toml" in exc.value.line() and "ir_window_cm1" in exc.value.line()

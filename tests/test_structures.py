@@ -11,9 +11,9 @@ from click.testing import CliRunner
 from enumerator.isomers.enumeration import enumerate_isomers
 from enumerator.model.composition import Composition, LigandKind
 from enumerator.rules.ruleset import load_rules
-from enumerator.structures.build import bond_length, build_structure, to_sdf, to_xyz
+from enumerator.structures import bond_length, build_structure, to_sdf, to_xyz
 
-# Hand-built catalogue-style kinds (contract 3: donor atoms carry atom maps 1..denticity).
+# Hand-built catalogue-style kinds (as in the catalogue: donor atoms carry atom maps 1..denticity).
 # SMILES written from the ligands' structures (common practice); CO as the
 # charge-separated [C-]#[O+] that RDKit sanitises.
 CO = LigandKind("CO", ("C",), reporter="CO", meta=(("smiles", "[C-:1]#[O+]"),))
@@ -171,7 +171,7 @@ def test_closest_contact_flags_overlapping_ligands():
     # below 70% of the vdW sum, common practice); on opposite sites they are not
     from rdkit import Chem
 
-    from enumerator.structures.build import CLASH_FRACTION, closest_contact
+    from enumerator.structures import CLASH_FRACTION, closest_contact
 
     mol = Chem.MolFromSmiles("[Mo](Cl)Cl", sanitize=False)
     d, i, j, limit = closest_contact(mol, [(0, 0, 0), (2.4, 0, 0), (2.4, 0.5, 0)])
@@ -188,7 +188,7 @@ def test_written_structures_are_clash_free_or_say_so(formula):
     # the clash limit, or its title, note and SDF record carry the warning
     from rdkit import Chem
 
-    from enumerator.structures.build import closest_contact, structures_for
+    from enumerator.structures import closest_contact, structures_for
     from enumerator.workflow.pipeline import analyse
 
     res = analyse(formula, geometry="OC-6")
@@ -203,3 +203,19 @@ def test_written_structures_are_clash_free_or_say_so(formula):
             assert s.note == "" and "WARNING" not in s.title
     if formula == "[RuCl2(CO)2(PPh3)2]":  # a known compound's isomers embed cleanly
         assert all(s.note == "" for s in structures_for(res))
+
+
+def test_structure_set_names_files_and_lists_them(tmp_path):
+    from pathlib import Path
+
+    from enumerator.render.structures import structure_files, structure_listing
+    from enumerator.structures import structure_set
+    from enumerator.workflow.pipeline import analyse
+
+    ss = structure_set(analyse("Ma4b2", geometry="OC-6"))
+    assert [s.isomer_id for s in ss.structures] == ["1", "2"]
+    assert "OC-6-22" in ss.structures[0].title  # the descriptor goes into the title
+    assert [name for name, _ in structure_files(ss, "sdf")] == ["Ma4b2.sdf"]
+    lines = structure_listing(ss, "xyz", Path("out")).splitlines()
+    assert lines[0].startswith(str(Path("out") / "Ma4b2_1.xyz") + "  isomer 1: DONOR-ONLY CORE (")
+    assert ss.to_dict()["structures"][1]["kind"] == "core"

@@ -8,10 +8,11 @@ from dataclasses import dataclass, replace
 
 import pytest
 
+from enumerator.render.sections import Column, columns
 from enumerator.render.tables import csv as to_csv
-from enumerator.render.tables import latex, latex_species, latex_symbol, markdown
+from enumerator.render.tables import latex, markdown
+from enumerator.render.typeset import latex_species, latex_symbol
 from enumerator.workflow.pipeline import Request, run
-from enumerator.workflow.result import Column
 
 
 @pytest.mark.parametrize(
@@ -48,20 +49,21 @@ def test_latex_species():
 
 @dataclass(frozen=True)
 class _Fake:
+    """An analysis of the test's own, with columns registered the way a new stage registers them."""
+
     def isomer_json(self, i):
         return {}
 
     def top_json(self):
         return {}
 
-    def columns(self):
-        return (
-            Column("CO species", {"1": "A1 + E", "2": "A1"}, latex={"1": "$A_1 + E$", "2": "$A_1$"}),
-            Column("note|x", {"1": 'a_b, "q"', "2": "50%"}),
-        )
 
-    def sections(self):
-        return ()
+@columns.register(_Fake)
+def _fake_columns(a):
+    return (
+        Column("CO species", {"1": "A1 + E", "2": "A1"}, latex={"1": "$A_1 + E$", "2": "$A_1$"}),
+        Column("note|x", {"1": 'a_b, "q"', "2": "50%"}),
+    )
 
 
 @pytest.fixture(scope="module")
@@ -98,3 +100,32 @@ def test_markdown(res):
     sep = lines[lines.index(head) + 1]
     assert sep.count("|") == head.count("|") - head.count("\\|")
     assert "C<sub>2v</sub>" in m and "note\\|x" in m and "Safety" in m
+
+
+def test_an_analysis_without_renderers_adds_no_columns_or_sections(res):
+    from enumerator.render.sections import result_sections, sections
+
+    assert columns(object()) == () and sections(object()) == ()
+    # the registered fake adds its two columns and no section
+    assert [c.header for c in columns(res.analyses[-1])] == ["CO species", "note|x"]
+    assert all(s.title for s in result_sections(res))
+
+
+def test_json_shape_is_defined_by_the_result():
+    from enumerator.render.jsonout import result_to_dict
+
+    r = run(Request("[Fe(CN)4(CO)2]2-"))
+    doc = r.to_dict()
+    assert result_to_dict(r) == doc
+    assert list(doc)[:9] == [
+        "schema_version",
+        "formula",
+        "geometry",
+        "geometry_reason",
+        "stereoisomers",
+        "geometric_isomers",
+        "complete",
+        "isomers",
+        "notes",
+    ]
+    assert {"centre", "safety", "descriptor_rules", "pairs", "pair_tally"} <= set(doc)

@@ -54,6 +54,7 @@ from __future__ import annotations
 from collections.abc import Iterable, Mapping, Sequence
 from dataclasses import dataclass
 from functools import lru_cache
+from types import MappingProxyType
 
 from enumerator.errors import InputError
 from enumerator.model.composition import Composition, LigandKind
@@ -96,6 +97,13 @@ class BranchKey:
     spheres: int = MAX_SPHERES
 
     def value(self) -> tuple:
+        """The key to compare.
+
+        Returns
+        -------
+        tuple
+            (rule1, rule2), compared in that order.
+        """
         return (self.rule1, self.rule2)
 
 
@@ -145,17 +153,13 @@ def _lenient(smiles: str):
 MAX_RESONANCE = 12
 
 
-@lru_cache(maxsize=1024)
 def _structures(smiles: str) -> tuple:
     """The Kekulé/resonance structures RDKit enumerates for a ligand (one
     structure when the SMILES does not sanitize strictly)."""
-    from rdkit import Chem, RDLogger
+    from rdkit import Chem, rdBase
 
-    RDLogger.DisableLog("rdApp.*")
-    try:
+    with rdBase.BlockLogs():  # a valence-formal SMILES is read leniently below, not reported
         strict = Chem.MolFromSmiles(smiles)
-    finally:
-        RDLogger.EnableLog("rdApp.*")
     if strict is None:
         return (_lenient(smiles),)
     out = []
@@ -172,10 +176,20 @@ def _structures(smiles: str) -> tuple:
     return tuple(out) if out else (_lenient(smiles),)
 
 
-def _graph(mol, metal: str):
+#: A ligand's graph: atoms (z, mass, hydrogens), neighbours with bond orders, mapped donors, by atom index.
+_Graph = tuple[Mapping[int, tuple[int, float, int]], Mapping[int, tuple[tuple[int, int], ...]], Mapping[int, int]]
+
+
+@lru_cache(maxsize=1024)
+def _graphs(smiles: str, metal: str) -> tuple[_Graph, ...]:
+    """The graph of every resonance structure of a ligand, read-only (cached by SMILES and metal)."""
+    return tuple(_graph(m, metal) for m in _structures(smiles))
+
+
+def _graph(mol, metal: str) -> _Graph:
     """Atoms (z, mass, hydrogens), bonds with orders, and the mapped donors;
     the metal is atom index -1, bonded to every mapped donor."""
-    atoms = {}
+    atoms: dict[int, tuple[int, float, int]] = {}
     nbrs: dict[int, list[tuple[int, int]]] = {}
     donors: dict[int, int] = {}
     for a in mol.GetAtoms():
@@ -196,19 +210,24 @@ def _graph(mol, metal: str):
     nbrs[-1] = [(d, 1) for d in donors.values()]
     for d in donors.values():
         nbrs[d].append((-1, 1))
-    return atoms, nbrs, donors
+    return (
+        MappingProxyType(atoms),
+        MappingProxyType({k: tuple(v) for k, v in nbrs.items()}),
+        MappingProxyType(donors),
+    )
 
 
-def _build(atoms, nbrs, root: int, spheres: int) -> _Node:
+def _build(atoms, nbrs, root: int, spheres: int) -> tuple[_Node, int]:
     """The hierarchical digraph of the branch rooted at ``root`` (the metal
-    is its parent), breadth first, to ``spheres`` spheres or MAX_NODES."""
+    is its parent), breadth first, to ``spheres`` spheres or MAX_NODES;
+    with the number of spheres built in full."""
     z, m, _ = atoms[root]
     top = _Node(z, m)
     frontier = [(top, root, -1, frozenset((-1, root)))]
     count = 1
     reached = spheres
     for level in range(spheres - 1):
-        nxt = []
+        nxt: list[tuple[_Node, int, int, frozenset[int]]] = []
         for node, atom, parent, path in frontier:
             for other, order in nbrs[atom]:
                 oz, om, _ = atoms[other]
@@ -243,7 +262,7 @@ def _levels(node: _Node, depth: int, attr: str, memo: dict, order_memo: dict | N
     frontier = [node]
     for k in range(1, depth + 1):
         sets = []
-        nxt = []
+        nxt: list[_Node] = []
         for n in frontier:
             ch = _ordered(n, depth - k, attr, memo, order_memo)
             vals = tuple(getattr(c, attr) for c in ch)
@@ -270,17 +289,37 @@ def _ordered(n: _Node, depth: int, attr: str, memo: dict, order_memo: dict | Non
 @lru_cache(maxsize=4096)
 def branch_key(smiles: str, donor: int, metal: str = "M", spheres: int = MAX_SPHERES) -> BranchKey:
     """The CIP value of the branch from the metal through the ligating atom
-    with atom-map number ``donor`` in ``smiles`` (cached by value)."""
-    atoms, nbrs, donors = _graph(_structures(smiles)[0], metal)
-    if donor not in donors:
+    with atom-map number ``donor`` in ``smiles`` (cached by value).
+
+    Parameters
+    ----------
+    smiles : str
+        The ligand's SMILES, ligating atoms mapped :1, :2, ...
+    donor : int
+        The map number of the ligating atom.
+    metal : str, optional
+        The metal's symbol (its duplicate closes chelate rings); 'M' for none.
+    spheres : int, optional
+        How deep to build the digraph.
+
+    Returns
+    -------
+    BranchKey
+
+    Raises
+    ------
+    InputError
+        The SMILES cannot be read, or has no atom with that map number.
+    """
+    graphs = _graphs(smiles, metal)
+    if donor not in graphs[0][2]:
         raise InputError(
             f"ligand SMILES '{smiles}' has no atom with map number {donor}",
             "mark the ligating atoms :1, :2, ... in chain order, e.g. [NH2:1]CC[NH2:2]",
         )
     keys = []
     built = spheres
-    for mol in _structures(smiles):
-        atoms, nbrs, donors = _graph(mol, metal)
+    for atoms, nbrs, donors in graphs:
         tree, reached = _build(atoms, nbrs, donors[donor], spheres)
         built = min(built, reached)
         memo: dict = {}
@@ -290,7 +329,19 @@ def branch_key(smiles: str, donor: int, metal: str = "M", spheres: int = MAX_SPH
 
 
 def ring_key(z_sum: int, mass_sum: float) -> BranchKey:
-    """An η-bonded ring as one pseudo-atom (sum of its ligating atoms' atomic numbers)."""
+    """An η-bonded ring as one pseudo-atom (sum of its ligating atoms' atomic numbers).
+
+    Parameters
+    ----------
+    z_sum : int
+        Sum of the atomic numbers of the ring's ligating atoms.
+    mass_sum : float
+        Sum of their masses.
+
+    Returns
+    -------
+    BranchKey
+    """
     return BranchKey(((z_sum,), (z_sum,)), ((mass_sum,), (mass_sum,)))
 
 
@@ -298,7 +349,22 @@ def letter_key(letter: str, chelate: bool, chain_neighbours: int = 0) -> tuple:
     """Sort key of an abstract ligand letter: smaller = higher priority
     (a > b > ...; a chelate's A just above the monodentate a; within one
     letter of a chelate chain, a donor with two chain neighbours above a
-    terminal one, as CIP ranks the NH of dien above its NH2)."""
+    terminal one, as CIP ranks the NH of dien above its NH2).
+
+    Parameters
+    ----------
+    letter : str
+        The donor letter.
+    chelate : bool
+        Whether the donor belongs to a chelate.
+    chain_neighbours : int, optional
+        Its neighbours along the chelate chain (0, 1 or 2).
+
+    Returns
+    -------
+    tuple
+        Compared in ascending order.
+    """
     return (letter.lower(), 0 if chelate else 1, -chain_neighbours)
 
 
@@ -315,6 +381,18 @@ def dense_ranks(values: Sequence, *, larger_first: bool = True) -> tuple[int, ..
 
     >>> dense_ranks([5, 9, 5, 1])
     (2, 1, 2, 3)
+
+    Parameters
+    ----------
+    values : sequence
+        Comparable values.
+    larger_first : bool, optional
+        Whether the largest value ranks 1.
+
+    Returns
+    -------
+    tuple of int
+        One rank per value, in input order.
     """
     distinct = sorted(set(values), reverse=larger_first)
     pos = {v: k + 1 for k, v in enumerate(distinct)}
@@ -328,7 +406,20 @@ def _pad(key: BranchKey, n: int) -> tuple:
 
 def rank_smiles(donors: Iterable[str | tuple[str, int]], metal: str = "M") -> tuple[int, ...]:
     """Priority numbers of ligating atoms given as SMILES (map number 1 on
-    the donor) or (SMILES, map number) pairs, in input order."""
+    the donor) or (SMILES, map number) pairs, in input order.
+
+    Parameters
+    ----------
+    donors : iterable of str or (str, int)
+        Ligand SMILES (donor mapped :1), or (SMILES, map number).
+    metal : str, optional
+        The metal's symbol.
+
+    Returns
+    -------
+    tuple of int
+        Dense priority numbers, 1 = highest.
+    """
     items = [(d, 1) if isinstance(d, str) else (d[0], int(d[1])) for d in donors]
     keys = [branch_key(s, k, metal) for s, k in items]
     n = min(k.spheres for k in keys)
@@ -336,21 +427,29 @@ def rank_smiles(donors: Iterable[str | tuple[str, int]], metal: str = "M") -> tu
 
 
 def uses_letters(composition: Composition) -> bool:
-    """True when the ligands are abstract letters (no SMILES in their meta)."""
-    return not any("smiles" in dict(k.meta) for k in composition.kinds)
+    """True when the ligands are abstract letters (no SMILES in their meta).
+
+    Parameters
+    ----------
+    composition : Composition
+
+    Returns
+    -------
+    bool
+    """
+    return not any(k.info("smiles") is not None for k in composition.kinds)
 
 
 def _kind_keys(kind: LigandKind, metal: str) -> list[BranchKey]:
-    meta = dict(kind.meta)
-    smiles = meta.get("smiles")
+    smiles = kind.info("smiles")
     if not isinstance(smiles, str) or not smiles:
         raise InputError(
             f"ligand '{kind.name}' has no SMILES, so its CIP priority cannot be computed",
             'add smiles = "..." with the ligating atoms mapped :1, :2, ... to its ligands.toml entry',
         )
     if kind.ring:
-        atoms, _, donors = _graph(_structures(smiles)[0], metal)
-        hap = int(meta.get("hapticity", len(donors) or kind.denticity))
+        atoms, _, donors = _graphs(smiles, metal)[0]
+        hap = int(kind.info("hapticity", len(donors) or kind.denticity))
         if len(donors) >= 2:
             zs = [atoms[i][0] for i in donors.values()]
             ms = [atoms[i][1] for i in donors.values()]
@@ -369,12 +468,29 @@ def donor_priorities(composition: Composition) -> dict[tuple[str, int], int]:
     >>> from enumerator.parse.abstract import parse_abstract
     >>> sorted(donor_priorities(parse_abstract("M(AB)2c2")).items())
     [(('AB', 0), 1), (('AB', 1), 2), (('c', 0), 3)]
+
+    Parameters
+    ----------
+    composition : Composition
+        The ligands on the centre.
+
+    Returns
+    -------
+    dict
+        (ligand name, donor index) -> dense priority number, 1 = highest; cached by the composition and its
+        ligands' catalogue data.
+
+    Raises
+    ------
+    InputError
+        A catalogue ligand has no SMILES, or it cannot be read.
     """
-    return dict(_donor_priorities(composition))
+    return dict(_donor_priorities(composition, tuple(k.meta for k in composition.kinds)))
 
 
 @lru_cache(maxsize=1024)
-def _donor_priorities(composition: Composition) -> tuple[tuple[tuple[str, int], int], ...]:
+def _donor_priorities(composition: Composition, catalogue: tuple) -> tuple[tuple[tuple[str, int], int], ...]:
+    # ``catalogue`` (the kinds' SMILES and other data, which Composition equality leaves out) completes the key
     labels: list[tuple[str, int]] = []
     values: list = []
     if uses_letters(composition):
@@ -395,6 +511,18 @@ def _donor_priorities(composition: Composition) -> tuple[tuple[tuple[str, int], 
 
 
 def priorities_by_site(composition: Composition, sites: Iterable) -> Mapping[int, int]:
-    """{site index: priority number} for an isomer's sites."""
+    """{site index: priority number} for an isomer's sites.
+
+    Parameters
+    ----------
+    composition : Composition
+        The ligands on the centre.
+    sites : iterable of Site
+        An isomer's sites.
+
+    Returns
+    -------
+    Mapping[int, int]
+    """
     table = donor_priorities(composition)
     return {s.index: table[(s.ligand, s.donor_index)] for s in sites}

@@ -7,8 +7,9 @@ The parts come from the rule data, never from the formula text:
 * each ligand's name is the ``iupac`` key of its catalogue entry, with
   ``enclose`` saying whether it goes in parentheses (organic ligands and
   names with locants, spaces or multiplying prefixes of their own);
-* the central atom's name is in ``rules/element_names.toml`` (its -ate
-  form for an anionic complex).
+* the central atom's name is in ``rules/element_names.toml``, read by
+  :func:`enumerator.rules.element_names.element_names` (its -ate form for
+  an anionic complex).
 
 Assembly (IR-9.2.2):
 
@@ -40,43 +41,46 @@ isotope-labelled entries) or metal gets no name, with the reason.
 from __future__ import annotations
 
 import re
-from collections.abc import Mapping
 from dataclasses import dataclass
-from functools import lru_cache
 
-from enumerator.errors import IsosieveError, RuleError
+from enumerator.analyses.centre.electrons import count_electrons, roman
+from enumerator.errors import IsosieveError
 from enumerator.model.composition import Composition
+from enumerator.rules.element_names import element_names
+from enumerator.rules.ruleset import RuleSet
 
-__all__ = ["ComplexName", "additive_name", "element_names", "ligand_sort_key"]
+__all__ = ["ComplexName", "additive_name", "ligand_sort_key"]
 
-_SIMPLE = {
-    1: "",
-    2: "di",
-    3: "tri",
-    4: "tetra",
-    5: "penta",
-    6: "hexa",
-    7: "hepta",
-    8: "octa",
-    9: "nona",
-    10: "deca",
-    11: "undeca",
-    12: "dodeca",
-}
-_ENCLOSED = {
-    1: "",
-    2: "bis",
-    3: "tris",
-    4: "tetrakis",
-    5: "pentakis",
-    6: "hexakis",
-    7: "heptakis",
-    8: "octakis",
-    9: "nonakis",
-    10: "decakis",
-    11: "undecakis",
-    12: "dodecakis",
-}
+#: Multiplying prefixes for plain ligand names, by count from 1 (IR-9.2.2; no elision).
+_SIMPLE = (
+    "",
+    "di",
+    "tri",
+    "tetra",
+    "penta",
+    "hexa",
+    "hepta",
+    "octa",
+    "nona",
+    "deca",
+    "undeca",
+    "dodeca",
+)
+#: Multiplying prefixes for enclosed ligand names, by count from 1.
+_ENCLOSED = (
+    "",
+    "bis",
+    "tris",
+    "tetrakis",
+    "pentakis",
+    "hexakis",
+    "heptakis",
+    "octakis",
+    "nonakis",
+    "decakis",
+    "undecakis",
+    "dodecakis",
+)
 #: designators and italic prefixes at the front of a ligand name, ignored in ordering
 _FRONT = re.compile(
     r"^(?:η\d*-|κ\d*[A-Za-z,′″']*-|\d[\d,:′″']*-|[A-Z](?:,[A-Z])*[′″']*(?:,[A-Z][′″']*)*-|tert-|sec-|cis-|trans-)+"
@@ -100,47 +104,24 @@ def ligand_sort_key(name: str) -> str:
     'bisaminoethylethanediamine'
     >>> ligand_sort_key("η5-cyclopentadienyl")
     'cyclopentadienyl'
+
+    Parameters
+    ----------
+    name : str
+        A ligand name as it appears in an additive name.
+
+    Returns
+    -------
+    str
     """
     body = _FRONT.sub("", name)
     return "".join(ch for ch in body.lower() if ch.isalpha() and ch not in "κη")
 
 
-def element_names(ruleset) -> Mapping[str, tuple[str, str]]:
-    """Symbol -> (name, anion name) from every element_names.toml in force."""
-    return _element_names(tuple(ruleset.files("element_names.toml")))
-
-
-@lru_cache(maxsize=16)
-def _element_names(paths) -> Mapping[str, tuple[str, str]]:
-    from enumerator.rules.ruleset import check_keys, read_toml
-
-    out: dict[str, tuple[str, str]] = {}
-    for path in paths:
-        data = read_toml(path)
-        check_keys(data, str(path), (), ("element",))
-        entries = data.get("element") or []
-        if not isinstance(entries, list):
-            raise RuleError(f"{path}: 'element' must be an array of tables", "write [[element]] before each entry")
-        for k, e in enumerate(entries, 1):
-            where = f"{path}: [[element]] #{k}"
-            if not isinstance(e, dict):
-                raise RuleError(f"{where} is not a table", "write [[element]] with symbol, name, anion")
-            check_keys(e, where, ("symbol", "name", "anion"), ())
-            for key in ("symbol", "name", "anion"):
-                if not isinstance(e[key], str) or not re.fullmatch(r"[A-Za-z]+", e[key]):
-                    raise RuleError(
-                        f"{where}: {key} must be a word of letters, not {e[key]!r}", f'write e.g. {key} = "cobalt"'
-                    )
-            out[e["symbol"]] = (e["name"], e["anion"])
-    return out
-
-
 def _number(comp: Composition) -> str | None:
     """'(III)', '(0)', '(2−)' or '' (neutral nitrosyl complex); None when the
     oxidation state cannot be computed."""
-    from enumerator.analyses.centre import count_electrons, roman
-
-    nitrosyl = any("nitrosyl" in dict(k.meta) for k in comp.kinds)
+    nitrosyl = any(k.info("nitrosyl") is not None for k in comp.kinds)
     if nitrosyl:
         q = comp.charge
         if q == 0:
@@ -170,21 +151,35 @@ def _enclosed(name: str) -> str:
     return marks[0] + name + marks[1]
 
 
-def additive_name(comp: Composition, ruleset, descriptor: str | None) -> ComplexName:
-    """The additive name of ``comp`` with ``descriptor`` in front (see the
-    module docstring)."""
+def additive_name(comp: Composition, ruleset: RuleSet, descriptor: str | None) -> ComplexName:
+    """The additive name of a composition (IR-9.2) with its descriptor in front.
+
+    Parameters
+    ----------
+    comp : Composition
+        A real composition (catalogue ligands with ``iupac`` names).
+    ruleset : RuleSet
+        The rule folders in force (for the central atom's name).
+    descriptor : str or None
+        The stereodescriptor to put in front, in parentheses (None: no descriptor).
+
+    Returns
+    -------
+    ComplexName
+        The name, or None with the reason (abstract letters, an unnamed ligand or metal, an uncountable
+        oxidation state, more than 12 identical ligands).
+    """
     if comp.metal == "M":
         return ComplexName(None, "abstract letters have no names")
     parts = []
     for kind, count in comp.parts:
-        meta = dict(kind.meta)
-        name = meta.get("iupac")
+        name = kind.info("iupac")
         if not isinstance(name, str):
             return ComplexName(
                 None,
                 f"ligand '{kind.name}' has no IUPAC name in the catalogue (iupac = \"...\" in its ligands.toml entry)",
             )
-        parts.append((ligand_sort_key(name), name, bool(meta.get("enclose")), count))
+        parts.append((ligand_sort_key(name), name, bool(kind.info("enclose")), count))
     metals = element_names(ruleset)
     if comp.metal not in metals:
         return ComplexName(
@@ -197,7 +192,7 @@ def additive_name(comp: Composition, ruleset, descriptor: str | None) -> Complex
     for _, name, enclose, count in sorted(parts):
         if count > 12:
             return ComplexName(None, f"{count} identical ligands: no multiplying prefix is tabulated here")
-        pieces.append((_ENCLOSED[count] + _enclosed(name)) if enclose else (_SIMPLE[count] + name))
+        pieces.append((_ENCLOSED[count - 1] + _enclosed(name)) if enclose else (_SIMPLE[count - 1] + name))
     pieces.append(metals[comp.metal][1 if comp.charge < 0 else 0] + number)
     text = ""
     for piece in pieces:

@@ -2,31 +2,11 @@
 
 from __future__ import annotations
 
-import re
 from pathlib import Path
 
 import click
 
 from enumerator.cli.common import parse_pairs, rules_of, write_atomic
-
-
-def _slug(text: str) -> str:
-    """A file-name-safe form of a formula: letters, digits, '-', '_' only."""
-    s = re.sub(r"[^A-Za-z0-9]+", "_", text).strip("_")
-    return s or "complex"
-
-
-def descriptor_labels(res) -> dict[str, str]:
-    """Isomer id -> IUPAC descriptor text, if a descriptor analysis ran."""
-    out: dict[str, str] = {}
-    for a in res.analyses:
-        for iso in res.isomers:
-            d = a.isomer_json(iso.id).get("descriptor")
-            if isinstance(d, str) and d:
-                out[iso.id] = d
-            elif isinstance(d, dict) and isinstance(d.get("text"), str):
-                out[iso.id] = d["text"]
-    return out
 
 
 @click.command("structures")
@@ -76,7 +56,8 @@ def structures(ctx, formula, out_dir, fmt, geometry, spans, arrangements, limit)
       isosieve structures "[Mo(CO)3(PMe3)3]" --out mo --format sdf
       isosieve structures Ma2b2c2 --out core
     """
-    from enumerator.structures.build import structures_for, to_sdf, to_xyz
+    from enumerator.render.structures import structure_files, structure_listing
+    from enumerator.structures.result import structure_set
     from enumerator.workflow.pipeline import Request, run
 
     req = Request(
@@ -87,26 +68,9 @@ def structures(ctx, formula, out_dir, fmt, geometry, spans, arrangements, limit)
         limit=limit,
         rules=rules_of(ctx),
     )
-    res = run(req)
-    built = structures_for(res, descriptor_labels(res))
+    built = structure_set(run(req))
     folder = Path(out_dir)
     folder.mkdir(parents=True, exist_ok=True)
-    stem = _slug(res.composition.formula)
-    lines = []
-    if fmt == "sdf":
-        path = folder / f"{stem}.sdf"
-        write_atomic(path, to_sdf(built))
-        for s in built:
-            lines.append(f"{path}  isomer {s.isomer_id}: {_describe(s)}")
-    else:
-        for s in built:
-            path = folder / f"{stem}_{_slug(s.isomer_id)}.xyz"
-            write_atomic(path, to_xyz(s))
-            lines.append(f"{path}  isomer {s.isomer_id}: {_describe(s)}")
-    click.echo("\n".join(lines))
-
-
-def _describe(s) -> str:
-    if s.kind == "full":
-        return "full ligands" + (f" - WARNING {s.note}" if s.note else "")
-    return f"DONOR-ONLY CORE ({s.note})"
+    for name, text in structure_files(built, fmt):
+        write_atomic(folder / name, text)
+    click.echo(structure_listing(built, fmt, folder))

@@ -8,8 +8,10 @@ mer or either.  A :class:`Composition` is the multiset of kinds on one metal.
 
 from __future__ import annotations
 
-from collections.abc import Iterable
+from collections.abc import Iterable, Mapping
 from dataclasses import dataclass, field, replace
+from types import MappingProxyType
+from typing import Any
 
 from enumerator.errors import InputError
 from enumerator.model.geometry import SPANS
@@ -47,6 +49,36 @@ class LigandKind:
     @property
     def denticity(self) -> int:
         return len(self.donors)
+
+    def info(self, key: str, default: Any = None) -> Any:
+        """One item of the catalogue data (``'smiles'``, ``'charge'``, ``'hapticity'``, ...), or ``default``.
+
+        Parameters
+        ----------
+        key : str
+            The catalogue key.
+        default : object, optional
+            Returned when the kind carries no such key (abstract letters carry none).
+
+        Returns
+        -------
+        object
+            The catalogue value as the ligand catalogue validated it (TOML types).
+        """
+        for k, v in self.meta:
+            if k == key:
+                return v
+        return default
+
+    def info_dict(self) -> Mapping[str, Any]:
+        """All catalogue data of the kind as a read-only mapping (empty for an abstract letter).
+
+        Returns
+        -------
+        Mapping[str, Any]
+            Key -> value, not to be modified (a ``MappingProxyType``).
+        """
+        return MappingProxyType(dict(self.meta))
 
     @property
     def palindromic(self) -> bool:

@@ -40,7 +40,9 @@ import math
 from collections.abc import Iterable, Mapping, Sequence
 from typing import Any
 
+from enumerator.analyses.safety import cautions as safety_cautions
 from enumerator.isomers.enumeration import Isomer
+from enumerator.render.sections import result_columns, result_sections
 from enumerator.workflow.result import Result
 
 __all__ = [
@@ -329,7 +331,7 @@ def _tex(s: str) -> str:
 def tables_latex(res: Result) -> str:
     """The isomer table as a LaTeX tabular (booktabs), columns' own LaTeX
     cells where an analysis gives them."""
-    extra = [col for a in res.analyses for col in a.columns()]
+    extra = result_columns(res)
     header, rows = table_rows(res)
     lines = [
         f"% isomers of {_tex(res.composition.formula)} on {_tex(res.geometry.symbol)}; needs \\usepackage{{booktabs}}",
@@ -507,19 +509,14 @@ def _complex_html(n: int, res: Result, rules) -> tuple[str, list[str]]:
     kinds = [k.name for k in comp.kinds]
     cautions: list[str] = []
     sections: list[str] = []
-    for a in res.analyses:
-        for sec in a.sections():
-            block = f"<h3>{_e(sec.title)}</h3><pre>{_e(sec.text)}</pre>"
-            if _is_caution(sec.title):
-                cautions.append(block)
-            else:
-                sections.append(block)
+    for sec in result_sections(res):
+        block = f"<h3>{_e(sec.title)}</h3><pre>{_e(sec.text)}</pre>"
+        if _is_caution(sec.title):
+            cautions.append(block)
+        else:
+            sections.append(block)
     if not cautions:  # the safety stage did not run: ask the safety module directly
-        try:
-            from enumerator.analyses.safety import cautions as safety_lines
-        except ImportError:  # pragma: no cover - module absent
-            safety_lines = None
-        lines = safety_lines(comp) if safety_lines else ()
+        lines = safety_cautions(comp)
         if lines:
             cautions.append("<h3>Safety</h3><pre>" + _e("\n".join(f"- {x}" for x in lines)) + "</pre>")
     top: dict[str, Any] = {}

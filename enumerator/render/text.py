@@ -1,32 +1,76 @@
-"""Tables for people: plain monospaced text for the terminal."""
+"""Tables for people: plain monospaced text for the terminal.
+
+:func:`render` writes one result: the heading, the isomer table (every
+analysis's columns except the wide ones), every analysis's sections, and the
+notes.  :func:`table` is the column layout shared by every command.
+
+>>> print(table(["isomer", "point group"], [["1", "C2v"], ["2", "D4h"]]))
+isomer  point group
+------  -----------
+1       C2v
+2       D4h
+"""
 
 from __future__ import annotations
 
 from collections.abc import Sequence
 
 from enumerator.isomers.occupancy import occupancy
+from enumerator.render.sections import result_columns, result_sections
 from enumerator.workflow.result import Result
 
 __all__ = ["table", "isomer_table", "isomer_rows", "render"]
 
 
 def table(header: Sequence[str], rows: Sequence[Sequence[str]], indent: str = "") -> str:
-    """Left-aligned columns separated by two spaces, with a rule under the header."""
+    """Left-aligned columns separated by two spaces, with a rule under the header.
+
+    Parameters
+    ----------
+    header : sequence of str
+        The column titles.
+    rows : sequence of sequence of str
+        The cells, one row per entry.
+    indent : str, optional
+        Put in front of every line.
+
+    Returns
+    -------
+    str
+        The table without a final newline; trailing blanks are stripped.
+    """
     widths = [len(h) for h in header]
     for r in rows:
         for k, cell in enumerate(r):
             widths[k] = max(widths[k], len(cell))
-    line = lambda cells: indent + "  ".join(c.ljust(w) for c, w in zip(cells, widths)).rstrip()
+
+    def line(cells: Sequence[str]) -> str:
+        return indent + "  ".join(c.ljust(w) for c, w in zip(cells, widths)).rstrip()
+
     out = [line(header), indent + "  ".join("-" * w for w in widths)]
     out += [line(r) for r in rows]
     return "\n".join(out)
 
 
 def isomer_rows(res: Result, wide: bool = True) -> tuple[list[str], list[list[str]]]:
-    """Header and rows of the isomer table, every analysis's columns included
-    (shared by the terminal table and the report; ``wide=False`` leaves out
-    the wide columns, for the terminal)."""
-    extra = [c for a in res.analyses for c in a.columns() if wide or not c.wide]
+    """Header and rows of the isomer table, every analysis's columns included.
+
+    Shared by the terminal table and the report; ``wide=False`` leaves out the
+    wide columns (full names), for the terminal.
+
+    Parameters
+    ----------
+    res : Result
+        The analysed formula.
+    wide : bool, optional
+        Keep the wide columns.
+
+    Returns
+    -------
+    (list of str, list of list of str)
+        The header and one row of cells per isomer.
+    """
+    extra = result_columns(res, wide)
     header = [
         "isomer",
         "point group",
@@ -51,10 +95,33 @@ def isomer_rows(res: Result, wide: bool = True) -> tuple[list[str], list[list[st
 
 
 def isomer_table(res: Result) -> str:
+    """The terminal isomer table (wide columns left out).
+
+    Parameters
+    ----------
+    res : Result
+        The analysed formula.
+
+    Returns
+    -------
+    str
+    """
     return table(*isomer_rows(res, wide=False))
 
 
 def render(res: Result) -> str:
+    """The terminal text of one result: heading, isomer table, sections, notes.
+
+    Parameters
+    ----------
+    res : Result
+        The analysed formula.
+
+    Returns
+    -------
+    str
+        Text ending in a newline.
+    """
     iso = res.isomer_set
     head = [
         f"{res.composition.formula} on {res.geometry.symbol} ({res.geometry.name})",
@@ -64,9 +131,8 @@ def render(res: Result) -> str:
         "",
         isomer_table(res),
     ]
-    for a in res.analyses:
-        for sec in a.sections():
-            head += ["", sec.title, sec.text]
+    for sec in result_sections(res):
+        head += ["", sec.title, sec.text]
     for n in res.notes:
         head.append(f"note: {n}")
     return "\n".join(head) + "\n"

@@ -71,11 +71,10 @@ def pattern_key(comp: Composition, geometry: str, limit: int | None = None) -> t
 
 def _enumerate(formula: str, geometry: str, rules: tuple[str, ...], limit: int | None) -> dict[str, Any]:
     """Worker: run the pipeline for one representative formula; plain data back."""
-    from enumerator.render.jsonout import result_to_dict
     from enumerator.workflow.pipeline import Request, run
 
     res = run(Request(formula=formula, geometry=geometry, rules=rules, limit=limit))
-    doc = result_to_dict(res)
+    doc = res.to_dict()
     bands = []
     for iso in doc["isomers"]:
         for cls, m in sorted((iso.get("modes") or {}).items()):

@@ -48,10 +48,10 @@ class Request:
 #: (Result, Request) and returns an Analysis (or None to add nothing).
 #: A stage sees the analyses of the stages before it in ``result.analyses``.
 STAGES: tuple[str, ...] = (
-    "enumerator.analyses.centre:stage",
+    "enumerator.analyses.centre.analysis:stage",
     "enumerator.analyses.safety:stage",
-    "enumerator.analyses.descriptors:descriptor_stage",
-    "enumerator.analyses.stretch:stage",
+    "enumerator.analyses.descriptors.analysis:descriptor_stage",
+    "enumerator.analyses.stretch.analysis:stage",
 )
 
 

@@ -1,52 +1,42 @@
-"""The plain data every renderer reads.
+"""The plain data every renderer reads, and its JSON shape.
 
 A :class:`Result` is what one request (one formula with its options)
 produces: the composition, the geometry and why it was chosen, the isomers,
-and one :class:`Analysis` per later stage (stretch modes, centre chemistry,
-descriptors, ...).  Renderers know nothing of the chemistry: they ask each
-analysis for its JSON keys, its table columns and its text sections.
+and one analysis per later stage (centre chemistry, safety, descriptors,
+stretch modes, ...).  Each analysis is a frozen data object that knows the
+JSON keys it adds (the :class:`Analysis` protocol) and nothing about text:
+tables and text sections are drawn by :mod:`enumerator.render`.
+
+:meth:`Result.to_dict` is the one place that defines the JSON document
+(README, "JSON schema"); keys are only ever added, never renamed, and floats
+are rounded so that the same input gives byte-identical output.
+
+>>> from enumerator.workflow.pipeline import analyse
+>>> doc = analyse("Ma5b", geometry="OC-6").to_dict()
+>>> doc["schema_version"], doc["geometric_isomers"], doc["isomers"][0]["point_group"]
+(1, 1, 'C4v')
 """
 
 from __future__ import annotations
 
-from collections.abc import Mapping, Sequence
+from collections.abc import Mapping
 from dataclasses import dataclass, field
 from typing import Any, Protocol, runtime_checkable
 
-from enumerator.isomers.enumeration import IsomerSet
+from enumerator.isomers.enumeration import Isomer, IsomerSet
 from enumerator.model.composition import Composition
 from enumerator.model.geometry import Geometry
 from enumerator.schema import SCHEMA_VERSION
 
-__all__ = ["Result", "Analysis", "Column", "Section", "SCHEMA_VERSION"]
-
-
-
-@dataclass(frozen=True)
-class Column:
-    """One extra table column: a header and a cell per isomer id.
-
-    ``latex`` optionally gives the cells typeset for LaTeX (else they are
-    escaped as plain text).  A ``wide`` column (a full name) is left out of
-    the terminal table and kept in the written tables and the report."""
-
-    header: str
-    values: Mapping[str, str]
-    latex: Mapping[str, str] | None = None
-    wide: bool = False
-
-
-@dataclass(frozen=True)
-class Section:
-    """A titled block of text shown after the isomer table."""
-
-    title: str
-    text: str
+__all__ = ["Result", "Analysis", "isomer_to_dict", "SCHEMA_VERSION"]
 
 
 @runtime_checkable
 class Analysis(Protocol):
-    """What a stage adds to a Result.  Implementations are frozen dataclasses."""
+    """What a stage adds to a Result: JSON keys per isomer and at the top.
+
+    Implementations are frozen dataclasses; their table columns and text
+    sections are drawn by :mod:`enumerator.render.sections`."""
 
     def isomer_json(self, isomer_id: str) -> Mapping[str, Any]:
         """Keys added to one isomer's JSON object."""
@@ -56,13 +46,47 @@ class Analysis(Protocol):
         """Keys added at the top level of the JSON document."""
         ...
 
-    def columns(self) -> Sequence[Column]:
-        """Extra columns for the isomer tables."""
-        ...
 
-    def sections(self) -> Sequence[Section]:
-        """Text blocks for the readable output."""
-        ...
+def _rounded(x: float) -> float:
+    v = round(float(x), 6)
+    return 0.0 if v == 0 else v
+
+
+def isomer_to_dict(iso: Isomer) -> dict[str, Any]:
+    """The JSON object of one isomer before the analyses add their keys.
+
+    Parameters
+    ----------
+    iso : Isomer
+        One stereoisomer.
+
+    Returns
+    -------
+    dict
+        ``id``, ``number``, ``point_group``, ``chiral``, ``enantiomer`` and
+        ``sites`` (position rounded to 6 decimals, ligand, donor, unit,
+        donor_index, and ``ring`` for an η-ring site).
+    """
+    sites = []
+    for s in iso.sites:
+        d: dict[str, Any] = {
+            "position": [_rounded(c) for c in s.position],
+            "ligand": s.ligand,
+            "donor": s.donor,
+            "unit": s.unit,
+            "donor_index": s.donor_index,
+        }
+        if s.ring:
+            d["ring"] = True
+        sites.append(d)
+    return {
+        "id": iso.id,
+        "number": iso.number,
+        "point_group": iso.point_group,
+        "chiral": iso.chiral,
+        "enantiomer": iso.enantiomer,
+        "sites": sites,
+    }
 
 
 @dataclass(frozen=True)
@@ -74,10 +98,11 @@ class Result:
     geometry_reason: str
     isomer_set: IsomerSet
     notes: tuple[str, ...] = ()
-    analyses: tuple[Any, ...] = field(default=())
+    analyses: tuple[Analysis, ...] = field(default=())
 
     @property
-    def isomers(self):
+    def isomers(self) -> tuple[Isomer, ...]:
+        """The listed stereoisomers, in order."""
         return self.isomer_set.isomers
 
     def analysis(self, cls: type) -> Any | None:
@@ -86,3 +111,32 @@ class Result:
             if isinstance(a, cls):
                 return a
         return None
+
+    def to_dict(self) -> dict[str, Any]:
+        """The JSON document of this result.
+
+        Returns
+        -------
+        dict
+            The fixed keys (schema version, formula, geometry, counts, the
+            isomers, notes), then every analysis's keys in stage order: its
+            ``isomer_json`` merged into each isomer's object and its
+            ``top_json`` into the document.
+        """
+        iso = self.isomer_set
+        doc: dict[str, Any] = {
+            "schema_version": SCHEMA_VERSION,
+            "formula": self.composition.formula,
+            "geometry": self.geometry.symbol,
+            "geometry_reason": self.geometry_reason,
+            "stereoisomers": iso.stereoisomers,
+            "geometric_isomers": iso.geometric_isomers,
+            "complete": iso.complete,
+            "isomers": [isomer_to_dict(i) for i in iso.isomers],
+            "notes": list(self.notes),
+        }
+        for a in self.analyses:
+            for d, i in zip(doc["isomers"], iso.isomers):
+                d.update(a.isomer_json(i.id))
+            doc.update(a.top_json())
+        return doc

@@ -1,0 +1,38 @@
+"""Chemistry of the metal centre: oxidation state, d-electron count,
+valence-electron count (the 18-electron rule), the Enemark–Feltham number
+of nitrosyls, and the default geometry.
+
+One job per module:
+
+* :mod:`.electrons`: both textbook electron counts from the ligands'
+  catalogue data (:func:`count_electrons`);
+* :mod:`.geometry`: the default polyhedron from the coordination number and
+  the d-count, and the choice when one is requested (:func:`choose_geometry`);
+* :mod:`.analysis`: the pipeline stage and :class:`CentreAnalysis`.
+
+>>> from enumerator.rules.ruleset import load_rules
+>>> from enumerator.parse.condensed import parse_condensed
+>>> rs = load_rules()
+>>> ec = count_electrons(parse_condensed("[Fe(CN)5(NO)]2-", rs))
+>>> ec.oxidation_state, ec.d_electrons, ec.valence_electrons, ec.enemark_feltham
+(2, 6, 18, '{FeNO}6')
+>>> choose_geometry(parse_condensed("[PtCl2(NH3)2]", rs), rs, None)[0]
+'SP-4'
+"""
+
+from enumerator.analyses.centre.analysis import CentreAnalysis, centre_notes, stage
+from enumerator.analyses.centre.electrons import ElectronCount, LigandCount, NitrosylBinding, count_electrons, roman
+from enumerator.analyses.centre.geometry import choose_geometry, default_geometry
+
+__all__ = [
+    "ElectronCount",
+    "LigandCount",
+    "NitrosylBinding",
+    "CentreAnalysis",
+    "count_electrons",
+    "choose_geometry",
+    "default_geometry",
+    "centre_notes",
+    "roman",
+    "stage",
+]

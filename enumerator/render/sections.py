@@ -1,0 +1,417 @@
+"""Table columns and text sections drawn from each analysis.
+
+The analyses of a :class:`~enumerator.workflow.result.Result` are data; this
+module turns each kind into what people read:
+
+* :func:`columns` gives the extra isomer-table columns of one analysis
+  (every table format shows them: terminal, Markdown, CSV, LaTeX, report);
+* :func:`sections` gives its titled text blocks (terminal, Markdown, report).
+
+Both dispatch on the analysis type (:func:`functools.singledispatch`); an
+analysis with no renderer registered adds nothing.  A new stage registers
+its own, e.g. ``@columns.register(MyAnalysis)``.  :func:`result_columns` and
+:func:`result_sections` collect them over a result in stage order.
+
+>>> from enumerator.workflow.pipeline import analyse
+>>> r = analyse("Ma3b3", geometry="OC-6", reporters=(("a", "CO"),))
+>>> [c.header for c in result_columns(r)][:4]
+['descriptor', 'prefix', 'CO species', 'CO IR']
+>>> [s.title for s in result_sections(r)][:2]
+['Safety', 'Descriptors']
+"""
+
+from __future__ import annotations
+
+from collections.abc import Mapping
+from dataclasses import dataclass
+from functools import singledispatch
+
+from enumerator.analyses.centre import CentreAnalysis, ElectronCount
+from enumerator.analyses.descriptors import DescriptorAnalysis
+from enumerator.analyses.safety import SafetyAnalysis
+from enumerator.analyses.stretch import StretchAnalysis
+from enumerator.render.typeset import latex_escape
+from enumerator.workflow.result import Result
+
+__all__ = [
+    "Column",
+    "Section",
+    "columns",
+    "sections",
+    "result_columns",
+    "result_sections",
+    "safety_lines",
+    "pair_matrix_text",
+    "pair_tally_text",
+]
+
+
+@dataclass(frozen=True)
+class Column:
+    """One extra table column: a header and a cell per isomer id.
+
+    ``latex`` optionally gives the cells typeset for LaTeX (else they are
+    escaped as plain text).  A ``wide`` column (a full name) is left out of
+    the terminal table and kept in the written tables and the report."""
+
+    header: str
+    values: Mapping[str, str]
+    latex: Mapping[str, str] | None = None
+    wide: bool = False
+
+
+@dataclass(frozen=True)
+class Section:
+    """A titled block of text shown after the isomer table."""
+
+    title: str
+    text: str
+
+
+@singledispatch
+def columns(analysis: object) -> tuple[Column, ...]:
+    """The isomer-table columns of one analysis (none unless a renderer is registered for its type).
+
+    Parameters
+    ----------
+    analysis : object
+        One entry of ``Result.analyses``.
+
+    Returns
+    -------
+    tuple of Column
+    """
+    return ()
+
+
+@singledispatch
+def sections(analysis: object) -> tuple[Section, ...]:
+    """The text sections of one analysis (none unless a renderer is registered for its type).
+
+    Parameters
+    ----------
+    analysis : object
+        One entry of ``Result.analyses``.
+
+    Returns
+    -------
+    tuple of Section
+    """
+    return ()
+
+
+def result_columns(res: Result, wide: bool = True) -> list[Column]:
+    """Every analysis's columns in stage order; ``wide=False`` leaves out the wide ones (the terminal table).
+
+    Parameters
+    ----------
+    res : Result
+        The analysed formula.
+    wide : bool, optional
+        Keep the wide columns.
+
+    Returns
+    -------
+    list of Column
+    """
+    return [c for a in res.analyses for c in columns(a) if wide or not c.wide]
+
+
+def result_sections(res: Result) -> list[Section]:
+    """Every analysis's sections in stage order.
+
+    Parameters
+    ----------
+    res : Result
+        The analysed formula.
+
+    Returns
+    -------
+    list of Section
+    """
+    return [s for a in res.analyses for s in sections(a)]
+
+
+def safety_lines(res: Result) -> tuple[str, ...]:
+    """The safety cautions the pipeline attached to a result (empty when none apply).
+
+    Parameters
+    ----------
+    res : Result
+        The analysed formula.
+
+    Returns
+    -------
+    tuple of str
+    """
+    a = res.analysis(SafetyAnalysis)
+    return a.lines if a is not None else ()
+
+
+# ---------------------------------------------------------------- safety
+
+
+@sections.register(SafetyAnalysis)
+def safety_sections(a: SafetyAnalysis) -> tuple[Section, ...]:
+    """One "Safety" section: the cautions as a bulleted list.
+
+    Parameters
+    ----------
+    a : SafetyAnalysis
+
+    Returns
+    -------
+    tuple of Section
+    """
+    return (Section("Safety", "\n".join(f"- {line}" for line in a.lines)),)
+
+
+# ---------------------------------------------------------------- centre
+
+
+def _ve_comment(c: ElectronCount, geometry: str) -> str:
+    ve = c.valence_electrons
+    if ve == 18:
+        return " (18-electron rule obeyed)"
+    if ve == 16 and c.d_electrons == 8 and geometry == "SP-4":
+        return " (16 electrons: usual for square-planar d8)"
+    return f" ({ve - 18:+d} from 18)" if ve is not None else ""
+
+
+def _count_lines(c: ElectronCount, geometry: str) -> list[str]:
+    cov = " + ".join([f"{c.metal} {c.group}"] + [f"{name} {n}×{ec}" for name, n, _, ec, _, _ in c.ligands])
+    if c.charge:
+        cov += f" - charge ({c.charge:+d})"
+    ion = " + ".join([f"d{c.d_electrons}"] + [f"{name} {n}×{ei}" for name, n, _, _, ei, _ in c.ligands])
+    return [
+        f"covalent count: {cov} = {c.valence_electrons}",
+        f"ionic count:    {ion} = {c.valence_electrons_ionic}",
+        f"valence electrons: {c.valence_electrons}" + _ve_comment(c, geometry),
+    ]
+
+
+@sections.register(CentreAnalysis)
+def centre_sections(a: CentreAnalysis) -> tuple[Section, ...]:
+    """One "Metal centre" section: the label, both electron counts worked out, nitrosyl binding, notes.
+
+    Parameters
+    ----------
+    a : CentreAnalysis
+
+    Returns
+    -------
+    tuple of Section
+    """
+    c = a.count
+    lines = [f"{c.label}" + (f", {c.enemark_feltham} (Enemark–Feltham)" if c.enemark_feltham else "")]
+    if c.valence_electrons is not None and c.group is not None:
+        lines += _count_lines(c, a.geometry)
+    for name, _, b in c.nitrosyls:
+        lines.append(f"{name}: {b} M-N-O, counted as {'NO+ (3-electron)' if b == 'linear' else 'NO- (1-electron)'}")
+    lines += [f"note: {n}" for n in a.notes]
+    return (Section("Metal centre", "\n".join(lines)),)
+
+
+# ---------------------------------------------------------------- descriptors
+
+_SYMBOL_LATEX = {"Delta": r"$\Delta$", "Lambda": r"$\Lambda$"}
+
+
+@columns.register(DescriptorAnalysis)
+def descriptor_columns(a: DescriptorAnalysis) -> tuple[Column, ...]:
+    """The descriptor (chirality symbol typeset for LaTeX), the everyday prefix where any, and the IUPAC name (wide).
+
+    Parameters
+    ----------
+    a : DescriptorAnalysis
+
+    Returns
+    -------
+    tuple of Column
+        Empty when no descriptor could be assigned.
+    """
+    if not a.descriptors:
+        return ()
+    values = {k: d.text for k, d in a.descriptors}
+    latex = {}
+    for k, d in a.descriptors:
+        sym = d.chirality
+        tail = f"-{_SYMBOL_LATEX.get(sym, sym)}" if sym else ""
+        latex[k] = d.stereo_free + tail
+    cols = [Column("descriptor", values, latex)]
+    if any(d.prefix for _, d in a.descriptors):
+        cols.append(Column("prefix", {k: d.prefix or "-" for k, d in a.descriptors}))
+    if a.names:
+        names = dict(a.names)
+        cols.append(Column("IUPAC name", names, {k: latex_escape(v) for k, v in names.items()}, wide=True))
+    return tuple(cols)
+
+
+@sections.register(DescriptorAnalysis)
+def descriptor_sections(a: DescriptorAnalysis) -> tuple[Section, ...]:
+    """ "Descriptors" (the basis, shared descriptors, chiral isomers without a symbol) and "IUPAC names".
+
+    Parameters
+    ----------
+    a : DescriptorAnalysis
+
+    Returns
+    -------
+    tuple of Section
+    """
+    lines = []
+    if a.error:
+        lines.append(f"not assigned: {a.error}")
+    else:
+        lines.append(
+            f"IUPAC 2005 IR-9.3; priority numbers from {a.basis}" + ("; priming convention applied" if a.primed else "")
+        )
+    for desc, ids in a.shared:
+        lines.append(f"{desc} is shared by isomers {', '.join(ids)}: the configuration index does not tell them apart")
+    if a.no_symbol:
+        lines.append(
+            f"isomers {', '.join(a.no_symbol)} are chiral, but neither C/A nor the skew-lines convention decides a "
+            "symbol for them: tell the enantiomers apart by isomer id"
+        )
+    out = [Section("Descriptors", "\n".join(lines))]
+    if a.names:
+        width = max(len(k) for k, _ in a.names)
+        out.append(
+            Section(
+                "IUPAC names (IR-9.2, descriptor of IR-9.3 in front)",
+                "\n".join(f"{k:<{width}}  {v}" for k, v in a.names),
+            )
+        )
+    elif a.name_note:
+        out.append(Section("IUPAC names", f"not given: {a.name_note}"))
+    return tuple(out)
+
+
+# ---------------------------------------------------------------- stretch modes and pairs
+
+#: Above this many isomers the pair matrix gives way to the tally.
+MATRIX_MAX = 24
+#: At most this many isomers are listed in the axes section.
+AXES_MAX = 40
+_LEGEND_TAIL = (
+    "-- = same counts by all three; en = enantiomers (same by IR, Raman and NMR in achiral media: use CD or X-ray)"
+)
+
+
+@columns.register(StretchAnalysis)
+def stretch_columns(a: StretchAnalysis) -> tuple[Column, ...]:
+    """Per reporter class: species, IR and Raman band counts, NMR signal count; then the other ligands' environments.
+
+    Parameters
+    ----------
+    a : StretchAnalysis
+
+    Returns
+    -------
+    tuple of Column
+    """
+    cols = []
+    for ci, cls in enumerate(a.classes):
+        nuc = a.info[ci].nucleus
+        cols.append(Column(f"{cls} species", {i: a.modes[k][ci].species for k, i in enumerate(a.ids)}))
+        cols.append(Column(f"{cls} IR", {i: str(a.modes[k][ci].ir) for k, i in enumerate(a.ids)}))
+        cols.append(Column(f"{cls} Raman", {i: str(a.modes[k][ci].raman) for k, i in enumerate(a.ids)}))
+        cols.append(Column(f"{cls} {nuc} NMR", {i: str(a.modes[k][ci].nmr) for k, i in enumerate(a.ids)}))
+    other = {}
+    for k, i in enumerate(a.ids):
+        cells = [
+            f"{x.ligand}{'(' + x.nucleus + ')' if x.nucleus else ''}:{x.environments}"
+            for x in a.nmr[k]
+            if x.ligand not in a.reporter_ligands
+        ]
+        other[i] = " ".join(cells)
+    if any(other.values()):
+        cols.append(Column("NMR environments", other))
+    return tuple(cols)
+
+
+@sections.register(StretchAnalysis)
+def stretch_sections(a: StretchAnalysis) -> tuple[Section, ...]:
+    """The axes behind the Mulliken labels, the pair matrix (or tally), and the spectroscopy notes.
+
+    Parameters
+    ----------
+    a : StretchAnalysis
+
+    Returns
+    -------
+    tuple of Section
+    """
+    lines = [f"{i} ({a.groups[k]}): {a.axes[k]}" for k, i in enumerate(a.ids[:AXES_MAX])]
+    if len(a.ids) > AXES_MAX:
+        lines.append(f"... {len(a.ids) - AXES_MAX} more in --json ('axes')")
+    out = [
+        Section("Axes behind the Mulliken labels (rule in the README)", "\n".join(lines)),
+        Section("Which isomer pairs IR, Raman or NMR tell apart (band / signal counts)", pair_matrix_text(a)),
+    ]
+    notes = []
+    flux = a.fluxional_note()
+    if flux:
+        notes.append(flux)
+    for c in a.info:
+        notes.append(f"{c.key}: typical {c.bond} stretch {c.window[0]:g}-{c.window[1]:g} cm-1 ({c.source})")
+    if notes:
+        out.append(Section("Spectroscopy notes", "\n".join(notes)))
+    return tuple(out)
+
+
+def pair_tally_text(a: StretchAnalysis) -> str:
+    """How many pairs each technique tells apart first, with the legend (for many isomers).
+
+    Parameters
+    ----------
+    a : StretchAnalysis
+
+    Returns
+    -------
+    str
+    """
+    n = len(a.ids)
+    tally = a.pair_tally()
+    total = n * (n - 1) // 2
+    body = f"{n} isomers, {total} pairs (list in --json 'pairs'): " + ", ".join(
+        f"{k} {v}" for k, v in sorted(tally.items())
+    )
+    legend = "first technique whose counts differ (cost order IR < Raman < NMR); " + _LEGEND_TAIL
+    return "\n".join([body, legend])
+
+
+def pair_matrix_text(a: StretchAnalysis) -> str:
+    """The isomer-by-isomer matrix of the cheapest technique that tells each pair apart, its legend and the
+    pairs no count tells apart; the tally (:func:`pair_tally_text`) above :data:`MATRIX_MAX` isomers.
+
+    Parameters
+    ----------
+    a : StretchAnalysis
+
+    Returns
+    -------
+    str
+    """
+    n = len(a.ids)
+    if n > MATRIX_MAX:
+        return pair_tally_text(a)
+    if n < 2:
+        return "only one isomer: nothing to tell apart"
+    pairs = a.pairs()
+    code = {"IR": "IR", "Raman": "Ra", "NMR": "NMR"}
+    cell: dict[tuple[str, str], str] = {}
+    for p in pairs:
+        c = "en" if p.note == "enantiomers" else (code[p.cheapest] if p.cheapest else "--")
+        cell[(p.a, p.b)] = cell[(p.b, p.a)] = c
+    legend = "cell = cheapest technique whose counts differ (cost order IR < Raman < NMR); " + _LEGEND_TAIL
+    w = max(3, max(len(i) for i in a.ids))
+    rows = [" " * w + " " + " ".join(i.rjust(w) for i in a.ids)]
+    for x in a.ids:
+        rows.append(x.rjust(w) + " " + " ".join(("." if x == y else cell[(x, y)]).rjust(w) for y in a.ids))
+    same = [(p.a, p.b) for p in pairs if p.cheapest is None and p.note != "enantiomers"]
+    tail = []
+    if same:
+        shown = ", ".join(f"{x}/{y}" for x, y in same[:12]) + (" ..." if len(same) > 12 else "")
+        tail.append(f"not told apart by counts: {shown}")
+    return "\n".join(["\n".join(rows), legend] + tail)

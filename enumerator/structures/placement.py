@@ -1,0 +1,135 @@
+"""Where the metal and the donor atoms go: the ideal polyhedron scaled to bond lengths.
+
+The metal sits at the origin and every donor atom on its site vector of the
+ideal polyhedron, at the sum of the covalent radii of metal and donor
+element (RDKit's periodic table, ``GetRcovalent``; these are single-bond
+radii, so M-CO comes out some 0.2-0.3 A long, which an optimiser fixes in a
+few steps).  An η-ring (Cp, arene) is placed as a regular polygon of ring
+bond :data:`RING_BOND` centred on the axis of its three facial sites, each
+ring atom at the same M-C covalent distance.  Labels that are not element
+symbols (abstract 'a', 'b', 'M') get :data:`DUMMY_DISTANCE`.
+
+>>> bond_length("Ru", "C")  # 1.46 + 0.76, RDKit GetRcovalent
+2.22
+>>> element_or_none("Ru"), element_or_none("a"), element_or_none("M")
+('Ru', None, None)
+"""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Sequence
+from functools import cache
+
+import numpy as np
+
+from enumerator.model.elements import covalent_radius, is_element
+
+__all__ = [
+    "Vec",
+    "DUMMY_DISTANCE",
+    "RING_BOND",
+    "element_or_none",
+    "bond_length",
+    "ring_positions",
+    "round_coordinate",
+]
+
+#: A point or direction in angstrom.
+Vec = tuple[float, float, float]
+#: M-donor distance (A) when either label is not an element (abstract formulas).
+DUMMY_DISTANCE = 2.0  # common practice: a typical M-L distance for a placeholder
+#: C-C bond of a planar eta-ring (A).
+RING_BOND = 1.40  # from memory: aromatic C-C in benzene 1.39-1.40 A, Cp 1.40-1.43 A
+
+
+def element_or_none(label: str) -> str | None:
+    """The element symbol if ``label`` is one (exact case), else None.
+
+    Parameters
+    ----------
+    label : str
+        A donor or metal label ('Ru', 'C', 'a', 'M').
+
+    Returns
+    -------
+    str or None
+    """
+    if not label or not label[0].isupper():
+        return None
+    return label if is_element(label) else None
+
+
+@cache
+def bond_length(metal: str, donor: str) -> float:
+    """Metal-donor starting distance in angstrom: the sum of RDKit's covalent radii, or
+    :data:`DUMMY_DISTANCE` when either is not an element.
+
+    Parameters
+    ----------
+    metal, donor : str
+        Element symbols or abstract labels.
+
+    Returns
+    -------
+    float
+    """
+    if not element_or_none(metal) or not element_or_none(donor):
+        return DUMMY_DISTANCE
+    return round(covalent_radius(metal) + covalent_radius(donor), 4)
+
+
+def round_coordinate(x: float) -> float:
+    """A coordinate as written: 5 decimals, never -0.0.
+
+    Parameters
+    ----------
+    x : float
+
+    Returns
+    -------
+    float
+    """
+    v = round(float(x), 5)
+    return 0.0 if v == 0 else v
+
+
+def _unit(v: Sequence[float]) -> np.ndarray:
+    n = math.sqrt(sum(c * c for c in v))
+    return np.array([c / n for c in v])
+
+
+def ring_positions(site_vectors: Sequence[Vec], size: int, metal: str, element: str) -> list[Vec]:
+    """A regular ring of ``size`` atoms centred on the axis of the sites it caps.
+
+    Parameters
+    ----------
+    site_vectors : sequence of Vec
+        The unit vectors of the capped (facial) sites.
+    size : int
+        Ring atoms.
+    metal, element : str
+        The metal and the ring atoms' element (for the M-C distance).
+
+    Returns
+    -------
+    list of Vec
+        The ring atoms in ring order, the first toward the first capped site.
+    """
+    u = _unit(np.sum(np.array(site_vectors), axis=0))
+    radius = RING_BOND / (2 * math.sin(math.pi / size))
+    mc = bond_length(metal, element)
+    h = math.sqrt(max(mc * mc - radius * radius, 0.25))
+    # in-plane frame: e1 toward the first capped site, projected
+    first = np.array(site_vectors[0], dtype=float)
+    e1 = first - (first @ u) * u
+    if np.linalg.norm(e1) < 1e-6:  # pragma: no cover - sites on the axis
+        e1 = np.cross(u, [1.0, 0.0, 0.0]) if abs(u[0]) < 0.9 else np.cross(u, [0.0, 1.0, 0.0])
+    e1 = e1 / np.linalg.norm(e1)
+    e2 = np.cross(u, e1)
+    out: list[Vec] = []
+    for k in range(size):
+        t = 2 * math.pi * k / size
+        p = h * u + radius * (math.cos(t) * e1 + math.sin(t) * e2)
+        out.append((float(p[0]), float(p[1]), float(p[2])))
+    return out
