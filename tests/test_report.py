@@ -6,6 +6,10 @@ import csv
 import io
 import re
 import xml.etree.ElementTree as ET
+from pathlib import Path
+
+import pytest
+from _cli import cli
 
 from enumerator.cli import main
 from enumerator.isomers.enumeration import enumerate_isomers
@@ -104,3 +108,22 @@ def test_report_command(tmp_path, capsys):
     err = capsys.readouterr().err
     assert code == 2 and err.count("\n") == 1 and "formula" in err
     assert not (tmp_path / "x" / "report.html").exists()
+
+
+EXAMPLES = Path(__file__).resolve().parent.parent / "examples"
+
+
+@pytest.mark.parametrize(
+    "job, complexes",
+    [("ruthenium/ru_dicarbonyl.toml", 4), ("iron/fe_cyanide_nitrosyl.toml", 6)],
+    ids=["ruthenium", "iron"],
+)
+def test_report_command_on_the_examples(tmp_path, job, complexes):
+    # the checked-in job files use every key of the job format ([defaults], label, [[output]])
+    out = tmp_path / "si"
+    code, stdout, err = cli(["report", str(EXAMPLES / job), "--out", str(out)])
+    assert code == 0 and err == "", err
+    page = (out / "report.html").read_text(encoding="utf-8")
+    assert page.count('<section id="complex-') == complexes
+    assert len(list(out.glob("*.csv"))) == len(list(out.glob("*.tex"))) == complexes
+    assert f"({complexes} complex(es))" in stdout

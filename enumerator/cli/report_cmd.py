@@ -15,71 +15,6 @@ def _slug(text: str) -> str:
     return s or "complex"
 
 
-def _pairs(value, where: str, example: str) -> tuple[tuple[str, str], ...]:
-    from enumerator.errors import InputError
-
-    if value is None:
-        return ()
-    if not isinstance(value, dict) or not all(isinstance(v, str) for v in value.values()):
-        raise InputError(f'{where} must be a table of NAME = "VALUE"', f"write e.g. {example}")
-    return tuple(sorted((str(k), v) for k, v in value.items()))
-
-
-def load_requests(path: str, rules: tuple[str, ...]):
-    """(title, [Request, ...]) from a job file.
-
-    Uses :mod:`enumerator.workflow.job` when it is present; otherwise reads the
-    minimal form: ``title = "..."`` (optional) and one ``[[complex]]`` table
-    per complex with ``formula`` and optional ``geometry``, ``limit`` and
-    ``reporters`` / ``spans`` / ``arrangements`` tables (NAME = "VALUE").
-    """
-    from enumerator.errors import InputError
-    from enumerator.rules.ruleset import check_keys, read_toml
-    from enumerator.workflow.pipeline import Request
-
-    try:  # the job-file module of issue 4, once it exists
-        from enumerator import jobfile  # type: ignore[attr-defined]
-    except ImportError:
-        jobfile = None
-    if jobfile is not None and hasattr(jobfile, "load_job"):
-        job = jobfile.load_job(path, rules=rules)
-        reqs = [e.request for e in job.entries]
-        return str(job.title or Path(path).stem), reqs
-    p = Path(path)
-    if not p.is_file():
-        raise InputError(f"job file '{path}' not found", "give the path of a TOML job file")
-    doc = read_toml(p)
-    complexes = doc.get("complex")
-    if not isinstance(complexes, list) or not complexes:
-        raise InputError(f"{path}: no [[complex]] tables", 'add e.g. [[complex]] formula = "[Mo(CO)4(PPh3)2]"')
-    out = []
-    for n, c in enumerate(complexes, 1):
-        where = f"{path}: complex {n}"
-        if not isinstance(c, dict):
-            raise InputError(f"{where} is not a table", 'write [[complex]] followed by formula = "..."')
-        check_keys(
-            c,
-            where,
-            required=("formula",),
-            optional=("geometry", "limit", "reporters", "spans", "arrangements", "title", "name"),
-        )
-        limit = c.get("limit")
-        if limit is not None and (not isinstance(limit, int) or limit < 1):
-            raise InputError(f"{where}: limit must be a positive whole number", "write e.g. limit = 100")
-        out.append(
-            Request(
-                formula=str(c["formula"]),
-                geometry=c.get("geometry"),
-                spans=_pairs(c.get("spans"), f"{where}: spans", 'spans = { AA = "trans" }'),
-                arrangements=_pairs(c.get("arrangements"), f"{where}: arrangements", 'arrangements = { AAA = "fac" }'),
-                reporters=_pairs(c.get("reporters"), f"{where}: reporters", 'reporters = { a = "CO" }'),
-                limit=limit,
-                rules=rules,
-            )
-        )
-    return str(doc.get("title") or p.stem), out
-
-
 @click.command("report")
 @click.argument("job", type=click.Path(dir_okay=False))
 @click.option(
@@ -113,11 +48,13 @@ def report(ctx, job, out_dir, title):
     """
     from enumerator.render.report import render_report, tables_csv, tables_latex
     from enumerator.rules.ruleset import load_rules
+    from enumerator.workflow.job import load_job
     from enumerator.workflow.pipeline import run
 
     rules = rules_of(ctx)
-    name, reqs = load_requests(job, rules)
-    results = [run(r) for r in reqs]
+    j = load_job(job, rules)
+    results = [run(e.request) for e in j.entries]
+    name = j.title or Path(job).stem
     folder = Path(out_dir)
     folder.mkdir(parents=True, exist_ok=True)
     names = []
