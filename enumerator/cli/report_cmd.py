@@ -2,17 +2,11 @@
 
 from __future__ import annotations
 
-import re
 from pathlib import Path
 
 import click
 
 from enumerator.cli.common import rules_of, write_atomic
-
-
-def _slug(text: str) -> str:
-    s = re.sub(r"[^A-Za-z0-9]+", "_", text).strip("_")
-    return s or "complex"
 
 
 @click.command("report")
@@ -26,12 +20,12 @@ def _slug(text: str) -> str:
 )
 @click.option("--title", help="Page title (default: the job file's title or name).")
 @click.pass_context
-def report(ctx, job, out_dir, title):
+def report(ctx: click.Context, job: str, out_dir: str, title: str | None) -> None:
     """Write DIR/report.html for the complexes of JOB, with the isomer tables
     beside it as LaTeX (.tex) and CSV (.csv), one pair per complex.
 
-    The page needs no network (inline CSS and SVG, no scripts).  A minimal
-    job file:
+    The page needs no network (inline CSS and SVG, no scripts).  JOB is a
+    job file as for 'isosieve job'; a minimal one:
 
     \b
       title = "Ru carbonyl phosphines"
@@ -46,26 +40,12 @@ def report(ctx, job, out_dir, title):
       isosieve report job.toml --out si
       isosieve --rules mylib report job.toml --out si --title "SI tables"
     """
-    from enumerator.render.report import render_report, tables_csv, tables_latex
-    from enumerator.rules.ruleset import load_rules
-    from enumerator.workflow.job import load_job
-    from enumerator.workflow.pipeline import run
+    from enumerator.render.report import report_files
+    from enumerator.workflow.report import report_from_job
 
-    rules = rules_of(ctx)
-    j = load_job(job, rules)
-    results = [run(e.request) for e in j.entries]
-    name = j.title or Path(job).stem
+    built = report_from_job(job, rules_of(ctx), title)
     folder = Path(out_dir)
     folder.mkdir(parents=True, exist_ok=True)
-    names = []
-    files = {}
-    for n, res in enumerate(results, 1):
-        stem = f"{n:02d}_{_slug(res.composition.formula)}"
-        files[f"{stem}.csv"] = tables_csv(res)
-        files[f"{stem}.tex"] = tables_latex(res)
-        names += [f"{stem}.csv", f"{stem}.tex"]
-    page = render_report(results, title=title or name, rules=load_rules(rules), files=names)
-    for fname, text in files.items():
-        write_atomic(folder / fname, text)
-    write_atomic(folder / "report.html", page)
-    click.echo(f"{folder / 'report.html'}  ({len(results)} complex(es)); tables: {', '.join(names)}")
+    for name, text in report_files(built):
+        write_atomic(folder / name, text)
+    click.echo(f"{folder / 'report.html'}  ({len(built.complexes)} complex(es)); tables: {', '.join(built.files)}")
