@@ -10,10 +10,10 @@ from pathlib import Path
 
 import pytest
 
-from enumerator.cli.batch_cmd import read_formulas, render_rows
 from enumerator.parse.job import load_job
+from enumerator.render.batch import render_batch
 from enumerator.render.job import job_files
-from enumerator.workflow.batch import screen
+from enumerator.workflow.batch import screen_file
 from enumerator.workflow.job import run_job
 
 EX = Path(__file__).resolve().parent.parent / "examples"
@@ -31,8 +31,8 @@ def test_job_outputs_regenerate(path):
 
 
 def test_batch_example_regenerates():
-    rows = list(screen(read_formulas(str(EX / "iron" / "screen.txt"))))
-    assert render_rows(rows, "csv").encode("utf-8") == (EX / "iron" / "screen.csv").read_bytes()
+    result = screen_file(str(EX / "iron" / "screen.txt"))
+    assert render_batch(result, "csv").encode("utf-8") == (EX / "iron" / "screen.csv").read_bytes()
 
 
 def test_examples_carry_safety():
