@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import contextlib
 import os
 import tempfile
 from pathlib import Path
@@ -25,6 +26,7 @@ def parse_pairs(values: tuple[str, ...], option: str, example: str) -> tuple[tup
 
 
 def rules_of(ctx: click.Context) -> tuple[str, ...]:
+    """The rule folders given to the root command (``isosieve --rules DIR ...``)."""
     return tuple((ctx.find_root().obj or {}).get("rules", ()))
 
 
@@ -44,10 +46,8 @@ def write_atomic_bytes(path: str | os.PathLike[str], data: bytes) -> None:
             fh.write(data)
         os.replace(tmp, p)
     except BaseException:
-        try:
+        with contextlib.suppress(OSError):
             os.unlink(tmp)
-        except OSError:
-            pass
         raise
 
 
