@@ -54,15 +54,18 @@ class LazyGroup(click.Group):
     """A click group whose sub-commands are imported on first use."""
 
     def list_commands(self, ctx: click.Context) -> list[str]:
+        """Every command of :data:`COMMANDS`, sorted."""
         return sorted(COMMANDS)
 
     def get_command(self, ctx: click.Context, name: str) -> click.Command | None:
+        """The command, its module imported now (None for an unknown name)."""
         if name not in COMMANDS:
             return None
         module, attr, _ = COMMANDS[name]
         return getattr(importlib.import_module(module), attr)
 
     def format_commands(self, ctx: click.Context, formatter: click.HelpFormatter) -> None:
+        """The help's command list, from the one-line helps of :data:`COMMANDS` (no module imported)."""
         rows = [(name, COMMANDS[name][2]) for name in self.list_commands(ctx)]
         with formatter.section("Commands"):
             formatter.write_dl(rows)
@@ -97,7 +100,13 @@ def cli(ctx: click.Context, rules: tuple[str, ...], debug: bool) -> None:
 
 def main(argv: list[str] | None = None) -> None:
     """Console entry point: 0 on success, 2 for the user's input (one line), 1 for an internal error,
-    130 when interrupted; ``--debug`` (or ISOSIEVE_DEBUG=1) shows the traceback instead."""
+    130 when interrupted; ``--debug`` (or ISOSIEVE_DEBUG=1) shows the traceback instead.
+
+    Parameters
+    ----------
+    argv : list of str, optional
+        The arguments (default: ``sys.argv[1:]``).
+    """
     from enumerator.errors import IsosieveError
 
     args = list(sys.argv[1:] if argv is None else argv)

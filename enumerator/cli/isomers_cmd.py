@@ -19,7 +19,24 @@ PROGRESS_MIN = 2_000
 
 
 def check_size(total: int | None, limit: int | None, formula: str, symbol: str, cap: int = SIZE_CAP) -> None:
-    """Raise CapacityError when the up-front count is over ``cap`` and no --limit is given."""
+    """Refuse a listing whose up-front count is over ``cap`` when no --limit is given.
+
+    Parameters
+    ----------
+    total : int, optional
+        The Burnside count of stereoisomers (None when unknown).
+    limit : int, optional
+        The --limit given.
+    formula, symbol : str
+        The formula and geometry, for the message.
+    cap : int
+        The largest listing allowed at once.
+
+    Raises
+    ------
+    CapacityError
+        Over the cap without a limit.
+    """
     if total is None or limit is not None or total <= cap:
         return
     from enumerator.errors import CapacityError
@@ -30,8 +47,21 @@ def check_size(total: int | None, limit: int | None, formula: str, symbol: str, 
     )
 
 
-def want_progress(expected: int | None, stream) -> bool:
-    """A progress bar only on a terminal, and only for a long run."""
+def want_progress(expected: int | None, stream: object) -> bool:
+    """A progress bar only on a terminal, and only for a long run.
+
+    Parameters
+    ----------
+    expected : int, optional
+        The stereoisomers expected.
+    stream : file-like
+        Where the bar would go (standard error).
+
+    Returns
+    -------
+    bool
+        True above :data:`PROGRESS_MIN` on a terminal.
+    """
     isatty = getattr(stream, "isatty", None)
     return expected is not None and expected > PROGRESS_MIN and bool(isatty and isatty())
 

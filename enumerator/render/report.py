@@ -136,9 +136,25 @@ def _project(v: Sequence[float]) -> tuple[float, float, float]:
 def polyhedron_svg(isomer: Isomer, kinds: Sequence[str] = (), metal: str = "M", size: int = 240) -> str:
     """An inline SVG drawing of one isomer on its ideal polyhedron.
 
-    ``kinds`` orders the ligand names for the colours (the composition's
-    order).  Labels are text (ligand abbreviation for monodentates, donor
-    and ligand for chelates), so the drawing does not depend on colour.
+    An oblique projection (turned 32 degrees about z, tilted 20 degrees
+    about x): edges behind the metal are dashed, far bonds are drawn first.
+    Labels are text (ligand abbreviation for monodentates, donor for
+    chelates), so the drawing does not depend on colour.
+
+    Parameters
+    ----------
+    isomer : Isomer
+    kinds : sequence of str
+        The ligand names in the composition's order, for the colours (default: sorted site ligands).
+    metal : str
+        The metal's symbol, drawn in the centre (three characters at most).
+    size : int
+        Width and height in pixels.
+
+    Returns
+    -------
+    str
+        One ``<svg>`` element.
     """
     kinds = list(kinds) or sorted({s.ligand for s in isomer.sites})
     colour = {k: _PALETTE[i % len(_PALETTE)] for i, k in enumerate(kinds)}
