@@ -29,6 +29,7 @@ from __future__ import annotations
 from collections.abc import Mapping
 from dataclasses import dataclass, fields
 from os import PathLike, fspath
+from types import MappingProxyType
 from typing import Any
 
 from enumerator.errors import InputError
@@ -119,7 +120,7 @@ OPTIONS: tuple[Option, ...] = (
     ),
 )
 
-_BY_NAME: Mapping[str, Option] = {o.name: o for o in OPTIONS}
+_BY_NAME: Mapping[str, Option] = MappingProxyType({o.name: o for o in OPTIONS})
 
 
 def option_names(where: str | None = None) -> tuple[str, ...]:

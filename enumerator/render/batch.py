@@ -12,7 +12,8 @@ as ``id:group``, IR band counts as ``id:class=count``); JSON is the result's
 
 from __future__ import annotations
 
-from collections.abc import Callable
+from collections.abc import Callable, Mapping
+from types import MappingProxyType
 from typing import Any
 
 from enumerator.errors import InputError
@@ -91,12 +92,14 @@ def _table(res: BatchResult) -> str:
     return table(HEADER, [row_cells(r) for r in res.rows]) + "\n"
 
 
-_WRITERS: dict[str, Callable[[BatchResult], str]] = {
-    "table": _table,
-    "csv": _csv,
-    "json": _json,
-    "markdown": _markdown,
-}
+_WRITERS: Mapping[str, Callable[[BatchResult], str]] = MappingProxyType(
+    {
+        "table": _table,
+        "csv": _csv,
+        "json": _json,
+        "markdown": _markdown,
+    }
+)
 
 #: The formats of ``isosieve batch --format``.
 FORMATS: tuple[str, ...] = tuple(_WRITERS)

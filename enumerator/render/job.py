@@ -16,8 +16,9 @@ the files the job's ``[[output]]`` tables name, with their text.
 
 from __future__ import annotations
 
-from collections.abc import Callable
+from collections.abc import Callable, Mapping
 from pathlib import Path
+from types import MappingProxyType
 
 from enumerator.errors import InputError
 from enumerator.parse.job import FORMATS
@@ -68,13 +69,15 @@ def _csv(job: JobResult) -> str:
     return tables.write_csv(header, [[d.get(col, "") for col in header] for d in recs], cautions)
 
 
-_WRITERS: dict[str, Callable[[JobResult], str]] = {
-    "json": _json,
-    "table": _table,
-    "markdown": _markdown,
-    "latex": _latex,
-    "csv": _csv,
-}
+_WRITERS: Mapping[str, Callable[[JobResult], str]] = MappingProxyType(
+    {
+        "json": _json,
+        "table": _table,
+        "markdown": _markdown,
+        "latex": _latex,
+        "csv": _csv,
+    }
+)
 
 
 def render_job(job: JobResult, fmt: str) -> str:

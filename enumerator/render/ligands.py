@@ -12,7 +12,8 @@ CO,C,1,,0,2,2,CO,-,carbonyl,[C-:1]#[O+]
 
 from __future__ import annotations
 
-from collections.abc import Callable
+from collections.abc import Callable, Mapping
+from types import MappingProxyType
 
 from enumerator.errors import InputError
 from enumerator.render.jsonout import dumps
@@ -74,7 +75,9 @@ def _table(cat: LigandCatalogue) -> str:
     return text + "\n"
 
 
-_WRITERS: dict[str, Callable[[LigandCatalogue], str]] = {"table": _table, "csv": _csv, "json": _json}
+_WRITERS: Mapping[str, Callable[[LigandCatalogue], str]] = MappingProxyType(
+    {"table": _table, "csv": _csv, "json": _json}
+)
 
 #: The formats of ``isosieve ligands --format``.
 FORMATS: tuple[str, ...] = tuple(_WRITERS)

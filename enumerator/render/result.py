@@ -13,7 +13,8 @@
 
 from __future__ import annotations
 
-from collections.abc import Callable
+from collections.abc import Callable, Mapping
+from types import MappingProxyType
 
 from enumerator.errors import InputError
 from enumerator.render import tables
@@ -28,13 +29,15 @@ def _json(res: Result) -> str:
     return dumps(res.to_dict())
 
 
-_WRITERS: dict[str, Callable[[Result], str]] = {
-    "table": render,
-    "markdown": tables.markdown,
-    "csv": tables.csv,
-    "latex": tables.latex,
-    "json": _json,
-}
+_WRITERS: Mapping[str, Callable[[Result], str]] = MappingProxyType(
+    {
+        "table": render,
+        "markdown": tables.markdown,
+        "csv": tables.csv,
+        "latex": tables.latex,
+        "json": _json,
+    }
+)
 
 #: The formats, in the order the command lists them.
 FORMATS: tuple[str, ...] = tuple(_WRITERS)
