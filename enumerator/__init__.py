@@ -1,41 +1,42 @@
-"""isosieve: isomers, point groups and stretching-band counts for ligand
-substitution on metal centres.
+"""isosieve: isomers, point groups and stretching-band counts for ligand substitution on metal centres.
 
 The import package is ``enumerator``; the console command is ``isosieve``.
-The core (geometry, group, isomers, spectroscopy) is pure: it never prints,
-reads files behind the caller's back, or exits.
+For a notebook or a script, two calls cover the common cases:
 
+* :func:`analyse` -- every isomer of a formula with every analysis (point
+  groups, descriptors and names, centre chemistry, cautions, stretch species
+  and which isomer pairs IR, Raman or NMR tell apart), as one
+  :class:`~enumerator.workflow.result.Result` whose ``to_dict()`` is the
+  JSON of ``isosieve isomers --json``;
+* :func:`iter_isomers` -- the isomers one at a time, each with its point
+  group, for cases too large to hold at once.
+
+Both take the same keyword options, checked against one table
+(:data:`enumerator.parse.request.OPTIONS`); an unknown one is refused with
+the nearest names.  The building blocks stay at hand: :func:`load_rules`,
+:func:`parse_abstract`, :func:`enumerate_isomers`, :func:`generate`.
+
+>>> from enumerator import analyse, iter_isomers
+>>> [i.point_group for i in analyse("Ma3b3", geometry="OC-6").isomers]
+['C3v', 'C2v']
+>>> next(iter_isomers("Mabcdef")).point_group
+'C1'
 >>> from enumerator import load_rules, parse_abstract, enumerate_isomers
 >>> s = enumerate_isomers(parse_abstract("Ma3b3"), load_rules().geometry("OC-6"))
 >>> [i.point_group for i in s.isomers]
 ['C3v', 'C2v']
+
+Every name but the errors loads on first use, so that ``import enumerator``
+(and the command line's start) stays fast.
 """
 
 from __future__ import annotations
 
-__version__ = "0.1.0"
+from typing import Any
 
 from enumerator.errors import CapacityError, InputError, IsosieveError, RuleError
 
-# The rest loads on first use, so that the command line starts fast.
-_LAZY = {
-    "load_rules": "rules.ruleset",
-    "parse_abstract": "parse.abstract",
-    "enumerate_isomers": "isomers.enumeration",
-    "generate": "isomers.enumeration",
-    "Isomer": "isomers.enumeration",
-    "IsomerSet": "isomers.enumeration",
-    "analyse": "workflow.pipeline",
-}
-
-
-def __getattr__(name: str):
-    if name in _LAZY:
-        import importlib
-
-        return getattr(importlib.import_module(f".{_LAZY[name]}", __name__), name)
-    raise AttributeError(f"module 'enumerator' has no attribute {name!r}")
-
+__version__ = "0.1.0"
 
 __all__ = [
     "__version__",
@@ -43,11 +44,40 @@ __all__ = [
     "InputError",
     "RuleError",
     "CapacityError",
+    "analyse",
+    "iter_isomers",
+    "Request",
+    "Result",
     "load_rules",
     "parse_abstract",
     "enumerate_isomers",
     "generate",
     "Isomer",
     "IsomerSet",
-    "analyse",
 ]
+
+#: Public name -> the module (under ``enumerator``) it is loaded from on first use.
+_LAZY = {
+    "analyse": "workflow.pipeline",
+    "iter_isomers": "workflow.pipeline",
+    "Request": "parse.request",
+    "Result": "workflow.result",
+    "load_rules": "rules.ruleset",
+    "parse_abstract": "parse.abstract",
+    "enumerate_isomers": "isomers.enumeration",
+    "generate": "isomers.enumeration",
+    "Isomer": "isomers.enumeration",
+    "IsomerSet": "isomers.enumeration",
+}
+
+
+def __getattr__(name: str) -> Any:
+    if name in _LAZY:
+        import importlib
+
+        return getattr(importlib.import_module(f".{_LAZY[name]}", __name__), name)
+    raise AttributeError(f"module 'enumerator' has no attribute {name!r}")
+
+
+def __dir__() -> list[str]:
+    return sorted(set(globals()) | set(_LAZY))

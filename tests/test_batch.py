@@ -59,3 +59,20 @@ def test_cli_csv_input(tmp_path):
     doc = json.loads(out.read_text(encoding="utf-8"))
     assert [r["label"] for r in doc["rows"]] == ["A", "B", "C"]
     assert doc["rows"][1]["error"] and doc["rows"][2]["geometry"] == "T-4"
+
+
+def test_batch_result_reads_counts_from_the_result():
+    from enumerator.workflow.batch import run_batch
+    from enumerator.workflow.pipeline import analyse
+
+    result = run_batch(["[Fe(CN)4(CO)2]2-", "[Xx(CO)6]"])
+    assert [r.index for r in result.failed] == [1]
+    row = result.rows[0]
+    doc = analyse("[Fe(CN)4(CO)2]2-").to_dict()
+    # the same counts the isomer listing's JSON gives, read from the Result instead of from that JSON
+    assert (row.geometric_isomers, row.stereoisomers) == (doc["geometric_isomers"], doc["stereoisomers"])
+    assert row.point_groups == tuple((i["id"], i["point_group"]) for i in doc["isomers"])
+    assert row.ir_bands == tuple(
+        (i["id"], cls, m["ir"]) for i in doc["isomers"] for cls, m in sorted(i["modes"].items())
+    )
+    assert result.to_dict() == {"rows": [r.to_dict() for r in result.rows]}

@@ -29,6 +29,7 @@ from enumerator.model.composition import Composition, LigandKind
 from enumerator.render.report import render_report
 from enumerator.rules.ruleset import load_rules
 from enumerator.workflow.pipeline import analyse
+from enumerator.workflow.report import build_report
 from enumerator.workflow.result import Result
 
 HOSTILE = "<script>alert(1)</script>"
@@ -235,7 +236,7 @@ def _hostile_result() -> Result:
 def page(browser, tmp_path_factory):
     out = tmp_path_factory.mktemp("report") / "report.html"
     results = [analyse("[RuCl2(CO)2(PPh3)2]"), analyse("M(AA)2b2"), _hostile_result()]
-    out.write_text(render_report(results, title=f"browser test {HOSTILE}"), encoding="utf-8")
+    out.write_text(render_report(build_report(results, title=f"browser test {HOSTILE}")), encoding="utf-8")
     b = browser
     for domain in ("Page", "Runtime", "Log", "Network"):
         b.call(f"{domain}.enable")

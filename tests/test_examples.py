@@ -10,9 +10,11 @@ from pathlib import Path
 
 import pytest
 
-from enumerator.cli.batch_cmd import read_formulas, render_rows
-from enumerator.workflow.batch import screen
-from enumerator.workflow.job import load_job, render_job, run_job
+from enumerator.parse.job import load_job
+from enumerator.render.batch import render_batch
+from enumerator.render.job import job_files
+from enumerator.workflow.batch import screen_file
+from enumerator.workflow.job import run_job
 
 EX = Path(__file__).resolve().parent.parent / "examples"
 JOBS = sorted(EX.glob("*/*.toml"))
@@ -22,16 +24,15 @@ JOBS = sorted(EX.glob("*/*.toml"))
 def test_job_outputs_regenerate(path):
     job = load_job(str(path))
     assert job.outputs
-    results = run_job(job)
-    for fmt, rel in job.outputs:
-        want = (Path(job.folder) / rel).read_bytes()
-        got = render_job(job, results, fmt).encode("utf-8")
-        assert got == want, f"{rel} is stale: run isosieve job {path.relative_to(EX.parent)} --write"
+    for file, text in job_files(run_job(job)):
+        assert text.encode("utf-8") == file.read_bytes(), (
+            f"{file.name} is stale: run isosieve job {path.relative_to(EX.parent)} --write"
+        )
 
 
 def test_batch_example_regenerates():
-    rows = list(screen(read_formulas(str(EX / "iron" / "screen.txt"))))
-    assert render_rows(rows, "csv").encode("utf-8") == (EX / "iron" / "screen.csv").read_bytes()
+    result = screen_file(str(EX / "iron" / "screen.txt"))
+    assert render_batch(result, "csv").encode("utf-8") == (EX / "iron" / "screen.csv").read_bytes()
 
 
 def test_examples_carry_safety():
@@ -42,7 +43,7 @@ def test_examples_carry_safety():
 def test_ru_example_counts():
     # from memory: [RuCl2(CO)2(PPh3)2] has five geometric isomers; the dppe chelate (cis-only) fewer
     job = load_job(str(EX / "ruthenium" / "ru_dicarbonyl.toml"))
-    res = dict((e.label, r) for e, r in run_job(job))
+    res = {c.label: c.result for c in run_job(job).complexes}
     assert res["Ru-1 (PPh3)"].isomer_set.geometric_isomers == 5
     assert (
         res["Ru-3 (dppe chelate)"].isomer_set.geometric_isomers == 3
@@ -55,6 +56,10 @@ def test_ru_example_counts():
         ('[[complex]]\nformula = "[Co(NH3)4Cl2]+"\ngeometri = "OC-6"\n', "did you mean 'geometry'"),
         ('title = "x"\n', "missing key 'complex'"),
         ('[[complex]]\nformula = "Ma4b2"\nlimit = 0\n', "positive integer"),
+        ('[[complex]]\nformula = "Ma4b2"\noptions = { pik = "cis" }\n', "unknown option 'pik'; did you mean 'pick'"),
+        ('[[complex]]\nformula = "Ma4b2"\npick = "cis"\n', "options = { pick = ... }"),
+        ('[defaults]\nspans = { AA = "across" }\n[[complex]]\nformula = "M(AA)b4"\n', "span 'across'"),
+        ('[[complex]]\nformula = "Ma4b2"\nreporters = { a = 1 }\n', "table of strings"),
         ('[[complex]]\nformula = "Ma4b2"\n[[output]]\nformat = "pdf"\nfile = "a.pdf"\n', "format 'pdf'"),
         ('[[complex]]\nformula = "Ma4b2"\n[[output]]\nformat = "csv"\nfile = "../a.csv"\n', "relative path"),
     ],

@@ -6,13 +6,19 @@ import csv
 import io
 import re
 import xml.etree.ElementTree as ET
+from pathlib import Path
+
+import pytest
+from _cli import cli
 
 from enumerator.cli import main
 from enumerator.isomers.enumeration import enumerate_isomers
 from enumerator.model.composition import Composition, LigandKind
-from enumerator.render.report import pair_grid_html, polyhedron_svg, render_report, tables_csv, tables_latex
+from enumerator.render import tables
+from enumerator.render.report import pair_grid_html, polyhedron_svg, render_report, report_files
 from enumerator.rules.ruleset import load_rules
 from enumerator.workflow.pipeline import analyse
+from enumerator.workflow.report import build_report
 from enumerator.workflow.result import Result
 
 HOSTILE = "<script>alert(1)</script>"
@@ -26,7 +32,7 @@ def _hostile():
 
 
 def test_user_strings_are_escaped():
-    page = render_report([_hostile()], title=HOSTILE)
+    page = render_report(build_report([_hostile()], title=HOSTILE))
     assert "<script" not in page and "<b onmouseover" not in page
     assert "&lt;script&gt;alert(1)&lt;/script&gt;" in page
     assert "&quot;&gt;&lt;b onmouseover=x&gt;" in page
@@ -34,7 +40,7 @@ def test_user_strings_are_escaped():
 
 def test_page_is_self_contained_and_deterministic():
     results = [analyse("[RuCl2(CO)2(PPh3)2]"), analyse("M(AA)2b2")]
-    a, b = render_report(results), render_report(results)
+    a, b = render_report(build_report(results)), render_report(build_report(results))
     assert a == b  # same input, same bytes
     urls = set(re.findall(r"https?://[^\s\"'<>)]+", a))
     assert urls <= {"http://www.w3.org/2000/svg"}  # only the SVG namespace name, never fetched
@@ -74,14 +80,29 @@ def test_pair_grid_marks_indistinct_pairs_with_text_and_pattern():
     assert 'class="d0"' in grid and "none (enantiomers)" in grid  # text, not colour alone
 
 
-def test_tables_csv_and_latex():
+def test_table_files_are_the_isomers_command_tables():
+    # the report's CSV and LaTeX files come from the one writer of each kind (render/tables.py)
     res = analyse("[RuCl2(CO)2(PPh3)2]")
-    rows = list(csv.reader(io.StringIO(tables_csv(res))))
-    assert rows[0][:2] == ["isomer", "point group"] and len(rows) == 1 + 6
-    tex = tables_latex(res)
-    assert "\\begin{tabular}" in tex and "\\bottomrule" in tex
-    res = _hostile()
-    assert "M<script>alert(1)</script>6" in tables_latex(res)  # LaTeX needs no HTML escaping
+    files = dict(report_files(build_report([res])))
+    assert sorted(files) == ["01_RuCl2_CO_2_PPh3_2.csv", "01_RuCl2_CO_2_PPh3_2.tex", "report.html"]
+    assert files["01_RuCl2_CO_2_PPh3_2.csv"] == tables.csv(res)
+    assert files["01_RuCl2_CO_2_PPh3_2.tex"] == tables.latex(res)
+    rows = list(csv.reader(io.StringIO(files["01_RuCl2_CO_2_PPh3_2.csv"])))
+    assert rows[0][:4] == ["formula", "geometry", "isomer", "point group"] and rows[6][0].startswith("[RuCl2")
+    tex = files["01_RuCl2_CO_2_PPh3_2.tex"]
+    assert "\\begin{tabular}" in tex and "\\bottomrule" in tex and "$C_{2v}$" in tex
+    assert "M<script>alert(1)</script>6" in tables.latex(_hostile())  # LaTeX needs no HTML escaping
+
+
+def test_report_model_holds_what_the_page_shows():
+    rep = build_report([analyse("[RuCl2(CO)2(PPh3)2]"), analyse("Ma4b2", geometry="OC-6")], title="t")
+    ru, ab = rep.complexes
+    assert ru.cautions and not ab.cautions  # CO cautions for the carbonyl only
+    assert [s.isomer_id for s in ru.spectra] == [i.id for i in ru.result.isomers]
+    assert all(c.reporter_class == "CO" and c.pattern is not None for s in ru.spectra for c in s.classes)
+    assert ab.spectra[0].classes == ()  # no reporter class on the letters
+    doc = rep.to_dict()
+    assert doc["files"] == list(rep.files) and doc["complexes"][0]["result"]["formula"] == "[RuCl2(CO)2(PPh3)2]"
 
 
 def test_report_command(tmp_path, capsys):
@@ -104,3 +125,22 @@ def test_report_command(tmp_path, capsys):
     err = capsys.readouterr().err
     assert code == 2 and err.count("\n") == 1 and "formula" in err
     assert not (tmp_path / "x" / "report.html").exists()
+
+
+EXAMPLES = Path(__file__).resolve().parent.parent / "examples"
+
+
+@pytest.mark.parametrize(
+    "job, complexes",
+    [("ruthenium/ru_dicarbonyl.toml", 4), ("iron/fe_cyanide_nitrosyl.toml", 6)],
+    ids=["ruthenium", "iron"],
+)
+def test_report_command_on_the_examples(tmp_path, job, complexes):
+    # the checked-in job files use every key of the job format ([defaults], label, [[output]])
+    out = tmp_path / "si"
+    code, stdout, err = cli(["report", str(EXAMPLES / job), "--out", str(out)])
+    assert code == 0 and err == "", err
+    page = (out / "report.html").read_text(encoding="utf-8")
+    assert page.count('<section id="complex-') == complexes
+    assert len(list(out.glob("*.csv"))) == len(list(out.glob("*.tex"))) == complexes
+    assert f"({complexes} complex(es))" in stdout

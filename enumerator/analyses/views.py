@@ -47,9 +47,10 @@ class ResultView(Protocol):
 
 
 class RequestView(Protocol):
-    """The request's rule folders and stage options."""
+    """The request's rule folders and the descriptor the isomers are picked by."""
 
     @property
     def rules(self) -> tuple[str, ...]: ...
 
-    def option(self, name: str, default: str | None = None) -> str | None: ...
+    @property
+    def pick(self) -> str | None: ...

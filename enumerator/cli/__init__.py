@@ -17,7 +17,6 @@ import click
 __all__ = ["cli", "main", "COMMANDS"]
 
 #: command name -> (module, function, one-line help).  Add a command here.
-#: A command whose module is not present is not listed.
 COMMANDS: dict[str, tuple[str, str, str]] = {
     "isomers": (
         "enumerator.cli.isomers_cmd",
@@ -51,25 +50,22 @@ COMMANDS: dict[str, tuple[str, str, str]] = {
 }
 
 
-def _present(module: str) -> bool:
-    import importlib.util
-
-    return importlib.util.find_spec(module) is not None
-
-
 class LazyGroup(click.Group):
     """A click group whose sub-commands are imported on first use."""
 
     def list_commands(self, ctx: click.Context) -> list[str]:
-        return sorted(n for n, (m, _, _) in COMMANDS.items() if _present(m))
+        """Every command of :data:`COMMANDS`, sorted."""
+        return sorted(COMMANDS)
 
-    def get_command(self, ctx: click.Context, name: str):
-        if name not in COMMANDS or not _present(COMMANDS[name][0]):
+    def get_command(self, ctx: click.Context, name: str) -> click.Command | None:
+        """The command, its module imported now (None for an unknown name)."""
+        if name not in COMMANDS:
             return None
         module, attr, _ = COMMANDS[name]
         return getattr(importlib.import_module(module), attr)
 
     def format_commands(self, ctx: click.Context, formatter: click.HelpFormatter) -> None:
+        """The help's command list, from the one-line helps of :data:`COMMANDS` (no module imported)."""
         rows = [(name, COMMANDS[name][2]) for name in self.list_commands(ctx)]
         with formatter.section("Commands"):
             formatter.write_dl(rows)
@@ -103,7 +99,14 @@ def cli(ctx: click.Context, rules: tuple[str, ...], debug: bool) -> None:
 
 
 def main(argv: list[str] | None = None) -> None:
-    """Console entry point with the project's exit-status contract."""
+    """Console entry point: 0 on success, 2 for the user's input (one line), 1 for an internal error,
+    130 when interrupted; ``--debug`` (or ISOSIEVE_DEBUG=1) shows the traceback instead.
+
+    Parameters
+    ----------
+    argv : list of str, optional
+        The arguments (default: ``sys.argv[1:]``).
+    """
     from enumerator.errors import IsosieveError
 
     args = list(sys.argv[1:] if argv is None else argv)
@@ -139,7 +142,8 @@ def main(argv: list[str] | None = None) -> None:
             raise
         msg = str(exc).splitlines()[0] if str(exc) else ""
         click.echo(
-            f"isosieve: internal error: {type(exc).__name__}: {msg} (rerun with --debug for the traceback, and please report it)",
+            f"isosieve: internal error: {type(exc).__name__}: {msg} "
+            "(rerun with --debug for the traceback, and please report it)",
             err=True,
         )
         sys.exit(1)

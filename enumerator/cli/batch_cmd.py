@@ -7,58 +7,6 @@ import click
 from enumerator.cli.common import emit, rules_of
 
 
-def read_formulas(path: str) -> list[tuple[str, str]]:
-    """(formula, label) pairs from a text file (one formula a line; '#'
-    comments and blank lines skipped) or a CSV file with a 'formula' column
-    (and an optional 'label' column)."""
-    import csv
-    import io
-
-    from enumerator.errors import InputError
-
-    try:
-        with open(path, encoding="utf-8-sig", newline="") as fh:
-            text = fh.read()
-    except OSError as exc:
-        raise InputError(f"cannot read '{path}' ({exc.strerror})", "check the path") from None
-    lines = [ln for ln in text.splitlines() if ln.strip() and not ln.lstrip().startswith("#")]
-    if not lines:
-        raise InputError(f"'{path}' holds no formulas", "write one formula a line, or a CSV with a 'formula' column")
-    head = [h.strip().lower() for h in next(csv.reader([lines[0]]))]
-    if "formula" in head:
-        rows = list(csv.reader(io.StringIO("\n".join(lines))))
-        fi = head.index("formula")
-        li = head.index("label") if "label" in head else None
-        out = []
-        for k, r in enumerate(rows[1:], start=2):
-            f = r[fi].strip() if fi < len(r) else ""
-            out.append((f, r[li].strip() if li is not None and li < len(r) else ""))
-        return out
-    return [(ln.strip(), "") for ln in lines]
-
-
-def render_rows(rows, fmt: str) -> str:
-    from enumerator.workflow.batch import HEADER, row_cells, row_to_dict
-
-    if fmt == "json":
-        from enumerator.render.jsonout import dumps
-
-        return dumps({"rows": [row_to_dict(r) for r in rows]})
-    cells = [row_cells(r) for r in rows]
-    if fmt == "csv":
-        from enumerator.render.tables import write_csv
-
-        return write_csv(HEADER, cells)
-    if fmt == "markdown":
-        esc = lambda s: s.replace("|", "\\|")
-        out = ["| " + " | ".join(HEADER) + " |", "|" + "|".join("---" for _ in HEADER) + "|"]
-        out += ["| " + " | ".join(esc(c) for c in r) + " |" for r in cells]
-        return "\n".join(out) + "\n"
-    from enumerator.render.text import table
-
-    return table(HEADER, cells) + "\n"
-
-
 @click.command("batch")
 @click.argument("file", type=click.Path(dir_okay=False))
 @click.option(
@@ -73,7 +21,9 @@ def render_rows(rows, fmt: str) -> str:
 @click.option("--out", type=click.Path(dir_okay=False), help="Write to this file (atomically).")
 @click.option("--limit", type=click.IntRange(min=1), help="Stop each enumeration after this many stereoisomers.")
 @click.pass_context
-def batch(ctx, file, workers, geometry, fmt, out, limit):
+def batch(
+    ctx: click.Context, file: str, workers: int, geometry: str | None, fmt: str, out: str | None, limit: int | None
+) -> None:
     """Screen every formula in FILE: one row each, in input order.
 
     FILE has one formula a line ('#' starts a comment), or is a CSV file
@@ -87,13 +37,13 @@ def batch(ctx, file, workers, geometry, fmt, out, limit):
       isosieve batch screen.csv --workers 2 --format csv --out results.csv
     """
     from enumerator.errors import InputError
-    from enumerator.workflow.batch import screen
+    from enumerator.render.batch import render_batch
+    from enumerator.workflow.batch import screen_file
 
-    items = read_formulas(file)
-    rows = list(screen(items, rules=rules_of(ctx), workers=workers, geometry=geometry, limit=limit))
-    emit(render_rows(rows, fmt), out)
-    bad = [str(r.index + 1) for r in rows if r.error]
-    if bad:
+    result = screen_file(file, rules=rules_of(ctx), workers=workers, geometry=geometry, limit=limit)
+    emit(render_batch(result, fmt), out)
+    if result.failed:
+        bad = ", ".join(str(r.index + 1) for r in result.failed)
         raise InputError(
-            f"{len(bad)} of {len(rows)} rows could not be analysed (row {', '.join(bad)})", "see the error column"
+            f"{len(result.failed)} of {len(result.rows)} rows could not be analysed (row {bad})", "see the error column"
         )

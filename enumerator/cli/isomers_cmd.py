@@ -2,9 +2,15 @@
 
 from __future__ import annotations
 
+from typing import TYPE_CHECKING
+
 import click
 
 from enumerator.cli.common import emit, parse_pairs, rules_of
+
+if TYPE_CHECKING:
+    from enumerator.parse.request import Request
+    from enumerator.workflow.result import Result
 
 #: Refuse to list more stereoisomers than this at once unless --limit is given.
 SIZE_CAP = 200_000
@@ -13,7 +19,24 @@ PROGRESS_MIN = 2_000
 
 
 def check_size(total: int | None, limit: int | None, formula: str, symbol: str, cap: int = SIZE_CAP) -> None:
-    """Raise CapacityError when the up-front count is over ``cap`` and no --limit is given."""
+    """Refuse a listing whose up-front count is over ``cap`` when no --limit is given.
+
+    Parameters
+    ----------
+    total : int, optional
+        The Burnside count of stereoisomers (None when unknown).
+    limit : int, optional
+        The --limit given.
+    formula, symbol : str
+        The formula and geometry, for the message.
+    cap : int
+        The largest listing allowed at once.
+
+    Raises
+    ------
+    CapacityError
+        Over the cap without a limit.
+    """
     if total is None or limit is not None or total <= cap:
         return
     from enumerator.errors import CapacityError
@@ -24,19 +47,32 @@ def check_size(total: int | None, limit: int | None, formula: str, symbol: str, 
     )
 
 
-def want_progress(expected: int | None, stream) -> bool:
-    """A progress bar only on a terminal, and only for a long run."""
+def want_progress(expected: int | None, stream: object) -> bool:
+    """A progress bar only on a terminal, and only for a long run.
+
+    Parameters
+    ----------
+    expected : int, optional
+        The stereoisomers expected.
+    stream : file-like
+        Where the bar would go (standard error).
+
+    Returns
+    -------
+    bool
+        True above :data:`PROGRESS_MIN` on a terminal.
+    """
     isatty = getattr(stream, "isatty", None)
     return expected is not None and expected > PROGRESS_MIN and bool(isatty and isatty())
 
 
-def _run(req, partial: bool):
+def _run(req: Request, partial: bool) -> tuple[Result, bool]:
     """(result, interrupted).  Counts up front, guards the size, shows
     progress; on Ctrl-C returns the part found so far when ``partial``."""
     import sys
 
     from enumerator.isomers.counting import burnside_counts
-    from enumerator.isomers.enumeration import IsomerSet
+    from enumerator.isomers.enumeration import Isomer, IsomerSet
     from enumerator.workflow.pipeline import prepare, run
 
     comp, geo, _ = prepare(req)
@@ -44,12 +80,12 @@ def _run(req, partial: bool):
     total = counts[1] if counts else None
     check_size(total, req.limit, comp.formula, geo.symbol)
     expected = None if total is None else (total if req.limit is None else min(total, req.limit))
-    found: list = []
+    found: list[Isomer] = []
     try:
-        if want_progress(expected, sys.stderr):
+        if expected is not None and want_progress(expected, sys.stderr):
             with click.progressbar(length=expected, label="enumerating", file=sys.stderr) as bar:
 
-                def step(iso) -> None:
+                def step(iso: Isomer) -> None:
                     found.append(iso)
                     bar.update(1)
 
@@ -138,6 +174,7 @@ def isomers(ctx, formula, geometry, as_json, fmt, out, spans, arrangements, repo
     """
     import sys
 
+    from enumerator.render.result import render_result
     from enumerator.workflow.pipeline import Request
 
     req = Request(
@@ -148,26 +185,11 @@ def isomers(ctx, formula, geometry, as_json, fmt, out, spans, arrangements, repo
         reporters=parse_pairs(reporters, "--reporter", "a=CO"),
         limit=limit,
         rules=rules_of(ctx),
-        options=(("pick", pick),) if pick else (),
+        pick=pick or None,
     )
     try:
         res, interrupted = _run(req, partial)
-        if pick:
-            from enumerator.analyses.descriptors import select_isomers
-
-            res = select_isomers(res, pick)
-        if as_json or fmt == "json":
-            from enumerator.render.jsonout import dumps, result_to_dict
-
-            emit(dumps(result_to_dict(res)), out)
-        elif fmt == "table":
-            from enumerator.render.text import render
-
-            emit(render(res), out)
-        else:
-            from enumerator.render import tables
-
-            emit(getattr(tables, fmt)(res), out)
+        emit(render_result(res, "json" if as_json else fmt), out)
     except KeyboardInterrupt:
         click.echo("isosieve: interrupted; nothing written (give --partial to keep what was found)", err=True)
         sys.exit(130)

@@ -5,17 +5,12 @@ from __future__ import annotations
 import click
 
 from enumerator.cli.common import emit, rules_of, write_atomic
+from enumerator.parse.job import FORMATS
 
 
 @click.command("job")
 @click.argument("file", type=click.Path(dir_okay=False))
-@click.option(
-    "--format",
-    "fmt",
-    type=click.Choice(["table", "markdown", "csv", "latex", "json"]),
-    default="table",
-    show_default=True,
-)
+@click.option("--format", "fmt", type=click.Choice(FORMATS), default="table", show_default=True)
 @click.option(
     "--out", type=click.Path(dir_okay=False), help="Write to this file (atomically) instead of standard output."
 )
@@ -23,7 +18,7 @@ from enumerator.cli.common import emit, rules_of, write_atomic
     "--write", "write_outputs", is_flag=True, help="Write every [[output]] the job file lists (paths relative to it)."
 )
 @click.pass_context
-def job(ctx, file, fmt, out, write_outputs):
+def job(ctx: click.Context, file: str, fmt: str, out: str | None, write_outputs: bool) -> None:
     """Run every [[complex]] of the job FILE and print or write the tables.
 
     \b
@@ -32,21 +27,18 @@ def job(ctx, file, fmt, out, write_outputs):
       isosieve job examples/ruthenium/ru_dicarbonyl.toml --format latex --out si_table.tex
       isosieve job examples/iron/fe_cyanide_nitrosyl.toml --write
     """
-    from pathlib import Path
+    from enumerator.errors import InputError
+    from enumerator.render.job import job_files, render_job
+    from enumerator.workflow.job import run_job_file
 
-    from enumerator.workflow.job import load_job, render_job, run_job
-
-    j = load_job(file, rules_of(ctx))
-    results = run_job(j)
-    if write_outputs:
-        if not j.outputs:
-            from enumerator.errors import InputError
-
-            raise InputError(
-                f"job file '{file}' lists no [[output]]", 'add [[output]] with format = "markdown" and file = "..."'
-            )
-        for f, rel in j.outputs:
-            write_atomic(Path(j.folder) / rel, render_job(j, results, f))
-            click.echo(f"wrote {Path(j.folder) / rel}", err=True)
+    result = run_job_file(file, rules_of(ctx))
+    if not write_outputs:
+        emit(render_job(result, fmt), out)
         return
-    emit(render_job(j, results, fmt), out)
+    if not result.outputs:
+        raise InputError(
+            f"job file '{file}' lists no [[output]]", 'add [[output]] with format = "markdown" and file = "..."'
+        )
+    for path, text in job_files(result):
+        write_atomic(path, text)
+        click.echo(f"wrote {path}", err=True)

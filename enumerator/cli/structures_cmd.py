@@ -41,7 +41,16 @@ from enumerator.cli.common import parse_pairs, rules_of, write_atomic
 )
 @click.option("--limit", type=click.IntRange(min=1), help="Stop after this many stereoisomers.")
 @click.pass_context
-def structures(ctx, formula, out_dir, fmt, geometry, spans, arrangements, limit):
+def structures(
+    ctx: click.Context,
+    formula: str,
+    out_dir: str,
+    fmt: str,
+    geometry: str | None,
+    spans: tuple[str, ...],
+    arrangements: tuple[str, ...],
+    limit: int | None,
+) -> None:
     """Write starting structures of every isomer of FORMULA into --out.
 
     The metal sits at the origin, donors on the ideal site vectors at the
@@ -57,18 +66,16 @@ def structures(ctx, formula, out_dir, fmt, geometry, spans, arrangements, limit)
       isosieve structures Ma2b2c2 --out core
     """
     from enumerator.render.structures import structure_files, structure_listing
-    from enumerator.structures.result import structure_set
-    from enumerator.workflow.pipeline import Request, run
+    from enumerator.workflow.queries import formula_structures
 
-    req = Request(
-        formula=formula,
+    built = formula_structures(
+        formula,
         geometry=geometry,
         spans=parse_pairs(spans, "--span", "AA=trans"),
         arrangements=parse_pairs(arrangements, "--arrangement", "AAA=fac"),
         limit=limit,
         rules=rules_of(ctx),
     )
-    built = structure_set(run(req))
     folder = Path(out_dir)
     folder.mkdir(parents=True, exist_ok=True)
     for name, text in structure_files(built, fmt):

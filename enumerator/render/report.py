@@ -1,10 +1,12 @@
-"""A self-contained HTML report for supporting information.
+"""The self-contained HTML report for supporting information, formatted from a
+:class:`~enumerator.workflow.report.Report`.
 
-:func:`render_report` turns one or more :class:`~enumerator.workflow.result.Result`
-objects into one HTML page that needs no network: inline CSS, inline SVG
-and ``data:`` images only, no scripts, no web fonts.  For each complex it
-shows the isomer table (every analysis's columns), then one card per
-isomer with
+Everything shown is computed before, by :mod:`enumerator.workflow.report`
+(results, band patterns, cautions, file names, version); this module only
+formats it.  :func:`render_report` writes one HTML page that needs no
+network: inline CSS, inline SVG and ``data:`` images only, no scripts, no
+web fonts.  For each complex it shows the isomer table (every analysis's
+columns), then one card per isomer with
 
 * a drawing of the ideal polyhedron (:func:`polyhedron_svg`: an oblique
   projection of the site vectors with the polyhedron edges, the M-donor
@@ -12,21 +14,22 @@ isomer with
 * its point group, IUPAC descriptor, stretch species and band counts and
   any other per-isomer keys the analyses add (read through the Analysis
   protocol, so a new analysis shows up without a change here);
-* its predicted stick spectrum per reporter class
-  (:func:`enumerator.vibrations.predict_bands` plotted by
-  :func:`enumerator.render.plots.stick_spectrum` when that module is
-  present, else by a small SVG plot drawn here) with the band list;
+* its predicted stick spectrum per reporter class, drawn by
+  :func:`enumerator.render.plots.stick_spectrum`, with the band list;
 
 then the pair matrix (top-level ``pairs``) as a grid whose cells carry
 text and a fill pattern as well as a colour, so it reads in greyscale, and
 every analysis's text sections (safety cautions first and boxed).
+:func:`report_files` adds each complex's CSV and LaTeX table, written by
+:mod:`enumerator.render.tables` as ``isosieve isomers`` writes them.
 
 Every string that can come from a user (formulae, ligand names from user
 rule files, notes) goes through :func:`html.escape`.  The same input gives
 byte-identical output.
 
 >>> from enumerator.workflow.pipeline import analyse
->>> page = render_report([analyse("Ma4b2", geometry="OC-6")])
+>>> from enumerator.workflow.report import build_report
+>>> page = render_report(build_report([analyse("Ma4b2", geometry="OC-6")]))
 >>> page.startswith("<!DOCTYPE html>") and "<script" not in page
 True
 """
@@ -37,23 +40,18 @@ import base64
 import html
 import json
 import math
-from collections.abc import Iterable, Mapping, Sequence
+from collections.abc import Mapping, Sequence
 from typing import Any
 
-from enumerator.analyses.safety import cautions as safety_cautions
 from enumerator.isomers.enumeration import Isomer
-from enumerator.render.sections import result_columns, result_sections
+from enumerator.render import tables
+from enumerator.render.plots import stick_spectrum
+from enumerator.render.sections import result_sections
+from enumerator.render.text import isomer_rows
+from enumerator.workflow.report import ClassSpectrum, IsomerSpectra, Report, ReportComplex
 from enumerator.workflow.result import Result
 
-__all__ = [
-    "render_report",
-    "polyhedron_svg",
-    "pair_grid_html",
-    "table_rows",
-    "tables_csv",
-    "tables_latex",
-    "spectrum_svg",
-]
+__all__ = ["render_report", "report_files", "polyhedron_svg", "pair_grid_html"]
 
 #: Fill colours for ligand kinds, chosen to differ in lightness too.
 _PALETTE = (
@@ -69,34 +67,45 @@ _PALETTE = (
     "#7f7f7f",
 )
 
-_CSS = """
-body{font-family:system-ui,-apple-system,'Segoe UI',Helvetica,Arial,sans-serif;margin:1.5rem auto;max-width:75rem;color:#111;background:#fff;line-height:1.35;padding:0 1rem}
-h1{font-size:1.6rem;margin:.2rem 0}h2{font-size:1.3rem;border-bottom:2px solid #333;margin-top:2rem}h3{font-size:1.05rem;margin:.3rem 0}
-table{border-collapse:collapse;margin:.5rem 0}th,td{border:1px solid #888;padding:.15rem .45rem;text-align:left;vertical-align:top;font-size:.9rem}
-th{background:#eee}
-.meta{color:#333;font-size:.9rem}
-.caution{border:3px solid #000;background:#fff3cd;padding:.4rem .8rem;margin:.8rem 0}
-.caution h3::before{content:"\\26A0  "}
-.cards{display:block}
-.card{border:1px solid #666;border-radius:4px;padding:.5rem;margin:.8rem 0;display:grid;grid-template-columns:250px minmax(0,1fr);gap:.4rem 1rem;break-inside:avoid}
-.card h3{grid-column:1/-1}
-.card dl{display:grid;grid-template-columns:max-content minmax(0,1fr);gap:.1rem .6rem;margin:0;font-size:.88rem}
-.card dt{font-weight:600}.card dd{margin:0;overflow-x:auto;overflow-wrap:break-word}
-.card dd table th,.card dd table td{font-size:.78rem;padding:.05rem .3rem}
-.specs{grid-column:1/-1;display:flex;flex-wrap:wrap;gap:1rem}
-.spec{width:24rem}.spec img,.spec svg{width:100%;height:auto}
-pre{white-space:pre-wrap;font-size:.85rem;background:#f6f6f6;padding:.4rem;border:1px solid #ddd}
-code{font-size:.85rem}
-.grid td{text-align:center;min-width:4.2rem;font-size:.8rem}
-.grid .d0{background:repeating-linear-gradient(45deg,#fff 0 4px,#bbb 4px 6px);font-weight:700}
-.grid .d1{background:#fde0c5}
-.grid .d2{background:#f59e5a}
-.grid .d3{background:#a4471a;color:#fff}
-.grid .self{background:#fff;color:#000}
-.grid .na{background:#fff;color:#555}
-.legend span{display:inline-block;border:1px solid #888;padding:0 .4rem;margin-right:.4rem;font-size:.8rem}
-footer{margin-top:2rem;font-size:.8rem;color:#333}
-"""
+#: The page's style sheet, one rule set a line.
+_CSS = "\n".join(
+    (
+        "",
+        "body{font-family:system-ui,-apple-system,'Segoe UI',Helvetica,Arial,sans-serif;"
+        "margin:1.5rem auto;max-width:75rem;color:#111;background:#fff;line-height:1.35;"
+        "padding:0 1rem}",
+        "h1{font-size:1.6rem;margin:.2rem 0}h2{font-size:1.3rem;border-bottom:2px solid #333;"
+        "margin-top:2rem}h3{font-size:1.05rem;margin:.3rem 0}",
+        "table{border-collapse:collapse;margin:.5rem 0}th,td{border:1px solid #888;"
+        "padding:.15rem .45rem;text-align:left;vertical-align:top;font-size:.9rem}",
+        "th{background:#eee}",
+        ".meta{color:#333;font-size:.9rem}",
+        ".caution{border:3px solid #000;background:#fff3cd;padding:.4rem .8rem;margin:.8rem 0}",
+        '.caution h3::before{content:"\\26A0  "}',
+        ".cards{display:block}",
+        ".card{border:1px solid #666;border-radius:4px;padding:.5rem;margin:.8rem 0;"
+        "display:grid;grid-template-columns:250px minmax(0,1fr);gap:.4rem 1rem;break-inside:avoid}",
+        ".card h3{grid-column:1/-1}",
+        ".card dl{display:grid;grid-template-columns:max-content minmax(0,1fr);gap:.1rem .6rem;"
+        "margin:0;font-size:.88rem}",
+        ".card dt{font-weight:600}.card dd{margin:0;overflow-x:auto;overflow-wrap:break-word}",
+        ".card dd table th,.card dd table td{font-size:.78rem;padding:.05rem .3rem}",
+        ".specs{grid-column:1/-1;display:flex;flex-wrap:wrap;gap:1rem}",
+        ".spec{width:24rem}.spec img,.spec svg{width:100%;height:auto}",
+        "pre{white-space:pre-wrap;font-size:.85rem;background:#f6f6f6;padding:.4rem;border:1px solid #ddd}",
+        "code{font-size:.85rem}",
+        ".grid td{text-align:center;min-width:4.2rem;font-size:.8rem}",
+        ".grid .d0{background:repeating-linear-gradient(45deg,#fff 0 4px,#bbb 4px 6px);font-weight:700}",
+        ".grid .d1{background:#fde0c5}",
+        ".grid .d2{background:#f59e5a}",
+        ".grid .d3{background:#a4471a;color:#fff}",
+        ".grid .self{background:#fff;color:#000}",
+        ".grid .na{background:#fff;color:#555}",
+        ".legend span{display:inline-block;border:1px solid #888;padding:0 .4rem;margin-right:.4rem;font-size:.8rem}",
+        "footer{margin-top:2rem;font-size:.8rem;color:#333}",
+        "",
+    )
+)
 
 
 def _e(x: Any) -> str:
@@ -127,9 +136,25 @@ def _project(v: Sequence[float]) -> tuple[float, float, float]:
 def polyhedron_svg(isomer: Isomer, kinds: Sequence[str] = (), metal: str = "M", size: int = 240) -> str:
     """An inline SVG drawing of one isomer on its ideal polyhedron.
 
-    ``kinds`` orders the ligand names for the colours (the composition's
-    order).  Labels are text (ligand abbreviation for monodentates, donor
-    and ligand for chelates), so the drawing does not depend on colour.
+    An oblique projection (turned 32 degrees about z, tilted 20 degrees
+    about x): edges behind the metal are dashed, far bonds are drawn first.
+    Labels are text (ligand abbreviation for monodentates, donor for
+    chelates), so the drawing does not depend on colour.
+
+    Parameters
+    ----------
+    isomer : Isomer
+    kinds : sequence of str
+        The ligand names in the composition's order, for the colours (default: sorted site ligands).
+    metal : str
+        The metal's symbol, drawn in the centre (three characters at most).
+    size : int
+        Width and height in pixels.
+
+    Returns
+    -------
+    str
+        One ``<svg>`` element.
     """
     kinds = list(kinds) or sorted({s.ligand for s in isomer.sites})
     colour = {k: _PALETTE[i % len(_PALETTE)] for i, k in enumerate(kinds)}
@@ -138,12 +163,10 @@ def polyhedron_svg(isomer: Isomer, kinds: Sequence[str] = (), metal: str = "M", 
     pts = {s.index: _project(s.position) for s in isomer.sites}
     xy = {i: (c + scale * p[0], c + scale * p[1]) for i, p in pts.items()}
     depth = {i: p[2] for i, p in pts.items()}
-    dentate = {}
-    for s in isomer.sites:
-        dentate[s.ligand] = dentate.get(s.ligand, 0)
     linked = {a for a, b, _ in isomer.links()} | {b for a, b, _ in isomer.links()}
     out = [
-        f'<svg xmlns="http://www.w3.org/2000/svg" viewBox="0 0 {size} {size}" width="{size}" height="{size}" role="img" '
+        f'<svg xmlns="http://www.w3.org/2000/svg" viewBox="0 0 {size} {size}" width="{size}" height="{size}" '
+        'role="img" '
         f'aria-label="{_e(isomer.geometry.symbol)} drawing of isomer {_e(isomer.id)}">',
         f"<title>isomer {_e(isomer.id)} on {_e(isomer.geometry.symbol)}</title>",
         f'<rect x="0" y="0" width="{size}" height="{size}" fill="#fff"/>',
@@ -153,7 +176,8 @@ def polyhedron_svg(isomer: Isomer, kinds: Sequence[str] = (), metal: str = "M", 
         (x1, y1), (x2, y2) = xy[a], xy[b]
         dash = ' stroke-dasharray="4 3"' if back else ""
         out.append(
-            f'<line x1="{_num(x1)}" y1="{_num(y1)}" x2="{_num(x2)}" y2="{_num(y2)}" stroke="#9a9a9a" stroke-width="1"{dash}/>'
+            f'<line x1="{_num(x1)}" y1="{_num(y1)}" x2="{_num(x2)}" y2="{_num(y2)}" '
+            f'stroke="#9a9a9a" stroke-width="1"{dash}/>'
         )
     # far sites first, then the metal, then near sites
     order = sorted(isomer.sites, key=lambda s: (-depth[s.index], s.index))
@@ -168,7 +192,8 @@ def polyhedron_svg(isomer: Isomer, kinds: Sequence[str] = (), metal: str = "M", 
     out += [bond(s) for s in near]
     out.append(f'<circle cx="{_num(c)}" cy="{_num(c)}" r="13" fill="#444" stroke="#000"/>')
     out.append(
-        f'<text x="{_num(c)}" y="{_num(c + 4)}" text-anchor="middle" font-size="11" font-weight="700" fill="#fff">{_e(metal[:3])}</text>'
+        f'<text x="{_num(c)}" y="{_num(c + 4)}" text-anchor="middle" font-size="11" font-weight="700" '
+        f'fill="#fff">{_e(metal[:3])}</text>'
     )
     # chelate and ring links: thick curves bulging away from the metal
     for a, b, name in isomer.links():
@@ -185,7 +210,8 @@ def polyhedron_svg(isomer: Isomer, kinds: Sequence[str] = (), metal: str = "M", 
         x, y = xy[s.index]
         fill = colour.get(s.ligand, "#000")
         out.append(
-            f'<circle cx="{_num(x)}" cy="{_num(y)}" r="6" fill="{fill}" stroke="#000" stroke-width="1"><title>site {s.index + 1}: {_e(s.ligand)} ({_e(s.donor)})</title></circle>'
+            f'<circle cx="{_num(x)}" cy="{_num(y)}" r="6" fill="{fill}" stroke="#000" stroke-width="1">'
+            f"<title>site {s.index + 1}: {_e(s.ligand)} ({_e(s.donor)})</title></circle>"
         )
         text = s.donor if s.index in linked else s.ligand
         dx, dy = x - c, y - c
@@ -208,148 +234,26 @@ def _label(x: float, y: float, text: str, size: int, italic: bool = False, grey:
 
 
 # ---------------------------------------------------------------- spectra
-def spectrum_svg(bands: Sequence[Any], label: str = "", width: int = 340, height: int = 150) -> str:
-    """A small inline SVG stick spectrum (used when enumerator.render.plots
-    is not available).  Bands need .wavenumber, .intensity, .species."""
-    if not bands:
-        return ""
-    wn = [float(b.wavenumber) for b in bands]
-    lo, hi = min(wn) - 40, max(wn) + 40
-    left, right, top, bottom = 34, width - 10, 12, height - 30
-
-    def X(w: float) -> float:  # wavenumber axis decreasing to the right (IR convention)
-        return left + (hi - w) / (hi - lo) * (right - left)
-
-    out = [
-        f'<svg xmlns="http://www.w3.org/2000/svg" viewBox="0 0 {width} {height}" role="img" aria-label="predicted stick spectrum {_e(label)}">',
-        f'<rect x="0" y="0" width="{width}" height="{height}" fill="#fff"/>',
-        f'<line x1="{left}" y1="{bottom}" x2="{right}" y2="{bottom}" stroke="#000"/>',
-        f'<line x1="{left}" y1="{top}" x2="{left}" y2="{bottom}" stroke="#000"/>',
-    ]
-    step = 50 if hi - lo > 150 else 20
-    t = math.ceil(lo / step) * step
-    while t <= hi:
-        out.append(f'<line x1="{_num(X(t))}" y1="{bottom}" x2="{_num(X(t))}" y2="{bottom + 4}" stroke="#000"/>')
-        out.append(f'<text x="{_num(X(t))}" y="{bottom + 15}" font-size="9" text-anchor="middle">{t}</text>')
-        t += step
-    out.append(
-        f'<text x="{(left + right) / 2:.1f}" y="{height - 3}" font-size="9" text-anchor="middle">wavenumber / cm\u207b\u00b9 {_e(label)}</text>'
+def _spectrum_html(iso_id: str, spec: ClassSpectrum) -> str:
+    cls = spec.reporter_class
+    if spec.pattern is None:
+        return f'<p class="meta">{_e(cls)} bands: not predicted ({_e(spec.error)})</p>'
+    bands = spec.pattern.bands
+    data = base64.b64encode(stick_spectrum(bands, fmt="svg")).decode("ascii")
+    img = (
+        f'<img alt="predicted {_e(cls)} stick spectrum of isomer {_e(iso_id)}" src="data:image/svg+xml;base64,{data}">'
     )
-    for b in bands:
-        x = X(float(b.wavenumber))
-        inten = max(0.0, min(1.0, float(b.intensity)))
-        y = bottom - inten * (bottom - top)
-        if inten > 0:
-            out.append(
-                f'<line x1="{_num(x)}" y1="{bottom}" x2="{_num(x)}" y2="{_num(y)}" stroke="#000" stroke-width="2"/>'
-            )
-        else:  # IR-forbidden: a dotted marker on the axis
-            out.append(
-                f'<line x1="{_num(x)}" y1="{bottom}" x2="{_num(x)}" y2="{bottom - 10}" stroke="#000" stroke-dasharray="2 2"/>'
-            )
-        out.append(
-            f'<text x="{_num(x)}" y="{_num(y - 3)}" font-size="8" text-anchor="middle">{_e(b.species or "")}</text>'
-        )
-    out.append("</svg>")
-    return "".join(out)
-
-
-def _spectra_html(iso: Isomer, rules) -> str:
-    try:
-        from enumerator.vibrations import predict_bands, reporter_classes
-    except ImportError:
-        return ""
-    from enumerator.errors import IsosieveError
-
-    parts = []
-    for cls in reporter_classes(iso):
-        try:
-            bands = predict_bands(iso, cls, rules=rules)
-        except IsosieveError as exc:
-            parts.append(f'<p class="meta">{_e(cls)} bands: not predicted ({_e(exc.line())})</p>')
-            continue
-        if not bands:
-            continue
-        img = ""
-        try:
-            from enumerator.render import plots  # issue 6
-
-            svg = plots.stick_spectrum(bands, fmt="svg")
-            data = base64.b64encode(svg if isinstance(svg, bytes) else str(svg).encode()).decode("ascii")
-            img = f'<img alt="predicted {_e(cls)} stick spectrum of isomer {_e(iso.id)}" src="data:image/svg+xml;base64,{data}">'
-        except (ImportError, AttributeError):  # plots module not (yet) present
-            img = spectrum_svg(bands, f"({cls})")
-        rows = "".join(
-            f"<tr><td>{_num(b.wavenumber, 0)}</td><td>{_e(b.species or '-')}</td><td>{_num(b.intensity, 2)}</td></tr>"
-            for b in bands
-        )
-        parts.append(
-            f'<div class="spec"><h3>predicted {_e(cls)} stretches</h3>{img}'
-            f"<table><tr><th>cm\u207b\u00b9</th><th>species</th><th>rel. IR intensity</th></tr>{rows}</table></div>"
-        )
-    return "".join(parts)
+    rows = "".join(
+        f"<tr><td>{_num(b.wavenumber, 0)}</td><td>{_e(b.species or '-')}</td><td>{_num(b.intensity, 2)}</td></tr>"
+        for b in bands
+    )
+    return (
+        f'<div class="spec"><h3>predicted {_e(cls)} stretches</h3>{img}'
+        f"<table><tr><th>cm\u207b\u00b9</th><th>species</th><th>rel. IR intensity</th></tr>{rows}</table></div>"
+    )
 
 
 # ---------------------------------------------------------------- tables
-def table_rows(res: Result) -> tuple[list[str], list[list[str]]]:
-    """The isomer table shown in the report (also written as CSV / LaTeX)."""
-    from enumerator.render.text import isomer_rows
-
-    return isomer_rows(res)
-
-
-def tables_csv(res: Result) -> str:
-    import csv
-    import io
-
-    buf = io.StringIO()
-    w = csv.writer(buf, lineterminator="\n")
-    header, rows = table_rows(res)
-    w.writerow(header)
-    w.writerows(rows)
-    return buf.getvalue()
-
-
-_TEX = {
-    "\\": r"\textbackslash{}",
-    "&": r"\&",
-    "%": r"\%",
-    "$": r"\$",
-    "#": r"\#",
-    "_": r"\_",
-    "{": r"\{",
-    "}": r"\}",
-    "~": r"\textasciitilde{}",
-    "^": r"\textasciicircum{}",
-}
-
-
-def _tex(s: str) -> str:
-    return "".join(_TEX.get(ch, ch) for ch in str(s))
-
-
-def tables_latex(res: Result) -> str:
-    """The isomer table as a LaTeX tabular (booktabs), columns' own LaTeX
-    cells where an analysis gives them."""
-    extra = result_columns(res)
-    header, rows = table_rows(res)
-    lines = [
-        f"% isomers of {_tex(res.composition.formula)} on {_tex(res.geometry.symbol)}; needs \\usepackage{{booktabs}}",
-        "\\begin{tabular}{" + "l" * len(header) + "}",
-        "\\toprule",
-        " & ".join(_tex(h) for h in header) + r" \\",
-        "\\midrule",
-    ]
-    for iso, row in zip(res.isomers, rows):
-        cells = [_tex(x) for x in row]
-        for k, col in enumerate(extra):
-            if col.latex is not None and iso.id in col.latex:
-                cells[4 + k] = col.latex[iso.id]
-        lines.append(" & ".join(cells) + r" \\")
-    lines += ["\\bottomrule", "\\end{tabular}", ""]
-    return "\n".join(lines)
-
-
 def _table_html(header: Sequence[str], rows: Sequence[Sequence[str]]) -> str:
     head = "".join(f"<th>{_e(h)}</th>" for h in header)
     body = "".join("<tr>" + "".join(f"<td>{_e(c)}</td>" for c in r) + "</tr>" for r in rows)
@@ -395,11 +299,10 @@ def _short(label: str) -> str:
     return {"ir": "IR", "raman": "Raman", "nmr": "NMR"}.get(low, label)
 
 
-def pair_grid_html(ids: Sequence[str], pairs: Any) -> str:
-    """The pair matrix: each cell names the techniques that tell the two
-    isomers apart ('none' hatched when none does)."""
-    cells: dict[tuple[str, str], list[str]] = {}
-    notes: dict[tuple[str, str], str] = {}
+def _pair_entries(pairs: Any) -> list[Mapping[str, Any]]:
+    """The pair entries of a list, or of a mapping keyed "a|b" (the pair then read from the key)."""
+    if isinstance(pairs, (list, tuple)):
+        return [e for e in pairs if isinstance(e, Mapping)]
     entries: list[Mapping[str, Any]] = []
     if isinstance(pairs, Mapping):
         for k, v in pairs.items():
@@ -409,8 +312,17 @@ def pair_grid_html(ids: Sequence[str], pairs: Any) -> str:
                     a, _, b = str(k).replace("|", "/").replace(",", "/").partition("/")
                     e["pair"] = [a.strip(), b.strip()]
                 entries.append(e)
-    elif isinstance(pairs, (list, tuple)):
-        entries = [e for e in pairs if isinstance(e, Mapping)]
+    return entries
+
+
+Cells = dict[tuple[str, str], list[str]]
+Notes = dict[tuple[str, str], str]
+
+
+def _pair_cells(entries: Sequence[Mapping[str, Any]]) -> tuple[Cells, Notes]:
+    """The techniques (IR, Raman, NMR first) and the note of each pair, both ways round."""
+    cells: Cells = {}
+    notes: Notes = {}
     for e in entries:
         ab = _pair_ids(e)
         if ab is None:
@@ -423,31 +335,50 @@ def pair_grid_html(ids: Sequence[str], pairs: Any) -> str:
         note = e.get("note") or e.get("reason") or ""
         if note:
             notes[ab] = notes[(ab[1], ab[0])] = str(note)
+    return cells, notes
+
+
+def _grid_cell(a: str, b: str, cells: Cells, notes: Notes) -> str:
+    if a == b:
+        return '<td class="self">\u2014</td>'
+    d = cells.get((a, b))
+    if d is None:
+        return '<td class="na">n/a</td>'
+    text = " + ".join(d) if d else "none"
+    if not d and (a, b) in notes:
+        text += f" ({notes[(a, b)]})"
+    tip = f' title="{_e(notes[(a, b)])}"' if (a, b) in notes else ""
+    return f'<td class="d{min(len(d), 3)}"{tip}>{_e(text)}</td>'
+
+
+def pair_grid_html(ids: Sequence[str], pairs: Any) -> str:
+    """The pair matrix: each cell names the techniques that tell the two isomers apart ('none' hatched when
+    none does), so it reads without colour.
+
+    Parameters
+    ----------
+    ids : sequence of str
+        The isomer ids, in table order.
+    pairs : list or mapping
+        The top-level ``pairs`` of a result: entries ``{"a", "b", "ir_distinct", "raman_distinct",
+        "nmr_distinct", "note"}``; ``distinguished_by`` lists and mappings keyed "a|b" are read too.
+
+    Returns
+    -------
+    str
+        The grid and its legend, or '' when no entry names a pair.
+    """
+    cells, notes = _pair_cells(_pair_entries(pairs))
     if not cells:
         return ""
     head = "".join(f"<th>{_e(i)}</th>" for i in ids)
-    rows = []
-    for a in ids:
-        tds = []
-        for b in ids:
-            if a == b:
-                tds.append('<td class="self">\u2014</td>')
-                continue
-            d = cells.get((a, b))
-            if d is None:
-                tds.append('<td class="na">n/a</td>')
-                continue
-            cls = f"d{min(len(d), 3)}"
-            text = " + ".join(d) if d else "none"
-            if not d and (a, b) in notes:
-                text += f" ({notes[(a, b)]})"
-            tip = f' title="{_e(notes[(a, b)])}"' if (a, b) in notes else ""
-            tds.append(f'<td class="{cls}"{tip}>{_e(text)}</td>')
-        rows.append(f"<tr><th>{_e(a)}</th>{''.join(tds)}</tr>")
+    rows = [f"<tr><th>{_e(a)}</th>{''.join(_grid_cell(a, b, cells, notes) for b in ids)}</tr>" for a in ids]
     legend = (
-        '<p class="legend"><span class="d0" style="background:repeating-linear-gradient(45deg,#fff 0 4px,#bbb 4px 6px)">none (hatched): '
+        '<p class="legend"><span class="d0" '
+        'style="background:repeating-linear-gradient(45deg,#fff 0 4px,#bbb 4px 6px)">none (hatched): '
         'not distinguishable</span><span style="background:#fde0c5">one technique</span>'
-        '<span style="background:#f59e5a">two</span><span style="background:#a4471a;color:#fff">three or more</span></p>'
+        '<span style="background:#f59e5a">two</span>'
+        '<span style="background:#a4471a;color:#fff">three or more</span></p>'
     )
     return (
         '<table class="grid"><thead><tr><th>isomer</th>'
@@ -503,70 +434,66 @@ def _is_caution(title: str) -> bool:
 
 
 # ---------------------------------------------------------------- page
-def _complex_html(n: int, res: Result, rules) -> tuple[str, list[str]]:
-    comp = res.composition
-    iso_set = res.isomer_set
-    kinds = [k.name for k in comp.kinds]
+def _caution_blocks(c: ReportComplex) -> tuple[list[str], list[str]]:
+    """(boxed caution blocks, other section blocks) of one complex.
+
+    Sections whose title speaks of safety are boxed; when the pipeline attached none, the cautions of the
+    composition are boxed instead."""
     cautions: list[str] = []
     sections: list[str] = []
-    for sec in result_sections(res):
+    for sec in result_sections(c.result):
         block = f"<h3>{_e(sec.title)}</h3><pre>{_e(sec.text)}</pre>"
-        if _is_caution(sec.title):
-            cautions.append(block)
-        else:
-            sections.append(block)
-    if not cautions:  # the safety stage did not run: ask the safety module directly
-        lines = safety_cautions(comp)
-        if lines:
-            cautions.append("<h3>Safety</h3><pre>" + _e("\n".join(f"- {x}" for x in lines)) + "</pre>")
-    top: dict[str, Any] = {}
-    for a in res.analyses:
-        top.update(a.top_json())
-    per: dict[str, dict[str, Any]] = {i.id: {} for i in res.isomers}
-    for a in res.analyses:
-        for i in res.isomers:
-            per[i.id].update(a.isomer_json(i.id))
+        (cautions if _is_caution(sec.title) else sections).append(block)
+    if not cautions and c.cautions:
+        cautions.append("<h3>Safety</h3><pre>" + _e("\n".join(f"- {x}" for x in c.cautions)) + "</pre>")
+    return cautions, sections
 
-    out = [f'<section id="complex-{n}"><h2>{n}. {_e(comp.formula)}</h2>']
-    out.append(
+
+def _meta_html(res: Result) -> list[str]:
+    iso_set = res.isomer_set
+    out = [
         f'<p class="meta">geometry {_e(res.geometry.symbol)} ({_e(res.geometry.name)}): {_e(res.geometry_reason)}<br>'
         f"{iso_set.geometric_isomers} geometric isomer(s), {iso_set.stereoisomers} stereoisomer(s)"
         + ("" if iso_set.complete else " (list stopped at the limit)")
         + "</p>"
-    )
+    ]
     if res.geometry.fluxional:
         out.append(
-            '<p class="meta">This polyhedron is marked fluxional: isomers may interconvert in solution on the NMR time scale.</p>'
+            '<p class="meta">This polyhedron is marked fluxional: '
+            "isomers may interconvert in solution on the NMR time scale.</p>"
         )
-    for note in res.notes:
-        out.append(f'<p class="meta">note: {_e(note)}</p>')
-    out += [f'<div class="caution">{c}</div>' for c in cautions]
-    header, rows = table_rows(res)
-    out.append(_table_html(header, rows))
-    out.append('<div class="cards">')
-    for iso in res.isomers:
-        data = per[iso.id]
-        dl = [
-            ("point group", iso.point_group),
-            ("chiral", ("yes, enantiomer " + (iso.enantiomer or "?")) if iso.chiral else "no"),
-        ]
-        desc = _descriptor_text(data.get("descriptor"))
-        if desc:
-            dl.append(("IUPAC descriptor", desc))
-        body = "".join(f"<dt>{_e(k)}</dt><dd>{_e(v)}</dd>" for k, v in dl)
-        for key, value in data.items():
-            if key == "descriptor" and desc:
-                continue
-            label = "stretch species and band counts" if key == "modes" else key.replace("_", " ")
-            body += f"<dt>{_e(label)}</dt><dd>{_value_html(value)}</dd>"
-        out.append(
-            f'<div class="card" id="c{n}-isomer-{_e(iso.id)}"><h3>isomer {_e(iso.id)}</h3>'
-            + polyhedron_svg(iso, kinds, comp.metal)
-            + f"<dl>{body}</dl>"
-            + f'<div class="specs">{_spectra_html(iso, rules)}</div>'
-            + "</div>"
-        )
-    out.append("</div>")
+    out += [f'<p class="meta">note: {_e(note)}</p>' for note in res.notes]
+    return out
+
+
+def _card_html(n: int, iso: Isomer, data: Mapping[str, Any], spectra: IsomerSpectra, res: Result) -> str:
+    comp = res.composition
+    dl = [
+        ("point group", iso.point_group),
+        ("chiral", ("yes, enantiomer " + (iso.enantiomer or "?")) if iso.chiral else "no"),
+    ]
+    desc = _descriptor_text(data.get("descriptor"))
+    if desc:
+        dl.append(("IUPAC descriptor", desc))
+    body = "".join(f"<dt>{_e(k)}</dt><dd>{_e(v)}</dd>" for k, v in dl)
+    for key, value in data.items():
+        if key == "descriptor" and desc:
+            continue
+        label = "stretch species and band counts" if key == "modes" else key.replace("_", " ")
+        body += f"<dt>{_e(label)}</dt><dd>{_value_html(value)}</dd>"
+    specs = "".join(_spectrum_html(iso.id, spec) for spec in spectra.classes)
+    return (
+        f'<div class="card" id="c{n}-isomer-{_e(iso.id)}"><h3>isomer {_e(iso.id)}</h3>'
+        + polyhedron_svg(iso, [k.name for k in comp.kinds], comp.metal)
+        + f"<dl>{body}</dl>"
+        + f'<div class="specs">{specs}</div>'
+        + "</div>"
+    )
+
+
+def _top_html(res: Result, top: Mapping[str, Any], boxed: bool) -> list[str]:
+    """The pair grid and the other top-level keys of the analyses (caution keys left out when boxed)."""
+    out = []
     if "pairs" in top:
         grid = pair_grid_html([i.id for i in res.isomers], top["pairs"])
         if grid:
@@ -574,48 +501,90 @@ def _complex_html(n: int, res: Result, rules) -> tuple[str, list[str]]:
         else:
             out.append("<h3>Isomer pairs</h3>" + _value_html(top["pairs"]))
     for key, value in top.items():
-        if key == "pairs" or (cautions and _is_caution(key)):
+        if key == "pairs" or (boxed and _is_caution(key)):
             continue
         out.append(f"<h3>{_e(key.replace('_', ' '))}</h3><div>{_value_html(value)}</div>")
+    return out
+
+
+def _complex_html(c: ReportComplex) -> str:
+    res, n = c.result, c.number
+    cautions, sections = _caution_blocks(c)
+    top: dict[str, Any] = {}
+    per: dict[str, dict[str, Any]] = {i.id: {} for i in res.isomers}
+    for a in res.analyses:
+        top.update(a.top_json())
+        for i in res.isomers:
+            per[i.id].update(a.isomer_json(i.id))
+    out = [f'<section id="complex-{n}"><h2>{n}. {_e(res.composition.formula)}</h2>', *_meta_html(res)]
+    out += [f'<div class="caution">{x}</div>' for x in cautions]
+    out.append(_table_html(*isomer_rows(res)))
+    out.append('<div class="cards">')
+    out += [_card_html(n, i, per[i.id], s, res) for i, s in zip(res.isomers, c.spectra)]
+    out.append("</div>")
+    out += _top_html(res, top, bool(cautions))
     out += sections
     out.append("</section>")
-    return "".join(out), cautions
+    return "".join(out)
 
 
-def render_report(
-    results: Iterable[Result], *, title: str = "isosieve report", rules=None, files: Sequence[str] = ()
-) -> str:
-    """The whole HTML page for the given results (one section per complex).
+def render_report(report: Report) -> str:
+    """The whole HTML page of a report (one section per complex).
 
-    ``rules`` is passed on to the band prediction; ``files`` lists the
-    companion table files to mention in the page."""
-    results = list(results)
-    blocks = [_complex_html(n, res, rules)[0] for n, res in enumerate(results, 1)]
-    toc = "".join(f'<li><a href="#complex-{n}">{_e(r.composition.formula)}</a></li>' for n, r in enumerate(results, 1))
+    Parameters
+    ----------
+    report : Report
+        Built by :func:`enumerator.workflow.report.build_report`.
+
+    Returns
+    -------
+    str
+        The page, ending in a newline.
+    """
+    toc = "".join(
+        f'<li><a href="#complex-{c.number}">{_e(c.result.composition.formula)}</a></li>' for c in report.complexes
+    )
     head = [
         "<!DOCTYPE html>",
         '<html lang="en"><head><meta charset="utf-8">',
         '<meta name="viewport" content="width=device-width, initial-scale=1">',
-        f"<title>{_e(title)}</title>",
+        f"<title>{_e(report.title)}</title>",
         f"<style>{_CSS}</style></head><body>",
-        f"<h1>{_e(title)}</h1>",
+        f"<h1>{_e(report.title)}</h1>",
         '<p class="meta">Ideal-polyhedron isomers, point groups, stretching-mode species and predicted bands. '
-        "Drawings are projections of the ideal polyhedron (dashed edges are at the back; small numbers are site numbers). "
-        "Band positions come from an energy-factored force field and are estimates, not measurements.</p>",
+        "Drawings are projections of the ideal polyhedron (dashed edges are at the back; small numbers are site "
+        "numbers). Band positions come from an energy-factored force field and are estimates, not measurements.</p>",
     ]
-    if files:
+    if report.files:
         head.append(
-            '<p class="meta">Tables also written as: ' + ", ".join(f"<code>{_e(f)}</code>" for f in files) + "</p>"
+            '<p class="meta">Tables also written as: '
+            + ", ".join(f"<code>{_e(f)}</code>" for f in report.files)
+            + "</p>"
         )
     head.append(f"<nav><ol>{toc}</ol></nav>")
-    tail = [f"<footer>written by isosieve {_e(_version())}</footer></body></html>", ""]
+    blocks = [_complex_html(c) for c in report.complexes]
+    tail = [f"<footer>written by isosieve {_e(report.version)}</footer></body></html>", ""]
     return "\n".join(head + blocks + tail)
 
 
-def _version() -> str:
-    try:
-        from importlib.metadata import version
+def report_files(report: Report) -> list[tuple[str, str]]:
+    """Every file of the report: each complex's CSV and LaTeX table, then ``report.html``.
 
-        return version("isosieve")
-    except Exception:  # pragma: no cover - not installed
-        return "(development)"
+    The tables are the ones ``isosieve isomers --format csv|latex`` writes
+    (:func:`enumerator.render.tables.csv`, :func:`enumerator.render.tables.latex`).
+
+    Parameters
+    ----------
+    report : Report
+
+    Returns
+    -------
+    list of (str, str)
+        File name and text, in the order to write them.
+    """
+    out = []
+    for c in report.complexes:
+        csv_name, tex_name = c.files
+        out += [(csv_name, tables.csv(c.result)), (tex_name, tables.latex(c.result))]
+    out.append(("report.html", render_report(report)))
+    return out

@@ -25,6 +25,7 @@ from __future__ import annotations
 from collections.abc import Mapping
 from dataclasses import dataclass
 from functools import singledispatch
+from types import MappingProxyType
 
 from enumerator.analyses.centre import CentreAnalysis, ElectronCount
 from enumerator.analyses.descriptors import DescriptorAnalysis
@@ -214,7 +215,7 @@ def centre_sections(a: CentreAnalysis) -> tuple[Section, ...]:
 
 # ---------------------------------------------------------------- descriptors
 
-_SYMBOL_LATEX = {"Delta": r"$\Delta$", "Lambda": r"$\Lambda$"}
+_SYMBOL_LATEX = MappingProxyType({"Delta": r"$\Delta$", "Lambda": r"$\Lambda$"})
 
 
 @columns.register(DescriptorAnalysis)

@@ -21,32 +21,35 @@ species strings and plain text made safe.
 from __future__ import annotations
 
 import re
+from types import MappingProxyType
 
 __all__ = ["latex_symbol", "latex_species", "latex_escape", "markdown_symbol"]
 
 _GROUP = re.compile(r"^(Dinf|Cinf|[CDSTOI])(\d*)([a-z]*)$")
 _IRREP = re.compile(r"^(Sigma|Delta|Pi|Phi|[ABETGH])_?(\d*)([gu]?)((?:'{1,2})?)([+-]?)$")
-_GREEK = {"Sigma": r"\Sigma", "Pi": r"\Pi", "Delta": r"\Delta", "Phi": r"\Phi"}
-_ESCAPES = {
-    "\\": r"\textbackslash{}",
-    "&": r"\&",
-    "%": r"\%",
-    "$": r"\$",
-    "#": r"\#",
-    "_": r"\_",
-    "{": r"\{",
-    "}": r"\}",
-    "~": r"\textasciitilde{}",
-    "^": r"\textasciicircum{}",
-    "η": r"$\eta$",
-    "×": r"$\times$",
-    "κ": r"$\kappa$",
-    "′": r"$'$",
-    "″": r"$''$",
-    "Δ": r"$\Delta$",
-    "Λ": r"$\Lambda$",
-    "−": r"$-$",
-}
+_GREEK = MappingProxyType({"Sigma": r"\Sigma", "Pi": r"\Pi", "Delta": r"\Delta", "Phi": r"\Phi"})
+_ESCAPES = MappingProxyType(
+    {
+        "\\": r"\textbackslash{}",
+        "&": r"\&",
+        "%": r"\%",
+        "$": r"\$",
+        "#": r"\#",
+        "_": r"\_",
+        "{": r"\{",
+        "}": r"\}",
+        "~": r"\textasciitilde{}",
+        "^": r"\textasciicircum{}",
+        "η": r"$\eta$",
+        "×": r"$\times$",
+        "κ": r"$\kappa$",
+        "′": r"$'$",
+        "″": r"$''$",
+        "Δ": r"$\Delta$",
+        "Λ": r"$\Lambda$",
+        "−": r"$-$",
+    }
+)
 
 
 def latex_escape(text: str) -> str:

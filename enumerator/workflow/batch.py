@@ -1,4 +1,4 @@
-"""Screen many formulas: one :class:`BatchRow` per input, in input order.
+"""Screen many formulas: one :class:`BatchRow` per input, in input order, gathered in a :class:`BatchResult`.
 
 Each formula is parsed and its centre counted in the calling process
 (cheap); the isomers are enumerated once per *pattern* -- the composition
@@ -9,23 +9,55 @@ nothing.  With ``workers > 1`` the distinct patterns run in a
 ``concurrent.futures.ProcessPoolExecutor``; the rows still come out in
 input order.  A bad formula becomes a row with ``error`` set; the rest go on.
 
+:func:`screen` yields the rows one by one; :func:`run_batch` collects them
+into a :class:`BatchResult` (whose ``to_dict()`` is the JSON of ``isosieve
+batch --format json``) and :func:`screen_file` reads the formulas from a
+file first (:func:`enumerator.parse.batch.read_formulas`).  The text, CSV
+and Markdown tables are drawn by :mod:`enumerator.render.batch`.
+
 >>> rows = list(screen(["Ma4b2", "[Co(NH3)4Cl2]+", "[Xx(CO)6]"]))
 >>> [(r.formula, r.geometric_isomers, r.cached) for r in rows[:2]]
 [('Ma4b2', 2, False), ('[Co(NH3)4Cl2]+', 2, True)]
 >>> rows[2].error.startswith("formula '[Xx(CO)6]'")
 True
+>>> run_batch(["Ma5b"]).to_dict()["rows"][0]["isomers"]
+[{'id': '1', 'point_group': 'C4v'}]
 """
 
 from __future__ import annotations
 
-from collections.abc import Iterable, Iterator
-from dataclasses import dataclass
+from collections.abc import Iterable, Iterator, Sequence
+from concurrent.futures import Future
+from dataclasses import dataclass, field, replace
 from typing import Any
 
+from enumerator.analyses.centre import count_electrons
+from enumerator.analyses.safety import cautions
+from enumerator.analyses.stretch import StretchAnalysis
 from enumerator.errors import IsosieveError
 from enumerator.model.composition import Composition
+from enumerator.parse.batch import read_formulas
+from enumerator.workflow.pipeline import Request, prepare, run
+from enumerator.workflow.result import Result
 
-__all__ = ["BatchRow", "screen", "pattern_key", "row_to_dict", "HEADER", "row_cells"]
+__all__ = ["BatchRow", "BatchResult", "PatternSummary", "screen", "run_batch", "screen_file", "pattern_key"]
+
+#: (isomer id, point group) per stereoisomer.
+PointGroups = tuple[tuple[str, str], ...]
+#: (isomer id, reporter class, IR-active band count) per isomer and class.
+IRBands = tuple[tuple[str, str, int], ...]
+
+
+@dataclass(frozen=True)
+class PatternSummary:
+    """What one enumeration of a pattern gives every row that shares it (or the error it raised)."""
+
+    geometric_isomers: int | None = None
+    stereoisomers: int | None = None
+    complete: bool = True
+    point_groups: PointGroups = ()
+    ir_bands: IRBands = ()
+    error: str | None = None
 
 
 @dataclass(frozen=True)
@@ -47,20 +79,70 @@ class BatchRow:
     stereoisomers: int | None = None
     complete: bool = True
     #: (isomer id, point group) per stereoisomer
-    point_groups: tuple[tuple[str, str], ...] = ()
+    point_groups: PointGroups = ()
     #: (isomer id, reporter class, IR-active band count), when the stretch analysis ran
-    ir_bands: tuple[tuple[str, str, int], ...] = ()
+    ir_bands: IRBands = ()
     safety: bool = False
     cached: bool = False
+
+    def to_dict(self) -> dict[str, Any]:
+        """The JSON object of the row (``index`` counts from 1)."""
+        return {
+            "index": self.index + 1,
+            "label": self.label,
+            "formula": self.formula,
+            "error": self.error,
+            "metal": self.metal,
+            "charge": self.charge,
+            "oxidation_state": self.oxidation_state,
+            "d_electrons": self.d_electrons,
+            "valence_electrons": self.valence_electrons,
+            "geometry": self.geometry,
+            "geometry_reason": self.geometry_reason,
+            "geometric_isomers": self.geometric_isomers,
+            "stereoisomers": self.stereoisomers,
+            "complete": self.complete,
+            "isomers": [{"id": i, "point_group": g} for i, g in self.point_groups],
+            "ir_bands": [{"isomer": i, "class": c, "ir": n} for i, c, n in self.ir_bands],
+            "safety": self.safety,
+            "cached": self.cached,
+        }
+
+
+@dataclass(frozen=True)
+class BatchResult:
+    """Every row of a screen, in input order."""
+
+    rows: tuple[BatchRow, ...] = field(default=())
+
+    @property
+    def failed(self) -> tuple[BatchRow, ...]:
+        """The rows that could not be analysed."""
+        return tuple(r for r in self.rows if r.error)
+
+    def to_dict(self) -> dict[str, Any]:
+        """The JSON document of ``isosieve batch --format json``: ``{"rows": [...]}``."""
+        return {"rows": [r.to_dict() for r in self.rows]}
 
 
 def pattern_key(comp: Composition, geometry: str, limit: int | None = None) -> tuple:
     """Cache key: what decides the isomers and their band counts.
 
-    ``Composition.pattern`` with each kind's donor labels renamed a, b, c by
-    first appearance within that kind (different kinds are never
-    interchanged, so only the pattern within a kind matters), plus each
-    kind's reporter class, the geometry and the limit."""
+    Parameters
+    ----------
+    comp : Composition
+    geometry : str
+        Polyhedral symbol.
+    limit : int, optional
+        The stereoisomer limit.
+
+    Returns
+    -------
+    tuple
+        ``Composition.parts`` with each kind's donor labels renamed a, b, c by first appearance within that
+        kind (different kinds are never interchanged, so only the pattern within a kind matters), plus each
+        kind's ring flag, spans, arrangements, reporter class and count; the geometry and the limit.
+    """
     parts = []
     for k, n in comp.parts:
         ren: dict[str, str] = {}
@@ -69,176 +151,190 @@ def pattern_key(comp: Composition, geometry: str, limit: int | None = None) -> t
     return (tuple(parts), geometry, limit)
 
 
-def _enumerate(formula: str, geometry: str, rules: tuple[str, ...], limit: int | None) -> dict[str, Any]:
-    """Worker: run the pipeline for one representative formula; plain data back."""
-    from enumerator.workflow.pipeline import Request, run
-
-    res = run(Request(formula=formula, geometry=geometry, rules=rules, limit=limit))
-    doc = res.to_dict()
-    bands = []
-    for iso in doc["isomers"]:
-        for cls, m in sorted((iso.get("modes") or {}).items()):
-            if isinstance(m, dict) and isinstance(m.get("ir"), int):
-                bands.append((iso["id"], cls, m["ir"]))
-    return {
-        "geometric_isomers": doc["geometric_isomers"],
-        "stereoisomers": doc["stereoisomers"],
-        "complete": doc["complete"],
-        "point_groups": tuple((i["id"], i["point_group"]) for i in doc["isomers"]),
-        "ir_bands": tuple(bands),
-    }
+def _ir_bands(res: Result) -> IRBands:
+    a = res.analysis(StretchAnalysis)
+    if a is None:
+        return ()
+    out = []
+    for iso in res.isomers:
+        modes = a.modes[a.ids.index(iso.id)]
+        out += [(iso.id, m.reporter, m.ir) for m in sorted(modes, key=lambda m: m.reporter)]
+    return tuple(out)
 
 
-def _guard(formula: str, geometry: str, rules: tuple[str, ...], limit: int | None) -> dict[str, Any]:
+def _summarise(formula: str, geometry: str, rules: tuple[str, ...], limit: int | None) -> PatternSummary:
+    """Worker: run the pipeline for one representative formula and keep what a row shows."""
     try:
-        return _enumerate(formula, geometry, rules, limit)
+        res = run(Request(formula=formula, geometry=geometry, rules=rules, limit=limit))
     except IsosieveError as exc:
-        return {"error": exc.line()}
+        return PatternSummary(error=exc.line())
     except Exception as exc:  # an internal error stays in its row
-        return {"error": f"internal error: {type(exc).__name__}: {exc}"}
+        return PatternSummary(error=f"internal error: {type(exc).__name__}: {exc}")
+    iso = res.isomer_set
+    return PatternSummary(
+        geometric_isomers=iso.geometric_isomers,
+        stereoisomers=iso.stereoisomers,
+        complete=iso.complete,
+        point_groups=tuple((i.id, i.point_group) for i in iso.isomers),
+        ir_bands=_ir_bands(res),
+    )
 
 
-def _prepare(index: int, formula: str, label: str, geometry: str | None, rules: tuple[str, ...], limit: int | None):
-    from enumerator.analyses.centre import count_electrons
-    from enumerator.analyses.safety import cautions
-    from enumerator.workflow.pipeline import Request, prepare
-
+def _prepare(
+    index: int, formula: str, label: str, geometry: str | None, rules: tuple[str, ...], limit: int | None
+) -> tuple[BatchRow, tuple]:
+    """The row's centre data (no enumeration yet) and its pattern key."""
     comp, geo, reason = prepare(Request(formula=formula, geometry=geometry, rules=rules, limit=limit))
-    row = dict(
+    real = comp.metal != "M"
+    ec = count_electrons(comp) if real else None
+    row = BatchRow(
         index=index,
         formula=formula,
         label=label,
-        metal=comp.metal if comp.metal != "M" else None,
+        metal=comp.metal if real else None,
         charge=comp.charge,
+        oxidation_state=ec.oxidation_state if ec else None,
+        d_electrons=ec.d_electrons if ec else None,
+        valence_electrons=ec.valence_electrons if ec else None,
         geometry=geo.symbol,
         geometry_reason=reason,
         safety=bool(cautions(comp)),
     )
-    if comp.metal != "M":
-        ec = count_electrons(comp)
-        row.update(
-            oxidation_state=ec.oxidation_state, d_electrons=ec.d_electrons, valence_electrons=ec.valence_electrons
-        )
     return row, pattern_key(comp, geo.symbol, limit)
+
+
+def _with(row: BatchRow, summary: PatternSummary, cached: bool) -> BatchRow:
+    if summary.error is not None:
+        return replace(row, error=summary.error, cached=cached)
+    return replace(
+        row,
+        geometric_isomers=summary.geometric_isomers,
+        stereoisomers=summary.stereoisomers,
+        complete=summary.complete,
+        point_groups=summary.point_groups,
+        ir_bands=summary.ir_bands,
+        cached=cached,
+    )
+
+
+def _items(formulas: Iterable[str | tuple[str, str]]) -> list[tuple[int, str, str]]:
+    out = []
+    for k, f in enumerate(formulas):
+        formula, label = (f, "") if isinstance(f, str) else (f[0], f[1])
+        out.append((k, formula.strip(), label))
+    return out
 
 
 def screen(
     formulas: Iterable[str | tuple[str, str]],
     *,
-    rules: tuple[str, ...] = (),
+    rules: Sequence[str] = (),
     workers: int = 1,
     geometry: str | None = None,
     limit: int | None = None,
 ) -> Iterator[BatchRow]:
-    """One row per formula (or (formula, label) pair), in input order."""
-    items = []
-    for k, f in enumerate(formulas):
-        formula, label = (f, "") if isinstance(f, str) else (f[0], f[1])
-        items.append((k, formula.strip(), label))
-    prepared: list[tuple[dict | None, tuple | None, str | None]] = []
-    for k, formula, label in items:
+    """One row per formula (or (formula, label) pair), in input order.
+
+    Parameters
+    ----------
+    formulas : iterable of str or (str, str)
+        Formulas, or (formula, label) pairs.
+    rules : sequence of str
+        Rule folders in force (``--rules DIR``).
+    workers : int
+        Processes for the distinct patterns (1: all in this process).
+    geometry : str, optional
+        One geometry for every formula (default: chosen per formula).
+    limit : int, optional
+        Stop each enumeration after this many stereoisomers.
+
+    Yields
+    ------
+    BatchRow
+        ``error`` set for a formula that cannot be read or analysed; ``cached`` when an earlier row had the
+        same pattern.
+    """
+    rules = tuple(rules)
+    prepared: list[tuple[BatchRow, tuple | None]] = []
+    for k, formula, label in _items(formulas):
         try:
-            row, key = _prepare(k, formula, label, geometry, tuple(rules), limit)
-            prepared.append((row, key, None))
+            prepared.append(_prepare(k, formula, label, geometry, rules, limit))
         except IsosieveError as exc:
-            prepared.append(({"index": k, "formula": formula, "label": label}, None, exc.line()))
+            prepared.append((BatchRow(k, formula, label, error=exc.line()), None))
     first: dict[tuple, str] = {}
-    for row, key, err in prepared:
+    for row, key in prepared:
         if key is not None and key not in first:
-            first[key] = row["formula"]  # type: ignore[index]
-    done: dict[tuple, Any] = {}
+            first[key] = row.formula
+    done: dict[tuple, PatternSummary | Future[PatternSummary]] = {}
     pool = None
     if workers > 1 and len(first) > 1:
         from concurrent.futures import ProcessPoolExecutor
 
         pool = ProcessPoolExecutor(max_workers=workers)
         for key, formula in first.items():
-            done[key] = pool.submit(_guard, formula, key[1], tuple(rules), limit)
+            done[key] = pool.submit(_summarise, formula, key[1], rules, limit)
     try:
         seen: set[tuple] = set()
-        for row, key, err in prepared:
-            assert row is not None
-            if err is not None or key is None:
-                yield BatchRow(**row, error=err)
+        for row, key in prepared:
+            if key is None:
+                yield row
                 continue
-            if key not in done:
-                done[key] = _guard(first[key], key[1], tuple(rules), limit)
-            value = done[key]
-            if hasattr(value, "result"):
-                value = value.result()
-                done[key] = value
-            cached = key in seen
+            value = done[key] if key in done else _summarise(first[key], key[1], rules, limit)
+            summary = value.result() if isinstance(value, Future) else value
+            done[key] = summary
+            yield _with(row, summary, key in seen)
             seen.add(key)
-            if "error" in value:
-                yield BatchRow(**row, error=value["error"], cached=cached)
-            else:
-                yield BatchRow(**row, **value, cached=cached)
     finally:
         if pool is not None:
             pool.shutdown(cancel_futures=True)
 
 
-#: Column headers of the batch table (text, CSV).
-HEADER = [
-    "#",
-    "label",
-    "formula",
-    "metal",
-    "oxidation state",
-    "d",
-    "VE",
-    "geometry",
-    "geometric isomers",
-    "stereoisomers",
-    "point groups",
-    "IR bands",
-    "error",
-]
+def run_batch(
+    formulas: Iterable[str | tuple[str, str]],
+    *,
+    rules: Sequence[str] = (),
+    workers: int = 1,
+    geometry: str | None = None,
+    limit: int | None = None,
+) -> BatchResult:
+    """Every row of :func:`screen`, collected.
+
+    Parameters
+    ----------
+    formulas, rules, workers, geometry, limit
+        As for :func:`screen`.
+
+    Returns
+    -------
+    BatchResult
+    """
+    return BatchResult(tuple(screen(formulas, rules=rules, workers=workers, geometry=geometry, limit=limit)))
 
 
-def _s(x: Any) -> str:
-    return "" if x is None else str(x)
+def screen_file(
+    path: str,
+    *,
+    rules: Sequence[str] = (),
+    workers: int = 1,
+    geometry: str | None = None,
+    limit: int | None = None,
+) -> BatchResult:
+    """Read the formulas of a batch file and screen them.
 
+    Parameters
+    ----------
+    path : str
+        One formula a line ('#' comments), or a CSV file with a 'formula' (and optional 'label') column.
+    rules, workers, geometry, limit
+        As for :func:`screen`.
 
-def row_cells(r: BatchRow) -> list[str]:
-    pgs = " ".join(f"{i}:{g}" for i, g in r.point_groups)
-    bands = " ".join(f"{i}:{c}={n}" for i, c, n in r.ir_bands)
-    return [
-        str(r.index + 1),
-        r.label,
-        r.formula,
-        _s(r.metal),
-        _s(r.oxidation_state),
-        _s(r.d_electrons),
-        _s(r.valence_electrons),
-        _s(r.geometry),
-        _s(r.geometric_isomers),
-        _s(r.stereoisomers),
-        pgs,
-        bands,
-        r.error or "",
-    ]
+    Returns
+    -------
+    BatchResult
 
-
-def row_to_dict(r: BatchRow) -> dict[str, Any]:
-    """The JSON object of one row."""
-    return {
-        "index": r.index + 1,
-        "label": r.label,
-        "formula": r.formula,
-        "error": r.error,
-        "metal": r.metal,
-        "charge": r.charge,
-        "oxidation_state": r.oxidation_state,
-        "d_electrons": r.d_electrons,
-        "valence_electrons": r.valence_electrons,
-        "geometry": r.geometry,
-        "geometry_reason": r.geometry_reason,
-        "geometric_isomers": r.geometric_isomers,
-        "stereoisomers": r.stereoisomers,
-        "complete": r.complete,
-        "isomers": [{"id": i, "point_group": g} for i, g in r.point_groups],
-        "ir_bands": [{"isomer": i, "class": c, "ir": n} for i, c, n in r.ir_bands],
-        "safety": r.safety,
-        "cached": r.cached,
-    }
+    Raises
+    ------
+    InputError
+        The file cannot be read or holds no formulas.
+    """
+    return run_batch(read_formulas(path), rules=rules, workers=workers, geometry=geometry, limit=limit)

@@ -1,211 +1,108 @@
-"""Job files: several complexes with their options in one TOML file.
+"""Running a job file: every complex analysed, in file order, as one :class:`JobResult`.
 
-::
+A job is read and checked by :mod:`enumerator.parse.job`; :func:`run_job`
+runs each entry's request through the pipeline and :func:`run_job_file` does
+both in one call.  The result's ``to_dict()`` is the JSON of ``isosieve job
+--format json``; :mod:`enumerator.render.job` writes its other formats and
+the files its ``[[output]]`` tables ask for.
 
-    title = "Ru(II) dicarbonyl isomers"
-
-    [defaults]                 # optional, applies to every complex
-    geometry = "OC-6"
-
-    [[complex]]
-    label = "Ru-PPh3"
-    formula = "[RuCl2(CO)2(PPh3)2]"
-    # geometry = "OC-6"        spans = { dppe = "edge" }
-    # arrangements = { dien = "fac" }   reporters = { a = "CO" }
-    # limit = 100              options = { name = "value" }
-
-    [[output]]                 # optional: files written by `isosieve job FILE --write`
-    format = "markdown"        # table, markdown, csv, latex or json
-    file = "ru.md"             # relative to the job file's folder
-
-Everything is validated before anything runs; messages name the file, the
-entry and the key.
+>>> from enumerator.parse.job import parse_job
+>>> job = parse_job({"title": "t", "complex": [{"label": "x", "formula": "Ma5b"}]}, "job.toml")
+>>> r = run_job(job)
+>>> [(c.label, c.result.isomer_set.geometric_isomers) for c in r.complexes]
+[('x', 1)]
+>>> sorted(r.to_dict())
+['complexes', 'title']
 """
 
 from __future__ import annotations
 
 from collections.abc import Sequence
 from dataclasses import dataclass
-from pathlib import Path
 from typing import Any
 
 from enumerator.errors import InputError
-from enumerator.workflow.pipeline import Request, run
+from enumerator.parse.job import Job, JobOutput, load_job
+from enumerator.workflow.pipeline import run
 from enumerator.workflow.result import Result
 
-__all__ = ["Job", "JobEntry", "load_job", "parse_job", "run_job", "render_job", "FORMATS"]
-
-FORMATS = ("table", "markdown", "csv", "latex", "json")
-_ENTRY_KEYS = ("formula", "label", "geometry", "spans", "arrangements", "reporters", "limit", "options")
+__all__ = ["JobComplex", "JobResult", "run_job", "run_job_file"]
 
 
 @dataclass(frozen=True)
-class JobEntry:
+class JobComplex:
+    """One complex of a job: its label and its result."""
+
     label: str
-    request: Request
+    result: Result
+
+    def to_dict(self) -> dict[str, Any]:
+        """The complex's JSON object: ``label`` followed by the result's document."""
+        return {"label": self.label, **self.result.to_dict()}
 
 
 @dataclass(frozen=True)
-class Job:
+class JobResult:
+    """Every complex of a job, analysed, with the job's title, outputs and folder."""
+
     title: str
-    entries: tuple[JobEntry, ...]
-    outputs: tuple[tuple[str, str], ...] = ()  # (format, file relative to folder)
+    complexes: tuple[JobComplex, ...]
+    outputs: tuple[JobOutput, ...] = ()
     folder: str = "."
 
+    @property
+    def results(self) -> tuple[Result, ...]:
+        """The results alone, in file order."""
+        return tuple(c.result for c in self.complexes)
 
-def _bad(where: str, what: str, fix: str) -> InputError:
-    return InputError(f"{where}: {what}", fix)
-
-
-def _keys(table: dict, where: str, allowed: Sequence[str], required: Sequence[str] = ()) -> None:
-    from enumerator.rules.ruleset import closest_names
-
-    for k in required:
-        if k not in table:
-            raise _bad(where, f"missing key '{k}'", f"add {k} = ...")
-    for k in table:
-        if k not in allowed:
-            near = closest_names(k, allowed)
-            raise _bad(
-                where, f"unknown key '{k}'", f"did you mean '{near[0]}'?" if near else f"allowed: {', '.join(allowed)}"
-            )
+    def to_dict(self) -> dict[str, Any]:
+        """The JSON document of ``isosieve job --format json``: the title and one object per complex."""
+        return {"title": self.title, "complexes": [c.to_dict() for c in self.complexes]}
 
 
-def _pairs(value: Any, where: str, key: str, example: str) -> tuple[tuple[str, str], ...]:
-    if not isinstance(value, dict) or not all(isinstance(v, str) for v in value.values()):
-        raise _bad(where, f"'{key}' must be a table of strings", f"write {key} = {example}")
-    return tuple((str(k), v) for k, v in value.items())
+def run_job(job: Job) -> JobResult:
+    """Run every complex of a checked job.
 
+    Parameters
+    ----------
+    job : Job
 
-def parse_job(data: dict[str, Any], where: str, rules: tuple[str, ...] = (), folder: str = ".") -> Job:
-    """A validated :class:`Job` from parsed TOML."""
-    _keys(data, where, ("title", "defaults", "complex", "output"), ("complex",))
-    title = data.get("title", "")
-    if not isinstance(title, str):
-        raise _bad(where, "'title' must be a string", 'write title = "..."')
-    defaults = data.get("defaults", {})
-    if not isinstance(defaults, dict):
-        raise _bad(where, "'defaults' must be a table", "write [defaults]")
-    _keys(defaults, f"{where} [defaults]", [k for k in _ENTRY_KEYS if k not in ("formula", "label")])
-    cx = data["complex"]
-    if not isinstance(cx, list) or not cx:
-        raise _bad(where, "'complex' must list at least one [[complex]]", "add [[complex]] with formula = ...")
-    entries = []
-    labels: set[str] = set()
-    for k, raw in enumerate(cx, start=1):
-        w = f"{where} [[complex]] #{k}"
-        if not isinstance(raw, dict):
-            raise _bad(w, "not a table", "write [[complex]] entries")
-        e = {**defaults, **raw}
-        _keys(e, w, _ENTRY_KEYS, ("formula",))
-        formula = e["formula"]
-        if not isinstance(formula, str) or not formula.strip():
-            raise _bad(w, "'formula' must be a non-empty string", 'write formula = "[RuCl2(CO)2(PPh3)2]"')
-        label = e.get("label", formula)
-        if not isinstance(label, str) or not label.strip():
-            raise _bad(w, "'label' must be a non-empty string", 'write label = "1"')
-        if label in labels:
-            raise _bad(w, f"label '{label}' is used twice", "give each complex its own label")
-        labels.add(label)
-        geometry = e.get("geometry")
-        if geometry is not None and not isinstance(geometry, str):
-            raise _bad(w, "'geometry' must be a string", 'write geometry = "OC-6"')
-        limit = e.get("limit")
-        if limit is not None and (not isinstance(limit, int) or isinstance(limit, bool) or limit < 1):
-            raise _bad(w, "'limit' must be a positive integer", "write limit = 100")
-        req = Request(
-            formula=formula.strip(),
-            geometry=geometry,
-            spans=_pairs(e.get("spans", {}), w, "spans", '{ dppe = "edge" }'),
-            arrangements=_pairs(e.get("arrangements", {}), w, "arrangements", '{ dien = "fac" }'),
-            reporters=_pairs(e.get("reporters", {}), w, "reporters", '{ a = "CO" }'),
-            limit=limit,
-            rules=tuple(rules),
-            options=_pairs(e.get("options", {}), w, "options", '{ name = "value" }'),
-        )
-        entries.append(JobEntry(label.strip(), req))
-    outs = []
-    raw_out = data.get("output", [])
-    if not isinstance(raw_out, list):
-        raise _bad(where, "'output' must be a list of [[output]] tables", "write [[output]] with format and file")
-    for k, o in enumerate(raw_out, start=1):
-        w = f"{where} [[output]] #{k}"
-        if not isinstance(o, dict):
-            raise _bad(w, "not a table", "write [[output]] entries")
-        _keys(o, w, ("format", "file"), ("format", "file"))
-        if o["format"] not in FORMATS:
-            raise _bad(w, f"format {o['format']!r} is not one of {', '.join(FORMATS)}", 'write format = "markdown"')
-        f = o["file"]
-        if not isinstance(f, str) or not f.strip() or Path(f).is_absolute() or ".." in Path(f).parts:
-            raise _bad(w, f"file {f!r} must be a relative path inside the job's folder", 'write file = "table.md"')
-        outs.append((o["format"], f))
-    return Job(title, tuple(entries), tuple(outs), folder)
+    Returns
+    -------
+    JobResult
 
-
-def load_job(path: str, rules: tuple[str, ...] = ()) -> Job:
-    """Read and validate a job file (TOML)."""
-    import tomllib
-
-    try:
-        with open(path, "rb") as fh:
-            data = tomllib.load(fh)
-    except OSError as exc:
-        raise InputError(f"cannot read job file '{path}' ({exc.strerror})", "check the path") from None
-    except tomllib.TOMLDecodeError as exc:
-        raise InputError(f"job file '{path}': TOML syntax error ({exc})", "fix the file at that line") from None
-    return parse_job(data, str(path), rules, str(Path(path).parent))
-
-
-def run_job(job: Job) -> list[tuple[JobEntry, Result]]:
-    """Run every complex; an error names the complex's label."""
+    Raises
+    ------
+    InputError
+        A complex that cannot be analysed; the message starts with its label.
+    """
     out = []
     for e in job.entries:
         try:
-            out.append((e, run(e.request)))
+            out.append(JobComplex(e.label, run(e.request)))
         except InputError as exc:
             raise InputError(f"complex '{e.label}': {exc.what}", exc.fix) from None
-    return out
+    return JobResult(job.title, tuple(out), job.outputs, job.folder)
 
 
-def render_job(job: Job, results: Sequence[tuple[JobEntry, Result]], fmt: str) -> str:
-    """All results in one document of the given format."""
-    from enumerator.render import tables
+def run_job_file(path: str, rules: Sequence[str] = ()) -> JobResult:
+    """Read, check and run a job file.
 
-    if fmt == "json":
-        from enumerator.render.jsonout import dumps, result_to_dict
+    Parameters
+    ----------
+    path : str
+        The TOML job file.
+    rules : sequence of str
+        Rule folders in force (``--rules DIR``).
 
-        return dumps({"title": job.title, "complexes": [{"label": e.label, **result_to_dict(r)} for e, r in results]})
-    if fmt == "table":
-        from enumerator.render.text import render
+    Returns
+    -------
+    JobResult
 
-        parts = [job.title, "=" * len(job.title), ""] if job.title else []
-        for e, r in results:
-            parts += [f"== {e.label} ==", render(r)]
-        return "\n".join(parts)
-    if fmt == "markdown":
-        parts = [f"# {job.title}", ""] if job.title else []
-        for e, r in results:
-            parts += [f"## {e.label}", "", tables.markdown(r)]
-        return "\n".join(parts)
-    if fmt == "latex":
-        parts = [f"% {job.title}"] if job.title else []
-        parts.append("% generated by isosieve; requires \\usepackage{booktabs}")
-        for e, r in results:
-            parts += ["", f"% {e.label}", tables.latex(r).replace("% requires \\usepackage{booktabs}\n", "")]
-        return "\n".join(parts)
-    if fmt == "csv":
-        header: list[str] = ["label"]
-        recs: list[dict[str, str]] = []
-        cautions: list[str] = []
-        for e, r in results:
-            h, rows = tables.csv_records(r)
-            for col in h:
-                if col not in header:
-                    header.append(col)
-            recs += [{"label": e.label, **dict(zip(h, row))} for row in rows]
-            for a in r.analyses:
-                for line in a.top_json().get("safety", []):
-                    if line not in cautions:
-                        cautions.append(line)
-        return tables.write_csv(header, [[d.get(c, "") for c in header] for d in recs], cautions)
-    raise InputError(f"format '{fmt}' is not one of {', '.join(FORMATS)}", "use --format markdown")
+    Raises
+    ------
+    InputError
+        The file cannot be read or checked (:func:`enumerator.parse.job.load_job`), or a complex cannot be
+        analysed.
+    """
+    return run_job(load_job(path, rules))

@@ -1,47 +1,57 @@
-"""From request to :class:`~enumerator.workflow.result.Result`: the one place that
-strings the stages together.  The CLI calls this; so may any script.
+"""From request to :class:`~enumerator.workflow.result.Result`: the one place that strings the stages together.
 
->>> r = analyse("Ma4b2", geometry="OC-6")
->>> r.isomer_set.geometric_isomers
-2
+:func:`run` takes a :class:`~enumerator.parse.request.Request`: it reads the
+rules, parses the formula, applies the per-ligand settings, chooses the
+geometry (:func:`prepare`), enumerates the isomers and runs every analysis
+stage of :data:`STAGES` in order; with ``pick`` it then keeps only the
+isomers whose descriptor matches.  The command line calls it; so may any
+script.
+
+For a notebook, :func:`analyse` is the same in one call with keyword options
+(checked against the option table, :data:`enumerator.parse.request.OPTIONS`),
+and :func:`iter_isomers` yields the isomers one by one, for cases too large
+to hold or analyse at once.
+
+>>> r = analyse("Ma4b2", geometry="OC-6", reporters={"a": "CO"})
+>>> [(i.id, i.point_group) for i in r.isomers]
+[('1', 'C2v'), ('2', 'D4h')]
+>>> [i.point_group for i in iter_isomers("Mabcdef", limit=2)]
+['C1', 'C1']
 """
 
 from __future__ import annotations
 
 import importlib
-from collections.abc import Callable, Sequence
-from dataclasses import dataclass, replace
+from collections.abc import Callable, Iterator, Mapping, Sequence
+from dataclasses import replace
+from os import PathLike
+from typing import Any
 
 from enumerator.analyses.centre import choose_geometry
+from enumerator.analyses.descriptors import describe_isomer, select_isomers
+from enumerator.analyses.descriptors.select import matches, picked_ids
 from enumerator.isomers.enumeration import Isomer, IsomerSet, enumerate_isomers, generate
 from enumerator.model.composition import Composition
 from enumerator.model.geometry import Geometry
 from enumerator.parse.formula import parse_formula
+from enumerator.parse.request import Request, make_request, unknown_option
 from enumerator.rules.ruleset import load_rules
 from enumerator.workflow.result import Result
 
-__all__ = ["Request", "STAGES", "analyse", "run", "prepare", "parse_formula", "apply_settings", "choose_geometry"]
+__all__ = [
+    "Request",
+    "STAGES",
+    "analyse",
+    "iter_isomers",
+    "run",
+    "prepare",
+    "parse_formula",
+    "apply_settings",
+    "choose_geometry",
+]
 
-
-@dataclass(frozen=True)
-class Request:
-    """Everything one analysis needs, as plain values (hashable)."""
-
-    formula: str
-    geometry: str | None = None
-    spans: tuple[tuple[str, str], ...] = ()
-    arrangements: tuple[tuple[str, str], ...] = ()
-    reporters: tuple[tuple[str, str], ...] = ()
-    limit: int | None = None
-    rules: tuple[str, ...] = ()
-    #: further stage options as (name, value) pairs, e.g. ("ring_size", "5")
-    options: tuple[tuple[str, str], ...] = ()
-
-    def option(self, name: str, default: str | None = None) -> str | None:
-        for k, v in self.options:
-            if k == name:
-                return v
-        return default
+#: Per-ligand settings as the one-call API takes them: a mapping or (ligand, value) pairs.
+Settings = Mapping[str, str] | Sequence[tuple[str, str]]
 
 
 #: The analysis stages, in order: "module:function".  Each function takes
@@ -61,9 +71,28 @@ def apply_settings(
     arrangements: Sequence[tuple[str, str]] = (),
     reporters: Sequence[tuple[str, str]] = (),
 ) -> Composition:
-    """Per-ligand settings from the command line or a job file."""
-    from dataclasses import replace
+    """The composition with per-ligand settings from the command line or a job file.
 
+    Parameters
+    ----------
+    comp : Composition
+        The parsed formula.
+    spans : sequence of (ligand, span)
+        Chelate link spans: edge, cis, trans or any.
+    arrangements : sequence of (ligand, 'fac' | 'mer' | 'fac,mer')
+        Limits of tridentate chains.
+    reporters : sequence of (ligand, class)
+        Stretch reporter classes.
+
+    Returns
+    -------
+    Composition
+
+    Raises
+    ------
+    InputError
+        A ligand not in the formula, or a setting that does not apply to it.
+    """
     for name, span in spans:
         comp = comp.replace_kind(name, comp.kind(name).with_span(span))
     for name, arr in arrangements:
@@ -73,15 +102,27 @@ def apply_settings(
     return comp
 
 
-def analyse(formula: str, geometry: str | None = None, **options) -> Result:
-    """Run the whole analysis for one formula; options as in :class:`Request`."""
-    return run(Request(formula=formula, geometry=geometry, **options))
-
-
 def prepare(req: Request) -> tuple[Composition, Geometry, str]:
-    """The composition (settings applied), the geometry and the reason for
-    it: everything :func:`run` decides before enumerating.  Callers use it
-    to count up front (:mod:`enumerator.isomers.counting`) before a long run."""
+    """Everything :func:`run` decides before enumerating.
+
+    Callers use it to count up front (:mod:`enumerator.isomers.counting`) before a long run.
+
+    Parameters
+    ----------
+    req : Request
+
+    Returns
+    -------
+    (Composition, Geometry, str)
+        The composition (settings applied), the geometry and the reason it was chosen.
+
+    Raises
+    ------
+    InputError
+        A formula that cannot be read, a setting that does not apply, an unknown geometry.
+    RuleError
+        A rule folder that cannot be read.
+    """
     rules = load_rules(req.rules)
     comp = parse_formula(req.formula, rules)
     comp = apply_settings(comp, req.spans, req.arrangements, req.reporters)
@@ -103,20 +144,41 @@ def _enumerate(comp: Composition, geo: Geometry, limit: int | None, on_isomer: C
     return IsomerSet(comp, geo, tuple(found), complete)
 
 
+def _notes(req: Request, iso: IsomerSet) -> tuple[str, ...]:
+    if iso.complete:
+        return ()
+    if req.limit is not None and len(iso.isomers) >= req.limit:
+        return (f"only the first {len(iso.isomers)} stereoisomers are listed (--limit)",)
+    return (f"only the first {len(iso.isomers)} stereoisomers are listed (the enumeration was interrupted)",)
+
+
 def run(
     req: Request,
     *,
     on_isomer: Callable[[Isomer], None] | None = None,
     isomers: IsomerSet | None = None,
 ) -> Result:
-    """Enumerate and run every stage.
+    """Enumerate and run every stage; with ``req.pick``, keep only the isomers it matches.
 
-    ``on_isomer`` is called with each stereoisomer as the lazy enumeration
-    yields it (a progress bar, or a caller that keeps what was found so far
-    if it is interrupted).  ``isomers`` skips enumeration and analyses the
-    given, possibly incomplete, set instead (e.g. the part found before an
-    interruption); its composition and geometry must come from
-    :func:`prepare` of the same request.
+    Parameters
+    ----------
+    req : Request
+        The formula and its options.
+    on_isomer : callable, optional
+        Called with each stereoisomer as the lazy enumeration yields it (a progress bar, or a caller that
+        keeps what was found so far if it is interrupted).
+    isomers : IsomerSet, optional
+        Skip enumeration and analyse this, possibly incomplete, set instead (e.g. the part found before an
+        interruption); its composition and geometry must come from :func:`prepare` of the same request.
+
+    Returns
+    -------
+    Result
+
+    Raises
+    ------
+    InputError
+        As :func:`prepare`; a composition that cannot be placed on the geometry; ``pick`` matching nothing.
     """
     comp, geo, reason = prepare(req)
     if isomers is not None:
@@ -125,19 +187,167 @@ def run(
         iso = _enumerate(comp, geo, req.limit, on_isomer)
     else:
         iso = enumerate_isomers(comp, geo, limit=req.limit)
-    notes = []
-    if not iso.complete:
-        if req.limit is not None and len(iso.isomers) >= req.limit:
-            notes.append(f"only the first {len(iso.isomers)} stereoisomers are listed (--limit)")
-        else:
-            notes.append(
-                f"only the first {len(iso.isomers)} stereoisomers are listed (the enumeration was interrupted)"
-            )
-    res = Result(composition=comp, geometry=geo, geometry_reason=reason, isomer_set=iso, notes=tuple(notes))
+    res = Result(composition=comp, geometry=geo, geometry_reason=reason, isomer_set=iso, notes=_notes(req, iso))
     for stage in STAGES:
         module, _, func = stage.partition(":")
         step = getattr(importlib.import_module(module), func)
         added = step(res, req)
         if added is not None:
             res = replace(res, analyses=res.analyses + (added,))
+    if req.pick:
+        res = select_isomers(res, req.pick)
     return res
+
+
+def _request(formula: str, unknown: Mapping[str, Any], **options: Any) -> Request:
+    if unknown:
+        raise unknown_option(next(iter(unknown)))
+    return make_request(formula, **options)
+
+
+def analyse(
+    formula: str,
+    *,
+    geometry: str | None = None,
+    reporters: Settings | None = None,
+    spans: Settings | None = None,
+    arrangements: Settings | None = None,
+    limit: int | None = None,
+    rules: Sequence[str | PathLike[str]] = (),
+    pick: str | None = None,
+    **unknown: Any,
+) -> Result:
+    """Every isomer of one formula with every analysis, in one call.
+
+    Parameters
+    ----------
+    formula : str
+        Abstract (``"Ma2b2c2"``, ``"M(AA)2b2"``) or condensed (``"[RuCl2(CO)2(PPh3)2]"``) formula.
+    geometry : str, optional
+        Polyhedral symbol (``"OC-6"``, ``"TBPY-5"`` ...); default: chosen from the formula.
+    reporters : mapping or sequence of pairs, optional
+        Stretch reporter class per ligand, e.g. ``{"a": "CO"}``.
+    spans : mapping or sequence of pairs, optional
+        Chelate span per ligand: edge, cis, trans or any, e.g. ``{"AA": "trans"}``.
+    arrangements : mapping or sequence of pairs, optional
+        fac, mer or 'fac,mer' per tridentate chain.
+    limit : int, optional
+        Stop after this many stereoisomers (the result is then marked incomplete).
+    rules : sequence of str or path
+        Rule folders besides the built-in rules.
+    pick : str, optional
+        Keep only the isomers whose IUPAC descriptor matches (OC-6-32-C, OC-6-32, 32, cis, fac ...).
+    **unknown
+        Any other keyword is refused with the nearest option names.
+
+    Returns
+    -------
+    Result
+        ``to_dict()`` gives the JSON document of ``isosieve isomers --json``.
+
+    Raises
+    ------
+    InputError
+        An unknown option or a value the option table does not allow, a formula that cannot be read or
+        placed, an unknown geometry or reporter class, ``pick`` matching nothing.
+    RuleError
+        A rule folder that cannot be read.
+
+    Examples
+    --------
+    >>> analyse("Ma3b3", geometry="OC-6").to_dict()["geometric_isomers"]
+    2
+    """
+    return run(
+        _request(
+            formula,
+            unknown,
+            geometry=geometry,
+            reporters=reporters,
+            spans=spans,
+            arrangements=arrangements,
+            limit=limit,
+            rules=rules,
+            pick=pick,
+        )
+    )
+
+
+def _picked(req: Request, comp: Composition, found: Iterator[Isomer]) -> Iterator[Isomer]:
+    assert req.pick is not None
+    seen = []
+    shown = 0
+    for iso in found:
+        d = describe_isomer(iso, comp)
+        seen.append((iso.id, d))
+        if matches(d, req.pick):
+            shown += 1
+            yield iso
+    if not shown:
+        picked_ids(seen, req.pick, comp.formula)  # raises: nothing matches, with the descriptors present
+
+
+def iter_isomers(
+    formula: str,
+    *,
+    geometry: str | None = None,
+    reporters: Settings | None = None,
+    spans: Settings | None = None,
+    arrangements: Settings | None = None,
+    limit: int | None = None,
+    rules: Sequence[str | PathLike[str]] = (),
+    pick: str | None = None,
+    **unknown: Any,
+) -> Iterator[Isomer]:
+    """The isomers of one formula, one at a time, each with its point group; no analysis stage runs.
+
+    For compositions with very many stereoisomers: nothing is held but what the enumeration needs, and the
+    first isomer comes at once.  ``isosieve count`` (:func:`enumerator.workflow.queries.count_formula`)
+    tells how many there are before a long run.
+
+    Parameters
+    ----------
+    formula : str
+        Abstract or condensed formula.
+    geometry, reporters, spans, arrangements, limit, rules
+        As for :func:`analyse`.
+    pick : str, optional
+        Yield only the isomers whose IUPAC descriptor matches; each is described as it comes.
+    **unknown
+        Any other keyword is refused with the nearest option names.
+
+    Yields
+    ------
+    Isomer
+        In the order of ``isosieve isomers``; enantiomers as pairs ('3a', '3b').
+
+    Raises
+    ------
+    InputError
+        As for :func:`analyse` (raised on the first ``next()``); with ``pick``, after the last isomer when
+        none matched.
+    RuleError
+        A rule folder that cannot be read.
+
+    Examples
+    --------
+    >>> [(i.id, i.point_group) for i in iter_isomers("Ma3b3", pick="mer")]
+    [('2', 'C2v')]
+    """
+    req = _request(
+        formula,
+        unknown,
+        geometry=geometry,
+        reporters=reporters,
+        spans=spans,
+        arrangements=arrangements,
+        limit=limit,
+        rules=rules,
+        pick=pick,
+    )
+    comp, geo, _ = prepare(req)
+    found = generate(comp, geo, limit=req.limit)
+    if req.pick:
+        yield from _picked(req, comp, found)
+    else:
+        yield from found

@@ -1,10 +1,11 @@
-"""Look-ups that need no analysis stage: character tables, the geometries in
-force, and up-front isomer counts.
+"""Look-ups that need no analysis stage: character tables, the geometries and
+ligands in force, up-front isomer counts, and starting structures.
 
 Each function here is the one library call behind a command (``isosieve
-chartable``, ``geometries``, ``count``): it reads the rules, parses the
-formula and chooses the geometry as :func:`enumerator.workflow.pipeline.prepare`
-does, and returns a frozen result whose ``to_dict()`` is the command's JSON.
+chartable``, ``geometries``, ``ligands``, ``count``, ``structures``): it reads
+the rules, parses the formula and chooses the geometry as
+:func:`enumerator.workflow.pipeline.prepare` does, and returns a frozen result
+whose ``to_dict()`` is the command's JSON.
 
 >>> character_tables("C2v").group
 'C2v'
@@ -14,6 +15,8 @@ does, and returns a frozen result whose ``to_dict()`` is the command's JSON.
 'L-2'
 >>> count_formula("M(AA)2b2").to_dict()["counts"][0]["stereoisomers"]
 3
+>>> ligand_catalogue(name="carbonyl").to_dict()["name"]
+'CO'
 """
 
 from __future__ import annotations
@@ -27,13 +30,23 @@ from enumerator.isomers.counting import CountResult, count_isomers
 from enumerator.isomers.enumeration import enumerate_isomers
 from enumerator.isomers.tables import IsomerTables, tables_for_isomers
 from enumerator.model.geometry import Geometry
+from enumerator.rules.ligands import LigandEntry, find_ligand, load_ligands
 from enumerator.rules.ruleset import load_rules
+from enumerator.structures.result import StructureSet, structure_set
 from enumerator.symmetry.chartable import CharacterTable, named_table
 from enumerator.symmetry.groups import GROUP_NAME
 from enumerator.symmetry.operations import LINEAR_GROUPS
-from enumerator.workflow.pipeline import Request, prepare
+from enumerator.workflow.pipeline import Request, prepare, run
 
-__all__ = ["character_tables", "geometry_catalogue", "GeometryCatalogue", "count_formula"]
+__all__ = [
+    "character_tables",
+    "geometry_catalogue",
+    "GeometryCatalogue",
+    "ligand_catalogue",
+    "LigandCatalogue",
+    "count_formula",
+    "formula_structures",
+]
 
 Pairs = Sequence[tuple[str, str]]
 
@@ -163,3 +176,110 @@ def count_formula(
         key=lambda g: g.symbol,
     )
     return count_isomers(comp, geos)
+
+
+@dataclass(frozen=True)
+class LigandCatalogue:
+    """The ligand catalogue in force, or the one entry asked for (``name`` is then what was asked).
+
+    Entries of the whole catalogue are ordered by denticity, then name (case-insensitive)."""
+
+    entries: tuple[LigandEntry, ...]
+    name: str | None = None
+
+    @staticmethod
+    def entry_to_dict(e: LigandEntry) -> dict[str, Any]:
+        """The JSON object of one catalogue entry."""
+        return {
+            "name": e.name,
+            "aliases": list(e.aliases),
+            "label": e.label,
+            "smiles": e.smiles,
+            "donors": list(e.donors),
+            "denticity": e.denticity,
+            "hapticity": e.hapticity,
+            "ring": e.ring,
+            "charge": e.charge,
+            "electrons_covalent": e.electrons_covalent,
+            "electrons_ionic": e.electrons_ionic,
+            "reporter": e.reporter,
+            "spans": list(e.spans),
+            "arrangements": list(e.arrangements),
+            "nitrosyl": e.nitrosyl,
+            "note": e.note,
+            "source": e.source,
+        }
+
+    def to_dict(self) -> dict[str, Any] | list[dict[str, Any]]:
+        """The JSON of ``isosieve ligands --json``: one object for a named ligand, else a list of them."""
+        if self.name is not None:
+            return self.entry_to_dict(self.entries[0])
+        return [self.entry_to_dict(e) for e in self.entries]
+
+
+def ligand_catalogue(rules: Sequence[str] = (), name: str | None = None) -> LigandCatalogue:
+    """The ligand catalogue of the built-in rules and the given rule folders, or one ligand of it.
+
+    Parameters
+    ----------
+    rules : sequence of str
+        Rule folders (``--rules DIR``) in force.
+    name : str, optional
+        A name or alias: exact first, then a unique case-insensitive match.
+
+    Returns
+    -------
+    LigandCatalogue
+
+    Raises
+    ------
+    InputError
+        An unknown name (with the nearest names).
+    """
+    rs = load_rules(tuple(rules))
+    if name:
+        return LigandCatalogue((find_ligand(rs, name),), name)
+    return LigandCatalogue(tuple(sorted(load_ligands(rs).values(), key=lambda e: (e.denticity, e.name.lower()))))
+
+
+def formula_structures(
+    formula: str,
+    *,
+    geometry: str | None = None,
+    spans: Pairs = (),
+    arrangements: Pairs = (),
+    limit: int | None = None,
+    rules: Sequence[str] = (),
+) -> StructureSet:
+    """Starting structures (full ligands where their SMILES are known) of every isomer of a formula.
+
+    Parameters
+    ----------
+    formula : str
+    geometry : str, optional
+        Polyhedral symbol (default: chosen from the formula).
+    spans, arrangements : sequence of (ligand, setting)
+        Chelate spans and fac/mer limits.
+    limit : int, optional
+        Stop after this many stereoisomers.
+    rules : sequence of str
+        Rule folders (``--rules DIR``) in force.
+
+    Returns
+    -------
+    StructureSet
+
+    Raises
+    ------
+    InputError
+        For a formula that cannot be read or placed.
+    """
+    req = Request(
+        formula=formula,
+        geometry=geometry,
+        spans=tuple(spans),
+        arrangements=tuple(arrangements),
+        limit=limit,
+        rules=tuple(rules),
+    )
+    return structure_set(run(req))

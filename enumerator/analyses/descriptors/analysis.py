@@ -181,7 +181,7 @@ def descriptor_stage(res: ResultView, req: RequestView) -> DescriptorAnalysis:
     DescriptorAnalysis
     """
     a = _with_names(descriptor_analysis(res.isomer_set), res, req)
-    pick = req.option("pick")
+    pick = req.pick
     if pick:
         picked_ids(a.descriptors, pick, res.composition.formula, a.error)
     return a

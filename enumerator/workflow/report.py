@@ -1,0 +1,202 @@
+"""What the supporting-information report shows, computed once: a frozen :class:`Report`.
+
+For each complex a report holds its :class:`~enumerator.workflow.result.Result`,
+the predicted band pattern of every reporter class on every isomer
+(:func:`enumerator.vibrations.pattern.band_pattern`: an energy-factored
+Cotton--Kraihanzel force field solved by Wilson's GF method), the safety
+cautions of its composition (:func:`enumerator.analyses.safety.cautions`),
+and the names of its table files; for the whole page the title and the
+isosieve version.  :func:`build_report` builds it from results,
+:func:`report_from_job` from a job file in one call;
+:mod:`enumerator.render.report` only formats it.
+
+>>> from enumerator.workflow.pipeline import analyse
+>>> rep = build_report([analyse("[Cr(CO)5(PPh3)]")], title="SI")
+>>> [(s.reporter_class, s.pattern.species) for s in rep.complexes[0].spectra[0].classes]
+[('CO', '2A1 + B1 + E')]
+>>> rep.files
+('01_Cr_CO_5_PPh3.csv', '01_Cr_CO_5_PPh3.tex')
+"""
+
+from __future__ import annotations
+
+import re
+from collections.abc import Iterable, Sequence
+from dataclasses import dataclass
+from pathlib import Path
+from typing import Any
+
+from enumerator.analyses.safety import cautions
+from enumerator.errors import IsosieveError
+from enumerator.isomers.enumeration import Isomer
+from enumerator.rules.ruleset import RuleSet, load_rules
+from enumerator.vibrations.model import reporter_classes
+from enumerator.vibrations.pattern import BandPattern, band_pattern
+from enumerator.workflow.job import run_job_file
+from enumerator.workflow.result import Result
+
+__all__ = ["ClassSpectrum", "IsomerSpectra", "ReportComplex", "Report", "build_report", "report_from_job", "version"]
+
+
+@dataclass(frozen=True)
+class ClassSpectrum:
+    """The predicted bands of one reporter class on one isomer, or why they could not be predicted."""
+
+    reporter_class: str
+    pattern: BandPattern | None = None
+    error: str | None = None
+
+    def to_dict(self) -> dict[str, Any]:
+        """``reporter_class`` with the pattern's JSON object, or with ``error``."""
+        if self.pattern is None:
+            return {"reporter_class": self.reporter_class, "error": self.error}
+        return self.pattern.to_dict()
+
+
+@dataclass(frozen=True)
+class IsomerSpectra:
+    """The spectra of one isomer, one per reporter class that has bands (sorted by class)."""
+
+    isomer_id: str
+    classes: tuple[ClassSpectrum, ...]
+
+    def to_dict(self) -> dict[str, Any]:
+        """``id`` and the list of class spectra."""
+        return {"id": self.isomer_id, "spectra": [c.to_dict() for c in self.classes]}
+
+
+@dataclass(frozen=True)
+class ReportComplex:
+    """One complex of the report: its number (from 1), result, spectra per isomer, cautions, file stem."""
+
+    number: int
+    result: Result
+    spectra: tuple[IsomerSpectra, ...]
+    cautions: tuple[str, ...]
+    stem: str
+
+    @property
+    def files(self) -> tuple[str, str]:
+        """The names of its CSV and LaTeX table files."""
+        return f"{self.stem}.csv", f"{self.stem}.tex"
+
+    def to_dict(self) -> dict[str, Any]:
+        """The complex's number, files, cautions, spectra and result document."""
+        return {
+            "number": self.number,
+            "files": list(self.files),
+            "cautions": list(self.cautions),
+            "spectra": [s.to_dict() for s in self.spectra],
+            "result": self.result.to_dict(),
+        }
+
+
+@dataclass(frozen=True)
+class Report:
+    """Everything the report page and its table files show."""
+
+    title: str
+    complexes: tuple[ReportComplex, ...]
+    version: str
+
+    @property
+    def files(self) -> tuple[str, ...]:
+        """The table files beside the page, complex by complex (CSV, then LaTeX)."""
+        return tuple(f for c in self.complexes for f in c.files)
+
+    def to_dict(self) -> dict[str, Any]:
+        """Title, version, files and one object per complex."""
+        return {
+            "title": self.title,
+            "version": self.version,
+            "files": list(self.files),
+            "complexes": [c.to_dict() for c in self.complexes],
+        }
+
+
+def version() -> str:
+    """The installed isosieve version, or '(development)' when the package is not installed.
+
+    Returns
+    -------
+    str
+    """
+    from importlib.metadata import PackageNotFoundError
+    from importlib.metadata import version as installed
+
+    try:
+        return installed("isosieve")
+    except PackageNotFoundError:  # pragma: no cover - running from a source tree
+        return "(development)"
+
+
+def _stem(number: int, formula: str) -> str:
+    slug = re.sub(r"[^A-Za-z0-9]+", "_", formula).strip("_") or "complex"
+    return f"{number:02d}_{slug}"
+
+
+def _spectra(iso: Isomer, rules: RuleSet | None) -> IsomerSpectra:
+    out = []
+    for cls in reporter_classes(iso):
+        try:
+            pattern = band_pattern(iso, cls, rules=rules)
+        except IsosieveError as exc:
+            out.append(ClassSpectrum(cls, error=exc.line()))
+            continue
+        if pattern.bands:
+            out.append(ClassSpectrum(cls, pattern))
+    return IsomerSpectra(iso.id, tuple(out))
+
+
+def build_report(results: Iterable[Result], *, title: str = "isosieve report", rules: RuleSet | None = None) -> Report:
+    """The report of the given results: band patterns, cautions and file names computed here.
+
+    Parameters
+    ----------
+    results : iterable of Result
+        One per complex, in the order shown.
+    title : str
+        The page title.
+    rules : RuleSet, optional
+        The rules in force, for the force constants (default: the built-in rules).
+
+    Returns
+    -------
+    Report
+    """
+    complexes = tuple(
+        ReportComplex(
+            n,
+            res,
+            tuple(_spectra(i, rules) for i in res.isomers),
+            tuple(cautions(res.composition)),
+            _stem(n, res.composition.formula),
+        )
+        for n, res in enumerate(results, 1)
+    )
+    return Report(title, complexes, version())
+
+
+def report_from_job(path: str, rules: Sequence[str] = (), title: str | None = None) -> Report:
+    """Read, check and run a job file and build its report.
+
+    Parameters
+    ----------
+    path : str
+        The TOML job file (:mod:`enumerator.parse.job`).
+    rules : sequence of str
+        Rule folders in force (``--rules DIR``).
+    title : str, optional
+        The page title (default: the job file's title, else its name).
+
+    Returns
+    -------
+    Report
+
+    Raises
+    ------
+    InputError
+        The job file cannot be read or checked, or a complex cannot be analysed.
+    """
+    job = run_job_file(path, rules)
+    return build_report(job.results, title=title or job.title or Path(path).stem, rules=load_rules(tuple(rules)))
