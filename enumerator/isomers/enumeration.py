@@ -28,10 +28,10 @@ from __future__ import annotations
 import itertools
 from collections.abc import Iterator, Sequence
 from dataclasses import dataclass, field
-from functools import cache, lru_cache
 
 import numpy as np
 
+from enumerator.caches import cached
 from enumerator.errors import InputError
 from enumerator.model.composition import Composition, LigandKind
 from enumerator.model.geometry import Geometry
@@ -150,7 +150,7 @@ def group_tables(geometry: Geometry) -> _Tables:
     return _tables(geometry.vectors)
 
 
-@cache
+@cached(maxsize=None)
 def _tables(vectors) -> _Tables:
     from enumerator.model.geometry import derive_operations
 
@@ -165,6 +165,8 @@ def _tables(vectors) -> _Tables:
     inverse = np.array([int(np.nonzero(mult[a] == ident)[0][0]) for a in range(g)], dtype=np.int32)
     perms = np.array([op.perm for op in ops], dtype=np.int32)
     proper = np.array([op.proper for op in ops], dtype=bool)
+    for table in (perms, mult, inverse, proper):
+        table.setflags(write=False)  # shared by every caller of the cache
     return _Tables(perms, mult, inverse, proper)
 
 
@@ -234,7 +236,7 @@ def _mask(t: Placement) -> int:
     return m
 
 
-@lru_cache(maxsize=8192)
+@cached(maxsize=8192)
 def _point_group(vectors, linear: bool, stab: tuple[int, ...]) -> str:
     from enumerator.model.geometry import derive_operations
 

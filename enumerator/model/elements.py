@@ -16,9 +16,9 @@ on first use.
 from __future__ import annotations
 
 from collections.abc import Mapping
-from functools import cache
 from types import MappingProxyType
 
+from enumerator.caches import cached
 from enumerator.errors import InputError
 
 __all__ = [
@@ -49,7 +49,7 @@ def _table():
     return Chem.GetPeriodicTable()
 
 
-@cache
+@cached(maxsize=None)
 def element_symbols() -> Mapping[str, int]:
     """Element symbol -> atomic number for elements 1-118 (read-only)."""
     pt = _table()
@@ -97,13 +97,13 @@ def group_of(z: int) -> tuple[int | None, str]:
     return (g, "d") if g <= 12 else (g, "p")
 
 
-@cache
+@cached(maxsize=None)
 def atomic_weight(z: int) -> float:
     """Standard atomic weight (u) of element ``z``, rounded to 4 decimals."""
     return round(float(_table().GetAtomicWeight(z)), 4)
 
 
-@cache
+@cached(maxsize=None)
 def isotope_mass(symbol: str, isotope: int = 0) -> float | None:
     """Mass (u) of an isotope, or of the most common isotope when ``isotope`` is 0;
     None when the symbol or the isotope is unknown."""
@@ -115,13 +115,13 @@ def isotope_mass(symbol: str, isotope: int = 0) -> float | None:
     return float(m) if m and m > 0 else None
 
 
-@cache
+@cached(maxsize=None)
 def covalent_radius(symbol: str) -> float:
     """RDKit's covalent radius (Å) of an element symbol."""
     return float(_table().GetRcovalent(symbol))
 
 
-@cache
+@cached(maxsize=None)
 def vdw_radius(z: int) -> float:
     """RDKit's van der Waals radius (Å) of element ``z``."""
     return float(_table().GetRvdw(z))

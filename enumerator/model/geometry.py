@@ -80,10 +80,12 @@ class Geometry:
 
     @cached_property
     def angles(self) -> np.ndarray:
-        """n x n matrix of inter-site angles in degrees."""
+        """n x n matrix of inter-site angles in degrees (read-only)."""
         v = np.array(self.vectors)
         c = np.clip(v @ v.T, -1.0, 1.0)
-        return np.degrees(np.arccos(c))
+        out = np.degrees(np.arccos(c))
+        out.setflags(write=False)
+        return out
 
     @cached_property
     def edges(self) -> frozenset[tuple[int, int]]:

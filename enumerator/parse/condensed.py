@@ -29,8 +29,8 @@ from __future__ import annotations
 
 import re
 from dataclasses import dataclass
-from functools import lru_cache
 
+from enumerator.caches import cached
 from enumerator.errors import InputError
 from enumerator.model.composition import Composition, LigandKind
 from enumerator.model.elements import element_symbols, is_metal
@@ -61,7 +61,7 @@ def _err(text: str, pos: int, what: str, fix: str) -> InputError:
     return InputError(f"formula '{text}': {what} at position {pos + 1}", fix)
 
 
-@lru_cache(maxsize=16)
+@cached(maxsize=16)
 def _spellings_by_length(rules: RuleSet) -> tuple[tuple[str, str], ...]:
     return tuple(sorted(all_spellings(rules).items(), key=lambda kv: (-len(kv[0]), kv[0])))
 
