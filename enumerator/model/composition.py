@@ -9,7 +9,7 @@ mer or either.  A :class:`Composition` is the multiset of kinds on one metal.
 from __future__ import annotations
 
 from collections.abc import Iterable, Mapping
-from dataclasses import dataclass, field, replace
+from dataclasses import dataclass, replace
 from types import MappingProxyType
 from typing import Any
 
@@ -34,8 +34,12 @@ class LigandKind:
     either).  A ``ring`` ligand caps a face: its donors are mutually adjacent
     and interchangeable (the piano-stool idealisation of an η-ring).
     ``reporter`` names the stretch-reporter class (CO, CN, NO, ...) if any.
-    ``meta`` carries catalogue data (formula, SMILES, charge, ...) as sorted
-    key/value pairs so the kind stays hashable.
+    ``meta`` carries catalogue data (SMILES, charge, electron counts, ...) as
+    sorted key/value pairs of hashable values.  It is part of equality and of
+    the hash: two kinds of one name with different catalogue data (a user's
+    ``ligands.toml`` redefining a built-in ligand) are different values, so a
+    cache keyed by a kind, a composition or an isomer never answers for the
+    other one.
     """
 
     name: str
@@ -44,7 +48,7 @@ class LigandKind:
     spans: tuple[str, ...] = ()
     arrangements: frozenset[str] = frozenset()
     reporter: str | None = None
-    meta: tuple[tuple[str, object], ...] = field(default=(), compare=False)
+    meta: tuple[tuple[str, object], ...] = ()
 
     @property
     def denticity(self) -> int:
