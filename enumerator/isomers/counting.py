@@ -59,7 +59,13 @@ class GeometryCount:
     stereoisomers: int
 
     def to_dict(self) -> dict[str, Any]:
-        """Plain data for JSON."""
+        """Plain data for JSON.
+
+        Returns
+        -------
+        dict
+            ``geometry``, ``name``, ``geometric_isomers``, ``stereoisomers``.
+        """
         return {
             "geometry": self.geometry,
             "name": self.name,
@@ -81,7 +87,13 @@ class CountResult:
     method: str = METHOD
 
     def to_dict(self) -> dict[str, Any]:
-        """Plain data for JSON (the shape of ``isosieve count --json``)."""
+        """Plain data for JSON.
+
+        Returns
+        -------
+        dict
+            The shape of ``isosieve count --json``.
+        """
         doc: dict[str, Any] = {
             "formula": self.formula,
             "method": self.method,

@@ -141,6 +141,7 @@ class LigandEntry:
         LigandKind
             A ring's donors are its first donor three times (it caps a face).
         """
+        donors: tuple[str, ...]
         if self.ring:
             donors = (self.donors[0],) * 3
         else:
@@ -398,7 +399,7 @@ def _read_smiles(smiles: str) -> Any:
     """The RDKit molecule of a SMILES (hydrogens kept), or None; RDKit's own messages are held back."""
     from rdkit import Chem, rdBase
 
-    params = Chem.SmilesParserParams()
+    params: Any = Chem.SmilesParserParams()  # Any: RDKit's stubs type the property setters wrongly
     params.removeHs = False
     with rdBase.BlockLogs():
         return Chem.MolFromSmiles(smiles, params)

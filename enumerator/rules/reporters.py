@@ -59,6 +59,15 @@ class Reporters:
     def get(self, key: str) -> ReporterClass:
         """The class called ``key``.
 
+        Parameters
+        ----------
+        key : str
+            E.g. 'CO'.
+
+        Returns
+        -------
+        ReporterClass
+
         Raises
         ------
         KeyError
@@ -75,7 +84,18 @@ class Reporters:
         return tuple(c.key for c in self.classes)
 
     def nucleus_of(self, element: str) -> str | None:
-        """The nucleus usually observed for a donor element (``'P'`` -> ``'31P'``), or None."""
+        """The nucleus usually observed for a donor element.
+
+        Parameters
+        ----------
+        element : str
+            A donor element symbol, e.g. 'P'.
+
+        Returns
+        -------
+        str or None
+            E.g. '31P'; None when the ``[nuclei]`` table does not list the element.
+        """
         return dict(self.nuclei).get(element)
 
 

@@ -146,11 +146,32 @@ class SubstitutionRules:
         return MappingProxyType(out)
 
     def covers_geometry(self, symbol: str) -> bool:
-        """Whether the set applies to the geometry with this polyhedral symbol."""
+        """Whether the set applies to the geometry with this polyhedral symbol.
+
+        Parameters
+        ----------
+        symbol : str
+            E.g. 'SP-4'.
+
+        Returns
+        -------
+        bool
+        """
         return "*" in self.geometries or symbol in self.geometries
 
     def unranked(self, ligands: Iterable[str]) -> list[str]:
-        """The ligands this rule needs ranked but does not list (sorted; none for a statistical set)."""
+        """The ligands this rule needs ranked but does not list.
+
+        Parameters
+        ----------
+        ligands : iterable of str
+            Ligand names, any catalogued spelling.
+
+        Returns
+        -------
+        list of str
+            Sorted; always empty for a statistical set.
+        """
         if self.statistical:
             return []
         return sorted({n for n in ligands if self.rank(n) is None})
@@ -184,7 +205,13 @@ class SubstitutionRules:
         return True, ""
 
     def to_dict(self) -> dict[str, Any]:
-        """The rule set as it appears in JSON output (key ``rule_set``)."""
+        """The rule set as it appears in JSON output.
+
+        Returns
+        -------
+        dict
+            The value of the key ``rule_set``.
+        """
         return {
             "name": self.name,
             "title": self.title,
