@@ -3,8 +3,11 @@
 Run as ``python fresh_enumeration.py SYMBOL FORMULA``; prints one JSON object:
 the time to import the package and load the rules, the first enumeration
 (deriving the group tables included), the Burnside count and its time, the
-isomer counts and point groups, and the process's peak resident memory
-(``ru_maxrss``, MB).
+isomer counts and point groups, and the process's peak resident memory in
+MB.  The peak is ``VmHWM`` of ``/proc/self/status``, which starts afresh when
+the process runs this script: on Linux ``ru_maxrss`` keeps the peak of the
+process that started it (across fork and exec), so it is only the fallback
+where there is no ``/proc``.
 """
 
 from __future__ import annotations
@@ -16,6 +19,18 @@ import resource
 import sys
 import time
 from typing import Any
+
+
+def peak_rss_mb() -> float:
+    """The peak resident memory of this process since it started this program, in MB."""
+    try:
+        with open("/proc/self/status", encoding="ascii") as fh:
+            for line in fh:
+                if line.startswith("VmHWM:"):
+                    return int(line.split()[1]) / 1024.0
+    except OSError:
+        pass
+    return resource.getrusage(resource.RUSAGE_SELF).ru_maxrss / 1024.0
 
 
 def measure(symbol: str, formula: str) -> dict[str, Any]:
@@ -44,7 +59,7 @@ def measure(symbol: str, formula: str) -> dict[str, Any]:
         "geometric_isomers": iso.geometric_isomers,
         "point_groups": sorted(i.point_group for i in iso.isomers),
         "burnside": list(counts) if counts else None,
-        "peak_rss_mb": resource.getrusage(resource.RUSAGE_SELF).ru_maxrss / 1024.0,
+        "peak_rss_mb": peak_rss_mb(),
     }
 
 
