@@ -1,8 +1,9 @@
 """Huge requests and repeatability: byte-identical JSON, --limit, the size
 guard, rule folders that cannot corrupt the defaults, and Ctrl-C.
 
-The rule checked for Ctrl-C is common practice for command-line tools:
-exit status 130 after SIGINT (128 + signal 2), one line, nothing written.
+The exit statuses checked here are the command line's (README, "Exit status
+and errors"; common practice for command-line tools: 130 after SIGINT, 128 +
+signal 2).
 """
 
 from __future__ import annotations
