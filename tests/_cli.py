@@ -1,4 +1,4 @@
-"""Run the console entry point in process, for tests of the exit-status contract."""
+"""Run the console entry point in process, for tests of its exit statuses (0 done, 2 input error, 1 internal)."""
 
 from __future__ import annotations
 

@@ -2,78 +2,28 @@
 
 1. Burnside's lemma (W. Burnside, Theory of Groups of Finite Order, 1897;
    in the form of Pólya's theorem, Acta Math. 68 (1937) 145) implemented
-   here from scratch, without calling the enumerator: for every composition
-   of monodentate ligands on every geometry up to CN 8, and selected CN-12
-   ones.  Chelate compositions are counted by Burnside over decorations
-   listed by brute force.
+   from scratch in tests/support/oracles.py, without calling the enumerator:
+   for every composition of monodentate ligands on every geometry up to CN 8,
+   and selected CN-12 ones.  Chelate compositions are counted by Burnside
+   over decorations listed by brute force.
 2. The classic counts as textbooks give them.
 """
 
 from __future__ import annotations
 
 import itertools
-from collections import Counter
-from fractions import Fraction
 
 import pytest
+from support.oracles import (  # tests/ is on sys.path under pytest
+    burnside_count,
+    letters_formula,
+    orbits_by_burnside,
+    partitions,
+)
 
 from enumerator.isomers.counting import burnside_counts
 from enumerator.isomers.enumeration import enumerate_isomers, generate
 from enumerator.parse.abstract import parse_abstract
-
-LETTERS = "abcdefghijkl"
-
-
-def _partitions(n, largest=None):
-    largest = largest or n
-    if n == 0:
-        yield ()
-        return
-    for k in range(min(n, largest), 0, -1):
-        for rest in _partitions(n - k, k):
-            yield (k,) + rest
-
-
-def _formula(parts):
-    return "M" + "".join(LETTERS[i] + (str(c) if c > 1 else "") for i, c in enumerate(parts))
-
-
-def _cycles(perm):
-    seen, out = set(), []
-    for i in range(len(perm)):
-        if i in seen:
-            continue
-        j, n = i, 0
-        while j not in seen:
-            seen.add(j)
-            j = perm[j]
-            n += 1
-        out.append(n)
-    return out
-
-
-def _fixed_colourings(perm, counts):
-    """Coefficient of x1^c1 ... xk^ck in prod over cycles of (x1^L + ... + xk^L),
-    by multivariate polynomial multiplication (Pólya)."""
-    poly = {tuple(0 for _ in counts): 1}
-    for length in _cycles(perm):
-        nxt = Counter()
-        for mono, coef in poly.items():
-            for k in range(len(counts)):
-                m = list(mono)
-                m[k] += length
-                if m[k] <= counts[k]:
-                    nxt[tuple(m)] += coef
-        poly = nxt
-    return poly.get(tuple(counts), 0)
-
-
-def _burnside(ops, counts):
-    total = sum(_fixed_colourings(op.perm, counts) for op in ops)
-    f = Fraction(total, len(ops))
-    assert f.denominator == 1
-    return int(f)
-
 
 SMALL = [
     "TP-3",
@@ -100,23 +50,23 @@ SMALL = [
 def test_every_monodentate_composition_matches_burnside(rules, symbol):
     g = rules.geometry(symbol)
     n = g.coordination_number
-    for parts in _partitions(n):
+    for parts in partitions(n):
         if symbol in ("CU-8", "SAPR-8", "HBPY-8", "DD-8") and len(parts) == 8:
             continue  # all-different CN 8 is covered below with the cycle index only
-        comp = parse_abstract(_formula(parts))
+        comp = parse_abstract(letters_formula(parts))
         s = enumerate_isomers(comp, g)
-        geo = _burnside(g.operations, parts)
-        stereo = _burnside(g.proper_operations, parts)
-        assert (s.geometric_isomers, s.stereoisomers) == (geo, stereo), _formula(parts)
+        geo = burnside_count(g.operations, parts)
+        stereo = burnside_count(g.proper_operations, parts)
+        assert (s.geometric_isomers, s.stereoisomers) == (geo, stereo), letters_formula(parts)
 
 
 @pytest.mark.parametrize("symbol", ["CU-8", "SAPR-8", "HBPY-8", "DD-8"])
 def test_all_different_cn8(rules, symbol):
     g = rules.geometry(symbol)
     parts = (1,) * 8
-    comp = parse_abstract(_formula(parts))
+    comp = parse_abstract(letters_formula(parts))
     stereo = sum(1 for _ in generate(comp, g))
-    assert stereo == _burnside(g.proper_operations, parts)
+    assert stereo == burnside_count(g.proper_operations, parts)
 
 
 @pytest.mark.parametrize("formula", ["Ma10b2", "Ma9b3", "Ma6b6", "Ma4b4c4", "Ma3b3c3d3", "Ma8b2c2", "Ma6b3c3"])
@@ -125,86 +75,22 @@ def test_icosahedral_compositions(rules, formula):
     comp = parse_abstract(formula)
     counts = tuple(n for _, n in comp.parts)
     s = enumerate_isomers(comp, g)
-    assert s.geometric_isomers == _burnside(g.operations, counts)
-    assert s.stereoisomers == _burnside(g.proper_operations, counts)
+    assert s.geometric_isomers == burnside_count(g.operations, counts)
+    assert s.stereoisomers == burnside_count(g.proper_operations, counts)
 
 
 def test_library_burnside_agrees(rules):
     # the library's up-front count (used before long runs) against this file's
     g = rules.geometry("IC-12")
     for parts in [(3, 3, 3, 3), (6, 6), (1,) * 12]:
-        comp = parse_abstract(_formula(parts))
-        assert burnside_counts(comp, g) == (_burnside(g.operations, parts), _burnside(g.proper_operations, parts))
+        comp = parse_abstract(letters_formula(parts))
+        assert burnside_counts(comp, g) == (
+            burnside_count(g.operations, parts),
+            burnside_count(g.proper_operations, parts),
+        )
 
 
 # --- chelates: Burnside over decorations listed by brute force ------------------
-
-
-def _chelate_decorations(g, kinds):
-    """All labelled decorations: for each kind (donors, count, span, ring,
-    arrangement) a set of disjoint placements; listed without the enumerator."""
-    n = g.coordination_number
-    edges = g.edges
-
-    def ok(kind, t):
-        donors, _, span, ring, arr = kind
-        if ring:
-            return all((min(a, b), max(a, b)) in edges for a, b in itertools.combinations(t, 2))
-        for a, b in zip(t, t[1:]):
-            trans = g.angles[a, b] > 179
-            if span == "edge" and (min(a, b), max(a, b)) not in edges:
-                return False
-            if span == "trans" and not trans:
-                return False
-            if span == "cis" and trans:
-                return False
-        if len(t) == 3 and arr:
-            shape = "mer" if g.angles[t[0], t[2]] > 179 else "fac"
-            if shape not in arr:
-                return False
-        return True
-
-    def norm(kind, t):
-        donors, _, _, ring, _ = kind
-        if ring:
-            return tuple(sorted(t))
-        return min(t, t[::-1]) if donors == donors[::-1] else t
-
-    per_kind = []
-    for kind in kinds:
-        d = len(kind[0])
-        per_kind.append(sorted({norm(kind, t) for t in itertools.permutations(range(n), d) if ok(kind, t)}))
-
-    out = []
-
-    def rec(k, used, acc):
-        if k == len(kinds):
-            out.append(tuple(acc))
-            return
-        cnt = kinds[k][1]
-        for combo in itertools.combinations(per_kind[k], cnt):
-            sites = [x for t in combo for x in t]
-            if len(set(sites)) != len(sites) or used & set(sites):
-                continue
-            acc.append(frozenset(combo))
-            rec(k + 1, used | set(sites), acc)
-            acc.pop()
-
-    rec(0, frozenset(), [])
-    return out, norm
-
-
-def _orbits_by_burnside(g, kinds, ops):
-    decs, norm = _chelate_decorations(g, kinds)
-    total = 0
-    for op in ops:
-        p = op.perm
-        for dec in decs:
-            img = tuple(frozenset(norm(kinds[k], tuple(p[x] for x in t)) for t in piece) for k, piece in enumerate(dec))
-            total += img == dec
-    f = Fraction(total, len(ops))
-    assert f.denominator == 1
-    return int(f)
 
 
 CHELATE_CASES = [
@@ -269,8 +155,8 @@ def test_chelate_counts_match_burnside(rules, formula, symbol, kinds, opts):
     g = rules.geometry(symbol)
     comp = apply_settings(parse_abstract(formula), opts.get("spans", ()), opts.get("arrangements", ()))
     s = enumerate_isomers(comp, g)
-    assert s.geometric_isomers == _orbits_by_burnside(g, kinds, g.operations)
-    assert s.stereoisomers == _orbits_by_burnside(g, kinds, g.proper_operations)
+    assert s.geometric_isomers == orbits_by_burnside(g, kinds, g.operations)
+    assert s.stereoisomers == orbits_by_burnside(g, kinds, g.proper_operations)
 
 
 # --- the classic counts ---------------------------------------------------------

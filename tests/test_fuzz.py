@@ -5,7 +5,7 @@ The property everywhere: a call either succeeds or raises an
 :class:`~enumerator.errors.IsosieveError` (InputError, RuleError,
 CapacityError), never any other exception; through the CLI, an error is one
 line on stderr, exit status 2 for usage/input errors, 1 for internal errors,
-and no traceback unless --debug (the project's error contract; common
+and no traceback unless --debug (how the project reports errors; common
 practice for command-line tools).  Example counts are kept modest so the
 file runs in well under a minute.
 """
@@ -239,13 +239,16 @@ def test_geometry_loader_never_crashes(text):
             if geos is not None and "XO-6" in geos:
                 g = geos["XO-6"]
                 _ok_or_isosieve(lambda: (g.operations, g.point_group, g.edges))
-        # the defaults are never touched by a user folder (issue 9, item 4)
+        # a user folder, however broken, never changes the built-in geometries
         assert sorted(load_rules().geometries) == BUILTIN_SYMBOLS
     finally:
         shutil.rmtree(folder, ignore_errors=True)
 
 
-LIGAND_ENTRY = '[[ligand]]\nname = "Zq"\nlabel = "test"\nsmiles = "[Cl-:1]"\ndonors = ["Cl"]\ndenticity = 1\ncharge = -1\nelectrons_covalent = 1\nelectrons_ionic = 2\n'
+LIGAND_ENTRY = (
+    '[[ligand]]\nname = "Zq"\nlabel = "test"\nsmiles = "[Cl-:1]"\ndonors = ["Cl"]\ndenticity = 1\ncharge = -1\n'
+    "electrons_covalent = 1\nelectrons_ionic = 2\n"
+)
 ligand_text = st.one_of(
     raw_toml,
     st.lists(st.sampled_from(LIGAND_ENTRY.splitlines(keepends=True)), max_size=10).map("".join),

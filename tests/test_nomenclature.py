@@ -357,7 +357,7 @@ def test_cli_pick_and_error():
 
 
 def test_cli_pick_no_match_is_exit_2(capsys):
-    # project contract: bad input -> one line, exit status 2, listing what is there
+    # bad input -> one line, exit status 2, listing what is there (how the project reports errors)
     with pytest.raises(SystemExit) as exc:
         main(["isomers", "Ma3b3", "--pick", "OC-6-99"])
     assert exc.value.code == 2

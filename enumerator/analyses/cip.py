@@ -53,9 +53,9 @@ from __future__ import annotations
 
 from collections.abc import Iterable, Mapping, Sequence
 from dataclasses import dataclass
-from functools import lru_cache
 from types import MappingProxyType
 
+from enumerator.caches import cached
 from enumerator.errors import InputError
 from enumerator.model.composition import Composition, LigandKind
 from enumerator.model.elements import atomic_number, atomic_weight
@@ -180,7 +180,7 @@ def _structures(smiles: str) -> tuple:
 _Graph = tuple[Mapping[int, tuple[int, float, int]], Mapping[int, tuple[tuple[int, int], ...]], Mapping[int, int]]
 
 
-@lru_cache(maxsize=1024)
+@cached(maxsize=1024)
 def _graphs(smiles: str, metal: str) -> tuple[_Graph, ...]:
     """The graph of every resonance structure of a ligand, read-only (cached by SMILES and metal)."""
     return tuple(_graph(m, metal) for m in _structures(smiles))
@@ -286,7 +286,7 @@ def _ordered(n: _Node, depth: int, attr: str, memo: dict, order_memo: dict | Non
     )
 
 
-@lru_cache(maxsize=4096)
+@cached(maxsize=4096)
 def branch_key(smiles: str, donor: int, metal: str = "M", spheres: int = MAX_SPHERES) -> BranchKey:
     """The CIP value of the branch from the metal through the ligating atom
     with atom-map number ``donor`` in ``smiles`` (cached by value).
@@ -485,12 +485,12 @@ def donor_priorities(composition: Composition) -> dict[tuple[str, int], int]:
     InputError
         A catalogue ligand has no SMILES, or it cannot be read.
     """
-    return dict(_donor_priorities(composition, tuple(k.meta for k in composition.kinds)))
+    return dict(_donor_priorities(composition))
 
 
-@lru_cache(maxsize=1024)
-def _donor_priorities(composition: Composition, catalogue: tuple) -> tuple[tuple[tuple[str, int], int], ...]:
-    # ``catalogue`` (the kinds' SMILES and other data, which Composition equality leaves out) completes the key
+@cached(maxsize=1024)
+def _donor_priorities(composition: Composition) -> tuple[tuple[tuple[str, int], int], ...]:
+    # keyed by the composition, whose ligand kinds compare their SMILES and other catalogue data too
     labels: list[tuple[str, int]] = []
     values: list = []
     if uses_letters(composition):

@@ -36,9 +36,9 @@ from __future__ import annotations
 
 from collections.abc import Iterable
 from dataclasses import dataclass
-from functools import cache, lru_cache
 from typing import Any
 
+from enumerator.caches import cached
 from enumerator.isomers.enumeration import canonical_placement, generate, placements_for
 from enumerator.model.composition import Composition, LigandKind
 from enumerator.model.geometry import Geometry
@@ -59,7 +59,13 @@ class GeometryCount:
     stereoisomers: int
 
     def to_dict(self) -> dict[str, Any]:
-        """Plain data for JSON."""
+        """Plain data for JSON.
+
+        Returns
+        -------
+        dict
+            ``geometry``, ``name``, ``geometric_isomers``, ``stereoisomers``.
+        """
         return {
             "geometry": self.geometry,
             "name": self.name,
@@ -81,7 +87,13 @@ class CountResult:
     method: str = METHOD
 
     def to_dict(self) -> dict[str, Any]:
-        """Plain data for JSON (the shape of ``isosieve count --json``)."""
+        """Plain data for JSON.
+
+        Returns
+        -------
+        dict
+            The shape of ``isosieve count --json``.
+        """
         doc: dict[str, Any] = {
             "formula": self.formula,
             "method": self.method,
@@ -154,7 +166,7 @@ def cycle_type(perm: tuple[int, ...]) -> tuple[int, ...]:
     return tuple(sorted(out))
 
 
-@cache
+@cached(maxsize=None)
 def _fixed(cycles: tuple[int, ...], counts: tuple[int, ...]) -> int:
     if not cycles:
         return 1 if all(c == 0 for c in counts) else 0
@@ -192,7 +204,7 @@ def burnside_counts(composition: Composition, geometry: Geometry) -> tuple[int, 
     return _counts(composition.parts, geometry)
 
 
-@lru_cache(maxsize=256)
+@cached(maxsize=256)
 def _counts(parts: tuple[tuple[LigandKind, int], ...], geometry: Geometry) -> tuple[int, int]:
     ops = geometry.operations
     if all(k.denticity == 1 for k, _ in parts):

@@ -26,12 +26,12 @@ The generator is lazy, so huge cases stream and a ``limit`` stops early:
 from __future__ import annotations
 
 import itertools
-from collections.abc import Iterator, Sequence
+from collections.abc import Iterable, Iterator, Sequence
 from dataclasses import dataclass, field
-from functools import cache, lru_cache
 
 import numpy as np
 
+from enumerator.caches import cached
 from enumerator.errors import InputError
 from enumerator.model.composition import Composition, LigandKind
 from enumerator.model.geometry import Geometry
@@ -45,6 +45,7 @@ __all__ = [
     "enumerate_isomers",
     "placements_for",
     "group_tables",
+    "GroupTables",
     "canonical_placement",
 ]
 
@@ -88,19 +89,29 @@ class Isomer:
 
     @property
     def operations(self) -> tuple[SymOp, ...]:
+        """The operations of the stabiliser, proper and improper."""
         ops = self.geometry.operations
         return tuple(ops[k] for k in self.stabiliser)
 
     @property
     def proper_stabiliser(self) -> tuple[int, ...]:
+        """The rotations of the stabiliser, as indices into ``geometry.operations``."""
         ops = self.geometry.operations
         return tuple(k for k in self.stabiliser if ops[k].proper)
 
     def links(self) -> list[tuple[int, int, str]]:
-        """Chelate and ring links as (site, site, ligand name)."""
-        out = []
+        """Chelate and ring links.
+
+        Returns
+        -------
+        list of (int, int, str)
+            (site, site, ligand name) per link, the lower site first, sorted;
+            a ring links every pair of its sites.
+        """
+        out: list[tuple[int, int, str]] = []
         for kind, piece in self.placements:
             for t in piece:
+                pairs: Iterable[tuple[int, int]]
                 if kind.ring:
                     pairs = itertools.combinations(sorted(t), 2)
                 else:
@@ -109,6 +120,18 @@ class Isomer:
         return sorted(out)
 
     def sites_of(self, ligand: str) -> tuple[int, ...]:
+        """The sites (0-based) a ligand holds.
+
+        Parameters
+        ----------
+        ligand : str
+            A ligand name of the composition.
+
+        Returns
+        -------
+        tuple of int
+            In site order; empty when the ligand is not there.
+        """
         return tuple(s.index for s in self.sites if s.ligand == ligand)
 
 
@@ -124,13 +147,31 @@ class IsomerSet:
 
     @property
     def stereoisomers(self) -> int:
+        """How many stereoisomers (enantiomers counted apart) the set holds."""
         return len(self.isomers)
 
     @property
     def geometric_isomers(self) -> int:
+        """How many geometric isomers (enantiomer pairs counted once) the set holds."""
         return len({i.number for i in self.isomers})
 
     def get(self, isomer_id: str) -> Isomer:
+        """The isomer with this id.
+
+        Parameters
+        ----------
+        isomer_id : str
+            E.g. '2' or '3a'.
+
+        Returns
+        -------
+        Isomer
+
+        Raises
+        ------
+        InputError
+            No isomer has that id (the message lists the ids).
+        """
         for i in self.isomers:
             if i.id == isomer_id:
                 return i
@@ -138,20 +179,37 @@ class IsomerSet:
 
 
 @dataclass(frozen=True)
-class _Tables:
-    perms: np.ndarray  # |G| x n
-    mult: np.ndarray  # |G| x |G|: index of ops[a] @ ops[b]
+class GroupTables:
+    """A geometry's group as index tables (read-only arrays), for fast orbit work.
+
+    ``perms`` is |G| x n (operation k sends site i to ``perms[k, i]``);
+    ``mult[a, b]`` is the index of ``ops[a] @ ops[b]``; ``inverse[a]`` the index
+    of the inverse of ``ops[a]``; ``proper`` marks the rotations.
+    """
+
+    perms: np.ndarray
+    mult: np.ndarray
     inverse: np.ndarray
-    proper: np.ndarray  # bool per op
+    proper: np.ndarray
 
 
-def group_tables(geometry: Geometry) -> _Tables:
-    """Permutation, multiplication and inverse tables of a geometry's group (cached by value)."""
+def group_tables(geometry: Geometry) -> GroupTables:
+    """Permutation, multiplication and inverse tables of a geometry's group.
+
+    Parameters
+    ----------
+    geometry : Geometry
+
+    Returns
+    -------
+    GroupTables
+        Read-only arrays indexed like ``geometry.operations``; cached by the site vectors.
+    """
     return _tables(geometry.vectors)
 
 
-@cache
-def _tables(vectors) -> _Tables:
+@cached(maxsize=None)
+def _tables(vectors: tuple[tuple[float, float, float], ...]) -> GroupTables:
     from enumerator.model.geometry import derive_operations
 
     ops = derive_operations(vectors)
@@ -165,12 +223,24 @@ def _tables(vectors) -> _Tables:
     inverse = np.array([int(np.nonzero(mult[a] == ident)[0][0]) for a in range(g)], dtype=np.int32)
     perms = np.array([op.perm for op in ops], dtype=np.int32)
     proper = np.array([op.proper for op in ops], dtype=bool)
-    return _Tables(perms, mult, inverse, proper)
+    for table in (perms, mult, inverse, proper):
+        table.setflags(write=False)  # shared by every caller of the cache
+    return GroupTables(perms, mult, inverse, proper)
 
 
 def canonical_placement(kind: LigandKind, t: Placement) -> Placement:
-    """One spelling per placement: a ring's sites sorted, a palindromic chain
-    read from its lower end."""
+    """One spelling per placement: a ring's sites sorted, a palindromic chain read from its lower end.
+
+    Parameters
+    ----------
+    kind : LigandKind
+    t : tuple of int
+        The sites the ligand holds, in donor order.
+
+    Returns
+    -------
+    tuple of int
+    """
     if kind.ring:
         return tuple(sorted(t))
     if kind.palindromic:
@@ -180,8 +250,23 @@ def canonical_placement(kind: LigandKind, t: Placement) -> Placement:
 
 
 def placements_for(kind: LigandKind, geometry: Geometry) -> list[Placement]:
-    """Every way one ligand of this kind can sit on the geometry, each once
-    (a symmetric chelate's two directions count as one)."""
+    """Every way one ligand of this kind can sit on the geometry, each once.
+
+    A chelate's links obey its span settings (the geometry's default span
+    where it sets none) and a tridentate chain its fac/mer limit; a ring caps
+    a face (its sites pairwise joined by polyhedron edges).
+
+    Parameters
+    ----------
+    kind : LigandKind
+    geometry : Geometry
+
+    Returns
+    -------
+    list of tuple of int
+        Sorted canonical placements (:func:`canonical_placement`): a symmetric
+        chelate's two directions count as one.
+    """
     n = geometry.coordination_number
     d = kind.denticity
     if d == 1:
@@ -234,7 +319,7 @@ def _mask(t: Placement) -> int:
     return m
 
 
-@lru_cache(maxsize=8192)
+@cached(maxsize=8192)
 def _point_group(vectors, linear: bool, stab: tuple[int, ...]) -> str:
     from enumerator.model.geometry import derive_operations
 
@@ -279,6 +364,7 @@ def _leaves(levels, geometry: Geometry) -> Iterator[tuple[tuple[Piece, ...], tup
             return
         kind, count, cands = levels[level]
         for piece in _pieces(cands, masks[level], count, used):
+            new_stab: tuple[int, ...]
             if len(stab) == 1:
                 new_stab = stab
             else:
@@ -348,10 +434,25 @@ def _build(
 
 
 def generate(composition: Composition, geometry: Geometry, *, limit: int | None = None) -> Iterator[Isomer]:
-    """Yield every stereoisomer lazily, enantiomers side by side ('3a', '3b').
+    """Every stereoisomer, lazily, enantiomers side by side ('3a', '3b').
 
-    Raises :class:`~enumerator.errors.InputError` before yielding anything
-    when the composition cannot be placed on the geometry.
+    Parameters
+    ----------
+    composition : Composition
+    geometry : Geometry
+    limit : int, optional
+        Stop after this many stereoisomers.
+
+    Returns
+    -------
+    Iterator[Isomer]
+        In a fixed order: the same ids on every run.
+
+    Raises
+    ------
+    InputError
+        Before yielding anything, when the donor count does not match the
+        geometry or a ligand cannot be placed on it.
     """
     levels = _check(composition, geometry)
     return _generate(levels, composition, geometry, limit)
@@ -361,9 +462,7 @@ def _generate(levels, composition: Composition, geometry: Geometry, limit: int |
     tab = group_tables(geometry)
     mirror = next((k for k in range(len(tab.perms)) if not tab.proper[k]), None)
     emitted = 0
-    number = 0
-    for pieces, stab in _leaves(levels, geometry):
-        number += 1
+    for number, (pieces, stab) in enumerate(_leaves(levels, geometry), start=1):
         chiral = mirror is not None and all(tab.proper[h] for h in stab)
         if not chiral:
             yield _build(levels, pieces, stab, geometry, composition, str(number), number, False, None)
@@ -385,7 +484,24 @@ def _generate(levels, composition: Composition, geometry: Geometry, limit: int |
 
 
 def enumerate_isomers(composition: Composition, geometry: Geometry, *, limit: int | None = None) -> IsomerSet:
-    """All stereoisomers as a materialised :class:`IsomerSet`."""
+    """All stereoisomers as a materialised set.
+
+    Parameters
+    ----------
+    composition : Composition
+    geometry : Geometry
+    limit : int, optional
+        Keep the first this many stereoisomers (``complete`` is then False if there are more).
+
+    Returns
+    -------
+    IsomerSet
+
+    Raises
+    ------
+    InputError
+        The composition cannot be placed on the geometry, or its ligands cannot all be placed together.
+    """
     levels = _check(composition, geometry)
     isomers = []
     complete = True

@@ -2,6 +2,13 @@
 
 Sites are numbered from 1 as in every table; a chelate is written as its
 linked site tuple in donor order.
+
+>>> from enumerator.rules.ruleset import load_rules
+>>> from enumerator.parse.abstract import parse_abstract
+>>> from enumerator.isomers.enumeration import enumerate_isomers
+>>> s = enumerate_isomers(parse_abstract("M(AA)b4"), load_rules().geometry("OC-6"))
+>>> occupancy(s.isomers[0])
+'AA:(1-2) b:3,4,5,6'
 """
 
 from __future__ import annotations
@@ -14,7 +21,17 @@ __all__ = ["occupancy"]
 
 
 def occupancy(iso: Isomer) -> str:
-    """Which sites (1-based) each ligand holds, chelates as linked site tuples."""
+    """Which sites (1-based) each ligand holds, chelates as linked site tuples.
+
+    Parameters
+    ----------
+    iso : Isomer
+
+    Returns
+    -------
+    str
+        One group per ligand in unit order, e.g. ``'CO:1,2 Cl:3,6 en:(4-5)'``.
+    """
     by_unit: dict[int, list[Site]] = defaultdict(list)
     for s in iso.sites:
         by_unit[s.unit].append(s)

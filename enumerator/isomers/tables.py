@@ -85,8 +85,14 @@ class IsomerTables:
     single: bool = False
 
     def to_dict(self) -> dict[str, Any] | list[dict[str, Any]]:
-        """Plain data for JSON: per isomer ``{"isomer": id, **table.to_dict()}``;
-        a list of them, or the one document when ``single``."""
+        """Plain data for JSON, the shape of ``isosieve chartable FORMULA --json``.
+
+        Returns
+        -------
+        dict or list of dict
+            Per isomer ``{"isomer": id, **table.to_dict()}``; a list of them,
+            or the one document when ``single``.
+        """
         docs = [{"isomer": iso_id, **t.to_dict()} for iso_id, t in self.tables]
         return docs[0] if self.single else docs
 

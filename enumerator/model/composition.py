@@ -3,13 +3,22 @@
 A :class:`LigandKind` says how one ligand molecule occupies sites: its donor
 sequence along the chain, whether it is a ring that caps a face, which spans
 its chelate links may take and, for tridentate chains, whether it binds fac,
-mer or either.  A :class:`Composition` is the multiset of kinds on one metal.
+mer or either.  A :class:`Composition` is the multiset of kinds on one metal,
+in formula order.  Both are values: frozen, hashable, compared field by
+field (catalogue data included), so they can key a cache.
+
+>>> en = LigandKind("en", ("N", "N"))
+>>> en.denticity, en.palindromic, en.with_span("cis").spans
+(2, True, ('cis',))
+>>> comp = Composition("[Co(en)2Cl2]+", ((en, 2), (LigandKind("Cl", ("Cl",)), 2)), metal="Co", charge=1)
+>>> comp.donor_count, [k.name for k in comp.kinds]
+(6, ['en', 'Cl'])
 """
 
 from __future__ import annotations
 
 from collections.abc import Iterable, Mapping
-from dataclasses import dataclass, field, replace
+from dataclasses import dataclass, replace
 from types import MappingProxyType
 from typing import Any
 
@@ -34,8 +43,12 @@ class LigandKind:
     either).  A ``ring`` ligand caps a face: its donors are mutually adjacent
     and interchangeable (the piano-stool idealisation of an η-ring).
     ``reporter`` names the stretch-reporter class (CO, CN, NO, ...) if any.
-    ``meta`` carries catalogue data (formula, SMILES, charge, ...) as sorted
-    key/value pairs so the kind stays hashable.
+    ``meta`` carries catalogue data (SMILES, charge, electron counts, ...) as
+    sorted key/value pairs of hashable values.  It is part of equality and of
+    the hash: two kinds of one name with different catalogue data (a user's
+    ``ligands.toml`` redefining a built-in ligand) are different values, so a
+    cache keyed by a kind, a composition or an isomer never answers for the
+    other one.
     """
 
     name: str
@@ -44,10 +57,11 @@ class LigandKind:
     spans: tuple[str, ...] = ()
     arrangements: frozenset[str] = frozenset()
     reporter: str | None = None
-    meta: tuple[tuple[str, object], ...] = field(default=(), compare=False)
+    meta: tuple[tuple[str, object], ...] = ()
 
     @property
     def denticity(self) -> int:
+        """The number of sites the ligand occupies (3 for a face-capping ring)."""
         return len(self.donors)
 
     def info(self, key: str, default: Any = None) -> Any:
@@ -86,11 +100,41 @@ class LigandKind:
         return self.donors == self.donors[::-1]
 
     def span(self, link: int, default: str) -> str:
+        """The span setting of one chain link.
+
+        Parameters
+        ----------
+        link : int
+            The link's index along the chain (0 joins donors 0 and 1).
+        default : str
+            The geometry's default span, used when the kind sets none.
+
+        Returns
+        -------
+        str
+            'edge', 'cis', 'trans' or 'any'; a single setting applies to every link.
+        """
         if not self.spans:
             return default
         return self.spans[min(link, len(self.spans) - 1)]
 
     def with_span(self, span: str) -> LigandKind:
+        """The same chelate with every link limited to one span setting (``--span AA=trans``).
+
+        Parameters
+        ----------
+        span : str
+            One of :data:`~enumerator.model.geometry.SPANS`.
+
+        Returns
+        -------
+        LigandKind
+
+        Raises
+        ------
+        InputError
+            The span is unknown, or the kind is not a chelate chain.
+        """
         if span not in SPANS:
             raise InputError(f"span '{span}' is not one of {', '.join(SPANS)}", "e.g. --span AA=trans")
         if self.denticity < 2 or self.ring:
@@ -101,6 +145,22 @@ class LigandKind:
         return replace(self, spans=(span,) * (self.denticity - 1))
 
     def with_arrangements(self, names: Iterable[str]) -> LigandKind:
+        """The same tridentate chain limited to fac and/or mer (``--arrangement AAA=fac``).
+
+        Parameters
+        ----------
+        names : iterable of str
+            'fac', 'mer' or both (blank names are ignored).
+
+        Returns
+        -------
+        LigandKind
+
+        Raises
+        ------
+        InputError
+            A name is neither fac nor mer, or the kind is not a tridentate chain.
+        """
         chosen = frozenset(n.strip() for n in names if n.strip())
         bad = sorted(chosen - set(ARRANGEMENTS))
         if bad:
@@ -115,7 +175,12 @@ class LigandKind:
 
 @dataclass(frozen=True)
 class Composition:
-    """The ligands on one metal centre, in formula order."""
+    """The ligands on one metal centre, in formula order.
+
+    ``formula`` is the text as given; ``parts`` each kind with its count;
+    ``metal`` the element symbol ('M' for the abstract notation); ``charge``
+    the overall charge of the complex.
+    """
 
     formula: str
     parts: tuple[tuple[LigandKind, int], ...]
@@ -124,13 +189,31 @@ class Composition:
 
     @property
     def donor_count(self) -> int:
+        """The number of sites the ligands occupy together."""
         return sum(k.denticity * n for k, n in self.parts)
 
     @property
     def kinds(self) -> tuple[LigandKind, ...]:
+        """The ligand kinds, in formula order."""
         return tuple(k for k, _ in self.parts)
 
     def kind(self, name: str) -> LigandKind:
+        """The kind called ``name``.
+
+        Parameters
+        ----------
+        name : str
+            A ligand name of this composition ('en', 'CO', 'a').
+
+        Returns
+        -------
+        LigandKind
+
+        Raises
+        ------
+        InputError
+            No ligand of that name (the message lists those there are).
+        """
         for k in self.kinds:
             if k.name == name:
                 return k
@@ -139,11 +222,30 @@ class Composition:
         )
 
     def replace_kind(self, name: str, new: LigandKind) -> Composition:
+        """The same composition with the kind called ``name`` replaced by ``new`` (same count).
+
+        Parameters
+        ----------
+        name : str
+            The ligand to replace.
+        new : LigandKind
+            Its replacement, e.g. with a span or reporter set.
+
+        Returns
+        -------
+        Composition
+
+        Raises
+        ------
+        InputError
+            No ligand of that name.
+        """
         self.kind(name)
         return replace(self, parts=tuple((new if k.name == name else k, n) for k, n in self.parts))
 
     @property
     def pattern(self) -> tuple:
-        """The value that decides the isomers: kinds and counts, without names
-        of the formula.  Used as a cache key."""
+        """The value that decides the isomers: each kind's donors, ring, spans and
+        arrangements with its count, without names or catalogue data (so
+        ``[Mo(CO)4(PPh3)2]`` and ``[W(CO)4(PMe3)2]`` share it)."""
         return tuple((k.donors, k.ring, k.spans, tuple(sorted(k.arrangements)), n) for k, n in self.parts)

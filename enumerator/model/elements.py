@@ -16,9 +16,9 @@ on first use.
 from __future__ import annotations
 
 from collections.abc import Mapping
-from functools import cache
 from types import MappingProxyType
 
+from enumerator.caches import cached
 from enumerator.errors import InputError
 
 __all__ = [
@@ -49,31 +49,82 @@ def _table():
     return Chem.GetPeriodicTable()
 
 
-@cache
+@cached(maxsize=None)
 def element_symbols() -> Mapping[str, int]:
-    """Element symbol -> atomic number for elements 1-118 (read-only)."""
+    """Every element symbol and its atomic number.
+
+    Returns
+    -------
+    Mapping[str, int]
+        Symbol -> atomic number for elements 1-118 (read-only).
+    """
     pt = _table()
     return MappingProxyType({pt.GetElementSymbol(z): z for z in range(1, 119)})
 
 
 def atomic_number(symbol: str) -> int:
-    """The atomic number of an element symbol (exact case), 0 if it is not one."""
+    """The atomic number of an element symbol.
+
+    Parameters
+    ----------
+    symbol : str
+        Exact case ('Ru', not 'ru').
+
+    Returns
+    -------
+    int
+        0 when ``symbol`` is not an element symbol ('M', letters).
+    """
     return element_symbols().get(symbol, 0)
 
 
 def is_element(label: str) -> bool:
-    """Whether ``label`` is an element symbol, exact case ('M' and letters are not)."""
+    """Whether ``label`` is an element symbol, exact case ('M' and letters are not).
+
+    Parameters
+    ----------
+    label : str
+
+    Returns
+    -------
+    bool
+    """
     return atomic_number(label) > 0
 
 
 def is_metal(symbol: str) -> bool:
-    """Whether ``symbol`` is an element outside :data:`NONMETALS`."""
+    """Whether ``symbol`` is an element outside :data:`NONMETALS`.
+
+    Parameters
+    ----------
+    symbol : str
+
+    Returns
+    -------
+    bool
+    """
     z = atomic_number(symbol)
     return z > 0 and z not in NONMETALS
 
 
 def group_of(z: int) -> tuple[int | None, str]:
-    """(IUPAC group 1-18, or None in the f-block; block letter) of atomic number ``z``."""
+    """The IUPAC group and block of an element, from the shape of the periodic table.
+
+    Parameters
+    ----------
+    z : int
+        Atomic number, 1-118.
+
+    Returns
+    -------
+    (int or None, str)
+        Group 1-18 (None in the f-block) and the block letter; La and Ac are group 3.
+
+    Raises
+    ------
+    InputError
+        ``z`` is outside 1-118.
+    """
     if not 1 <= z <= 118:
         raise InputError(f"atomic number {z} is out of range", "use an element 1-118")
     period = next(p for p in range(1, 8) if z <= _NOBLE[p])
@@ -97,16 +148,39 @@ def group_of(z: int) -> tuple[int | None, str]:
     return (g, "d") if g <= 12 else (g, "p")
 
 
-@cache
+@cached(maxsize=None)
 def atomic_weight(z: int) -> float:
-    """Standard atomic weight (u) of element ``z``, rounded to 4 decimals."""
+    """The standard atomic weight of an element (RDKit's table).
+
+    Parameters
+    ----------
+    z : int
+        Atomic number.
+
+    Returns
+    -------
+    float
+        In u, rounded to 4 decimals.
+    """
     return round(float(_table().GetAtomicWeight(z)), 4)
 
 
-@cache
+@cached(maxsize=None)
 def isotope_mass(symbol: str, isotope: int = 0) -> float | None:
-    """Mass (u) of an isotope, or of the most common isotope when ``isotope`` is 0;
-    None when the symbol or the isotope is unknown."""
+    """The mass of an isotope (RDKit's table).
+
+    Parameters
+    ----------
+    symbol : str
+        Element symbol.
+    isotope : int, optional
+        Mass number; 0 for the most common isotope.
+
+    Returns
+    -------
+    float or None
+        In u; None when the symbol or the isotope is unknown.
+    """
     z = atomic_number(symbol)
     if z <= 0:
         return None
@@ -115,13 +189,35 @@ def isotope_mass(symbol: str, isotope: int = 0) -> float | None:
     return float(m) if m and m > 0 else None
 
 
-@cache
+@cached(maxsize=None)
 def covalent_radius(symbol: str) -> float:
-    """RDKit's covalent radius (Å) of an element symbol."""
+    """RDKit's covalent radius of an element.
+
+    Parameters
+    ----------
+    symbol : str
+        Element symbol.
+
+    Returns
+    -------
+    float
+        In Å.
+    """
     return float(_table().GetRcovalent(symbol))
 
 
-@cache
+@cached(maxsize=None)
 def vdw_radius(z: int) -> float:
-    """RDKit's van der Waals radius (Å) of element ``z``."""
+    """RDKit's van der Waals radius of an element.
+
+    Parameters
+    ----------
+    z : int
+        Atomic number.
+
+    Returns
+    -------
+    float
+        In Å.
+    """
     return float(_table().GetRvdw(z))

@@ -20,6 +20,7 @@ from __future__ import annotations
 import itertools
 from dataclasses import dataclass
 from functools import cached_property
+from typing import Any
 
 import numpy as np
 
@@ -55,6 +56,7 @@ class Geometry:
 
     @property
     def coordination_number(self) -> int:
+        """The number of sites."""
         return len(self.vectors)
 
     @cached_property
@@ -69,6 +71,7 @@ class Geometry:
 
     @cached_property
     def proper_operations(self) -> tuple[SymOp, ...]:
+        """The rotations among :attr:`operations` (determinant +1), identity first."""
         return tuple(op for op in self.operations if op.proper)
 
     @cached_property
@@ -80,10 +83,12 @@ class Geometry:
 
     @cached_property
     def angles(self) -> np.ndarray:
-        """n x n matrix of inter-site angles in degrees."""
+        """n x n matrix of inter-site angles in degrees (read-only)."""
         v = np.array(self.vectors)
         c = np.clip(v @ v.T, -1.0, 1.0)
-        return np.degrees(np.arccos(c))
+        out = np.degrees(np.arccos(c))
+        out.setflags(write=False)
+        return out
 
     @cached_property
     def edges(self) -> frozenset[tuple[int, int]]:
@@ -91,11 +96,35 @@ class Geometry:
         return polyhedron_edges(self.vectors)
 
     def relation(self, i: int, j: int) -> str:
-        """'trans' or 'cis' for two distinct sites."""
+        """Whether two distinct sites are trans or cis.
+
+        Parameters
+        ----------
+        i, j : int
+            Site indices (0-based).
+
+        Returns
+        -------
+        str
+            'trans' at or above :data:`TRANS_ANGLE` degrees, else 'cis'.
+        """
         return "trans" if self.angles[i, j] >= TRANS_ANGLE else "cis"
 
     def span_ok(self, span: str, i: int, j: int) -> bool:
-        """Whether a chelate link with the given span setting may join sites i and j."""
+        """Whether a chelate link with the given span setting may join two sites.
+
+        Parameters
+        ----------
+        span : str
+            'edge' (along a polyhedron edge), 'cis', 'trans' or 'any'.
+        i, j : int
+            Site indices (0-based).
+
+        Returns
+        -------
+        bool
+            False for ``i == j``.
+        """
         if i == j:
             return False
         if span == "edge":
@@ -106,10 +135,16 @@ class Geometry:
             return self.relation(i, j) == "trans"
         return True
 
-    def site_graph(self):
-        """The site graph (networkx): one node per site with its ``position``;
-        one edge per pair with ``angle`` (degrees), ``relation`` ('cis' or
-        'trans') and ``polyhedron_edge`` (bool)."""
+    def site_graph(self) -> Any:
+        """The site graph.
+
+        Returns
+        -------
+        networkx.Graph
+            One node per site with its ``position``; one edge per pair with
+            ``angle`` (degrees), ``relation`` ('cis' or 'trans') and
+            ``polyhedron_edge`` (bool).
+        """
         import networkx as nx
 
         g = nx.Graph(symbol=self.symbol)

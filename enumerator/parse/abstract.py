@@ -27,13 +27,43 @@ _CHARGE = re.compile(r"(\d*)([+-])$")
 
 
 def looks_abstract(text: str) -> bool:
-    """True for the letter notation (starts with M followed by a ligand token)."""
+    """Whether a formula is written in the letter notation: 'M' then a ligand token or nothing.
+
+    Parameters
+    ----------
+    text : str
+
+    Returns
+    -------
+    bool
+        Also True for some real formulas ('Mo(CO)6'); :func:`enumerator.parse.formula.parse_formula` settles those.
+    """
     t = text.strip().lstrip("[")
     return bool(re.match(r"^M(?:[a-z(]|$)", t))
 
 
 def parse_charge(text: str) -> tuple[str, int]:
-    """Split a trailing charge such as '2-' or '+' off a bracketed formula."""
+    """Split a trailing charge such as '2-' or '+' off a bracketed formula.
+
+    Parameters
+    ----------
+    text : str
+
+    Returns
+    -------
+    (str, int)
+        The formula up to its closing bracket (or all of it without one) and the charge (0 if none).
+
+    Raises
+    ------
+    InputError
+        Something other than a charge follows the closing bracket.
+
+    Examples
+    --------
+    >>> parse_charge("[Ma4b2]2-")
+    ('[Ma4b2]', -2)
+    """
     t = text.strip()
     if "]" in t:
         head, _, tail = t.rpartition("]")
@@ -55,7 +85,23 @@ def _error(text: str, pos: int, what: str, fix: str) -> InputError:
 
 
 def parse_abstract(text: str) -> Composition:
-    """Parse the abstract letter notation (see module docstring)."""
+    """Parse the abstract letter notation (see the module docstring).
+
+    Parameters
+    ----------
+    text : str
+        E.g. 'Ma4b2', 'M(AB)2b2', '[M(ring)a3]+'.
+
+    Returns
+    -------
+    Composition
+        Metal 'M'; each ligand kind once, in order of first appearance, counts added up.
+
+    Raises
+    ------
+    InputError
+        The text does not follow the notation; the message gives the position (1-based).
+    """
     original = text
     body, charge = parse_charge(text)
     body = body.strip()
@@ -89,7 +135,8 @@ def parse_abstract(text: str) -> Composition:
                     original,
                     offset + i + 1,
                     f"'({inner})' is not a chelate",
-                    "write chelate donors as 2-6 capital letters, e.g. (AA), (AB), (ABA), or (ring) for a face-capping ring",
+                    "write chelate donors as 2-6 capital letters, e.g. (AA), (AB), (ABA), "
+                    "or (ring) for a face-capping ring",
                 )
             i = close + 1
         else:

@@ -29,8 +29,8 @@ from __future__ import annotations
 
 import re
 from dataclasses import dataclass
-from functools import lru_cache
 
+from enumerator.caches import cached
 from enumerator.errors import InputError
 from enumerator.model.composition import Composition, LigandKind
 from enumerator.model.elements import element_symbols, is_metal
@@ -39,7 +39,7 @@ from enumerator.rules.ruleset import RuleSet, closest_names
 
 __all__ = ["parse_condensed", "METAL_FIX"]
 
-#: Atomic numbers of the non-metals and metalloids that cannot be the centre here.
+#: The fix offered when a formula has no metal (or not one the parser accepts).
 METAL_FIX = "write one metal symbol, e.g. [RuCl2(CO)2(PPh3)2]"
 
 _SUPERSCRIPT = str.maketrans("⁰¹²³⁴⁵⁶⁷⁸⁹", "0123456789")
@@ -61,7 +61,7 @@ def _err(text: str, pos: int, what: str, fix: str) -> InputError:
     return InputError(f"formula '{text}': {what} at position {pos + 1}", fix)
 
 
-@lru_cache(maxsize=16)
+@cached(maxsize=16)
 def _spellings_by_length(rules: RuleSet) -> tuple[tuple[str, str], ...]:
     return tuple(sorted(all_spellings(rules).items(), key=lambda kv: (-len(kv[0]), kv[0])))
 
@@ -98,7 +98,8 @@ class _Parser:
             raise _err(
                 self.text,
                 pos,
-                f"η{eta}-{entry.name} is not in the catalogue ({entry.name} is bound through {entry.bound_atoms} atom(s))",
+                f"η{eta}-{entry.name} is not in the catalogue "
+                f"({entry.name} is bound through {entry.bound_atoms} atom(s))",
                 f"write η{entry.bound_atoms}-{entry.name}, or add an η{eta} entry in a ligands.toml under --rules DIR",
             )
 
@@ -238,11 +239,30 @@ def _split_charge(text: str) -> tuple[int, int, int]:
 
 
 def parse_condensed(text: str, rules: RuleSet, suggest: bool = True) -> Composition:
-    """Parse a condensed formula of a mononuclear complex (see module docstring).
+    """Parse a condensed formula of a mononuclear complex (see the module docstring).
 
-    ``suggest=False`` leaves the "did you mean" names out of an unknown-ligand
-    error: for a caller that only tries the condensed reading and discards
-    the error (the fuzzy match costs far more than the parse)."""
+    Parameters
+    ----------
+    text : str
+        E.g. '[Fe(CN)5(NO)]2-'.
+    rules : RuleSet
+        The rule folders in force (the ligand catalogue).
+    suggest : bool, optional
+        False leaves the "did you mean" names out of an unknown-ligand error:
+        for a caller that only tries the condensed reading and discards the
+        error (the fuzzy match costs far more than the parse).
+
+    Returns
+    -------
+    Composition
+        The metal, the overall charge, and each catalogue ligand once (its
+        canonical name) with its count, in order of first appearance.
+
+    Raises
+    ------
+    InputError
+        The formula cannot be read; the message names the text and its position (1-based).
+    """
     if not text or not text.strip():
         raise InputError("empty formula", "give a formula such as [RuCl2(CO)2(PPh3)2]")
     start, stop, charge = _split_charge(text)

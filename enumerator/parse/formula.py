@@ -26,7 +26,28 @@ _COMMON_M_ELEMENTS = frozenset({"Mn", "Mo", "Mg"})
 
 
 def parse_formula(text: str, rules: RuleSet) -> Composition:
-    """Parse the abstract letter notation or a condensed formula."""
+    """Parse the abstract letter notation or a condensed formula, whichever the text is.
+
+    A text that starts like the letter notation ('M' + a lowercase letter or
+    a parenthesis) is read as one, except that a text starting with Mn, Mo,
+    Mg, Mt, Md or Mc is first tried as a real formula.
+
+    Parameters
+    ----------
+    text : str
+        E.g. 'Ma4b2' or '[RuCl2(CO)2(PPh3)2]'.
+    rules : RuleSet
+        The rule folders in force (the ligand catalogue).
+
+    Returns
+    -------
+    Composition
+
+    Raises
+    ------
+    InputError
+        Neither reading works; the error of the more likely reading is raised.
+    """
     if not text or not text.strip():
         raise InputError("empty formula", "give a formula such as Ma4b2 or [RuCl2(CO)2(PPh3)2]")
     if looks_abstract(text):

@@ -28,9 +28,9 @@ dictionary look-up, and the isomer ids are those ``isosieve isomers`` prints.
 from __future__ import annotations
 
 from collections.abc import Mapping, Sequence
-from functools import lru_cache
 from types import MappingProxyType
 
+from enumerator.caches import cached
 from enumerator.isomers.enumeration import Isomer, IsomerSet, canonical_placement, enumerate_isomers, group_tables
 from enumerator.model.composition import Composition, LigandKind
 from enumerator.model.geometry import Geometry
@@ -145,7 +145,7 @@ def replace_site(deco: Decoration, site: int, leaving: str, entering: str) -> De
     return tuple((n, tuple(sorted(d[n]))) for n in sorted(d))
 
 
-@lru_cache(maxsize=256)
+@cached(maxsize=256)
 def enumerate_isomers_cached(comp: Composition, geometry: Geometry) -> IsomerSet:
     """:func:`~enumerator.isomers.enumeration.enumerate_isomers`, cached by the (composition, geometry) value.
 
@@ -161,7 +161,7 @@ def enumerate_isomers_cached(comp: Composition, geometry: Geometry) -> IsomerSet
     return enumerate_isomers(comp, geometry)
 
 
-@lru_cache(maxsize=256)
+@cached(maxsize=256)
 def isomer_index(comp: Composition, geometry: Geometry) -> Mapping[Decoration, str]:
     """Every isomer of a composition by its rotation key (:func:`canonical_key`).
 

@@ -1,7 +1,14 @@
 """Rule files: every loader for the data under ``rules/`` (geometries,
-ligands, reporter classes, force fields, substitution rules), each validated
-once at load into typed objects."""
+ligands, reporter classes, force fields, element names, substitution rules),
+each validated once per rule set into typed objects.
 
-from enumerator.rules.ruleset import BUILTIN_RULES, RuleSet, check_keys, closest_names, load_rules, read_toml
+:mod:`~enumerator.rules.ruleset` says which folders are in force,
+:mod:`~enumerator.rules.checks` holds what every loader shares (reading TOML,
+checking keys, the one-line :class:`~enumerator.errors.RuleError`), and one
+module per kind of file does the rest.
+"""
 
-__all__ = ["BUILTIN_RULES", "RuleSet", "load_rules", "read_toml", "check_keys", "closest_names"]
+from enumerator.rules.checks import check_keys, closest_names, read_toml, rule_error
+from enumerator.rules.ruleset import BUILTIN_RULES, RuleSet, load_rules
+
+__all__ = ["BUILTIN_RULES", "RuleSet", "load_rules", "read_toml", "check_keys", "closest_names", "rule_error"]

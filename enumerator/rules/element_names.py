@@ -13,14 +13,13 @@ IR-9.2).  A later file's entry replaces an earlier one.
 from __future__ import annotations
 
 import re
-from collections.abc import Mapping, Sequence
-from functools import lru_cache
-from pathlib import Path
+from collections.abc import Mapping
 from types import MappingProxyType
 from typing import Any
 
-from enumerator.errors import RuleError
-from enumerator.rules.ruleset import RuleSet, check_keys, read_toml
+from enumerator.caches import cached
+from enumerator.rules.checks import check_keys, read_toml, rule_error
+from enumerator.rules.ruleset import RuleSet
 
 __all__ = ["element_names"]
 
@@ -43,28 +42,28 @@ def element_names(ruleset: RuleSet) -> Mapping[str, tuple[str, str]]:
     RuleError
         An entry is not a table, or a key is missing or not a word of letters.
     """
-    return _element_names(tuple(ruleset.files("element_names.toml")))
+    return _element_names(ruleset)
 
 
 def _entry(e: Any, where: str) -> tuple[str, str, str]:
     if not isinstance(e, dict):
-        raise RuleError(f"{where} is not a table", "write [[element]] with symbol, name, anion")
+        raise rule_error(where, "not a table", "write [[element]] with symbol, name, anion")
     check_keys(e, where, ("symbol", "name", "anion"), ())
     for key in ("symbol", "name", "anion"):
         if not isinstance(e[key], str) or not re.fullmatch(r"[A-Za-z]+", e[key]):
-            raise RuleError(f"{where}: {key} must be a word of letters, not {e[key]!r}", f'write e.g. {key} = "cobalt"')
+            raise rule_error(where, f"{key} must be a word of letters, not {e[key]!r}", f'write e.g. {key} = "cobalt"')
     return e["symbol"], e["name"], e["anion"]
 
 
-@lru_cache(maxsize=16)
-def _element_names(paths: Sequence[Path]) -> Mapping[str, tuple[str, str]]:
+@cached(maxsize=16)
+def _element_names(ruleset: RuleSet) -> Mapping[str, tuple[str, str]]:
     out: dict[str, tuple[str, str]] = {}
-    for path in paths:
+    for path in ruleset.files("element_names.toml"):
         data = read_toml(path)
         check_keys(data, str(path), (), ("element",))
         entries = data.get("element") or []
         if not isinstance(entries, list):
-            raise RuleError(f"{path}: 'element' must be an array of tables", "write [[element]] before each entry")
+            raise rule_error(path, "'element' must be an array of tables", "write [[element]] before each entry")
         for k, e in enumerate(entries, 1):
             symbol, name, anion = _entry(e, f"{path}: [[element]] #{k}")
             out[symbol] = (name, anion)

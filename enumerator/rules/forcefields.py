@@ -25,14 +25,15 @@ import math
 import re
 from collections.abc import Mapping
 from dataclasses import dataclass
-from functools import lru_cache
 from pathlib import Path
 from types import MappingProxyType
 from typing import Any
 
-from enumerator.errors import InputError, RuleError
+from enumerator.caches import cached
+from enumerator.errors import InputError
 from enumerator.model.elements import is_element, isotope_mass
-from enumerator.rules.ruleset import RuleSet, check_keys, closest_names, load_rules, read_toml
+from enumerator.rules.checks import check_keys, closest_names, read_toml, rule_error
+from enumerator.rules.ruleset import RuleSet, load_rules
 
 __all__ = ["ClassField", "load_forcefields", "class_field", "atom_mass", "element_mass"]
 
@@ -106,10 +107,10 @@ def element_mass(symbol: str, isotope: int = 0, where: str = "") -> float:
         For an unknown element or an isotope without a known mass.
     """
     if not is_element(symbol):
-        raise RuleError(f"{where}: unknown element '{symbol}'", "use an element symbol such as C, N, O")
+        raise rule_error(where, f"unknown element '{symbol}'", "use an element symbol such as C, N, O")
     m = isotope_mass(symbol, isotope)
     if m is None:
-        raise RuleError(f"{where}: no mass known for isotope {isotope}{symbol}", "check the mass number")
+        raise rule_error(where, f"no mass known for isotope {isotope}{symbol}", "check the mass number")
     return m
 
 
@@ -135,7 +136,7 @@ def atom_mass(text: str, where: str = "") -> float:
     """
     m = _ATOM.match(text)
     if not m:
-        raise RuleError(f"{where}: '{text}' is not an element symbol", "write e.g. C, O, 13C, 18O")
+        raise rule_error(where, f"'{text}' is not an element symbol", "write e.g. C, O, 13C, 18O")
     return element_mass(m.group(2), int(m.group(1) or 0), where)
 
 
@@ -146,8 +147,9 @@ def _number(v: object) -> bool:
 def _atoms(data: Mapping[str, Any], where: str) -> tuple[str, str]:
     atoms = data["atoms"]
     if not (isinstance(atoms, list) and len(atoms) == 2 and all(isinstance(a, str) and _ATOM.match(a) for a in atoms)):
-        raise RuleError(
-            f"{where}: atoms = {atoms!r} is not two element symbols",
+        raise rule_error(
+            where,
+            f"atoms = {atoms!r} is not two element symbols",
             'write e.g. atoms = ["C", "O"] (an isotope as "13C")',
         )
     for a in atoms:
@@ -160,12 +162,12 @@ def _constants(data: Mapping[str, Any], where: str) -> dict[str, float]:
     for key in _STRETCHING:
         v = data[key]
         if not (_number(v) and float(v) > 0):
-            raise RuleError(f"{where}: {key} = {v!r} is not a positive number", f"give {key} in mdyn/Å, e.g. 16.0")
+            raise rule_error(where, f"{key} = {v!r} is not a positive number", f"give {key} in mdyn/Å, e.g. 16.0")
         vals[key] = float(v)
     for key in _INTERACTION:
         v = data[key]
         if not _number(v):
-            raise RuleError(f"{where}: {key} = {v!r} is not a number", f"give {key} in mdyn/Å, e.g. 0.3")
+            raise rule_error(where, f"{key} = {v!r} is not a number", f"give {key} in mdyn/Å, e.g. 0.3")
         vals[key] = float(v)
     return vals
 
@@ -173,27 +175,27 @@ def _constants(data: Mapping[str, Any], where: str) -> dict[str, float]:
 def _band_range(data: Mapping[str, Any], where: str) -> tuple[float, float]:
     rng = data.get("range", [0.0, 10000.0])
     if not (isinstance(rng, list) and len(rng) == 2 and all(_number(x) for x in rng) and rng[0] < rng[1]):
-        raise RuleError(f"{where}: range = {rng!r} is not [low, high]", "write e.g. range = [1850.0, 2125.0]")
+        raise rule_error(where, f"range = {rng!r} is not [low, high]", "write e.g. range = [1850.0, 2125.0]")
     return float(rng[0]), float(rng[1])
 
 
 def _parse_class(path: Path, name: str, data: object) -> ClassField:
     where = f"{path}: [class.{name}]"
     if not isinstance(data, dict):
-        raise RuleError(f"{where} is not a table", "write it as [class.NAME] with keys below it")
+        raise rule_error(where, "not a table", "write it as [class.NAME] with keys below it")
     check_keys(data, where, _KEYS_REQ, _KEYS_OPT)
     atoms = _atoms(data, where)
     vals = _constants(data, where)
     rng = _band_range(data, where)
     for key in ("label", "source"):
         if not isinstance(data[key], str) or not data[key].strip():
-            raise RuleError(f"{where}: {key} must be a non-empty string", f'write {key} = "..."')
+            raise rule_error(where, f"{key} must be a non-empty string", f'write {key} = "..."')
     return ClassField(
         name=name, label=data["label"], atoms=atoms, range=rng, source=data["source"], path=str(path), **vals
     )
 
 
-@lru_cache(maxsize=16)
+@cached(maxsize=16)
 def load_forcefields(rules: RuleSet) -> Mapping[str, ClassField]:
     """Every reporter class's force-field defaults.
 
@@ -221,7 +223,7 @@ def load_forcefields(rules: RuleSet) -> Mapping[str, ClassField]:
         check_keys(data, str(path), (), ("class",))
         classes = data.get("class", {})
         if not isinstance(classes, dict):
-            raise RuleError(f"{path}: 'class' is not a table of tables", "write [class.CO], [class.CN], ...")
+            raise rule_error(path, "'class' is not a table of tables", "write [class.CO], [class.CN], ...")
         for name in sorted(classes):
             out[name] = _parse_class(path, name, classes[name])
     return MappingProxyType(out)

@@ -28,30 +28,58 @@ True
 from __future__ import annotations
 
 import re
-from dataclasses import dataclass
-from functools import lru_cache
+from collections.abc import Mapping
+from dataclasses import dataclass, replace
 from pathlib import Path
-from typing import Any, Mapping
+from types import MappingProxyType
+from typing import Any
 
+from enumerator.caches import cached
+from enumerator.errors import InputError
 from enumerator.model.composition import ARRANGEMENTS, LigandKind
 from enumerator.model.elements import element_symbols
-from enumerator.errors import InputError, RuleError
 from enumerator.model.geometry import SPANS
-from enumerator.rules.ruleset import RuleSet, check_keys, closest_names, read_toml
+from enumerator.rules.checks import check_keys, closest_names, read_toml, rule_error
+from enumerator.rules.ruleset import RuleSet
 
-__all__ = ["LigandEntry", "load_ligands", "find_ligand", "all_spellings", "REPORTER_NAME"]
+__all__ = [
+    "LigandEntry",
+    "load_ligands",
+    "find_ligand",
+    "all_spellings",
+    "unknown_ligand",
+    "parse_entry",
+    "check_smiles",
+    "REPORTER_NAME",
+]
 
 #: A reporter class name: letters and digits, starting with a capital.
 REPORTER_NAME = re.compile(r"^[A-Z][A-Za-z0-9]{0,7}$")
 
 _REQUIRED = ("name", "label", "smiles", "donors", "denticity", "charge", "electrons_covalent", "electrons_ionic")
-_OPTIONAL = ("aliases", "hapticity", "ring", "spans", "arrangements", "reporter", "nitrosyl", "note", "source", "iupac", "enclose")
+_OPTIONAL = (
+    "aliases",
+    "hapticity",
+    "ring",
+    "spans",
+    "arrangements",
+    "reporter",
+    "nitrosyl",
+    "note",
+    "source",
+    "iupac",
+    "enclose",
+)
 _NAME = re.compile(r"^[^\s\[\]]{1,32}$")
 
 
 @dataclass(frozen=True)
 class LigandEntry:
-    """One catalogued ligand."""
+    """One catalogued ligand: one ``[[ligand]]`` table, checked.
+
+    The keys are those of the catalogue schema (DEVELOPERS.md, "Catalogue
+    schema"); ``source`` is the file the entry was read from.
+    """
 
     name: str
     label: str
@@ -80,7 +108,14 @@ class LigandEntry:
         return self.hapticity or self.denticity
 
     def meta(self) -> tuple[tuple[str, object], ...]:
-        """Catalogue data carried by the :class:`LigandKind` (sorted pairs)."""
+        """Catalogue data carried by the :class:`LigandKind` (sorted pairs; part of its equality).
+
+        Returns
+        -------
+        tuple of (str, object)
+            SMILES, charge, electron counts, label and, where given, hapticity,
+            nitrosyl shape and IUPAC naming, sorted by key.
+        """
         d: dict[str, object] = {
             "smiles": self.smiles,
             "charge": self.charge,
@@ -99,7 +134,14 @@ class LigandEntry:
         return tuple(sorted(d.items()))
 
     def kind(self) -> LigandKind:
-        """The ligand as the isomer enumerator sees it."""
+        """The ligand as the isomer enumerator sees it.
+
+        Returns
+        -------
+        LigandKind
+            A ring's donors are its first donor three times (it caps a face).
+        """
+        donors: tuple[str, ...]
         if self.ring:
             donors = (self.donors[0],) * 3
         else:
@@ -115,140 +157,301 @@ class LigandEntry:
         )
 
 
-def _fail(where: str, what: str, fix: str) -> RuleError:
-    return RuleError(f"{where}: {what}", fix)
-
-
 def _str_list(value: Any, where: str, key: str, example: str) -> tuple[str, ...]:
     if not isinstance(value, list) or not all(isinstance(x, str) and x.strip() for x in value):
-        raise _fail(where, f"'{key}' must be a list of strings", f"write {key} = {example}")
+        raise rule_error(where, f"'{key}' must be a list of strings", f"write {key} = {example}")
     return tuple(x.strip() for x in value)
 
 
 def _int(value: Any, where: str, key: str) -> int:
     if not isinstance(value, int) or isinstance(value, bool):
-        raise _fail(where, f"'{key}' must be an integer, not {value!r}", f"write {key} = 2")
+        raise rule_error(where, f"'{key}' must be an integer, not {value!r}", f"write {key} = 2")
     return value
 
 
-def _parse_entry(data: Mapping[str, Any], where: str) -> LigandEntry:
-    check_keys(data, where, _REQUIRED, _OPTIONAL)
+def _flag(data: Mapping[str, Any], where: str, key: str) -> bool:
+    value = data.get(key, False)
+    if not isinstance(value, bool):
+        raise rule_error(where, f"'{key}' must be true or false", f"write {key} = true")
+    return value
+
+
+def _name(data: Mapping[str, Any], where: str) -> str:
     name = data["name"]
     if not isinstance(name, str) or not _NAME.match(name):
-        raise _fail(where, f"name {name!r} must be 1-32 characters without spaces or square brackets", 'write e.g. name = "PPh3"')
-    where = f"{where} ({name})"
+        raise rule_error(
+            where,
+            f"name {name!r} must be 1-32 characters without spaces or square brackets",
+            'write e.g. name = "PPh3"',
+        )
+    return name
+
+
+def _label_and_aliases(data: Mapping[str, Any], where: str) -> tuple[str, tuple[str, ...]]:
     label = data["label"]
     if not isinstance(label, str) or not label.strip():
-        raise _fail(where, "'label' must be a non-empty string", 'write e.g. label = "triphenylphosphine"')
+        raise rule_error(where, "'label' must be a non-empty string", 'write e.g. label = "triphenylphosphine"')
     aliases = _str_list(data.get("aliases", []), where, "aliases", '["C5H5"]')
     for a in aliases:
         if not _NAME.match(a):
-            raise _fail(where, f"alias {a!r} must be 1-32 characters without spaces or square brackets", "remove the spaces")
+            raise rule_error(
+                where, f"alias {a!r} must be 1-32 characters without spaces or square brackets", "remove the spaces"
+            )
+    return label.strip(), aliases
+
+
+def _donors(data: Mapping[str, Any], where: str) -> tuple[str, ...]:
     donors = _str_list(data["donors"], where, "donors", '["P", "P"]')
     symbols = element_symbols()
     for d in donors:
         if d not in symbols:
-            raise _fail(where, f"donor {d!r} is not an element symbol", 'write the donor element, e.g. donors = ["N"]')
-    dent = _int(data["denticity"], where, "denticity")
-    ring = data.get("ring", False)
-    if not isinstance(ring, bool):
-        raise _fail(where, "'ring' must be true or false", "write ring = true")
+            raise rule_error(
+                where, f"donor {d!r} is not an element symbol", 'write the donor element, e.g. donors = ["N"]'
+            )
+    return donors
+
+
+def _hapticity(data: Mapping[str, Any], where: str) -> int | None:
     hapticity = data.get("hapticity")
-    if hapticity is not None:
-        hapticity = _int(hapticity, where, "hapticity")
-        if hapticity < 2:
-            raise _fail(where, f"hapticity {hapticity} is below 2", "leave 'hapticity' out for a ligand bound through one atom per site")
+    if hapticity is None:
+        return None
+    hapticity = _int(hapticity, where, "hapticity")
+    if hapticity < 2:
+        raise rule_error(
+            where,
+            f"hapticity {hapticity} is below 2",
+            "leave 'hapticity' out for a ligand bound through one atom per site",
+        )
+    return hapticity
+
+
+def _check_ring(donors: tuple[str, ...], dent: int, hapticity: int | None, where: str) -> None:
+    if dent != 3 or len(donors) != 3 or len(set(donors)) != 1:
+        raise rule_error(
+            where,
+            "a ring ligand caps a facial triad: it needs denticity = 3 and three equal donors",
+            'write donors = ["C", "C", "C"] and denticity = 3',
+        )
+    if hapticity is None or hapticity < 3:
+        raise rule_error(
+            where, "a ring ligand needs its hapticity (3 or more)", "write e.g. hapticity = 5 for a cyclopentadienyl"
+        )
+
+
+def _binding(data: Mapping[str, Any], where: str, donors: tuple[str, ...]) -> tuple[int, bool, int | None]:
+    """Denticity, ring and hapticity, checked against each other and the donors."""
+    dent = _int(data["denticity"], where, "denticity")
+    ring = _flag(data, where, "ring")
+    hapticity = _hapticity(data, where)
     if ring:
-        if dent != 3 or len(donors) != 3 or len(set(donors)) != 1:
-            raise _fail(where, "a ring ligand caps a facial triad: it needs denticity = 3 and three equal donors", 'write donors = ["C", "C", "C"] and denticity = 3')
-        if hapticity is None or hapticity < 3:
-            raise _fail(where, "a ring ligand needs its hapticity (3 or more)", "write e.g. hapticity = 5 for a cyclopentadienyl")
+        _check_ring(donors, dent, hapticity, where)
     elif dent != len(donors):
-        raise _fail(where, f"denticity {dent} but {len(donors)} donors are listed", "list one donor element per occupied site")
+        raise rule_error(
+            where, f"denticity {dent} but {len(donors)} donors are listed", "list one donor element per occupied site"
+        )
     if dent < 1:
-        raise _fail(where, "denticity must be at least 1", "write denticity = 1")
+        raise rule_error(where, "denticity must be at least 1", "write denticity = 1")
     if hapticity is not None and not ring and hapticity < dent:
-        raise _fail(where, f"hapticity {hapticity} is below the denticity {dent}", "check both keys")
+        raise rule_error(where, f"hapticity {hapticity} is below the denticity {dent}", "check both keys")
+    return dent, ring, hapticity
+
+
+def _electrons(data: Mapping[str, Any], where: str) -> tuple[int, int, int]:
+    """Charge (ionic model) and the electrons donated in the covalent and the ionic count."""
     charge = _int(data["charge"], where, "charge")
     e_cov = _int(data["electrons_covalent"], where, "electrons_covalent")
     e_ion = _int(data["electrons_ionic"], where, "electrons_ionic")
     if e_cov < 0 or e_ion < 0:
-        raise _fail(where, "electron counts cannot be negative", "give the electrons the ligand donates")
+        raise rule_error(where, "electron counts cannot be negative", "give the electrons the ligand donates")
     if e_ion - e_cov != -charge:
-        raise _fail(
+        raise rule_error(
             where,
             f"electrons_ionic ({e_ion}) - electrons_covalent ({e_cov}) must equal -charge ({-charge})",
             "an anion X- gives one electron more in the ionic count than in the covalent count",
         )
+    return charge, e_cov, e_ion
+
+
+def _spans(data: Mapping[str, Any], where: str, dent: int, ring: bool) -> tuple[str, ...]:
     spans = _str_list(data.get("spans", []), where, "spans", '["edge"]')
     for s in spans:
         if s not in SPANS:
-            raise _fail(where, f"span {s!r} is not one of {', '.join(SPANS)}", 'write e.g. spans = ["edge"]')
+            raise rule_error(where, f"span {s!r} is not one of {', '.join(SPANS)}", 'write e.g. spans = ["edge"]')
     if spans and (ring or dent < 2):
-        raise _fail(where, "'spans' applies to chelate chains only", "remove 'spans'")
+        raise rule_error(where, "'spans' applies to chelate chains only", "remove 'spans'")
     if spans and len(spans) not in (1, dent - 1):
-        raise _fail(where, f"{len(spans)} spans for {dent - 1} chain links", "give one span for all links or one per link")
+        raise rule_error(
+            where, f"{len(spans)} spans for {dent - 1} chain links", "give one span for all links or one per link"
+        )
+    return spans
+
+
+def _arrangements(data: Mapping[str, Any], where: str, dent: int, ring: bool) -> tuple[str, ...]:
     arr = _str_list(data.get("arrangements", []), where, "arrangements", '["fac"]')
     for a in arr:
         if a not in ARRANGEMENTS:
-            raise _fail(where, f"arrangement {a!r} is not fac or mer", 'write arrangements = ["fac"], ["mer"] or ["fac", "mer"]')
+            raise rule_error(
+                where, f"arrangement {a!r} is not fac or mer", 'write arrangements = ["fac"], ["mer"] or ["fac", "mer"]'
+            )
     if arr and (ring or dent != 3):
-        raise _fail(where, "'arrangements' applies to tridentate chains only", "remove 'arrangements'")
+        raise rule_error(where, "'arrangements' applies to tridentate chains only", "remove 'arrangements'")
     if set(arr) == set(ARRANGEMENTS):
-        arr = ()  # either: no restriction
+        return ()  # either: no restriction
+    return tuple(sorted(arr))
+
+
+def _reporter_and_nitrosyl(data: Mapping[str, Any], where: str) -> tuple[str | None, str | None]:
     reporter = data.get("reporter")
     if reporter is not None and (not isinstance(reporter, str) or not REPORTER_NAME.match(reporter)):
-        raise _fail(where, f"reporter {reporter!r} is not a class name", 'write e.g. reporter = "CO"')
+        raise rule_error(where, f"reporter {reporter!r} is not a class name", 'write e.g. reporter = "CO"')
     nitrosyl = data.get("nitrosyl")
     if nitrosyl is not None and nitrosyl not in ("linear", "bent"):
-        raise _fail(where, f"nitrosyl {nitrosyl!r} is not 'linear' or 'bent'", 'write nitrosyl = "linear"')
+        raise rule_error(where, f"nitrosyl {nitrosyl!r} is not 'linear' or 'bent'", 'write nitrosyl = "linear"')
+    return reporter, nitrosyl
+
+
+def _note_and_naming(data: Mapping[str, Any], where: str) -> tuple[str, str | None, bool]:
+    """The note, the name inside an additive name, and whether that name is enclosed."""
     note = data.get("note", "")
     if not isinstance(note, str):
-        raise _fail(where, "'note' must be a string", "quote it")
+        raise rule_error(where, "'note' must be a string", "quote it")
     iupac = data.get("iupac")
     if iupac is not None and (not isinstance(iupac, str) or not iupac.strip() or iupac != iupac.strip()):
-        raise _fail(where, "'iupac' must be a non-empty name without surrounding spaces", 'write e.g. iupac = "triphenylphosphane"')
-    enclose = data.get("enclose", False)
-    if not isinstance(enclose, bool):
-        raise _fail(where, "'enclose' must be true or false", "write enclose = true")
+        raise rule_error(
+            where,
+            "'iupac' must be a non-empty name without surrounding spaces",
+            'write e.g. iupac = "triphenylphosphane"',
+        )
+    enclose = _flag(data, where, "enclose")
     if enclose and iupac is None:
-        raise _fail(where, "'enclose' without 'iupac'", 'give the name too, e.g. iupac = "pyridine"')
+        raise rule_error(where, "'enclose' without 'iupac'", 'give the name too, e.g. iupac = "pyridine"')
+    return note, iupac, enclose
+
+
+def _smiles(data: Mapping[str, Any], where: str) -> str:
     smiles = data["smiles"]
     if not isinstance(smiles, str) or not smiles.strip():
-        raise _fail(where, "'smiles' must be a non-empty string", 'write e.g. smiles = "[C-:1]#[O+]"')
+        raise rule_error(where, "'smiles' must be a non-empty string", 'write e.g. smiles = "[C-:1]#[O+]"')
+    return smiles.strip()
+
+
+def parse_entry(data: Mapping[str, Any], where: str) -> LigandEntry:
+    """One validated catalogue entry from a ``[[ligand]]`` table.
+
+    The keys are checked in the order of the catalogue schema (name, label
+    and aliases, donors, denticity/ring/hapticity, charge and electron counts,
+    spans, arrangements, reporter, nitrosyl, note and naming, SMILES), then
+    the SMILES against them (:func:`check_smiles`).
+
+    Parameters
+    ----------
+    data : Mapping[str, Any]
+        The table as parsed from TOML.
+    where : str
+        The file and entry number, for messages (the ligand's name is added).
+
+    Returns
+    -------
+    LigandEntry
+
+    Raises
+    ------
+    RuleError
+        The first problem found, naming the file, the entry, the ligand and the key.
+    """
+    check_keys(data, where, _REQUIRED, _OPTIONAL)
+    name = _name(data, where)
+    where = f"{where} ({name})"
+    label, aliases = _label_and_aliases(data, where)
+    donors = _donors(data, where)
+    dent, ring, hapticity = _binding(data, where, donors)
+    charge, e_cov, e_ion = _electrons(data, where)
+    spans = _spans(data, where, dent, ring)
+    arrangements = _arrangements(data, where, dent, ring)
+    reporter, nitrosyl = _reporter_and_nitrosyl(data, where)
+    note, iupac, enclose = _note_and_naming(data, where)
     entry = LigandEntry(
-        name=name, label=label.strip(), smiles=smiles.strip(), donors=donors, denticity=dent, charge=charge,
-        electrons_covalent=e_cov, electrons_ionic=e_ion, aliases=aliases, hapticity=hapticity, ring=ring,
-        spans=spans, arrangements=tuple(sorted(arr)), reporter=reporter, nitrosyl=nitrosyl, note=note,
-        source=str(data.get("source", "")), iupac=iupac, enclose=enclose,
+        name=name,
+        label=label,
+        smiles=_smiles(data, where),
+        donors=donors,
+        denticity=dent,
+        charge=charge,
+        electrons_covalent=e_cov,
+        electrons_ionic=e_ion,
+        aliases=aliases,
+        hapticity=hapticity,
+        ring=ring,
+        spans=spans,
+        arrangements=arrangements,
+        reporter=reporter,
+        nitrosyl=nitrosyl,
+        note=note,
+        source=str(data.get("source", "")),
+        iupac=iupac,
+        enclose=enclose,
     )
     check_smiles(entry, where)
     return entry
 
 
-def check_smiles(entry: LigandEntry, where: str) -> None:
-    """Parse the SMILES with RDKit and check map numbers, charge and donors."""
-    from rdkit import Chem, RDLogger
+def _read_smiles(smiles: str) -> Any:
+    """The RDKit molecule of a SMILES (hydrogens kept), or None; RDKit's own messages are held back."""
+    from rdkit import Chem, rdBase
 
-    RDLogger.DisableLog("rdApp.*")
-    try:
-        params = Chem.SmilesParserParams()
-        params.removeHs = False
-        mol = Chem.MolFromSmiles(entry.smiles, params)
-    finally:
-        RDLogger.EnableLog("rdApp.*")
-    if mol is None:
-        raise _fail(where, f"RDKit cannot parse the SMILES {entry.smiles!r}", "check brackets, ring closures and aromaticity")
+    params: Any = Chem.SmilesParserParams()  # Any: RDKit's stubs type the property setters wrongly
+    params.removeHs = False
+    with rdBase.BlockLogs():
+        return Chem.MolFromSmiles(smiles, params)
+
+
+def _atom_maps(mol: Any, where: str) -> dict[int, str]:
+    """Atom-map number -> element symbol of the mapped (bound) atoms."""
     maps: dict[int, str] = {}
     for atom in mol.GetAtoms():
         n = atom.GetAtomMapNum()
         if n:
             if n in maps:
-                raise _fail(where, f"atom-map number {n} appears twice in the SMILES", "number the bound atoms 1, 2, ... once each")
+                raise rule_error(
+                    where,
+                    f"atom-map number {n} appears twice in the SMILES",
+                    "number the bound atoms 1, 2, ... once each",
+                )
             maps[n] = atom.GetSymbol()
+    return maps
+
+
+def check_smiles(entry: LigandEntry, where: str) -> None:
+    """Check an entry's SMILES against its other keys.
+
+    RDKit must parse it; the atom-map numbers must be exactly 1..bound atoms
+    (the hapticity, else the denticity); without a hapticity map ``k`` sits on
+    ``donors[k-1]``'s element, with one every mapped atom is a donor element;
+    and the SMILES's formal charge must equal ``charge``.
+
+    Parameters
+    ----------
+    entry : LigandEntry
+        The entry, its other keys already checked.
+    where : str
+        The file, entry and ligand, for messages.
+
+    Raises
+    ------
+    RuleError
+        The first mismatch found.
+    """
+    from rdkit import Chem
+
+    mol = _read_smiles(entry.smiles)
+    if mol is None:
+        raise rule_error(
+            where, f"RDKit cannot parse the SMILES {entry.smiles!r}", "check brackets, ring closures and aromaticity"
+        )
+    maps = _atom_maps(mol, where)
     want = entry.bound_atoms
     if sorted(maps) != list(range(1, want + 1)):
-        raise _fail(
+        raise rule_error(
             where,
             f"the SMILES marks atoms {sorted(maps) or 'none'} but the ligand binds through {want} atom(s)",
             f"put atom-map numbers 1..{want} on the bound atoms, e.g. [P:1]",
@@ -256,89 +459,175 @@ def check_smiles(entry: LigandEntry, where: str) -> None:
     if entry.hapticity is None:
         for k, d in enumerate(entry.donors, start=1):
             if maps[k] != d:
-                raise _fail(where, f"donor {k} is {d!r} but SMILES atom :{k} is {maps[k]!r}", "make 'donors' follow the map numbers")
+                raise rule_error(
+                    where,
+                    f"donor {k} is {d!r} but SMILES atom :{k} is {maps[k]!r}",
+                    "make 'donors' follow the map numbers",
+                )
     else:
-        bad = sorted({e for e in maps.values()} - set(entry.donors))
+        bad = sorted(set(maps.values()) - set(entry.donors))
         if bad:
-            raise _fail(where, f"bound atom element {bad[0]!r} is not among the donors {list(entry.donors)}", "check 'donors' and the map numbers")
+            raise rule_error(
+                where,
+                f"bound atom element {bad[0]!r} is not among the donors {list(entry.donors)}",
+                "check 'donors' and the map numbers",
+            )
     q = Chem.GetFormalCharge(mol)
     if q != entry.charge:
-        raise _fail(where, f"charge is {entry.charge} but the SMILES has formal charge {q}", "write the free ligand as in the ionic model (e.g. [Cl-:1])")
+        raise rule_error(
+            where,
+            f"charge is {entry.charge} but the SMILES has formal charge {q}",
+            "write the free ligand as in the ionic model (e.g. [Cl-:1])",
+        )
 
 
 @dataclass(frozen=True)
 class _Catalogue:
-    entries: tuple[tuple[str, LigandEntry], ...]
-    spellings: tuple[tuple[str, str], ...]  # spelling -> canonical name
+    """The ligands of one rule set, read-only: by canonical name, by spelling, and by lower-case spelling."""
+
+    entries: Mapping[str, LigandEntry]
+    spellings: Mapping[str, str]  # spelling -> canonical name
+    folded: Mapping[str, frozenset[str]]  # lower-case spelling -> canonical names
 
 
-@lru_cache(maxsize=16)
-def _catalogue(rules: RuleSet) -> _Catalogue:
-    entries: dict[str, LigandEntry] = {}
-    paths = rules.files("ligands.toml")
-    for path in paths:
-        data = read_toml(path)
-        check_keys(data, str(path), required=("ligand",), optional=())
-        table = data["ligand"]
-        if not isinstance(table, list):
-            raise RuleError(f"{path}: 'ligand' must be an array of tables", "write each entry under [[ligand]]")
-        seen: set[str] = set()
-        for k, raw in enumerate(table):
-            where = f"{path} [[ligand]] #{k + 1}"
-            if not isinstance(raw, dict):
-                raise RuleError(f"{where}: not a table", "write each entry under [[ligand]]")
-            e = _parse_entry(raw, where)
-            if e.name in seen:
-                raise RuleError(f"{where}: ligand '{e.name}' is defined twice in this file", "keep one entry")
-            seen.add(e.name)
-            entries[e.name] = LigandEntry(**{**e.__dict__, "source": str(path)})
-    spellings: dict[str, str] = {}
-    for name in entries:
-        spellings[name] = name
+def _file_entries(path: Path) -> list[LigandEntry]:
+    """The entries of one ligands.toml, each checked, in file order."""
+    data = read_toml(path)
+    check_keys(data, str(path), required=("ligand",), optional=())
+    table = data["ligand"]
+    if not isinstance(table, list):
+        raise rule_error(path, "'ligand' must be an array of tables", "write each entry under [[ligand]]")
+    seen: set[str] = set()
+    out = []
+    for k, raw in enumerate(table):
+        where = f"{path} [[ligand]] #{k + 1}"
+        if not isinstance(raw, dict):
+            raise rule_error(where, "not a table", "write each entry under [[ligand]]")
+        e = parse_entry(raw, where)
+        if e.name in seen:
+            raise rule_error(where, f"ligand '{e.name}' is defined twice in this file", "keep one entry")
+        seen.add(e.name)
+        out.append(replace(e, source=str(path)))
+    return out
+
+
+def _spellings(entries: Mapping[str, LigandEntry]) -> dict[str, str]:
+    spellings = {name: name for name in entries}
     for e in entries.values():
         for a in e.aliases:
             if a in spellings and spellings[a] != e.name:
-                raise RuleError(
-                    f"{e.source}: alias '{a}' of ligand '{e.name}' is already the name or an alias of '{spellings[a]}'",
+                raise rule_error(
+                    e.source,
+                    f"alias '{a}' of ligand '{e.name}' is already the name or an alias of '{spellings[a]}'",
                     "remove or rename the alias",
                 )
             spellings[a] = e.name
-    return _Catalogue(tuple(sorted(entries.items())), tuple(sorted(spellings.items())))
+    return spellings
 
 
-def load_ligands(rules: RuleSet) -> dict[str, LigandEntry]:
-    """Every catalogued ligand by canonical name (built-in, then user files;
-    a user entry with the same name replaces the built-in one)."""
-    return dict(_catalogue(rules).entries)
+@cached(maxsize=16)
+def _catalogue(rules: RuleSet) -> _Catalogue:
+    entries: dict[str, LigandEntry] = {}
+    for path in rules.files("ligands.toml"):
+        for e in _file_entries(path):
+            entries[e.name] = e
+    spellings = _spellings(entries)
+    folded: dict[str, set[str]] = {}
+    for s, n in spellings.items():
+        folded.setdefault(s.lower(), set()).add(n)
+    return _Catalogue(
+        MappingProxyType(dict(sorted(entries.items()))),
+        MappingProxyType(dict(sorted(spellings.items()))),
+        MappingProxyType({k: frozenset(v) for k, v in folded.items()}),
+    )
 
 
-def all_spellings(rules: RuleSet) -> dict[str, str]:
-    """Every accepted spelling (names and aliases, case as written) -> canonical name."""
-    return dict(_catalogue(rules).spellings)
+def load_ligands(rules: RuleSet) -> Mapping[str, LigandEntry]:
+    """Every catalogued ligand by canonical name.
+
+    Parameters
+    ----------
+    rules : RuleSet
+        The rule folders in force: built-in first, then the user files; a
+        user entry with the same name replaces the built-in one.
+
+    Returns
+    -------
+    Mapping[str, LigandEntry]
+        Read-only, sorted by name; loaded and checked once per rule set.
+
+    Raises
+    ------
+    RuleError
+        Any entry of any file in force is malformed, or an alias is taken twice.
+    """
+    return _catalogue(rules).entries
+
+
+def all_spellings(rules: RuleSet) -> Mapping[str, str]:
+    """Every accepted spelling (names and aliases, case as written) -> canonical name.
+
+    Parameters
+    ----------
+    rules : RuleSet
+        The rule folders in force.
+
+    Returns
+    -------
+    Mapping[str, str]
+        Read-only, sorted by spelling.
+    """
+    return _catalogue(rules).spellings
 
 
 def find_ligand(rules: RuleSet, text: str) -> LigandEntry:
-    """A ligand by name or alias; exact first, then a unique case-insensitive
-    match.  Unknown names raise InputError with the nearest names."""
+    """A ligand by name or alias: the exact spelling first, then a unique case-insensitive match.
+
+    Parameters
+    ----------
+    rules : RuleSet
+        The rule folders in force.
+    text : str
+        A name or alias (surrounding spaces ignored).
+
+    Returns
+    -------
+    LigandEntry
+
+    Raises
+    ------
+    InputError
+        The spelling is unknown (with the nearest names) or matches several ligands when case is ignored.
+    """
     cat = _catalogue(rules)
-    entries = dict(cat.entries)
-    spell = dict(cat.spellings)
     t = text.strip()
-    if t in spell:
-        return entries[spell[t]]
-    lower = {}
-    for s, n in spell.items():
-        lower.setdefault(s.lower(), set()).add(n)
-    hits = lower.get(t.lower(), set())
+    if t in cat.spellings:
+        return cat.entries[cat.spellings[t]]
+    hits = cat.folded.get(t.lower(), frozenset())
     if len(hits) == 1:
-        return entries[next(iter(hits))]
+        return cat.entries[next(iter(hits))]
     if len(hits) > 1:
         raise InputError(f"ligand '{text}' is ambiguous", f"write one of {', '.join(sorted(hits))} exactly")
     raise unknown_ligand(rules, t)
 
 
 def unknown_ligand(rules: RuleSet, text: str, context: str = "") -> InputError:
-    """The error for an unknown ligand name, with the nearest known names."""
+    """The error for an unknown ligand name, with the nearest known names.
+
+    Parameters
+    ----------
+    rules : RuleSet
+        The rule folders in force.
+    text : str
+        The name given.
+    context : str, optional
+        Appended to the message (e.g. where the name was read).
+
+    Returns
+    -------
+    InputError
+        To be raised by the caller.
+    """
     near = closest_names(text, all_spellings(rules))
     hint = f"did you mean {', '.join(near)}?" if near else "see the catalogue with: isosieve ligands"
     return InputError(

@@ -18,14 +18,14 @@ A later file's entry replaces an earlier one of the same name.
 
 from __future__ import annotations
 
-from collections.abc import Mapping, Sequence
+from collections.abc import Mapping
 from dataclasses import dataclass
-from functools import lru_cache
 from pathlib import Path
 from typing import Any
 
-from enumerator.errors import RuleError
-from enumerator.rules.ruleset import RuleSet, check_keys, read_toml
+from enumerator.caches import cached
+from enumerator.rules.checks import check_keys, read_toml, rule_error
+from enumerator.rules.ruleset import RuleSet
 
 __all__ = ["ReporterClass", "Reporters", "load_reporters"]
 
@@ -59,6 +59,15 @@ class Reporters:
     def get(self, key: str) -> ReporterClass:
         """The class called ``key``.
 
+        Parameters
+        ----------
+        key : str
+            E.g. 'CO'.
+
+        Returns
+        -------
+        ReporterClass
+
         Raises
         ------
         KeyError
@@ -75,7 +84,18 @@ class Reporters:
         return tuple(c.key for c in self.classes)
 
     def nucleus_of(self, element: str) -> str | None:
-        """The nucleus usually observed for a donor element (``'P'`` -> ``'31P'``), or None."""
+        """The nucleus usually observed for a donor element.
+
+        Parameters
+        ----------
+        element : str
+            A donor element symbol, e.g. 'P'.
+
+        Returns
+        -------
+        str or None
+            E.g. '31P'; None when the ``[nuclei]`` table does not list the element.
+        """
         return dict(self.nuclei).get(element)
 
 
@@ -97,7 +117,7 @@ def load_reporters(ruleset: RuleSet) -> Reporters:
     RuleError
         A key is missing, unknown or of the wrong type; the message names the file and the entry.
     """
-    return _load_reporters(tuple(ruleset.files("reporters.toml")))
+    return _load_reporters(ruleset)
 
 
 def _window(where: str, w: Any) -> tuple[float, float]:
@@ -108,22 +128,22 @@ def _window(where: str, w: Any) -> tuple[float, float]:
         and 0 < w[0] < w[1] < 5000
     )
     if not ok:
-        raise RuleError(
-            f"{where}: ir_window_cm1 = {w!r} is not [low, high] in cm-1", "write e.g. ir_window_cm1 = [1850, 2125]"
+        raise rule_error(
+            where, f"ir_window_cm1 = {w!r} is not [low, high] in cm-1", "write e.g. ir_window_cm1 = [1850, 2125]"
         )
     return float(w[0]), float(w[1])
 
 
 def _reporter_class(key: str, entry: Any, where: str) -> ReporterClass:
     if not isinstance(entry, dict):
-        raise RuleError(
-            f"{where} is not a table", "write [class.NAME] with name, bond, nucleus, ir_window_cm1, window_source"
+        raise rule_error(
+            where, "not a table", "write [class.NAME] with name, bond, nucleus, ir_window_cm1, window_source"
         )
     check_keys(entry, where, _REQUIRED, ("caution",))
     window = _window(where, entry["ir_window_cm1"])
     for k in ("name", "bond", "nucleus", "window_source"):
         if not isinstance(entry[k], str) or not entry[k].strip():
-            raise RuleError(f"{where}: {k} must be a non-empty string", f'write {k} = "..."')
+            raise rule_error(where, f"{k} must be a non-empty string", f'write {k} = "..."')
     return ReporterClass(
         key,
         entry["name"],
@@ -138,15 +158,15 @@ def _reporter_class(key: str, entry: Any, where: str) -> ReporterClass:
 def _nuclei(path: Path, table: Mapping[str, Any]) -> dict[str, str]:
     for el, nuc in table.items():
         if not isinstance(nuc, str):
-            raise RuleError(f'{path}: [nuclei] {el} must be a string such as "31P"', "quote the nucleus")
+            raise rule_error(path, f'[nuclei] {el} must be a string such as "31P"', "quote the nucleus")
     return dict(table)
 
 
-@lru_cache(maxsize=16)
-def _load_reporters(paths: Sequence[Path]) -> Reporters:
+@cached(maxsize=16)
+def _load_reporters(ruleset: RuleSet) -> Reporters:
     classes: dict[str, ReporterClass] = {}
     nuclei: dict[str, str] = {}
-    for path in paths:
+    for path in ruleset.files("reporters.toml"):
         data = read_toml(path)
         check_keys(data, str(path), (), ("class", "nuclei"))
         for key, entry in (data.get("class") or {}).items():

@@ -36,14 +36,16 @@ from __future__ import annotations
 import re
 from collections.abc import Iterable, Mapping
 from dataclasses import dataclass, field, replace
-from functools import cached_property, lru_cache
+from functools import cached_property
 from pathlib import Path
 from types import MappingProxyType
 from typing import Any
 
-from enumerator.errors import InputError, RuleError
+from enumerator.caches import cached
+from enumerator.errors import InputError
+from enumerator.rules.checks import check_keys, closest_names, read_toml, rule_error
 from enumerator.rules.ligands import all_spellings
-from enumerator.rules.ruleset import RuleSet, check_keys, closest_names, read_toml
+from enumerator.rules.ruleset import RuleSet
 
 __all__ = [
     "SubstitutionRules",
@@ -93,7 +95,8 @@ class SubstitutionRules:
         The file the set was read from.
     aliases : tuple of (str, str)
         Other spellings of catalogued ligands -> catalogue name, so that a
-        series entry matches under any spelling (not part of equality).
+        series entry matches under any spelling (part of equality, since the
+        ranks depend on it).
     """
 
     name: str
@@ -107,7 +110,7 @@ class SubstitutionRules:
     priority: int = 0
     note: str = ""
     path: str = ""
-    aliases: tuple[tuple[str, str], ...] = field(default=(), compare=False, repr=False)
+    aliases: tuple[tuple[str, str], ...] = field(default=(), repr=False)
 
     @property
     def statistical(self) -> bool:
@@ -143,11 +146,32 @@ class SubstitutionRules:
         return MappingProxyType(out)
 
     def covers_geometry(self, symbol: str) -> bool:
-        """Whether the set applies to the geometry with this polyhedral symbol."""
+        """Whether the set applies to the geometry with this polyhedral symbol.
+
+        Parameters
+        ----------
+        symbol : str
+            E.g. 'SP-4'.
+
+        Returns
+        -------
+        bool
+        """
         return "*" in self.geometries or symbol in self.geometries
 
     def unranked(self, ligands: Iterable[str]) -> list[str]:
-        """The ligands this rule needs ranked but does not list (sorted; none for a statistical set)."""
+        """The ligands this rule needs ranked but does not list.
+
+        Parameters
+        ----------
+        ligands : iterable of str
+            Ligand names, any catalogued spelling.
+
+        Returns
+        -------
+        list of str
+            Sorted; always empty for a statistical set.
+        """
         if self.statistical:
             return []
         return sorted({n for n in ligands if self.rank(n) is None})
@@ -181,7 +205,13 @@ class SubstitutionRules:
         return True, ""
 
     def to_dict(self) -> dict[str, Any]:
-        """The rule set as it appears in JSON output (key ``rule_set``)."""
+        """The rule set as it appears in JSON output.
+
+        Returns
+        -------
+        dict
+            The value of the key ``rule_set``.
+        """
         return {
             "name": self.name,
             "title": self.title,
@@ -198,27 +228,23 @@ class SubstitutionRules:
 # ---------------------------------------------------------------- reading one file
 
 
-def _rule_error(where: str, what: str, fix: str) -> RuleError:
-    return RuleError(f"{where}: {what}", fix)
-
-
 def _string_list(value: Any, where: str, key: str, example: str) -> tuple[str, ...]:
     if not isinstance(value, list) or not all(isinstance(x, str) and x.strip() for x in value):
-        raise _rule_error(where, f"'{key}' must be a list of names", f"write e.g. {key} = {example}")
+        raise rule_error(where, f"'{key}' must be a list of names", f"write e.g. {key} = {example}")
     return tuple(x.strip() for x in value)
 
 
 def _check_name(data: Mapping[str, Any], where: str) -> str:
     name = data["name"]
     if not isinstance(name, str) or not _NAME.match(name):
-        raise _rule_error(
+        raise rule_error(
             where,
             f"name {name!r} is not a plain name",
             "use letters, digits, '-', '_' or '.', e.g. name = \"trans-effect\"",
         )
     for key in ("title", "source"):
         if not isinstance(data[key], str) or not data[key].strip():
-            raise _rule_error(
+            raise rule_error(
                 where, f"'{key}' must be a non-empty string", f'give {key} = "..." (the source: book or paper)'
             )
     return name
@@ -227,14 +253,12 @@ def _check_name(data: Mapping[str, Any], where: str) -> str:
 def _geometries(value: Any, where: str, known: Iterable[str]) -> tuple[str, ...]:
     geos = _string_list(value, where, "geometries", '["SP-4"] or ["*"]')
     if not geos:
-        raise _rule_error(
-            where, "'geometries' is empty", 'list the polyhedral symbols, e.g. ["OC-6"], or ["*"] for all'
-        )
+        raise rule_error(where, "'geometries' is empty", 'list the polyhedral symbols, e.g. ["OC-6"], or ["*"] for all')
     symbols = sorted(known)
     for g in geos:
         if g != "*" and g not in symbols:
             near = closest_names(g, symbols)
-            raise _rule_error(
+            raise rule_error(
                 where,
                 f"geometries: unknown polyhedral symbol '{g}'",
                 f"did you mean {' or '.join(near)}?" if near else f"known: {', '.join(symbols)}",
@@ -245,20 +269,20 @@ def _geometries(value: Any, where: str, known: Iterable[str]) -> tuple[str, ...]
 def _labilises_and_ties(data: Mapping[str, Any], where: str) -> tuple[str, str]:
     lab = data["labilises"]
     if lab not in LABILISES:
-        raise _rule_error(
+        raise rule_error(
             where,
             f"labilises = {lab!r} is not one of {', '.join(LABILISES)}",
             "use 'trans' (trans effect), 'cis' (cis-labilisation) or 'none' (statistical)",
         )
     ties = data["ties"]
     if ties not in TIES:
-        raise _rule_error(where, f"ties = {ties!r} is not one of {', '.join(TIES)}", "use 'statistical' or 'undecided'")
+        raise rule_error(where, f"ties = {ties!r} is not one of {', '.join(TIES)}", "use 'statistical' or 'undecided'")
     return lab, ties
 
 
 def _series(raw: Any, where: str) -> tuple[tuple[str, ...], ...]:
     if not isinstance(raw, list):
-        raise _rule_error(
+        raise rule_error(
             where, "'series' must be a list", 'write series = ["CN", ["Cl", "Br"], "NH3"] (strongest first)'
         )
     series: list[tuple[str, ...]] = []
@@ -270,11 +294,11 @@ def _series(raw: Any, where: str) -> tuple[tuple[str, ...], ...]:
             or not names
             or not all(isinstance(x, str) and x.strip() for x in names)
         ):
-            raise _rule_error(where, f"series[{k}] is {entry!r}", "give a ligand name or a list of names of equal rank")
+            raise rule_error(where, f"series[{k}] is {entry!r}", "give a ligand name or a list of names of equal rank")
         rank = tuple(x.strip() for x in names)
         for x in rank:
             if x in seen:
-                raise _rule_error(where, f"series: ligand '{x}' is listed twice", "keep each ligand at one rank")
+                raise rule_error(where, f"series: ligand '{x}' is listed twice", "keep each ligand at one rank")
             seen.add(x)
         series.append(rank)
     return tuple(series)
@@ -282,13 +306,13 @@ def _series(raw: Any, where: str) -> tuple[tuple[str, ...], ...]:
 
 def _check_series_fits(labilises: str, series: tuple[tuple[str, ...], ...], where: str) -> None:
     if labilises == "none" and series:
-        raise _rule_error(
+        raise rule_error(
             where,
             "a statistical rule set (labilises = 'none') has no series",
             "remove 'series' or set labilises = 'trans' or 'cis'",
         )
     if labilises != "none" and not series:
-        raise _rule_error(
+        raise rule_error(
             where, f"labilises = '{labilises}' needs a series of ligands", 'add series = ["strongest", ..., "weakest"]'
         )
 
@@ -296,14 +320,14 @@ def _check_series_fits(labilises: str, series: tuple[tuple[str, ...], ...], wher
 def _priority_and_note(data: Mapping[str, Any], where: str) -> tuple[int, str]:
     prio = data.get("priority", 0)
     if not isinstance(prio, int) or isinstance(prio, bool):
-        raise _rule_error(
+        raise rule_error(
             where,
             f"priority {prio!r} is not an integer",
             "write e.g. priority = 20 (higher wins when several rule sets apply)",
         )
     note = data.get("note", "")
     if not isinstance(note, str):
-        raise _rule_error(where, "'note' must be a string", "quote it")
+        raise rule_error(where, "'note' must be a string", "quote it")
     return prio, note
 
 
@@ -341,7 +365,7 @@ def _parse_rule_file(path: Path, data: Mapping[str, Any], geometries: Iterable[s
 # ---------------------------------------------------------------- every file in force
 
 
-@lru_cache(maxsize=16)
+@cached(maxsize=16)
 def load_substitution_rules(ruleset: RuleSet) -> Mapping[str, SubstitutionRules]:
     """Every substitution rule set in force, by name.
 
@@ -374,13 +398,14 @@ def load_substitution_rules(ruleset: RuleSet) -> Mapping[str, SubstitutionRules]
     for path in ruleset.files("substitution/*.toml"):
         r = replace(_parse_rule_file(path, read_toml(path), geos), aliases=aliases)
         if r.name in origin and origin[r.name].parent == path.parent:
-            raise RuleError(
-                f"{path}: rule set name '{r.name}' is also used by {origin[r.name]}", "give each file its own name"
+            raise rule_error(
+                path, f"rule set name '{r.name}' is also used by {origin[r.name]}", "give each file its own name"
             )
         out[r.name] = r
         origin[r.name] = path
     if not out:
-        raise RuleError(
+        raise rule_error(
+            ", ".join(str(f / "substitution") for f in ruleset.folders),
             "no substitution rule sets found (rules/substitution/*.toml)",
             "reinstall the package or add one with --rules DIR",
         )

@@ -19,10 +19,10 @@ from __future__ import annotations
 
 import math
 from collections.abc import Sequence
-from functools import cache
 
 import numpy as np
 
+from enumerator.caches import cached
 from enumerator.model.elements import covalent_radius, is_element
 
 __all__ = [
@@ -60,7 +60,7 @@ def element_or_none(label: str) -> str | None:
     return label if is_element(label) else None
 
 
-@cache
+@cached(maxsize=None)
 def bond_length(metal: str, donor: str) -> float:
     """Metal-donor starting distance in angstrom: the sum of RDKit's covalent radii, or
     :data:`DUMMY_DISTANCE` when either is not an element.

@@ -36,11 +36,11 @@ from __future__ import annotations
 import math
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
-from functools import lru_cache
 from typing import Any, Protocol
 
 import numpy as np
 
+from enumerator.caches import cached
 from enumerator.errors import InputError
 from enumerator.symmetry.derive import Vec, derive_operations
 from enumerator.symmetry.dixon import burnside_dixon, conjugacy_classes, multiplication_table, real_species
@@ -260,7 +260,7 @@ def character_table(
     return _geometry_table(geometry.vectors, ops, tuple(ranks) if ranks else None)
 
 
-@lru_cache(maxsize=4096)
+@cached(maxsize=4096)
 def _geometry_table(
     vectors: tuple[Vec, ...], op_indices: tuple[int, ...], ranks: tuple[int, ...] | None
 ) -> CharacterTable:
@@ -290,13 +290,13 @@ def table_from_matrices(matrices: Sequence[np.ndarray], points: Sequence[Sequenc
     return _matrices_table(keys, pts)
 
 
-@lru_cache(maxsize=512)
+@cached(maxsize=512)
 def _matrices_table(keys: tuple[tuple[float, ...], ...], pts: tuple[tuple[float, ...], ...]) -> CharacterTable:
     mats = [np.array(k).reshape(3, 3) for k in keys]
     return _build(mats, tuple(range(len(mats))), np.array(pts, dtype=float).reshape(-1, 3), None)
 
 
-@lru_cache(maxsize=128)
+@cached(maxsize=128)
 def named_table(name: str) -> CharacterTable:
     """The table of a named group, built by closing its generators in the
     standard orientation (:func:`enumerator.symmetry.groups.group_matrices`).

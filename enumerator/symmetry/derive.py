@@ -21,10 +21,10 @@ from __future__ import annotations
 
 import itertools
 import math
-from functools import cache
 
 import numpy as np
 
+from enumerator.caches import cached
 from enumerator.symmetry.operations import SymOp
 from enumerator.tolerances import (
     DEGENERATE_FACE_TOL,
@@ -114,7 +114,7 @@ def _pair_candidates(v: np.ndarray) -> list[np.ndarray]:
     return mats
 
 
-@cache
+@cached(maxsize=None)
 def derive_operations(vectors: tuple[Vec, ...]) -> tuple[SymOp, ...]:
     """All orthogonal maps that send the site set onto itself, with the site
     permutation each induces; cached by the vectors' values.
@@ -183,7 +183,7 @@ def _ring(v: np.ndarray, pts: list[int]) -> list[int]:
     return sorted(pts, key=lambda p: ang[p])
 
 
-@cache
+@cached(maxsize=None)
 def polyhedron_edges(vectors: tuple[Vec, ...]) -> frozenset[tuple[int, int]]:
     """Edges of the convex polyhedron (or polygon) spanned by the site tips.
 

@@ -16,10 +16,10 @@ from __future__ import annotations
 import math
 from collections.abc import Iterable, Sequence
 from dataclasses import dataclass
-from functools import lru_cache
 
 import numpy as np
 
+from enumerator.caches import cached
 from enumerator.tolerances import (
     ANGLE_TOL,
     KEY_DECIMALS,
@@ -313,7 +313,7 @@ def schoenflies(matrices: Iterable[np.ndarray]) -> str:
     return _schoenflies_cached(tuple(sorted(matrix_key(m) for m in mats)))
 
 
-@lru_cache(maxsize=4096)
+@cached(maxsize=4096)
 def _schoenflies_cached(keys: tuple[tuple[float, ...], ...]) -> str:
     mats = [np.array(k).reshape(3, 3) for k in keys]
     infos = [describe(m) for m in mats]

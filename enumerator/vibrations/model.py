@@ -44,11 +44,11 @@ from __future__ import annotations
 
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
-from functools import lru_cache
 from typing import Any
 
 import numpy as np
 
+from enumerator.caches import cached
 from enumerator.errors import InputError
 from enumerator.isomers.enumeration import Isomer, Site
 from enumerator.rules.forcefields import ClassField, atom_mass, class_field, element_mass
@@ -258,7 +258,7 @@ def build_model(isomer: Isomer, reporter_class: str, rules: RuleSet | None = Non
 # oscillator masses
 
 
-@lru_cache(maxsize=256)
+@cached(maxsize=256)
 def _smiles_oscillator(smiles: str, donor_map: int) -> tuple[str, float, str, float] | None:
     """(X label, m_X, Y label, m_Y) read from a catalogue SMILES: X is the atom
     with map number ``donor_map``, Y its neighbour by the highest bond order."""
@@ -288,7 +288,7 @@ def _smiles_oscillator(smiles: str, donor_map: int) -> tuple[str, float, str, fl
     return xl, xm, yl, ym
 
 
-@lru_cache(maxsize=256)
+@cached(maxsize=256)
 def _isotope_free(smiles: str) -> str:
     """Canonical SMILES with isotopes and atom maps removed (identity of a
     ligand up to isotopic labelling)."""
@@ -414,7 +414,7 @@ def _stretch_sets(
     return tuple(sets)
 
 
-@lru_cache(maxsize=1024)
+@cached(maxsize=1024)
 def _build_model(isomer: Isomer, reporter_class: str, rules: RuleSet) -> Model:
     cf = class_field(reporter_class, rules)
     osc_sites = sorted(

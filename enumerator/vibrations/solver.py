@@ -33,11 +33,11 @@ from __future__ import annotations
 import math
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass, field
-from functools import lru_cache
 from typing import Any
 
 import numpy as np
 
+from enumerator.caches import cached
 from enumerator.errors import InputError, IsosieveError
 from enumerator.isomers.enumeration import Isomer
 from enumerator.vibrations.model import Model
@@ -192,7 +192,7 @@ def _split(isomer: Isomer, sites: tuple[int, ...]) -> SymmetryBlocks:
     return SymmetryBlocks(tuple(blocks), species, None)
 
 
-@lru_cache(maxsize=1024)
+@cached(maxsize=1024)
 def symmetry_blocks(isomer: Isomer, sites: tuple[int, ...]) -> SymmetryBlocks:
     """Split the oscillator space on ``sites`` into one block per symmetry species.
 

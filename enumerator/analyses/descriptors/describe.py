@@ -22,13 +22,13 @@ from __future__ import annotations
 
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
-from functools import lru_cache
 
 from enumerator.analyses.descriptors.chirality import SYMBOL_TEXT, skew_lines_symbol, tetrahedral_rs
 from enumerator.analyses.descriptors.prefixes import everyday_prefixes, prefix_text
 from enumerator.analyses.descriptors.priming import PRIMING_SCAN, base_ranks, has_repeated_chelate, primed_maps
 from enumerator.analyses.descriptors.ranks import Rank, format_rank
 from enumerator.analyses.descriptors.rules import RULE_TEXT, RULES, SUPPORTED
+from enumerator.caches import cached
 from enumerator.isomers.enumeration import Isomer, IsomerSet, generate
 from enumerator.model.composition import Composition
 from enumerator.model.geometry import Geometry
@@ -153,12 +153,12 @@ def _describe(isomer: Isomer, composition: Composition, primed: bool) -> Descrip
 def _needs_priming(composition: Composition, geometry: Geometry) -> bool:
     """Priming is needed where, without it, two diastereomers share a
     descriptor or a chiral isomer gets no chirality symbol."""
-    return _needs_priming_cached(composition, tuple(k.meta for k in composition.kinds), geometry)
+    return _needs_priming_cached(composition, geometry)
 
 
-@lru_cache(maxsize=256)
-def _needs_priming_cached(composition: Composition, catalogue: tuple, geometry: Geometry) -> bool:
-    # ``catalogue`` (the kinds' SMILES and other data, which Composition equality leaves out) completes the key
+@cached(maxsize=256)
+def _needs_priming_cached(composition: Composition, geometry: Geometry) -> bool:
+    # keyed by the composition, whose ligand kinds compare their SMILES and other catalogue data too
     if not has_repeated_chelate(composition) or geometry.symbol not in SUPPORTED:
         return False
     seen: dict[str, int] = {}

@@ -31,9 +31,9 @@ from __future__ import annotations
 
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
-from functools import lru_cache
 from typing import Any
 
+from enumerator.caches import cached
 from enumerator.errors import InputError
 from enumerator.isomers.enumeration import Isomer
 from enumerator.isomers.tables import table_for_isomer
@@ -147,7 +147,7 @@ def stretch_modes(isomer: Isomer, reporter_class: str) -> ModeSet:
     return _modes(isomer, reporter_class)
 
 
-@lru_cache(maxsize=8192)
+@cached(maxsize=8192)
 def _modes(isomer: Isomer, reporter_class: str) -> ModeSet:
     sites = tuple(s.index for s in isomer.sites if s.reporter == reporter_class)
     ops = isomer.geometry.operations

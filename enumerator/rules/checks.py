@@ -1,0 +1,132 @@
+"""Reading and checking rule files: the helpers every loader under
+:mod:`enumerator.rules` shares.
+
+Every problem in a rule file is reported the same way: one
+:class:`~enumerator.errors.RuleError` whose line names the file (and the entry
+or table in it), says what is wrong with which key, and how to fix it.
+:func:`rule_error` builds that error; :func:`check_keys` reports a missing or
+unknown key with a 'did you mean'; :func:`read_toml` turns a syntax error into
+one such line.
+
+>>> err = rule_error("rules/ligands.toml [[ligand]] #3 (PPh3)", "'charge' must be an integer", "write charge = 0")
+>>> err.line()
+"rules/ligands.toml [[ligand]] #3 (PPh3): 'charge' must be an integer; write charge = 0"
+>>> check_keys({"nmae": "x"}, "user.toml", required=(), optional=("name",))
+Traceback (most recent call last):
+...
+enumerator.errors.RuleError: user.toml: unknown key 'nmae'; did you mean 'name'?
+>>> closest_names("ppH3", ["PPh3", "PMe3", "CO"])
+['PPh3', 'PMe3']
+"""
+
+from __future__ import annotations
+
+import difflib
+import tomllib
+from collections.abc import Iterable, Mapping
+from pathlib import Path
+from typing import Any
+
+from enumerator.errors import RuleError
+
+__all__ = ["rule_error", "read_toml", "check_keys", "closest_names"]
+
+
+def rule_error(where: str | Path, what: str, fix: str) -> RuleError:
+    """The error for one problem in a rule file, as one line: ``<where>: <what>; <fix>``.
+
+    Parameters
+    ----------
+    where : str or Path
+        The file, followed by the entry or table when there is one
+        (``'.../ligands.toml [[ligand]] #3 (PPh3)'``, ``'.../forcefields.toml: [class.CO]'``).
+    what : str
+        What is wrong, naming the key (``"'charge' must be an integer, not 'x'"``).
+    fix : str
+        What to write instead (``'write charge = 0'``).
+
+    Returns
+    -------
+    RuleError
+        To be raised by the caller.
+    """
+    return RuleError(f"{where}: {what}", fix)
+
+
+def read_toml(path: Path) -> dict[str, Any]:
+    """Parse one TOML file.
+
+    Parameters
+    ----------
+    path : Path
+        The rule file.
+
+    Returns
+    -------
+    dict
+        The parsed document.
+
+    Raises
+    ------
+    RuleError
+        The file is not valid TOML (with the line and column) or cannot be read.
+    """
+    try:
+        with open(path, "rb") as fh:
+            return tomllib.load(fh)
+    except tomllib.TOMLDecodeError as exc:
+        raise rule_error(path, f"TOML syntax error ({exc})", "fix the file at that line and column") from None
+    except OSError as exc:
+        raise rule_error(path, f"cannot read ({exc.strerror})", "check the path and permissions") from None
+
+
+def check_keys(table: Mapping[str, Any], where: str, required: Iterable[str], optional: Iterable[str] = ()) -> None:
+    """Check that a table has every required key and no key it does not know.
+
+    Parameters
+    ----------
+    table : Mapping[str, Any]
+        One table of a rule file.
+    where : str
+        The file and the table, for the message.
+    required, optional : iterable of str
+        The keys the table must have and those it may have.
+
+    Raises
+    ------
+    RuleError
+        For the first missing key, or an unknown key (with the nearest known keys).
+    """
+    req = list(required)
+    allowed = set(req) | set(optional)
+    for key in req:
+        if key not in table:
+            raise rule_error(where, f"missing key '{key}'", f"add '{key} = ...'")
+    for key in table:
+        if key not in allowed:
+            near = closest_names(key, sorted(allowed))
+            hint = f"did you mean '{near[0]}'?" if near else f"allowed keys: {', '.join(sorted(allowed))}"
+            raise rule_error(where, f"unknown key '{key}'", hint)
+
+
+def closest_names(name: str, names: Iterable[str], n: int = 3) -> list[str]:
+    """The nearest known names, compared case-insensitively, for 'did you mean' hints.
+
+    Parameters
+    ----------
+    name : str
+        The name given.
+    names : iterable of str
+        The names known.
+    n : int, optional
+        At most this many.
+
+    Returns
+    -------
+    list of str
+        The nearest names as spelled in ``names``, nearest first (difflib's ratio of at least 0.5).
+    """
+    pool = list(names)
+    lower = {p.lower(): p for p in pool}
+    hits = difflib.get_close_matches(name.lower(), list(lower), n=n, cutoff=0.5)
+    return [lower[h] for h in hits]

@@ -1,0 +1,1 @@
+"""Benchmarks (figures, not pass/fail), run only on request; see conftest.py."""
