@@ -26,6 +26,9 @@ the nearest names.  The building blocks stay at hand: :func:`load_rules`,
 >>> [i.point_group for i in s.isomers]
 ['C3v', 'C2v']
 
+Answers are memoised by value; :func:`clear_caches` empties every cache at
+once (for instance after editing a rule file in a long-lived notebook).
+
 Every name but the errors loads on first use, so that ``import enumerator``
 (and the command line's start) stays fast.
 """
@@ -54,6 +57,7 @@ __all__ = [
     "generate",
     "Isomer",
     "IsomerSet",
+    "clear_caches",
 ]
 
 #: Public name -> the module (under ``enumerator``) it is loaded from on first use.
@@ -68,6 +72,7 @@ _LAZY = {
     "generate": "isomers.enumeration",
     "Isomer": "isomers.enumeration",
     "IsomerSet": "isomers.enumeration",
+    "clear_caches": "caches",
 }
 
 

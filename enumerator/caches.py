@@ -31,7 +31,7 @@ import functools
 from collections.abc import Callable
 from typing import Any, Protocol, TypeVar
 
-__all__ = ["cached", "clear", "register", "registered"]
+__all__ = ["cached", "clear", "clear_caches", "register", "registered"]
 
 T = TypeVar("T")
 
@@ -106,3 +106,7 @@ def clear() -> None:
     """
     for cache in _REGISTRY:
         cache.cache_clear()
+
+
+#: The name the package root exports (``enumerator.clear_caches()``).
+clear_caches = clear
