@@ -136,12 +136,30 @@ def _number(comp: Composition) -> str | None:
     return f"({roman(ox).replace('-', '−')})"
 
 
+#: A square-bracket group with no enclosing mark inside it.  In the nesting order ( ), [( )], {[( )]}
+#: an enclosing square bracket always holds parentheses, so such a group belongs to the name itself:
+#: von Baeyer and spiro descriptors (bicyclo[2.2.1], spiro[4.5]), fusion descriptors (benzo[h],
+#: pyrido[1,2-a]) and ring assemblies ([1,1′-binaphthalene]).
+_NAME_BRACKETS = re.compile(r"\[[^\[\](){}]*\]")
+
+
 def _enclosed(name: str) -> str:
     """The name in the enclosing marks one level above the deepest inside
     it, in the nesting order ( [ { ( [ { ... (IR-9.2.2.3; P-16.5 of the
-    organic recommendations)."""
+    organic recommendations).  Square brackets that are part of the name
+    itself (von Baeyer, spiro, fusion and ring-assembly brackets; see
+    :data:`_NAME_BRACKETS`) are not enclosing marks and do not count: nbd
+    is ``(η4-bicyclo[2.2.1]hepta-2,5-diene)``.
+
+    >>> _enclosed("η4-bicyclo[2.2.1]hepta-2,5-diene")
+    '(η4-bicyclo[2.2.1]hepta-2,5-diene)'
+    >>> _enclosed("2-(diphenylphosphanyl)ethyl")
+    '[2-(diphenylphosphanyl)ethyl]'
+    >>> _enclosed("ethane-1,2-diylbis[di(propan-2-yl)phosphane]")
+    '{ethane-1,2-diylbis[di(propan-2-yl)phosphane]}'
+    """
     depth = level = 0
-    for ch in name:
+    for ch in _NAME_BRACKETS.sub("", name):
         if ch in "([{":
             level += 1
             depth = max(depth, level)
