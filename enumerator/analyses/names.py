@@ -26,8 +26,10 @@ Assembly (IR-9.2.2):
   (Ewens–Bassett), ``ferrate(2−)``, and none for a neutral complex.
 
 The descriptor is put in front, in parentheses, when the composition has
-more than one stereoisomer.  A complex with an unnamed ligand (generic or
-isotope-labelled entries) or metal gets no name, with the reason.
+more than one stereoisomer, and only an IR-9.3 one: on a shape IUPAC lists
+no polyhedral symbol for (the tool's own ``hexplane-6``) the name has none.
+A complex with an unnamed ligand (generic or isotope-labelled entries) or
+metal gets no name, with the reason.
 
 >>> from enumerator.rules.ruleset import load_rules
 >>> from enumerator.parse.condensed import parse_condensed
@@ -179,7 +181,8 @@ def additive_name(comp: Composition, ruleset: RuleSet, descriptor: str | None) -
     ruleset : RuleSet
         The rule folders in force (for the central atom's name).
     descriptor : str or None
-        The stereodescriptor to put in front, in parentheses (None: no descriptor).
+        The stereodescriptor to put in front, in parentheses (None: no descriptor; one that begins
+        with the tool's own lower-case name of a shape, e.g. 'hexplane-6', is left out).
 
     Returns
     -------
@@ -217,5 +220,8 @@ def additive_name(comp: Composition, ruleset: RuleSet, descriptor: str | None) -
         if text and _KAPPA_END.search(text) and piece[:1] not in "([{":
             text += "-"
         text += piece
+    if descriptor and descriptor[:1].islower():
+        # the tool's own name of a shape IUPAC lists no symbol for (hexplane-6): no IR-9.3 descriptor exists
+        descriptor = None
     full = f"({descriptor.replace(chr(39), '′')})-{text}" if descriptor else text
     return ComplexName(full)

@@ -399,7 +399,10 @@ def pair_matrix_text(a: StretchAnalysis) -> str:
     for p in pairs:
         c = "en" if p.note == "enantiomers" else (code[p.cheapest] if p.cheapest else "--")
         cell[(p.a, p.b)] = cell[(p.b, p.a)] = c
-    legend = "cell = cheapest technique whose counts differ (cost order IR < Raman < NMR); " + _LEGEND_TAIL
+    legend = (
+        "cell = cheapest technique whose counts differ: IR, Ra (Raman) or NMR, in cost order IR < Raman < NMR; "
+        + _LEGEND_TAIL
+    )
     w = max(3, max(len(i) for i in a.ids))
     rows = [" " * w + " " + " ".join(i.rjust(w) for i in a.ids)]
     for x in a.ids:
