@@ -110,6 +110,13 @@ def test_enclosing_marks_nest():
     assert n.startswith("tricarbonyl({2-[(diphenylphosphanyl)methyl]") and n.endswith(")molybdenum(0)")
 
 
+def test_brackets_of_a_von_baeyer_name_are_not_enclosing_marks():
+    # IUPAC 2005 IR-2.2 and P-16.5 (from memory): the brackets of bicyclo[2.2.1] belong to the ring name, so
+    # nbd is enclosed in parentheses like any organic ligand name without enclosing marks of its own
+    assert _name("[Mo(CO)4(nbd)]") == "(η4-bicyclo[2.2.1]hepta-2,5-diene)tetracarbonylmolybdenum(0)"
+    assert "[η4-bicyclo" not in _name("[RhCl(nbd)(PPh3)]")
+
+
 def test_descriptor_in_front_with_typographic_primes():
     # the descriptor goes in parentheses before the name (IR-9.3.2.1); primes
     # print as ′ (Red Book typography)

@@ -276,6 +276,40 @@ def test_target_without_descriptor_is_a_clear_error(capsys):
     assert err.count("\n") == 1 and "needs a descriptor" in err
 
 
+@pytest.mark.parametrize("command", ["route", "network"])
+@pytest.mark.parametrize(
+    "target, words",
+    [
+        # charge bookkeeping (common practice): two neutral NH3 replace two Cl-, so [PtCl4]2- gives a neutral
+        # [PtCl2(NH3)2] (Housecroft & Sharpe: cisplatin is neutral)
+        (
+            "cis-[PtCl2(NH3)2]2+",
+            "target charge 2+ cannot arise from [PtCl4]2- by replacing 2 Cl- with 2 NH3: expected 0",
+        ),
+        ("trans-[PtCl2(NH3)(NO2)]", "target charge 0 cannot arise from [PtCl4]2- by replacing 2 Cl-"),
+        ("cis-[PdCl2(NH3)2]", "target metal Pd cannot arise from [PtCl4]2- (Pt)"),
+        ("cis-Ma2b2", "not written in the same notation"),
+    ],
+)
+def test_a_target_that_cannot_arise_is_refused_in_one_line(capsys, command, target, words):
+    with pytest.raises(SystemExit) as exc:
+        main([command, "[PtCl4]2-", "--target", target])
+    assert exc.value.code == 2  # project rule: input errors exit 2
+    err = capsys.readouterr().err
+    assert err.count("\n") == 1 and words in err, err
+
+
+def test_the_charge_refusal_says_how_to_write_the_target():
+    with pytest.raises(InputError) as exc:
+        plan_routes("[PtCl4]2-", "cis-[PtCl2(NH3)2]2+")
+    assert "write the target as cis-[PtCl2(NH3)2]" in str(exc.value)
+
+
+def test_abstract_letters_carry_no_charge_to_check():
+    # letters have no ionic charges: a charge on an abstract target is not judged (common practice here)
+    assert _reaching_orders(plan_routes("Ma4", "cis-Ma2b2", geometry="SP-4")) == [("b", "b")]
+
+
 # ---------------------------------------------------------------- network structure
 
 

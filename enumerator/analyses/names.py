@@ -26,8 +26,10 @@ Assembly (IR-9.2.2):
   (Ewens–Bassett), ``ferrate(2−)``, and none for a neutral complex.
 
 The descriptor is put in front, in parentheses, when the composition has
-more than one stereoisomer.  A complex with an unnamed ligand (generic or
-isotope-labelled entries) or metal gets no name, with the reason.
+more than one stereoisomer, and only an IR-9.3 one: on a shape IUPAC lists
+no polyhedral symbol for (the tool's own ``hexplane-6``) the name has none.
+A complex with an unnamed ligand (generic or isotope-labelled entries) or
+metal gets no name, with the reason.
 
 >>> from enumerator.rules.ruleset import load_rules
 >>> from enumerator.parse.condensed import parse_condensed
@@ -136,12 +138,30 @@ def _number(comp: Composition) -> str | None:
     return f"({roman(ox).replace('-', '−')})"
 
 
+#: A square-bracket group with no enclosing mark inside it.  In the nesting order ( ), [( )], {[( )]}
+#: an enclosing square bracket always holds parentheses, so such a group belongs to the name itself:
+#: von Baeyer and spiro descriptors (bicyclo[2.2.1], spiro[4.5]), fusion descriptors (benzo[h],
+#: pyrido[1,2-a]) and ring assemblies ([1,1′-binaphthalene]).
+_NAME_BRACKETS = re.compile(r"\[[^\[\](){}]*\]")
+
+
 def _enclosed(name: str) -> str:
     """The name in the enclosing marks one level above the deepest inside
     it, in the nesting order ( [ { ( [ { ... (IR-9.2.2.3; P-16.5 of the
-    organic recommendations)."""
+    organic recommendations).  Square brackets that are part of the name
+    itself (von Baeyer, spiro, fusion and ring-assembly brackets; see
+    :data:`_NAME_BRACKETS`) are not enclosing marks and do not count: nbd
+    is ``(η4-bicyclo[2.2.1]hepta-2,5-diene)``.
+
+    >>> _enclosed("η4-bicyclo[2.2.1]hepta-2,5-diene")
+    '(η4-bicyclo[2.2.1]hepta-2,5-diene)'
+    >>> _enclosed("2-(diphenylphosphanyl)ethyl")
+    '[2-(diphenylphosphanyl)ethyl]'
+    >>> _enclosed("ethane-1,2-diylbis[di(propan-2-yl)phosphane]")
+    '{ethane-1,2-diylbis[di(propan-2-yl)phosphane]}'
+    """
     depth = level = 0
-    for ch in name:
+    for ch in _NAME_BRACKETS.sub("", name):
         if ch in "([{":
             level += 1
             depth = max(depth, level)
@@ -161,7 +181,8 @@ def additive_name(comp: Composition, ruleset: RuleSet, descriptor: str | None) -
     ruleset : RuleSet
         The rule folders in force (for the central atom's name).
     descriptor : str or None
-        The stereodescriptor to put in front, in parentheses (None: no descriptor).
+        The stereodescriptor to put in front, in parentheses (None: no descriptor; one that begins
+        with the tool's own lower-case name of a shape, e.g. 'hexplane-6', is left out).
 
     Returns
     -------
@@ -199,5 +220,8 @@ def additive_name(comp: Composition, ruleset: RuleSet, descriptor: str | None) -
         if text and _KAPPA_END.search(text) and piece[:1] not in "([{":
             text += "-"
         text += piece
+    if descriptor and descriptor[:1].islower():
+        # the tool's own name of a shape IUPAC lists no symbol for (hexplane-6): no IR-9.3 descriptor exists
+        descriptor = None
     full = f"({descriptor.replace(chr(39), '′')})-{text}" if descriptor else text
     return ComplexName(full)

@@ -27,7 +27,7 @@ from dataclasses import dataclass
 from functools import singledispatch
 from types import MappingProxyType
 
-from enumerator.analyses.centre import CentreAnalysis, ElectronCount
+from enumerator.analyses.centre import CentreAnalysis
 from enumerator.analyses.descriptors import DescriptorAnalysis
 from enumerator.analyses.safety import SafetyAnalysis
 from enumerator.analyses.stretch import StretchAnalysis
@@ -170,30 +170,24 @@ def safety_sections(a: SafetyAnalysis) -> tuple[Section, ...]:
 # ---------------------------------------------------------------- centre
 
 
-def _ve_comment(c: ElectronCount, geometry: str) -> str:
-    ve = c.valence_electrons
-    if ve == 18:
-        return " (18-electron rule obeyed)"
-    if ve == 16 and c.d_electrons == 8 and geometry == "SP-4":
-        return " (16 electrons: usual for square-planar d8)"
-    return f" ({ve - 18:+d} from 18)" if ve is not None else ""
-
-
-def _count_lines(c: ElectronCount, geometry: str) -> list[str]:
+def _count_lines(a: CentreAnalysis) -> list[str]:
+    c = a.count
     cov = " + ".join([f"{c.metal} {c.group}"] + [f"{name} {n}×{ec}" for name, n, _, ec, _, _ in c.ligands])
     if c.charge:
         cov += f" - charge ({c.charge:+d})"
     ion = " + ".join([f"d{c.d_electrons}"] + [f"{name} {n}×{ei}" for name, n, _, _, ei, _ in c.ligands])
+    comment = f" ({a.check.comment})" if a.check and a.check.comment else ""
     return [
         f"covalent count: {cov} = {c.valence_electrons}",
         f"ionic count:    {ion} = {c.valence_electrons_ionic}",
-        f"valence electrons: {c.valence_electrons}" + _ve_comment(c, geometry),
-    ]
+        f"valence electrons: {c.valence_electrons}{comment}",
+    ] + [f"warning: {w}" for w in a.warnings]
 
 
 @sections.register(CentreAnalysis)
 def centre_sections(a: CentreAnalysis) -> tuple[Section, ...]:
-    """One "Metal centre" section: the label, both electron counts worked out, nitrosyl binding, notes.
+    """One "Metal centre" section: the label, both electron counts worked out, a departure from the
+    electron-count rules on its own ``warning:`` line, nitrosyl binding, notes.
 
     Parameters
     ----------
@@ -206,7 +200,7 @@ def centre_sections(a: CentreAnalysis) -> tuple[Section, ...]:
     c = a.count
     lines = [f"{c.label}" + (f", {c.enemark_feltham} (Enemark–Feltham)" if c.enemark_feltham else "")]
     if c.valence_electrons is not None and c.group is not None:
-        lines += _count_lines(c, a.geometry)
+        lines += _count_lines(a)
     for name, _, b in c.nitrosyls:
         lines.append(f"{name}: {b} M-N-O, counted as {'NO+ (3-electron)' if b == 'linear' else 'NO- (1-electron)'}")
     lines += [f"note: {n}" for n in a.notes]
@@ -405,7 +399,10 @@ def pair_matrix_text(a: StretchAnalysis) -> str:
     for p in pairs:
         c = "en" if p.note == "enantiomers" else (code[p.cheapest] if p.cheapest else "--")
         cell[(p.a, p.b)] = cell[(p.b, p.a)] = c
-    legend = "cell = cheapest technique whose counts differ (cost order IR < Raman < NMR); " + _LEGEND_TAIL
+    legend = (
+        "cell = cheapest technique whose counts differ: IR, Ra (Raman) or NMR, in cost order IR < Raman < NMR; "
+        + _LEGEND_TAIL
+    )
     w = max(3, max(len(i) for i in a.ids))
     rows = [" " * w + " " + " ".join(i.rjust(w) for i in a.ids)]
     for x in a.ids:

@@ -248,7 +248,8 @@ def plan_routes(
     geo = ends.geometry
     found = _resolve(ends)
     s_iso = found.start_isomers[0]
-    notes: list[str] = []
+    pointer = ruleset.geometry_note(geometry)  # an old spelling of a geometry symbol
+    notes: list[str] = [pointer] if pointer else []
     if len(found.start_isomers) > 1:
         notes.append(
             f"the start is chiral; routes are followed from enantiomer {s_iso.id}"

@@ -251,16 +251,66 @@ class Endpoints:
 
 
 def _check_compatible(start: Composition, target: Composition) -> None:
+    if is_abstract(start) != is_abstract(target):
+        raise InputError(
+            f"start {start.formula} and target {target.formula} are not written in the same notation",
+            "write both as letters (Ma4b2) or both as real formulas ([PtCl2(NH3)2])",
+        )
+    if start.metal != target.metal:
+        raise InputError(
+            f"target metal {target.metal} cannot arise from {start.formula} ({start.metal}): "
+            "substitution keeps the metal",
+            f"write the target on {start.metal}",
+        )
     if target.donor_count != start.donor_count:
         raise InputError(
             f"{target.formula} has {target.donor_count} donor atoms but {start.formula} has {start.donor_count}",
             "one-for-one replacement keeps the coordination number: check the formulas",
         )
-    if is_abstract(start) != is_abstract(target) or start.metal != target.metal:
-        raise InputError(
-            f"start {start.formula} and target {target.formula} are not on the same metal or notation",
-            "write both in the same notation with the same metal",
-        )
+
+
+def _ligand_words(kind: LigandKind, n: int) -> str:
+    """'Cl-', '2 Cl-', 'NH3', 'CO3 (2-)': a ligand with its ionic charge, for a message."""
+    q = _ligand_charge(kind)
+    if q == 0:
+        text = kind.name
+    elif abs(q) == 1 and kind.name[-1:].isalpha():
+        text = kind.name + ("+" if q > 0 else "-")
+    else:
+        text = f"{kind.name} ({_charge_words(q)})"
+    return f"{n} {text}" if n > 1 else text
+
+
+def _charge_words(q: int) -> str:
+    return "0" if q == 0 else f"{abs(q)}{'+' if q > 0 else '-'}"
+
+
+def _check_charge(
+    space: Space,
+    target: Composition,
+    target_descriptor: str | None,
+    leaving: Mapping[str, int],
+    entering: Mapping[str, int],
+) -> None:
+    """The target's charge must be the start's plus what the entering ligands bring and the leaving take
+    away (catalogue ionic charges); abstract letters carry no charges and are not checked."""
+    start = space.start
+    if space.abstract:
+        return
+    expected = start.charge + sum(_ligand_charge(space.kinds[n]) * k for n, k in entering.items())
+    expected -= sum(_ligand_charge(space.kinds[n]) * k for n, k in leaving.items())
+    if target.charge == expected:
+        return
+    out = ", ".join(_ligand_words(space.kinds[n], k) for n, k in sorted(leaving.items())) or "nothing"
+    into = ", ".join(_ligand_words(space.kinds[n], k) for n, k in sorted(entering.items()))
+    parts = [(space.kinds[n], k) for n, k in Space.signature(target)]
+    fixed = _condensed_formula(target.metal, parts, expected)
+    raise InputError(
+        f"target charge {_charge_words(target.charge)} cannot arise from {start.formula} by replacing "
+        f"{out} with {into}: expected {_charge_words(expected)}",
+        f"write the target as {target_descriptor + '-' if target_descriptor else ''}{fixed}"
+        " (ligands replace ligands one for one; the charge follows from their ionic charges)",
+    )
 
 
 def prepare_endpoints(start_text: str, target_text: str, geometry: str | None, ruleset: RuleSet) -> Endpoints:
@@ -284,7 +334,9 @@ def prepare_endpoints(start_text: str, target_text: str, geometry: str | None, r
     ------
     InputError
         The formulas differ in donor count, metal or notation; a ligand that
-        must enter or leave is not monodentate; or nothing enters.
+        must enter or leave is not monodentate; nothing enters; or the
+        target's charge cannot arise from the start's by the replacements
+        (catalogue ionic charges; not checked for abstract letters).
     """
     s_formula, s_desc = parse_species(start_text)
     t_formula, t_desc = parse_species(target_text)
@@ -309,6 +361,7 @@ def prepare_endpoints(start_text: str, target_text: str, geometry: str | None, r
         raise InputError(
             f"{start.formula} and {target.formula} have the same ligands", "give a target that differs from the start"
         )
+    _check_charge(space, target, t_desc, leaving, entering)
     return Endpoints(
         space,
         geo,

@@ -1,8 +1,10 @@
 """Coordination geometries from rule files: one ``geometries/<SYMBOL>.toml`` per polyhedron.
 
-A file gives the IUPAC polyhedral symbol, a name and the site directions
-(normalised here); optionally the coordination number (checked against the
-sites), the span a chelate link takes by default, whether the shape is
+A file gives the IUPAC polyhedral symbol (or, for a shape IUPAC does not
+list, a lower-case name of the tool's own such as ``hexplane-6``), a name
+and the site directions (normalised here); optionally the coordination
+number (checked against the sites, as is the number that ends the symbol),
+the span a chelate link takes by default, whether the shape is
 fluxional, a note, and whether it is the default for abstract formulas of
 its coordination number.  The symmetry operations are derived from the
 vectors at load, so a degenerate site set fails here, naming the file.
@@ -32,7 +34,10 @@ from enumerator.symmetry.derive import Vec
 
 __all__ = ["parse_geometry", "load_geometries"]
 
-_SYMBOL = re.compile(r"^[A-Z]{1,5}-\d{1,2}$")
+#: An IUPAC polyhedral symbol (IR-9.3.2.1: capitals, hyphen, coordination number), or a name of the
+#: tool's own for a shape IUPAC does not list: a lower-case word, hyphen, coordination number
+#: ('hexplane-6'), which cannot pass for an IUPAC symbol.
+_SYMBOL = re.compile(r"^(?:[A-Z]{1,5}|[a-z]{3,12})-(\d{1,2})$")
 _OPTIONAL = ("coordination_number", "default_span", "fluxional", "note", "default_for_abstract", "source")
 #: Two site directions closer than this (unit vectors, Euclidean distance) are the same site.
 _SAME_SITE = 1e-3
@@ -95,7 +100,8 @@ def parse_geometry(path: str | Path, data: Mapping[str, Any]) -> Geometry:
         isinstance(sym, str) and bool(_SYMBOL.match(sym)),
         where,
         f"symbol {sym!r} is not a polyhedral symbol",
-        "write it like 'OC-6' (letters, hyphen, coordination number)",
+        "write it like 'OC-6' (IUPAC: capitals, hyphen, coordination number), or for a shape IUPAC does not "
+        "list a lower-case name of your own like 'hexplane-6'",
     )
     _expect(
         isinstance(data["name"], str) and data["name"].strip() != "",
@@ -106,6 +112,13 @@ def parse_geometry(path: str | Path, data: Mapping[str, Any]) -> Geometry:
     vecs = _site_vectors(data["sites"], where)
     cn = data.get("coordination_number", len(vecs))
     _expect(cn == len(vecs), where, f"coordination_number is {cn} but {len(vecs)} sites are listed", "make them agree")
+    m = _SYMBOL.match(sym)
+    _expect(
+        m is not None and int(m.group(1)) == len(vecs),
+        where,
+        f"symbol {sym!r} ends in {m.group(1) if m else '?'} but {len(vecs)} sites are listed",
+        "end the symbol with the coordination number",
+    )
     span = data.get("default_span", "edge")
     _expect(
         span in SPANS,

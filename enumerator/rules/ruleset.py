@@ -34,6 +34,7 @@ from collections.abc import Iterable, Mapping
 from dataclasses import dataclass
 from functools import cached_property
 from pathlib import Path
+from types import MappingProxyType
 
 from enumerator.caches import cached
 from enumerator.errors import InputError
@@ -44,6 +45,7 @@ from enumerator.rules.geometries import load_geometries
 __all__ = [
     "BUILTIN_RULES",
     "RULE_FILES",
+    "RENAMED_GEOMETRIES",
     "RuleSet",
     "load_rules",
     "file_stamps",
@@ -52,6 +54,11 @@ __all__ = [
     "closest_names",
     "rule_error",
 ]
+
+#: Old spellings of built-in geometry symbols -> the symbol now used.  The hexagonal plane has no
+#: IUPAC polyhedral symbol (IR-9.3.2.1), so 'HP-6', which looked like one, became the tool's own
+#: 'hexplane-6'.  An old spelling is still read, with a one-line note (:meth:`RuleSet.geometry_note`).
+RENAMED_GEOMETRIES: Mapping[str, str] = MappingProxyType({"HP-6": "hexplane-6"})
 
 #: The rules folder shipped with the package.
 #: In the source tree ``enumerator/builtin_rules`` is a link to the top-level
@@ -125,7 +132,8 @@ class RuleSet:
         Parameters
         ----------
         symbol : str
-            E.g. ``'OC-6'``, in any case.
+            E.g. ``'OC-6'``, in any case; an old spelling of :data:`RENAMED_GEOMETRIES` gives the
+            renamed geometry.
 
         Returns
         -------
@@ -140,10 +148,45 @@ class RuleSet:
         for sym, g in geos.items():
             if sym.lower() == symbol.strip().lower():
                 return g
+        renamed = self._renamed(symbol)
+        if renamed:
+            return geos[renamed]
         near = closest_names(symbol, geos)
         hint = f"did you mean {' or '.join(near)}?" if near else f"known: {', '.join(sorted(geos))}"
         raise InputError(
             f"unknown geometry '{symbol}'", hint + " (or add rules/geometries/<SYMBOL>.toml via --rules DIR)"
+        )
+
+    def _renamed(self, symbol: str) -> str | None:
+        """The symbol an old spelling now has, when no geometry in force has the old one."""
+        key = symbol.strip().lower()
+        for old, new in RENAMED_GEOMETRIES.items():
+            held = any(sym.lower() == old.lower() for sym in self.geometries)
+            if old.lower() == key and new in self.geometries and not held:
+                return new
+        return None
+
+    def geometry_note(self, symbol: str | None) -> str | None:
+        """The one-line pointer for an old spelling of a geometry symbol, else None.
+
+        >>> load_rules().geometry_note("HP-6")[:34]
+        'HP-6 is now written hexplane-6: th'
+
+        Parameters
+        ----------
+        symbol : str or None
+            A requested symbol (``--geometry``).
+
+        Returns
+        -------
+        str or None
+        """
+        new = self._renamed(symbol) if symbol else None
+        if symbol is None or new is None:
+            return None
+        return (
+            f"{symbol.strip()} is now written {new}: the tool names the shape itself, "
+            "as IUPAC lists no polyhedral symbol for it (IR-9.3.2.1)"
         )
 
     def default_geometry(self, cn: int) -> Geometry:

@@ -187,7 +187,9 @@ def run(
         iso = _enumerate(comp, geo, req.limit, on_isomer)
     else:
         iso = enumerate_isomers(comp, geo, limit=req.limit)
-    res = Result(composition=comp, geometry=geo, geometry_reason=reason, isomer_set=iso, notes=_notes(req, iso))
+    pointer = load_rules(req.rules).geometry_note(req.geometry)  # an old spelling of a geometry symbol
+    notes = ((pointer,) if pointer else ()) + _notes(req, iso)
+    res = Result(composition=comp, geometry=geo, geometry_reason=reason, isomer_set=iso, notes=notes)
     for stage in STAGES:
         module, _, func = stage.partition(":")
         step = getattr(importlib.import_module(module), func)

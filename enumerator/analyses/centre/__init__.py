@@ -6,6 +6,9 @@ One job per module:
 
 * :mod:`.electrons`: both textbook electron counts from the ligands'
   catalogue data (:func:`count_electrons`);
+* :mod:`.departures`: the count judged against the 18-electron rule and its
+  usual exceptions, with a warning and the nearest formulas that count 18 for
+  a departure (:func:`check_count`);
 * :mod:`.geometry`: the default polyhedron from the coordination number and
   the d-count, and the choice when one is requested (:func:`choose_geometry`);
 * :mod:`.analysis`: the pipeline stage and :class:`CentreAnalysis`.
@@ -21,6 +24,7 @@ One job per module:
 """
 
 from enumerator.analyses.centre.analysis import CentreAnalysis, centre_notes, stage
+from enumerator.analyses.centre.departures import CountCheck, Suggestion, check_count
 from enumerator.analyses.centre.electrons import ElectronCount, LigandCount, NitrosylBinding, count_electrons, roman
 from enumerator.analyses.centre.geometry import choose_geometry, default_geometry
 
@@ -29,6 +33,9 @@ __all__ = [
     "LigandCount",
     "NitrosylBinding",
     "CentreAnalysis",
+    "CountCheck",
+    "Suggestion",
+    "check_count",
     "count_electrons",
     "choose_geometry",
     "default_geometry",

@@ -2,15 +2,21 @@
 
 :func:`stage` (listed in :data:`enumerator.workflow.pipeline.STAGES`) returns
 a :class:`CentreAnalysis` for a catalogue formula (none for abstract
-letters).  Its notes warn where the site idealisation or the nitrosyl
-binding may mislead: η-rings as three facial sites, and {MNO}n with n >= 7 on
-an octahedron, usually bent (Enemark–Feltham, *Coord. Chem. Rev.* 13 (1974)
-339), or a count above 18 with a linear NO.
+letters).  Its count check (:mod:`.departures`) says whether the
+valence-electron count obeys the 18-electron rule or one of its usual
+exceptions, and gives a departure its own warning with the likely cause and
+the nearest formulas that count 18.  Its notes warn where the site
+idealisation or the nitrosyl binding may mislead: η-rings as three facial
+sites, and {MNO}n with n >= 7 on an octahedron, usually bent
+(Enemark–Feltham, *Coord. Chem. Rev.* 13 (1974) 339), or a count above 18
+with a linear NO.
 
 >>> from enumerator.workflow.pipeline import analyse
 >>> a = analyse("[Fe(CN)5(NO)]2-").analysis(CentreAnalysis)
 >>> a.count.label, a.geometry, a.alternatives
 ('Fe(II), d6', 'OC-6', ('TPR-6',))
+>>> analyse("[Ni(CO)5]").analysis(CentreAnalysis).warnings[0][:40]
+'20 valence electrons, 2 above 18, and no'
 """
 
 from __future__ import annotations
@@ -19,6 +25,7 @@ from collections.abc import Mapping
 from dataclasses import dataclass, field
 from typing import Any
 
+from enumerator.analyses.centre.departures import CountCheck, check_count
 from enumerator.analyses.centre.electrons import ElectronCount, count_electrons
 from enumerator.analyses.centre.geometry import default_geometry
 from enumerator.analyses.views import RequestView, ResultView
@@ -31,7 +38,8 @@ __all__ = ["CentreAnalysis", "centre_notes", "stage"]
 
 @dataclass(frozen=True)
 class CentreAnalysis:
-    """The centre's electron counts and the geometry choice; adds the top-level JSON ``centre``."""
+    """The centre's electron counts, their check against the 18-electron rule and its usual exceptions,
+    and the geometry choice; adds the top-level JSON ``centre``."""
 
     count: ElectronCount
     geometry: str
@@ -39,6 +47,12 @@ class CentreAnalysis:
     alternatives: tuple[str, ...] = ()
     sites: int = 0
     notes: tuple[str, ...] = field(default=())
+    check: CountCheck | None = None
+
+    @property
+    def warnings(self) -> tuple[str, ...]:
+        """The departures from the electron-count rules, one line each (empty when the count is usual)."""
+        return self.check.warnings if self.check else ()
 
     def isomer_json(self, isomer_id: str) -> Mapping[str, Any]:
         """Nothing per isomer."""
@@ -77,6 +91,8 @@ class CentreAnalysis:
                 "geometry_reason": self.geometry_reason,
                 "geometry_alternatives": list(self.alternatives),
                 "notes": list(self.notes),
+                "count_check": self.check.to_dict() if self.check else None,
+                "count_warnings": list(self.warnings),
             }
         }
 
@@ -136,15 +152,18 @@ def stage(res: ResultView, req: RequestView) -> CentreAnalysis | None:
     if comp.metal == "M":
         return None
     c = count_electrons(comp)
+    rules = load_rules(req.rules)
     try:
-        _, _, alts = default_geometry(comp, load_rules(req.rules), c)
+        _, _, alts = default_geometry(comp, rules, c)
     except InputError:
         alts = ()
+    check = check_count(comp, c, rules)
     return CentreAnalysis(
         count=c,
         geometry=res.geometry.symbol,
         geometry_reason=res.geometry_reason,
         alternatives=alts,
         sites=comp.donor_count,
-        notes=centre_notes(comp, c, res.geometry.symbol),
+        notes=centre_notes(comp, c, res.geometry.symbol) + check.notes,
+        check=check,
     )

@@ -40,7 +40,7 @@ the completion used here is marked "(completion)".
   numbers first among ties (completion: the book prints no TPR-6 index).
 * **T-4** has no index: its chirality symbol is R or S
   (:mod:`enumerator.analyses.descriptors.chirality`).
-* The other polyhedra (L-2, TP-3, HP-6, OCF-7, TPRS-7, CU-8, SAPR-8, DD-8,
+* The other polyhedra (L-2, TP-3, hexplane-6, OCF-7, TPRS-7, CU-8, SAPR-8, DD-8,
   IC-12) get their polyhedral symbol only: IR-9.3.3 gives them no
   configuration index (an IUPAC Technical Report, Pure Appl. Chem. 2007, 79,
   1779, treats CN 7-9; its rules are not implemented here).
