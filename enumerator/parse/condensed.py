@@ -272,6 +272,8 @@ class _Reader:
         first = open_ + 1 + len(inner) - len(inner.lstrip())
         last = open_ + 1 + len(inner.rstrip())
         eta, j = split_hapto(self.text, first, last)
+        while j < last and self.text[j].isspace():
+            j += 1
         spelling = self.text[j:last]
         n, after = self.count(close + 1, end)
         if not spelling:
@@ -315,7 +317,8 @@ class _Reader:
         if len(toks) == 1 and toks[0][2] == 1:
             return ""
         written = "".join(
-            (s if _ELEMENT.fullmatch(s) else f"({s})") + (str(c) if c > 1 else "") for s, _name, c in toks
+            (s if _ELEMENT.fullmatch(s) and s not in self.classes.heads else f"({s})") + (str(c) if c > 1 else "")
+            for s, _name, c in toks
         )
         return f"{written} for {' and '.join(f'{c} {s}' if c > 1 else s for s, _n, c in toks)} as separate ligands"
 
@@ -379,42 +382,46 @@ class _Reader:
             if spelling != element:
                 raise self.multiplied_head(head, spelling, after)
             return
-        run, stop = self.run_after(after, end)
-        if run is None or any(name in self.classes.substituents for name, _i, _k in run):
-            self.refuse_head(head, spelling, run, stop)
+        molecule, stop = self.run_after(after, end)
+        if molecule:
+            raise self.refuse_head(head, spelling, stop)
 
-    def run_after(self, i: int, end: int) -> tuple[list[tuple[str, int, int]] | None, int]:
-        """The bare hydrido/organyl/halido ligands right after a head, and where they stop.
+    def run_after(self, i: int, end: int) -> tuple[bool, int]:
+        """Whether the bare run right after a head makes one molecule of it, and where that run stops.
 
-        None for the run when what follows cannot be read (an unknown word, a
-        metal symbol with a count or after the metal): the word then reads as
-        one molecule only.
+        True when the run of hydrido, organyl and halido ligands holds a
+        hydrido or organyl one, or when the letters that follow cannot be read
+        at all (an unknown word, a metal symbol with a count or after the
+        metal): ``NPr3`` then reads as one molecule only.  A space, a
+        parenthesis, a hapticity prefix, the metal or any other ligand ends
+        the run.
         """
-        run: list[tuple[str, int, int]] = []
-        while i < end and self.text[i] not in _BREAKS:
+        organyl = False
+        while i < end and self.text[i] not in _BREAKS and split_hapto(self.text, i, end)[0] is None:
             k = self.index.longest(self.text, i, end)
             metal = self.metal_at(i, end)
             if metal is not None and (k == i or len(metal) > k - i):
                 m = _DIGITS.match(self.text, i + len(metal), end)
                 if m or self.metal_seen:
-                    return None, i + len(metal) + (len(m.group(0)) if m else 0)
+                    return True, m.end() if m else i + len(metal)
                 break
             if k == i:
-                if not self.text[i].isalnum():
-                    break
-                return None, _ALNUM.match(self.text, i, end).end()  # type: ignore[union-attr]
+                if self.text[i].isascii() and self.text[i].isalpha():
+                    return True, _ALNUM.match(self.text, i, end).end()  # type: ignore[union-attr]
+                break
             name = self.index.bare[self.text[i:k]]
-            if name not in self.classes.substituents and name not in self.classes.halides:
+            if name in self.classes.substituents:
+                organyl = True
+            elif name not in self.classes.halides:
                 break
             m = _DIGITS.match(self.text, k, end)
-            run.append((name, i, m.end() if m else k))
             i = m.end() if m else k
-        return run, i
+        return organyl, i
 
-    def refuse_head(self, head: LigandSpan, spelling: str, run: list[tuple[str, int, int]] | None, stop: int) -> None:
+    def refuse_head(self, head: LigandSpan, spelling: str, stop: int) -> InputError:
         word = self.text[head.start : stop]
         rest = word[len(spelling) :]
-        raise _err(
+        return _err(
             self.text,
             head.start,
             f"'{word}'",
