@@ -42,7 +42,7 @@ The parser never makes up a ligand; three rules make sure of it.
       ``(NEt2Me)`` for the molecule, ``(NEt2)Me`` for the separate ligands.
 
    A head followed by halido ligands only stays legal (``[ReOCl4]-``,
-   ``[OsNCl4]-``), as does a head with a multiplier before the organyl
+   ``[MoOCl4]``), as does a head with a multiplier before the organyl
    (``ReO3Me``, three oxido and a methyl).  Halides are not heads, so
    ``[PtClMe(cod)]`` is chlorido + methyl; a halocarbon ligand is written
    in parentheses, ``(ClMe)``, and must be catalogued.
@@ -230,6 +230,7 @@ class _Reader:
         self.index = spelling_index(rules)
         self.classes = _classes(rules)
         self.metal_seen = False
+        self.previous: LigandSpan | None = None  # the bare ligand just read, for the message of an unknown one
 
     # -- pieces ------------------------------------------------------------
     def count(self, i: int, end: int) -> tuple[int, int]:
@@ -366,11 +367,18 @@ class _Reader:
             near = closest_names(word, all_spellings(self.rules))
             if not near:
                 return _err(self.text, j, f"'{el.group(0)}' is not a metal and no ligand starts here", METAL_FIX)
+        greedy = ""
+        if self.previous is not None and self.previous.end == j:
+            read = self.text[self.previous.start : j]
+            greedy = (
+                f"; outside parentheses the longest spelling wins, and '{read}' was read just before it: "
+                "put each ligand of the run in parentheses, e.g. (N)Cl4 rather than NCl4"
+            )
         return _err(
             self.text,
             j,
             f"unknown ligand '{word}'",
-            self.nearest(word) + " (add your own in a ligands.toml under --rules DIR)",
+            self.nearest(word) + " (add your own in a ligands.toml under --rules DIR)" + greedy,
         )
 
     # -- rule 2: a head that reads as one molecule -------------------------
@@ -466,11 +474,13 @@ class _Reader:
             if ch == "[":
                 raise _err(self.text, i, "a second '['", "write one bracketed complex, e.g. [Co(NH3)4Cl2]+")
             tok, i = self.bare(i, end)
+            self.previous = None
             if isinstance(tok, _Metal):
                 metals.append(tok)
                 self.metal_seen = True
             else:
                 ligands.append(tok)
+                self.previous = tok if tok.end == i else None
         return ligands, metals
 
 
