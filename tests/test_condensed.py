@@ -209,6 +209,8 @@ LEGITIMATE = [
     ("[Cr(CO)5NMe3]", ("Cr", 0, [("CO", 5), ("NMe3", 1)])),  # a catalogued amine, longest spelling
     ("CpFe(CO)2SPh", ("Fe", 0, [("Cp", 1), ("CO", 2), ("SPh", 1)])),
     ("[ReOCl2η5-Cp]", ("Re", 0, [("O", 1), ("Cl", 2), ("Cp", 1)])),  # a prefix ends the run
+    ("[VO(OEt)3]", ("V", 0, [("O", 1), ("OEt", 3)])),  # an alkoxide after oxido is not an organyl
+    ("[Os(N)(CH3)4]-", ("Os", -1, [("N", 1), ("Me", 4)])),  # every ligand in its own parentheses
 ]
 
 
@@ -226,6 +228,9 @@ AMBIGUOUS = [
     ("[OsNMe4]-", "NMe4", 4, "(NMe4) for one ligand (not in the catalogue)", "(N)Me4"),
     ("[W(CO)5 NEt2Me]", "NEt2Me", 9, "(NEt2Me) for one ligand", "(NEt2)Me"),
     ("[ReOCl3Me]", "OCl3Me", 4, "(OCl3Me) for one ligand", "(O)Cl3Me"),
+    # parenthesised organyls after a bare head: N(CH3)3 is how trimethylamine is often written
+    ("[Cr(CO)5N(CH3)3]", "N(CH3)3", 9, "(N(CH3)3) for one ligand (not in the catalogue)", "(N)(CH3)3"),
+    ("[ReO(Me)4]", "O(Me)4", 4, "(O(Me)4) for one ligand", "(O)(Me)4"),
 ]
 
 

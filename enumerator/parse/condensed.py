@@ -34,12 +34,13 @@ The parser never makes up a ligand; three rules make sure of it.
       it (``OMe2``) is refused: it reads as two methoxido or as dimethyl
       ether; write ``(OMe)2`` or ``(OMe2)``;
    b. a head written without a multiplier and followed directly (no space,
-      parenthesis or metal between) by a run of bare hydrido, organyl or
-      halido ligands that holds at least one hydrido or organyl ligand is
-      refused: ``NPr3``, ``NEt2Me``, ``NH2Et``, ``PCl2Ph`` (with a P
-      ligand), ``[OsNMe4]-`` read as one molecule as readily as a head
-      plus substituents.  The message says how to write each reading:
-      ``(NEt2Me)`` for the molecule, ``(NEt2)Me`` for the separate ligands.
+      bracket or metal between) by a run of hydrido, organyl or halido
+      ligands, bare or each in its own parentheses, that holds at least one
+      hydrido or organyl ligand is refused: ``NPr3``, ``NEt2Me``, ``NH2Et``,
+      ``N(CH3)3``, ``PCl2Ph`` (with a P ligand), ``[OsNMe4]-`` read as one
+      molecule as readily as a head plus substituents.  The message says how
+      to write each reading: ``(NEt2Me)`` for the molecule, ``(NEt2)Me`` for
+      the separate ligands.
 
    A head followed by halido ligands only stays legal (``[ReOCl4]-``,
    ``[MoOCl4]``), as does a head with a multiplier before the organyl
@@ -395,36 +396,69 @@ class _Reader:
             raise self.refuse_head(head, spelling, stop)
 
     def run_after(self, i: int, end: int) -> tuple[bool, int]:
-        """Whether the bare run right after a head makes one molecule of it, and where that run stops.
+        """Whether the run right after a head makes one molecule of it, and where that run stops.
 
-        True when the run of hydrido, organyl and halido ligands holds a
-        hydrido or organyl one, or when the letters that follow cannot be read
-        at all (an unknown word, a metal symbol with a count or after the
-        metal): ``NPr3`` then reads as one molecule only.  A space, a
-        parenthesis, a hapticity prefix, the metal or any other ligand ends
-        the run.
+        The run is the hydrido, organyl and halido ligands that follow the
+        head directly, bare or each in its own parentheses, with their counts:
+        ``NEt2Me``, ``N(CH3)3``, ``PCl2Ph``.  True when it holds a hydrido or
+        organyl one, or when the letters that follow cannot be read at all (an
+        unknown word, a metal symbol with a count or after the metal): ``NPr3``
+        then reads as one molecule only.  A space, a bracket, a hapticity
+        prefix, the metal or any other ligand ends the run.
         """
         organyl = False
-        while i < end and self.text[i] not in _BREAKS and split_hapto(self.text, i, end)[0] is None:
-            k = self.index.longest(self.text, i, end)
-            metal = self.metal_at(i, end)
-            if metal is not None and (k == i or len(metal) > k - i):
-                m = _DIGITS.match(self.text, i + len(metal), end)
-                if m or self.metal_seen:
-                    return True, m.end() if m else i + len(metal)
+        while i < end:
+            step, j = self.run_step(i, end)
+            if step == "stop":
                 break
-            if k == i:
-                if self.text[i].isascii() and self.text[i].isalpha():
-                    return True, _ALNUM.match(self.text, i, end).end()  # type: ignore[union-attr]
-                break
-            name = self.index.bare[self.text[i:k]]
-            if name in self.classes.substituents:
-                organyl = True
-            elif name not in self.classes.halides:
-                break
-            m = _DIGITS.match(self.text, k, end)
-            i = m.end() if m else k
+            if step == "molecule":
+                return True, j
+            organyl = organyl or step == "organyl"
+            i = j
         return organyl, i
+
+    def run_step(self, i: int, end: int) -> tuple[str, int]:
+        """One ligand of the run after a head: 'organyl', 'halide', 'stop' or 'molecule', and where it ends."""
+        ch = self.text[i]
+        if ch == "(":
+            return self.run_group(i, end)
+        if ch in _BREAKS or split_hapto(self.text, i, end)[0] is not None:
+            return "stop", i
+        k = self.index.longest(self.text, i, end)
+        metal = self.metal_at(i, end)
+        if metal is not None and (k == i or len(metal) > k - i):
+            m = _DIGITS.match(self.text, i + len(metal), end)
+            if m or self.metal_seen:
+                return "molecule", m.end() if m else i + len(metal)
+            return "stop", i
+        if k == i:
+            if ch.isascii() and ch.isalpha():
+                return "molecule", _ALNUM.match(self.text, i, end).end()  # type: ignore[union-attr]
+            return "stop", i
+        return self.run_kind(self.index.bare[self.text[i:k]]), self.count_end(k, end)
+
+    def run_group(self, i: int, end: int) -> tuple[str, int]:
+        """A parenthesised ligand in the run after a head (an unreadable group stops the run: it is refused later)."""
+        depth = 0
+        for close in range(i, end):
+            depth += {"(": 1, ")": -1}.get(self.text[close], 0)
+            if depth == 0:
+                inner = self.text[i + 1 : close].strip()
+                eta, at = split_hapto(inner)
+                name = self.index.resolve(inner[at:].strip(), eta)
+                if name is None:
+                    return "stop", i
+                return self.run_kind(name), self.count_end(close + 1, end)
+        return "stop", i
+
+    def run_kind(self, name: str) -> str:
+        if name in self.classes.substituents:
+            return "organyl"
+        return "halide" if name in self.classes.halides else "stop"
+
+    def count_end(self, i: int, end: int) -> int:
+        m = _DIGITS.match(self.text, i, end)
+        return m.end() if m else i
 
     def refuse_head(self, head: LigandSpan, spelling: str, stop: int) -> InputError:
         word = self.text[head.start : stop]
