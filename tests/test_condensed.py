@@ -364,3 +364,19 @@ def test_entries_added_for_hapticity_are_complete():
     assert (e1.denticity, e1.hapticity, e1.charge, e1.electrons_covalent, e1.electrons_ionic) == (1, None, -1, 1, 2)
     assert (e4.denticity, e4.hapticity, e4.charge, e4.electrons_covalent, e4.electrons_ionic) == (2, 4, 0, 4, 4)
     assert cat["allyl"].hapto_default and cat["cot"].hapto_default
+
+
+def test_the_readme_example_adds_the_refused_amine(tmp_path):
+    # README, Ligand catalogue: tripropylamine as a user ligand; W(0) d6 + 5 CO + NR3 = 18 (Crabtree, ch. 2)
+    import re
+    from pathlib import Path
+
+    readme = (Path(__file__).resolve().parent.parent / "README.md").read_text(encoding="utf-8")
+    block = re.search(r"\n    \[\[ligand\]\]\n    name = \"NPr3\"\n(?:    .*\n)+", readme)
+    assert block is not None
+    (tmp_path / "ligands.toml").write_text("\n".join(line[4:] for line in block.group(0).splitlines()), "utf-8")
+    rs = load_rules([tmp_path])
+    comp = parse_condensed("[W(CO)5(NPr3)]", rs)
+    assert [(k.name, n) for k, n in comp.parts] == [("CO", 5), ("NPr3", 1)]
+    assert count_electrons(comp).valence_electrons == 18
+    assert parse_condensed("W(CO)5NPr3", rs).parts == comp.parts  # now a catalogue spelling, read whole
