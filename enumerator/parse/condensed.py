@@ -76,6 +76,7 @@ from __future__ import annotations
 import re
 from collections.abc import Mapping
 from dataclasses import dataclass
+from types import MappingProxyType
 
 from enumerator.caches import cached
 from enumerator.errors import InputError
@@ -206,7 +207,7 @@ def _classes(rules: RuleSet) -> _Classes:
         el = _leading_element(s)
         if el in HEAD_ELEMENTS and _only_substituents(s[len(el) :], sub_spellings):
             heads[s] = el
-    return _Classes(subs, halides, dict(sorted(heads.items())))
+    return _Classes(subs, halides, MappingProxyType(dict(sorted(heads.items()))))
 
 
 def _err(text: str, pos: int, what: str, fix: str, after: str = "") -> InputError:
