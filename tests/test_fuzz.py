@@ -3,19 +3,24 @@ formula parsers, the rule-file loaders and the command line.
 
 The property everywhere: a call either succeeds or raises an
 :class:`~enumerator.errors.IsosieveError` (InputError, RuleError,
-CapacityError), never any other exception; through the CLI, an error is one
-line on stderr, exit status 2 for usage/input errors, 1 for internal errors,
-and no traceback unless --debug (how the project reports errors; common
-practice for command-line tools).  Example counts are kept modest so the
-file runs in well under a minute.
+CapacityError), never any other exception; a condensed formula that is
+accepted has only ligands that were written as ligands (see
+:func:`check_reading`); through the CLI, an error is one line on stderr,
+exit status 2 for usage/input errors, 1 for internal errors, and no
+traceback unless --debug (how the project reports errors; common practice
+for command-line tools).  Example counts are kept modest so the file runs
+in well under a minute; ``ISOSIEVE_FUZZ_SCALE=20`` runs twenty times the
+examples (the parser properties alone then take about a minute and a half).
 """
 
 from __future__ import annotations
 
 import math
 import os
+import re
 import shutil
 import tempfile
+from collections import Counter
 from pathlib import Path
 
 import pytest
@@ -24,7 +29,9 @@ from hypothesis import strategies as st
 
 from enumerator.errors import IsosieveError
 from enumerator.parse.abstract import parse_abstract
+from enumerator.parse.condensed import parse_condensed, read_condensed
 from enumerator.parse.formula import parse_formula
+from enumerator.rules.ligands import spelling_index, split_hapto
 from enumerator.rules.ruleset import load_rules
 from enumerator.workflow.pipeline import Request, run
 
@@ -114,9 +121,180 @@ condensed_like = st.lists(st.sampled_from(CONDENSED_PARTS), min_size=0, max_size
 @FAST
 @given(condensed_like)
 def test_condensed_parser_never_crashes(text):
-    condensed = pytest.importorskip("enumerator.parse.condensed")
-    _ok_or_isosieve(condensed.parse_condensed, text, RULES)
+    check_reading(text)  # defined below: never a crash, and never a ligand that was not written
     _ok_or_isosieve(parse_formula, text, RULES)
+
+
+# --------------------------------------------------------------------------- the parser never invents a ligand
+#
+# Whatever the input, a formula the condensed parser accepts has only ligands that were written as
+# ligands: each recorded span is exactly a catalogue spelling (its written hapticity picking the
+# entry), each parenthesised group is exactly one ligand, no two spans overlap, every letter of the
+# formula belongs to a ligand or the metal, and the multipliers written add up to the composition's
+# counts.  Formulas are drawn from catalogue spellings, random groupings and random junk groups.
+
+INDEX = spelling_index(RULES)
+BARE = sorted(INDEX.bare)
+#: (spelling, hapticity) for every reading of every spelling, prefix-only ones included
+HAPTO_READINGS = sorted({(sp, r.bound_atoms) for sp, rs in INDEX.readings.items() for r in rs})
+METALS = ["Fe", "Ru", "Mo", "W", "Co", "Pt", "Mn", "Cr", "Ni", "Rh", "Ir", "Os", "Re", "Zr", "V"]
+PREFIXES = ["η{}-", "eta{}-", "h{}-", "η^{}-"]
+COUNTS = ["", "", "", "2", "3", "4", "6"]
+JUNK = "ABCDEFGHIKLMNOPRSTUVWXYZabcdefghiklmnoprstuvwxyz0123456789"
+
+
+def _junk(word: str) -> bool:
+    """A group text the catalogue cannot read, with or without a hapticity prefix."""
+    eta, at = split_hapto(word)
+    return INDEX.resolve(word[at:].strip(), eta) is None
+
+
+@st.composite
+def _piece(draw):
+    """One written ligand: a catalogue spelling bare or in parentheses, with or without a hapticity, or junk."""
+    kind = draw(st.sampled_from(["group", "group", "prefixed", "bare", "bare", "junk", "junk-bare"]))
+    count = draw(st.sampled_from(COUNTS))
+    if kind == "group":
+        return f"({draw(st.sampled_from(BARE))}){count}"
+    if kind == "prefixed":
+        spelling, eta = draw(st.sampled_from(HAPTO_READINGS))
+        eta += draw(st.sampled_from([0, 0, 0, 1, -1]))  # now and then a hapticity the catalogue lacks
+        return f"({draw(st.sampled_from(PREFIXES)).format(eta)}{spelling}){count}"
+    if kind == "bare":
+        return draw(st.sampled_from(BARE)) + count
+    word = draw(st.text(alphabet=JUNK, min_size=1, max_size=6))
+    return f"({word}){count}" if kind == "junk" else word + count
+
+
+@st.composite
+def condensed_formulas(draw):
+    pieces = draw(st.lists(_piece(), min_size=1, max_size=6))
+    pieces.insert(draw(st.integers(0, len(pieces))), draw(st.sampled_from(METALS)))
+    body = "".join(pieces)
+    if draw(st.booleans()):
+        return f"[{body}]{draw(st.sampled_from(['', '+', '2-', '3+', '−']))}"
+    return body
+
+
+def _groups(text: str, inside: set[int]) -> list[tuple[int, int]]:
+    """The outermost parenthesised groups of the text, read independently of the parser; parentheses
+    inside a ligand's own spelling (P(OMe)3 written bare) are part of that spelling, not a group."""
+    out, depth, start = [], 0, 0
+    for k, ch in enumerate(text):
+        if k in inside:
+            continue
+        if ch == "(":
+            depth, start = depth + 1, (k if depth == 0 else start)
+        elif ch == ")":
+            depth -= 1
+            if depth == 0:
+                out.append((start, k + 1))
+    return out
+
+
+def _claim(covered: set[int], start: int, end: int) -> None:
+    span = set(range(start, end))
+    assert not covered & span, "two spans overlap"
+    covered |= span
+
+
+def check_reading(text: str) -> bool:
+    """Parse ``text``; on success assert every property above.  Returns whether it parsed."""
+    try:
+        reading = read_condensed(text, RULES, suggest=False)
+    except IsosieveError as exc:
+        assert len(exc.line().splitlines()) == 1
+        return False
+    t = reading.text
+    covered: set[int] = set()
+    _claim(covered, *reading.metal_span)
+    spelled: set[int] = set()
+    for span in reading.ligands:
+        spelling = t[span.start : span.end]
+        assert INDEX.resolve(spelling, span.hapticity) == span.name, (text, spelling)  # exactly a spelling
+        _claim(covered, span.start, span.end)
+        spelled |= set(range(span.start, span.end))
+        if span.prefix_start is not None:
+            eta, at = split_hapto(t, span.prefix_start, span.start)
+            assert eta == span.hapticity and t[at : span.start].strip() == ""
+            _claim(covered, span.prefix_start, at)
+        after = span.end
+        if span.group is not None:
+            a, b = span.group
+            assert t[a] == "(" and t[b - 1] == ")" and a < (span.prefix_start or span.start) and span.end < b
+            assert t[a + 1 : span.prefix_start or span.start].strip() == "" and t[span.end : b - 1].strip() == ""
+            _claim(covered, a, a + 1)
+            _claim(covered, b - 1, b)
+            after = b
+        digits = re.match(r"\d*", t[after:]).group(0)  # type: ignore[union-attr]
+        assert span.count == (int(digits) if digits else 1), (text, span)
+        _claim(covered, after, after + len(digits))
+    # each parenthesised group of the text is exactly one ligand's group
+    assert sorted(s.group for s in reading.ligands if s.group) == _groups(t, spelled), text
+    # nothing else was read: what no span covers is brackets, spaces and the charge
+    body_end = t.rfind("]")
+    rest = "".join(ch for k, ch in enumerate(t[: body_end if body_end >= 0 else len(t)]) if k not in covered)
+    assert set(rest) <= set("[] \t"), (text, rest)
+    comp = parse_condensed(text, RULES, suggest=False)
+    assert sum(n for _k, n in comp.parts) == sum(s.count for s in reading.ligands)
+    return True
+
+
+@FAST
+@given(condensed_formulas())
+def test_condensed_reading_never_invents_a_ligand(text):
+    check_reading(text)
+
+
+@st.composite
+def _catalogue_groups(draw):
+    """A formula of parenthesised catalogue ligands only (right hapticities) and the counts it must give."""
+    want: Counter[str] = Counter()
+    pieces = []
+    for _ in range(draw(st.integers(1, 5))):
+        n = draw(st.integers(1, 6))
+        if draw(st.booleans()):
+            spelling = draw(st.sampled_from(BARE))
+            pieces.append(f"({spelling}){n if n > 1 else ''}")
+            want[INDEX.bare[spelling]] += n
+        else:
+            spelling, eta = draw(st.sampled_from(HAPTO_READINGS))
+            pieces.append(f"({draw(st.sampled_from(PREFIXES)).format(eta)}{spelling}){n if n > 1 else ''}")
+            want[INDEX.resolve(spelling, eta)] += n  # type: ignore[index]
+    pieces.insert(draw(st.integers(0, len(pieces))), draw(st.sampled_from(METALS)))
+    return "[" + "".join(pieces) + "]", want
+
+
+@FAST
+@given(_catalogue_groups())
+def test_each_catalogue_group_is_its_one_ligand(case):
+    text, want = case
+    assert check_reading(text), text
+    comp = parse_condensed(text, RULES)
+    assert Counter({k.name: n for k, n in comp.parts}) == want
+
+
+@FAST
+@given(
+    st.sampled_from(BARE),
+    st.text(alphabet=JUNK, min_size=1, max_size=6).filter(_junk),
+    st.sampled_from(COUNTS),
+    st.sampled_from(METALS),
+)
+def test_a_junk_group_is_refused(spelling, junk, count, metal):
+    # a group the catalogue cannot read is refused, whatever surrounds it; never split into pieces
+    assert not check_reading(f"[{metal}({spelling})({junk}){count}]")
+
+
+@FAST
+@given(st.lists(st.sampled_from(BARE) | st.text(alphabet=JUNK + "()*-", max_size=3), min_size=1, max_size=5))
+def test_index_agrees_with_a_scan(parts):
+    # the indexed longest match is the old scan over every spelling, longest first
+    text = "".join(parts)
+    longest_first = sorted(BARE, key=lambda sp: (-len(sp), sp))
+    for start in range(len(text)):
+        scan = next((start + len(sp) for sp in longest_first if text.startswith(sp, start)), start)
+        assert INDEX.longest(text, start, len(text)) == scan
 
 
 @pytest.mark.parametrize("text", ["η5-", "Ruη5-"])

@@ -301,10 +301,11 @@ def test_formulas_with_new_ligands(formula, ligands, os_, d, ve, source):
 
 
 def test_wrong_hapticity_is_refused():
-    # only eta8-cot is catalogued: an eta4-cot is refused rather than misread
+    # cot is catalogued at eta8 and eta4 only: an eta6-cot (as in Cr(CO)3(C8H8), from memory) is
+    # refused with the hapticities the catalogue has, rather than misread
     with pytest.raises(InputError) as exc:
-        _parts("[Fe(CO)3(η4-cot)]")
-    assert "η4-cot" in exc.value.line()
+        _parts("[Cr(CO)3(η6-cot)]")
+    assert "η6-cot" in exc.value.line() and "η8 (cot), η4 (eta4-cot)" in exc.value.line()
 
 
 def test_names_with_new_ligands():

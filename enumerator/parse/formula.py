@@ -10,10 +10,13 @@ real formula, whichever the text is.
 
 from __future__ import annotations
 
+import re
+
 from enumerator.errors import InputError
 from enumerator.model.composition import Composition
 from enumerator.parse.abstract import looks_abstract, parse_abstract
 from enumerator.parse.condensed import parse_condensed
+from enumerator.rules.ligands import spelling_index, split_hapto
 from enumerator.rules.ruleset import RuleSet
 
 __all__ = ["parse_formula"]
@@ -23,6 +26,18 @@ __all__ = ["parse_formula"]
 _M_ELEMENTS = frozenset({"Mn", "Mo", "Mg", "Mt", "Md", "Mc"})
 #: Of those, the ones a real formula is likely to start with.
 _COMMON_M_ELEMENTS = frozenset({"Mn", "Mo", "Mg"})
+_GROUP = re.compile(r"\(([^()]*)\)")
+
+
+def _has_catalogue_group(text: str, rules: RuleSet) -> bool:
+    """Whether a parenthesised group of the text is a catalogue ligand, as (CO) or (η5-Cp) are."""
+    index = spelling_index(rules)
+    for m in _GROUP.finditer(text):
+        inner = m.group(1).strip()
+        eta, at = split_hapto(inner)
+        if index.resolve(inner[at:].strip(), eta) is not None:
+            return True
+    return False
 
 
 def parse_formula(text: str, rules: RuleSet) -> Composition:
@@ -30,7 +45,10 @@ def parse_formula(text: str, rules: RuleSet) -> Composition:
 
     A text that starts like the letter notation ('M' + a lowercase letter or
     a parenthesis) is read as one, except that a text starting with Mn, Mo,
-    Mg, Mt, Md or Mc is first tried as a real formula.
+    Mg, Mt, Md or Mc is first tried as a real formula; and one of those that
+    holds a parenthesised catalogue ligand ('Mo(CO)3(PPP)') is a real formula
+    whatever else it holds, so the condensed parser's refusal stands rather
+    than a letter-notation reading (M, a ligand 'o', a chelate 'CO').
 
     Parameters
     ----------
@@ -57,6 +75,8 @@ def parse_formula(text: str, rules: RuleSet) -> Composition:
         # the letter notation.
         head = text.strip().lstrip("[")[:2]
         if head in _M_ELEMENTS:
+            if _has_catalogue_group(text, rules):
+                return parse_condensed(text, rules)
             try:
                 return parse_condensed(text, rules, suggest=False)
             except InputError:

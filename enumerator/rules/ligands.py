@@ -12,7 +12,19 @@ elements are checked against the other keys.
 Look-up (:func:`find_ligand`) tries the exact name, then the exact alias,
 then a case-insensitive match that must be unique.  Formulas use the exact
 (case-sensitive) spellings only, because case carries meaning there
-(``CO`` carbonyl, ``Co`` cobalt).
+(``CO`` carbonyl, ``Co`` cobalt); :func:`spelling_index` indexes them for
+the formula parser (longest match by growing a prefix, a set look-up per
+character).
+
+Hapticity: a spelling may carry a hapticity prefix (``η2-H2``, the
+dihydrogen ligand), and is then read only with that prefix, so ``RuH2``
+keeps its two hydrides.  One ligand catalogued at two hapticities (η3- and
+η1-allyl, η8- and η4-cot) shares its spellings between the two entries: the
+hapticity written picks the entry, and a spelling written without one means
+the entry marked ``hapto_default = true``.  At load, entries that share a
+spelling must bind through different numbers of atoms, have SMILES of the
+same molecular formula (charge aside: one ligand), and exactly one of them
+must be the default.
 
 >>> from enumerator.rules.ruleset import load_rules
 >>> cat = load_ligands(load_rules())
@@ -47,6 +59,11 @@ __all__ = [
     "load_ligands",
     "find_ligand",
     "all_spellings",
+    "spelling_index",
+    "split_hapto",
+    "SpellingIndex",
+    "Reading",
+    "HAPTO_PREFIX",
     "unknown_ligand",
     "parse_entry",
     "check_smiles",
@@ -69,6 +86,7 @@ _OPTIONAL = (
     "source",
     "iupac",
     "enclose",
+    "hapto_default",
 )
 _NAME = re.compile(r"^[^\s\[\]]{1,32}$")
 
@@ -101,6 +119,8 @@ class LigandEntry:
     #: name in an IUPAC additive name (None: not nameable) and whether it is enclosed
     iupac: str | None = None
     enclose: bool = False
+    #: the entry a shared spelling means when no hapticity is written (see :class:`SpellingIndex`)
+    hapto_default: bool = False
 
     @property
     def bound_atoms(self) -> int:
@@ -390,6 +410,7 @@ def parse_entry(data: Mapping[str, Any], where: str) -> LigandEntry:
         source=str(data.get("source", "")),
         iupac=iupac,
         enclose=enclose,
+        hapto_default=_flag(data, where, "hapto_default"),
     )
     check_smiles(entry, where)
     return entry
@@ -481,13 +502,159 @@ def check_smiles(entry: LigandEntry, where: str) -> None:
         )
 
 
+#: A hapticity prefix as formulas write it: ``η5-``, ``η^5-``, ``eta5-``, ``h5-`` (superscript digits too).
+HAPTO_PREFIX = re.compile(r"(?:η\^?|eta\^?|h)([0-9⁰¹²³⁴⁵⁶⁷⁸⁹]+)-")
+_SUPERSCRIPT = str.maketrans("⁰¹²³⁴⁵⁶⁷⁸⁹", "0123456789")
+
+
+def split_hapto(text: str, start: int = 0, end: int | None = None) -> tuple[int | None, int]:
+    """The hapticity prefix written at ``text[start:end]``, if any, and where the spelling after it starts.
+
+    Parameters
+    ----------
+    text : str
+    start, end : int, optional
+        The part of ``text`` to read (all of it by default).
+
+    Returns
+    -------
+    (int or None, int)
+        The hapticity (None without a prefix) and the index just after the prefix (``start`` without one).
+
+    Examples
+    --------
+    >>> split_hapto("η2-H2"), split_hapto("(eta5-Cp)", 1), split_hapto("CO")
+    ((2, 3), (5, 6), (None, 0))
+    """
+    m = HAPTO_PREFIX.match(text, start, len(text) if end is None else end)
+    if not m:
+        return None, start
+    return int(m.group(1).translate(_SUPERSCRIPT)), m.end()
+
+
+@dataclass(frozen=True)
+class Reading:
+    """One catalogue entry a spelling can stand for.
+
+    ``prefixed`` is true when the catalogue spells the entry this way only
+    with its hapticity prefix (``η2-H2`` for dihydrogen): the spelling then
+    means the entry only when the prefix is written.
+    """
+
+    name: str
+    bound_atoms: int
+    prefixed: bool
+
+
+@dataclass(frozen=True)
+class SpellingIndex:
+    """Every spelling of a catalogue, indexed for look-up by the formula parser.
+
+    ``readings`` maps a spelling, its hapticity prefix removed, to the entries
+    it can stand for, fewest bound atoms last: one ligand catalogued at two
+    hapticities shares its spellings (``C3H5`` is η3-allyl and η1-allyl).
+    ``bare`` maps each spelling that may be written without a prefix to the
+    entry it then means: the only one, or among entries that share it the one
+    marked ``hapto_default``.  ``stems`` holds every leading part of every
+    spelling, so the longest spelling at a position is found by growing the
+    match one character at a time, one set look-up per character, instead
+    of trying every spelling in turn.
+
+    Examples
+    --------
+    >>> from enumerator.rules.ruleset import load_rules
+    >>> ix = spelling_index(load_rules())
+    >>> text = "PPh3Cl"
+    >>> text[: ix.longest(text, 0, len(text))]
+    'PPh3'
+    >>> ix.resolve("C3H5", None), ix.resolve("C3H5", 1), ix.resolve("H2", 2), ix.resolve("H2", None)
+    ('allyl', 'eta1-allyl', 'dihydrogen', None)
+    """
+
+    readings: Mapping[str, tuple[Reading, ...]]
+    bare: Mapping[str, str]
+    stems: frozenset[str]
+
+    def longest(self, text: str, start: int, end: int, prefixed: bool = False) -> int:
+        """Where the longest spelling at ``text[start:end]`` ends (``start`` when none fits).
+
+        Parameters
+        ----------
+        text : str
+        start, end : int
+        prefixed : bool, optional
+            A hapticity prefix was written before ``start``: spellings read
+            only with a prefix count too.
+
+        Returns
+        -------
+        int
+        """
+        table: Mapping[str, object] = self.readings if prefixed else self.bare
+        best = start
+        j = start + 1
+        while j <= end and text[start:j] in self.stems:
+            if text[start:j] in table:
+                best = j
+            j += 1
+        return best
+
+    def resolve(self, spelling: str, eta: int | None) -> str | None:
+        """The entry a spelling means with the hapticity written before it.
+
+        Parameters
+        ----------
+        spelling : str
+            Without its prefix.
+        eta : int or None
+            The hapticity written (None: no prefix).
+
+        Returns
+        -------
+        str or None
+            The canonical name, or None when the catalogue has no such reading.
+        """
+        if eta is None:
+            return self.bare.get(spelling)
+        for r in self.readings.get(spelling, ()):
+            if r.bound_atoms == eta:
+                return r.name
+        return None
+
+    def refusal(self, spelling: str, eta: int | None) -> tuple[str, str] | None:
+        """Why a known spelling has no reading at the hapticity written: (what, fix), or None if it is unknown.
+
+        Parameters
+        ----------
+        spelling : str
+            Without its prefix; :meth:`resolve` gave None for it.
+        eta : int or None
+
+        Returns
+        -------
+        (str, str) or None
+        """
+        found = self.readings.get(spelling, ())
+        if not found:
+            return None
+        have = ", ".join(f"η{r.bound_atoms} ({r.name})" for r in found)
+        written = " or ".join(f"η{r.bound_atoms}-{spelling}" for r in found)
+        if eta is None:
+            return f"{spelling} is catalogued only with its hapticity: {have}", f"write {written}"
+        return (
+            f"η{eta}-{spelling} is not in the catalogue ({spelling} is catalogued as {have})",
+            f"write {written}, or add an η{eta} entry in a ligands.toml under --rules DIR",
+        )
+
+
 @dataclass(frozen=True)
 class _Catalogue:
-    """The ligands of one rule set, read-only: by canonical name, by spelling, and by lower-case spelling."""
+    """The ligands of one rule set, read-only: by canonical name, by spelling, by lower-case spelling, indexed."""
 
     entries: Mapping[str, LigandEntry]
-    spellings: Mapping[str, str]  # spelling -> canonical name
+    spellings: Mapping[str, str]  # spelling as written -> canonical name (a shared one: its default)
     folded: Mapping[str, frozenset[str]]  # lower-case spelling -> canonical names
+    index: SpellingIndex
 
 
 def _file_entries(path: Path) -> list[LigandEntry]:
@@ -511,18 +678,98 @@ def _file_entries(path: Path) -> list[LigandEntry]:
     return out
 
 
-def _spellings(entries: Mapping[str, LigandEntry]) -> dict[str, str]:
-    spellings = {name: name for name in entries}
+def _hill_formula(smiles: str) -> str:
+    """The molecular formula of a SMILES, its charge left off (C3H5 for the allyl anion)."""
+    from rdkit.Chem import rdMolDescriptors
+
+    return re.sub(r"[+-]\d*$", "", rdMolDescriptors.CalcMolFormula(_read_smiles(smiles)))
+
+
+def _readings(entries: Mapping[str, LigandEntry]) -> dict[str, dict[str, Reading]]:
+    """Spelling (prefix removed) -> canonical name -> reading, every name and alias of every entry."""
+    out: dict[str, dict[str, Reading]] = {}
     for e in entries.values():
-        for a in e.aliases:
-            if a in spellings and spellings[a] != e.name:
+        for s in (e.name, *e.aliases):
+            eta, at = split_hapto(s)
+            base = s[at:]
+            if eta is not None and (not base or eta != e.bound_atoms):
                 raise rule_error(
-                    e.source,
-                    f"alias '{a}' of ligand '{e.name}' is already the name or an alias of '{spellings[a]}'",
-                    "remove or rename the alias",
+                    f"{e.source} ({e.name})",
+                    f"spelling '{s}' says η{eta} but the ligand binds through {e.bound_atoms} atom(s)",
+                    f"write the prefix η{e.bound_atoms}- followed by the spelling, or leave the prefix out",
                 )
-            spellings[a] = e.name
-    return spellings
+            old = out.setdefault(base, {}).get(e.name)
+            out[base][e.name] = Reading(e.name, e.bound_atoms, eta is not None and (old is None or old.prefixed))
+    return out
+
+
+def _shared(base: str, found: Mapping[str, Reading], entries: Mapping[str, LigandEntry]) -> str | None:
+    """Check a spelling that several entries share; the entry it means without a prefix (None: none or one)."""
+    by_atoms: dict[int, str] = {}
+    first = next(iter(found))
+    molecule = _hill_formula(entries[first].smiles)
+    for r in found.values():
+        where = f"{entries[r.name].source} ({r.name})"
+        if r.bound_atoms in by_atoms:
+            raise rule_error(
+                where,
+                f"spelling '{base}' is already the name or an alias of '{by_atoms[r.bound_atoms]}', "
+                f"which binds through as many atoms ({r.bound_atoms})",
+                "remove or rename the spelling (entries share a spelling only at different hapticities)",
+            )
+        by_atoms[r.bound_atoms] = r.name
+        if _hill_formula(entries[r.name].smiles) != molecule:
+            raise rule_error(
+                where,
+                f"spelling '{base}' is shared with '{first}', a different molecule (SMILES formulas differ)",
+                "entries share a spelling only when they are one ligand at different hapticities",
+            )
+    bare = sorted(r.name for r in found.values() if not r.prefixed)
+    if len(bare) < 2:
+        return None
+    defaults = [n for n in bare if entries[n].hapto_default]
+    if len(defaults) != 1:
+        raise rule_error(
+            f"{entries[bare[-1]].source} ({', '.join(bare)})",
+            f"spelling '{base}' is shared by {', '.join(bare)} and {len(defaults)} of them carry hapto_default",
+            "mark exactly one with hapto_default = true: it is read when no hapticity is written",
+        )
+    return defaults[0]
+
+
+def _spelling_index(entries: Mapping[str, LigandEntry]) -> tuple[dict[str, str], SpellingIndex]:
+    """Every spelling as written -> canonical name, and the index; shared spellings checked."""
+    readings = _readings(entries)
+    bare: dict[str, str] = {}
+    defaults: set[str] = set()
+    for base, found in readings.items():
+        chosen = _shared(base, found, entries) if len(found) > 1 else None
+        if chosen is not None:
+            defaults.add(chosen)
+            bare[base] = chosen
+        elif not all(r.prefixed for r in found.values()):
+            bare[base] = next(r.name for r in found.values() if not r.prefixed)
+    for e in entries.values():
+        if e.hapto_default and e.name not in defaults:
+            raise rule_error(
+                f"{e.source} ({e.name})",
+                "'hapto_default' on a ligand that shares no spelling with an entry at another hapticity",
+                "remove it: it only chooses among entries that share a spelling",
+            )
+    spellings: dict[str, str] = {}
+    for e in entries.values():
+        for s in (e.name, *e.aliases):
+            eta, at = split_hapto(s)
+            spellings[s] = e.name if eta is not None else bare[s]
+    stems = frozenset(base[:k] for base in readings for k in range(1, len(base) + 1))
+    index = SpellingIndex(
+        MappingProxyType(
+            {b: tuple(sorted(f.values(), key=lambda r: (-r.bound_atoms, r.name))) for b, f in sorted(readings.items())}
+        ),
+        MappingProxyType(dict(sorted(bare.items()))),
+        stems,
+    )
+    return spellings, index
 
 
 @cached(maxsize=16)
@@ -531,7 +778,7 @@ def _catalogue(rules: RuleSet) -> _Catalogue:
     for path in rules.files("ligands.toml"):
         for e in _file_entries(path):
             entries[e.name] = e
-    spellings = _spellings(entries)
+    spellings, index = _spelling_index(entries)
     folded: dict[str, set[str]] = {}
     for s, n in spellings.items():
         folded.setdefault(s.lower(), set()).add(n)
@@ -539,6 +786,7 @@ def _catalogue(rules: RuleSet) -> _Catalogue:
         MappingProxyType(dict(sorted(entries.items()))),
         MappingProxyType(dict(sorted(spellings.items()))),
         MappingProxyType({k: frozenset(v) for k, v in folded.items()}),
+        index,
     )
 
 
@@ -559,7 +807,8 @@ def load_ligands(rules: RuleSet) -> Mapping[str, LigandEntry]:
     Raises
     ------
     RuleError
-        Any entry of any file in force is malformed, or an alias is taken twice.
+        Any entry of any file in force is malformed, or a spelling is shared
+        other than by one ligand at different hapticities with one default.
     """
     return _catalogue(rules).entries
 
@@ -575,20 +824,42 @@ def all_spellings(rules: RuleSet) -> Mapping[str, str]:
     Returns
     -------
     Mapping[str, str]
-        Read-only, sorted by spelling.
+        Read-only, sorted by spelling.  A spelling that entries share at
+        different hapticities maps to the one marked ``hapto_default``; a
+        spelling written with its prefix (``η2-H2``) to its own entry.
     """
     return _catalogue(rules).spellings
 
 
+def spelling_index(rules: RuleSet) -> SpellingIndex:
+    """The catalogue's spellings indexed for the formula parser (see :class:`SpellingIndex`).
+
+    Parameters
+    ----------
+    rules : RuleSet
+        The rule folders in force.
+
+    Returns
+    -------
+    SpellingIndex
+        Built and checked once per rule set, with the catalogue.
+    """
+    return _catalogue(rules).index
+
+
 def find_ligand(rules: RuleSet, text: str) -> LigandEntry:
-    """A ligand by name or alias: the exact spelling first, then a unique case-insensitive match.
+    """A ligand by name or alias, with an optional hapticity prefix: exact first, then a unique case-insensitive match.
+
+    A spelling that several entries share (one ligand at two hapticities)
+    means the entry of the hapticity written (``η1-C3H5``), else the entry
+    marked ``hapto_default``.
 
     Parameters
     ----------
     rules : RuleSet
         The rule folders in force.
     text : str
-        A name or alias (surrounding spaces ignored).
+        A name or alias (surrounding spaces ignored), e.g. 'PPh3', 'cp', 'η2-H2'.
 
     Returns
     -------
@@ -597,12 +868,19 @@ def find_ligand(rules: RuleSet, text: str) -> LigandEntry:
     Raises
     ------
     InputError
-        The spelling is unknown (with the nearest names) or matches several ligands when case is ignored.
+        The spelling is unknown (with the nearest names), is not catalogued at
+        the hapticity written (with the hapticities it has), or matches several
+        ligands when case is ignored.
     """
     cat = _catalogue(rules)
     t = text.strip()
-    if t in cat.spellings:
-        return cat.entries[cat.spellings[t]]
+    eta, at = split_hapto(t)
+    name = cat.index.resolve(t[at:], eta)
+    if name is not None:
+        return cat.entries[name]
+    refused = cat.index.refusal(t[at:], eta)
+    if refused is not None:
+        raise InputError(f"ligand '{t}': {refused[0]}", refused[1])
     hits = cat.folded.get(t.lower(), frozenset())
     if len(hits) == 1:
         return cat.entries[next(iter(hits))]
