@@ -22,7 +22,7 @@ error names the offending text and its position (1-based).
 ('Fe', -2, [('CN', 5), ('NO', 1)])
 >>> c = parse_condensed("[(η5-C5H5)Mn(CO)3]", load_rules())
 >>> [(k.name, k.ring, n) for k, n in c.parts], c.donor_count
-([('Cp', True, 1), ('CO', False, 3)], 6)
+([('Cp', True, 1), ('CO', False, 3)], 4)
 """
 
 from __future__ import annotations
