@@ -6,8 +6,10 @@ One job per module:
 
 * :mod:`.electrons`: both textbook electron counts from the ligands'
   catalogue data (:func:`count_electrons`);
-* :mod:`.geometry`: the default polyhedron from the coordination number and
-  the d-count, and the choice when one is requested (:func:`choose_geometry`);
+* :mod:`.geometry`: the default polyhedron by the rules of
+  ``rules/geometry_choice.toml`` (site count, d-count, the textbook
+  exceptions, piano stools), and the choice when one is requested
+  (:func:`choose_geometry`);
 * :mod:`.analysis`: the pipeline stage and :class:`CentreAnalysis`.
 
 >>> from enumerator.rules.ruleset import load_rules
@@ -22,7 +24,7 @@ One job per module:
 
 from enumerator.analyses.centre.analysis import CentreAnalysis, centre_notes, stage
 from enumerator.analyses.centre.electrons import ElectronCount, LigandCount, NitrosylBinding, count_electrons, roman
-from enumerator.analyses.centre.geometry import choose_geometry, default_geometry
+from enumerator.analyses.centre.geometry import GeometryDecision, choose_geometry, default_geometry, geometry_decision
 
 __all__ = [
     "ElectronCount",
@@ -32,6 +34,8 @@ __all__ = [
     "count_electrons",
     "choose_geometry",
     "default_geometry",
+    "geometry_decision",
+    "GeometryDecision",
     "centre_notes",
     "roman",
     "stage",

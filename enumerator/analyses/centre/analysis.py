@@ -3,7 +3,7 @@
 :func:`stage` (listed in :data:`enumerator.workflow.pipeline.STAGES`) returns
 a :class:`CentreAnalysis` for a catalogue formula (none for abstract
 letters).  Its notes warn where the site idealisation or the nitrosyl
-binding may mislead: η-rings as three facial sites, and {MNO}n with n >= 7 on
+binding may mislead: an η-ring as one site (the piano-stool idealisation), and {MNO}n with n >= 7 on
 an octahedron, usually bent (Enemark–Feltham, *Coord. Chem. Rev.* 13 (1974)
 339), or a count above 18 with a linear NO.
 
@@ -20,7 +20,7 @@ from dataclasses import dataclass, field
 from typing import Any
 
 from enumerator.analyses.centre.electrons import ElectronCount, count_electrons
-from enumerator.analyses.centre.geometry import default_geometry
+from enumerator.analyses.centre.geometry import geometry_decision
 from enumerator.analyses.views import RequestView, ResultView
 from enumerator.errors import InputError
 from enumerator.model.composition import Composition
@@ -39,6 +39,9 @@ class CentreAnalysis:
     alternatives: tuple[str, ...] = ()
     sites: int = 0
     notes: tuple[str, ...] = field(default=())
+    #: the geometry-choice rule behind the default and its source ('' where none matched)
+    geometry_rule: str = ""
+    geometry_source: str = ""
 
     def isomer_json(self, isomer_id: str) -> Mapping[str, Any]:
         """Nothing per isomer."""
@@ -76,6 +79,8 @@ class CentreAnalysis:
                 "geometry": self.geometry,
                 "geometry_reason": self.geometry_reason,
                 "geometry_alternatives": list(self.alternatives),
+                "geometry_rule": self.geometry_rule or None,
+                "geometry_source": self.geometry_source or None,
                 "notes": list(self.notes),
             }
         }
@@ -100,8 +105,8 @@ def centre_notes(comp: Composition, c: ElectronCount, geometry: str) -> tuple[st
     notes = list(c.notes)
     if any(k.ring for k in comp.kinds):
         notes.append(
-            "point groups are those of the site idealisation (an η-ring as three facial sites); "
-            "the full molecular symmetry of the ring is not represented"
+            "point groups are those of the site idealisation (an η-ring as one site whose axis carries the "
+            "ring's symmetry); the full molecular symmetry of the ring is not represented"
         )
     linear = [name for name, _, b in c.nitrosyls if b == "linear"]
     if linear and c.enemark_feltham and geometry == "OC-6":
@@ -137,9 +142,10 @@ def stage(res: ResultView, req: RequestView) -> CentreAnalysis | None:
         return None
     c = count_electrons(comp)
     try:
-        _, _, alts = default_geometry(comp, load_rules(req.rules), c)
+        d = geometry_decision(comp, load_rules(req.rules), c)
+        alts, rule, source = d.alternatives, d.rule, d.source
     except InputError:
-        alts = ()
+        alts, rule, source = (), "", ""
     return CentreAnalysis(
         count=c,
         geometry=res.geometry.symbol,
@@ -147,4 +153,6 @@ def stage(res: ResultView, req: RequestView) -> CentreAnalysis | None:
         alternatives=alts,
         sites=comp.donor_count,
         notes=centre_notes(comp, c, res.geometry.symbol),
+        geometry_rule=rule,
+        geometry_source=source,
     )
