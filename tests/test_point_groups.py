@@ -174,3 +174,28 @@ def test_stabilisers_match_brute_force(rules):
         g = rules.geometry(symbol)
         for iso in enumerate_isomers(parse_abstract(formula), g, limit=400).isomers:
             assert brute_stabiliser(g, iso) == iso.stabiliser, (formula, iso.id)
+
+
+REAL_STOOLS_AND_TRIPODS = [
+    "[TpMn(CO)3]",
+    "[W(CO)3(tacn)]",
+    "[Cr(CO)3(triphos)]",
+    "[CpCo(CO)2]",
+    "[CpMn(CO)3]",
+    "[CpFe(CO)(PPh3)(Me)]",
+    "[CpW(CO)3Me]",
+    "[CpW(CO)2(PPh3)Me]",
+    "[Cp2ZrCl2]",
+    "[Cp2Fe]",
+    "[(C6H6)Cr(CO)3]",
+]
+
+
+@pytest.mark.parametrize("formula", REAL_STOOLS_AND_TRIPODS)
+def test_real_stools_and_tripods_match_pymatgen(formula):
+    """The catalogue complexes on the frame the geometry rules choose: each ring one stand-in atom on its site,
+    each tripod a cap atom on its face's axis (the models of this file)."""
+    from enumerator.workflow.pipeline import analyse
+
+    for iso in analyse(formula).isomers:
+        assert iso.point_group == pymatgen_group(iso), (formula, iso.id)
