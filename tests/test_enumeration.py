@@ -12,6 +12,7 @@
 from __future__ import annotations
 
 import itertools
+import re
 
 import pytest
 from support.oracles import (  # tests/ is on sys.path under pytest
@@ -21,6 +22,7 @@ from support.oracles import (  # tests/ is on sys.path under pytest
     partitions,
 )
 
+from enumerator.errors import InputError
 from enumerator.isomers.counting import burnside_counts
 from enumerator.isomers.enumeration import enumerate_isomers, generate
 from enumerator.parse.abstract import parse_abstract
@@ -117,8 +119,8 @@ CHELATE_CASES = [
     ("M(AAA)2", "OC-6", [("AAA", 2, "edge", False, ("fac",))], {"arrangements": [("AAA", "fac")]}),
     (
         "M(ring)a2b",
-        "OC-6",
-        [("RRR", 1, "edge", True, ()), ("a", 2, "edge", False, ()), ("b", 1, "edge", False, ())],
+        "T-4",
+        [("R", 1, "edge", True, ()), ("a", 2, "edge", False, ()), ("b", 1, "edge", False, ())],
         {},
     ),
     ("M(AA)b4", "OC-6", [("AA", 1, "trans", False, ()), ("b", 4, "edge", False, ())], {"spans": [("AA", "trans")]}),
@@ -157,6 +159,102 @@ def test_chelate_counts_match_burnside(rules, formula, symbol, kinds, opts):
     s = enumerate_isomers(comp, g)
     assert s.geometric_isomers == orbits_by_burnside(g, kinds, g.operations)
     assert s.stereoisomers == orbits_by_burnside(g, kinds, g.proper_operations)
+
+
+# --- tripods and eta-rings on every geometry: Burnside over brute-force decorations ---
+
+#: (formula, geometry): a tripod takes the three sites of a triangular face (faces from scipy's convex hull in
+#: the oracle), an eta-ring one site of the largest site stabiliser.
+TOPOLOGY_CASES = [
+    ("M(ring)a", "L-2"),
+    ("M(ring)2", "L-2"),
+    ("M(ring)a2", "TPY-3"),
+    ("M(ring)ab", "TPY-3"),
+    ("M{AAA}", "TPY-3"),
+    ("M(ring)ab", "TP-3"),
+    ("M(ring)ab", "TS-3"),
+    ("M(ring)a3", "T-4"),
+    ("M(ring)abc", "T-4"),
+    ("M(ring)2ab", "T-4"),
+    ("M{AAA}b", "T-4"),
+    ("M{ABC}d", "T-4"),
+    ("M(ring)a2b", "SP-4"),
+    ("M(ring)2ab", "SS-4"),
+    ("M(ring)a4", "SPY-5"),
+    ("M(ring)a2bc", "SPY-5"),
+    ("M(ring)(AA)bc", "SPY-5"),
+    ("M{AAA}bc", "SPY-5"),
+    ("M(ring)a2b2", "TBPY-5"),
+    ("M(ring)2abc", "TBPY-5"),
+    ("M{AAA}b2", "TBPY-5"),
+    ("M{ABB}cd", "TBPY-5"),
+    ("M{AAA}b3", "OC-6"),
+    ("M{ABB}c3", "OC-6"),
+    ("M{ABC}d3", "OC-6"),
+    ("M{AAA}bcd", "OC-6"),
+    ("M{AAA}2", "OC-6"),
+    ("M{ABB}2", "OC-6"),
+    ("M{AAA}(AA)b", "OC-6"),
+    ("M(ring){AAA}ab", "OC-6"),
+    ("M(ring)2a2b2", "OC-6"),
+    ("M{AAA}b3", "TPR-6"),
+    ("M(ring)a2b3", "HP-6"),
+    ("M{AAA}b2c2", "PBPY-7"),
+    ("M(ring)a2b2c2", "PBPY-7"),
+    ("M{AAA}bcde", "OCF-7"),
+    ("M(ring)abcdef", "TPRS-7"),
+    ("M(ring)a3b2c2", "CU-8"),
+    ("M{AAA}b3c2", "SAPR-8"),
+    ("M(ring)2a3b3", "SAPR-8"),
+    ("M{ABB}c3d2", "DD-8"),
+    ("M{AAA}(ring)a2b2", "HBPY-8"),
+    # no triangular face: the tripod cannot be placed
+    ("M{AAA}b", "SP-4"),
+    ("M{AAA}b3", "HP-6"),
+    ("M{AAA}b5", "CU-8"),
+]
+_TOKEN = re.compile(r"\{([A-Z]{3})\}(\d*)|\((ring)\)(\d*)|\(([A-Z]+)\)(\d*)|([a-z])(\d*)")
+
+
+def _kinds(formula: str) -> list[tuple[str, int, str, bool | str, tuple[str, ...]]]:
+    """The oracle's kind specs of a letter formula, read by a regular expression here (not by the library)."""
+    out = []
+    for tripod, nt, ring, nr, chain, nc, mono, nm in _TOKEN.findall(formula[1:]):
+        if tripod:
+            out.append((tripod, int(nt or 1), "edge", "tripod", ()))
+        elif ring:
+            out.append(("R", int(nr or 1), "edge", True, ()))
+        elif chain:
+            out.append((chain, int(nc or 1), "edge", False, ()))
+        else:
+            out.append((mono, int(nm or 1), "edge", False, ()))
+    return out
+
+
+@pytest.mark.parametrize("formula,symbol", TOPOLOGY_CASES, ids=[f"{f}@{g}" for f, g in TOPOLOGY_CASES])
+def test_tripod_and_ring_counts_match_burnside(rules, formula, symbol):
+    g = rules.geometry(symbol)
+    kinds = _kinds(formula)
+    geo = orbits_by_burnside(g, kinds, g.operations)
+    stereo = orbits_by_burnside(g, kinds, g.proper_operations)
+    comp = parse_abstract(formula)
+    if geo == 0:  # no brute-force decoration: the enumerator refuses, the up-front count is (0, 0)
+        with pytest.raises(InputError):
+            enumerate_isomers(comp, g)
+        assert burnside_counts(comp, g) == (0, 0)
+        return
+    s = enumerate_isomers(comp, g)
+    assert (s.geometric_isomers, s.stereoisomers) == (geo, stereo)
+    assert burnside_counts(comp, g) == (geo, stereo)
+
+
+def test_oracle_faces_are_those_of_the_textbook_polyhedra(rules):
+    # an octahedron has 8 triangular faces, a tetrahedron 4, a trigonal bipyramid 6, a trigonal prism 2
+    # triangular and 3 square faces, a cube none (common practice)
+    from support.oracles import hull_faces
+
+    counts = {sym: len(hull_faces(rules.geometry(sym))) for sym in ("OC-6", "T-4", "TBPY-5", "TPR-6", "CU-8", "SP-4")}
+    assert counts == {"OC-6": 8, "T-4": 4, "TBPY-5": 6, "TPR-6": 2, "CU-8": 0, "SP-4": 0}
 
 
 # --- the classic counts ---------------------------------------------------------

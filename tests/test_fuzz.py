@@ -54,7 +54,8 @@ def _one_line(text: str) -> str:
 formula_text = (st.text(alphabet=FORMULA_CHARS, max_size=24) | st.text(max_size=12)).map(_one_line)
 
 # well-formed-looking abstract tokens, to reach the enumerator
-TOKENS = ["a", "b", "c", "d", "(AA)", "(AB)", "(ABA)", "(ABC)", "(AAA)", "(ring)", "2", "3", "(A)", "(", ")", "0", "10"]
+TOKENS = ["a", "b", "c", "d", "(AA)", "(AB)", "(ABA)", "(ABC)", "(AAA)", "(ring)", "{AAA}", "{ABB}", "{AB}", "{", "}"]
+TOKENS += ["2", "3", "(A)", "(", ")", "0", "10"]
 abstract_like = st.lists(st.sampled_from(TOKENS), min_size=0, max_size=7).map(lambda ts: "M" + "".join(ts))
 
 

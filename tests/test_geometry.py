@@ -29,6 +29,7 @@ from enumerator.workflow.queries import geometry_catalogue
 # groups; edge counts are Euler's V - E + F = 2 for each polyhedron (common practice)
 EXPECTED = [
     ("TP-3", "D3h", 12, 3),
+    ("TPY-3", "C3v", 6, 3),  # three vertices of a tetrahedron (common practice)
     ("TS-3", "C2v", 4, 3),
     ("SS-4", "C2v", 4, 6),
     ("T-4", "Td", 24, 6),
@@ -89,6 +90,16 @@ def test_tetrahedral_group_equals_textbook_generators(rules):
     gens = [s4, rotation((1, 1, 1), 2 * math.pi / 3)]
     derived = {tuple(np.round(op.array, 6).ravel()) for op in rules.geometry("T-4").operations}
     assert derived == matrix_closure(gens)
+
+
+def test_trigonal_pyramid_is_three_vertices_of_a_tetrahedron(rules):
+    # C3v = <C3(z), sigma_v(xz)> (Cotton 1990); every angle the tetrahedral 109.47 degrees, arccos(-1/3)
+    g = rules.geometry("TPY-3")
+    gens = [rotation((0, 0, 1), 2 * math.pi / 3), np.diag([1.0, -1.0, 1.0])]
+    assert {tuple(np.round(op.array, 6).ravel()) for op in g.operations} == matrix_closure(gens)
+    tetra = math.degrees(math.acos(-1 / 3))
+    assert all(abs(float(g.angles[i, j]) - tetra) < 1e-6 for i, j in itertools.combinations(range(3), 2))
+    assert not g.default_for_abstract and rules.default_geometry(3).symbol == "TP-3"
 
 
 def test_octahedron_site_graph(rules):
@@ -179,7 +190,7 @@ def test_trans_angle_is_the_documented_tolerance():
 
 def test_geometry_catalogue_json(rules):
     doc = geometry_catalogue().to_dict()
-    assert [d["symbol"] for d in doc][:3] == ["L-2", "TP-3", "TS-3"]
+    assert [d["symbol"] for d in doc][:4] == ["L-2", "TP-3", "TPY-3", "TS-3"]
     oc = next(d for d in doc if d["symbol"] == "OC-6")
     assert oc == {
         "symbol": "OC-6",

@@ -131,8 +131,10 @@ def test_nitrosyl_counts():
 
 def test_kinds():
     k = CAT["Cp"].kind()
-    assert k.ring and k.donors == ("C", "C", "C") and dict(k.meta)["hapticity"] == 5
-    assert CAT["tacn"].kind().arrangements == frozenset({"fac"})  # common practice: tacn binds facially
+    assert k.ring and k.donors == ("C",) and k.denticity == 1 and dict(k.meta)["hapticity"] == 5
+    # common practice: tacn, Tp and triphos bind facially, their three arms alike (tripods, not chains)
+    for name in ("tacn", "Me3tacn", "Tp", "Tp*", "Tp^Ph", "tpm", "triphos"):
+        assert CAT[name].kind().topology == "tripod" and CAT[name].kind().arrangements == frozenset(), name
     assert CAT["terpy"].kind().arrangements == frozenset({"mer"})  # planar terpy binds meridionally
     assert CAT["dien"].kind().arrangements == frozenset()  # either
     assert CAT["gly"].kind().donors == ("N", "O")
@@ -241,7 +243,7 @@ def test_new_molecular_formulas(name, formula):
 
 def test_site_conventions():
     """Hapto ligands occupy sites as the existing C2H4, cod and Cp entries do: an eta2 ligand one
-    site, an eta3-allyl and an eta4-diene two, an eta-ring a facial triad of three."""
+    site, an eta3-allyl and an eta4-diene two, an eta-ring one site of its own (piano stool)."""
     for n in ("C2H4", "C2F4", "coe", "C2H2", "PhC2Ph", "dihydrogen"):
         assert (CAT[n].denticity, CAT[n].hapticity, CAT[n].ring) == (1, 2, False), n
     for n in ("allyl", "methallyl"):
@@ -249,7 +251,7 @@ def test_site_conventions():
     for n in ("cod", "butadiene", "nbd", "chd"):
         assert (CAT[n].denticity, CAT[n].hapticity, CAT[n].ring) == (2, 4, False), n
     for n, eta in (("C4H4", 4), ("C4Ph4", 4), ("Cp", 5), ("Cp'", 5), ("Ind", 5), ("C6H5Me", 6), ("cht", 6), ("cot", 8)):
-        assert (CAT[n].denticity, CAT[n].hapticity, CAT[n].ring) == (3, eta, True), n
+        assert (CAT[n].denticity, CAT[n].hapticity, CAT[n].ring) == (1, eta, True), n
     # Crabtree, ch. 2 conventions: allyl 3e covalent / 4e ionic (C3H5-); cot 8e / 10e (C8H8 2-), from memory
     assert (CAT["allyl"].electrons_covalent, CAT["allyl"].electrons_ionic) == (3, 4)
     assert (CAT["cot"].electrons_covalent, CAT["cot"].electrons_ionic) == (8, 10)

@@ -232,21 +232,28 @@ def test_bis_dien_priming():
 
 def test_cyclopentadienyl_piano_stool():
     # η5-C5H5 as one pseudo-atom of Z 30 > C of CO (convention, from memory):
-    # [Mn(Cp)(CO)3] -> OC-6-22, Cp priority 1 on its three sites
-    d = _real("[Mn(Cp)(CO)3]", "OC-6")
+    # [Mn(Cp)(CO)3] -> T-4 (no index), Cp priority 1 on its one site
+    d = _real("[Mn(Cp)(CO)3]", "T-4")
     (x,) = d.values()
-    assert x.text == "OC-6-22" and sorted(x.priorities.values()) == ["1", "1", "1", "2", "2", "2"]
+    assert x.text == "T-4" and sorted(x.priorities.values()) == ["1", "2", "2", "2"]
+    # four-legged stool: the Cp pseudo-atom (priority 1) on the apex, then the highest basal (P, 2) and what is
+    # trans to it (IR-9.3.3.5): CO (3) for the lateral, Me (4) for the diagonal isomer (hand-worked)
+    d = _real("[CpW(CO)2(PPh3)Me]", "SPY-5")
+    assert sorted({x.stereo_free for x in d.values()}) == ["SPY-5-13", "SPY-5-14"]
+    # a chiral three-legged stool gets R/S with the Cp pseudo-atom as priority 1 (IR-9.3.4.2)
+    d = _real("[CpFe(CO)(PPh3)(Me)]", "T-4")
+    assert sorted(x.text for x in d.values()) == ["T-4-R", "T-4-S"]
 
 
 # ------------------------------------------------------------ round trip over a broad set
 
 BROAD = {
     "SP-4": ["Ma3b", "Ma2b2", "Ma2bc", "Mabcd", "M(AA)b2", "M(AB)2", "M(AB)bc"],
-    "T-4": ["Ma2bc", "Mabcd", "M(AB)2", "M(AB)bc"],
+    "T-4": ["Ma2bc", "Mabcd", "M(AB)2", "M(AB)bc", "M(ring)abc", "M(ring)2ab", "M{ABC}d"],
     "TS-3": ["Ma2b", "Mabc"],
     "SS-4": ["Ma3b", "Ma2b2", "Ma2bc", "Mabcd", "M(AA)bc", "M(AB)2", "M(AB)bc"],
-    "TBPY-5": ["Ma4b", "Ma3b2", "Ma2b2c", "Ma2bcd", "Mabcde", "M(AA)bcd", "M(AA)2b", "M(AB)2c"],
-    "SPY-5": ["Ma4b", "Ma3b2", "Ma2b2c", "Mabcde", "M(AB)bcd", "M(AA)2b", "M(AB)2c"],
+    "TBPY-5": ["Ma4b", "Ma3b2", "Ma2b2c", "Ma2bcd", "Mabcde", "M(AA)bcd", "M(AA)2b", "M(AB)2c", "M{ABB}cd"],
+    "SPY-5": ["Ma4b", "Ma3b2", "Ma2b2c", "Mabcde", "M(AB)bcd", "M(AA)2b", "M(AB)2c", "M(ring)a2bc", "M(ring)abcd"],
     "OC-6": [
         "Ma5b",
         "Ma4b2",
@@ -272,7 +279,11 @@ BROAD = {
         "M(AAAA)b2",
         "M(AA)(AB)cd",
         "M(AB)(CD)ef",
-        "M(ring)abc",
+        "M{AAA}b3",
+        "M{ABB}cde",
+        "M{AAA}bcd",
+        "M{ABC}2",
+        "M(ring)a2bcd",
     ],
     "TPR-6": ["Ma4b2", "Ma3b3", "Ma2b2c2", "Mabcdef", "M(AA)3", "M(AA)2b2", "M(AB)3"],
     "PBPY-7": ["Ma5b2", "Ma4b3", "Ma3b2c2", "Mabcdefg", "M(AA)a5"],

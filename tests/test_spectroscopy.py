@@ -69,8 +69,12 @@ def _one(formula, geometry, group, **kw):
         ("Ma4", "T-4", "Td", "A1 + T2", 1, 2, 1),
         # square-pyramidal M(CO)5: 2A1 + B1 + E, three IR bands (Nakamoto; from memory)
         ("Ma5", "SPY-5", "C4v", "2A1 + B1 + E", 3, 4, 2),
-        # M(CO)3 piano stool on a face-capping ring, fac on OC-6: A1 + E (Nakamoto; H&S, (eta6-C6H6)Cr(CO)3)
+        # fac-M(CO)3L3 (C3v): A1 + E (Nakamoto; Cotton 10.2)
         ("Ma3b3", "OC-6", "C3v", "A1 + E", 2, 2, 1),
+        # three-legged piano stool M(ring)(CO)3, the ring on one site: A1 + E (H&S, (eta6-C6H6)Cr(CO)3)
+        ("M(ring)a3", "T-4", "C3v", "A1 + E", 2, 2, 1),
+        # two-legged piano stool M(ring)(CO)2 (Cs): A' + A'', two IR bands (Cotton, Cs table; from memory)
+        ("M(ring)a2", "TPY-3", "Cs", "A' + A''", 2, 2, 1),
     ],
 )
 def test_textbook_carbonyl_stretches(formula, geometry, group, species, ir, raman, nmr):

@@ -21,7 +21,7 @@ NH3 = LigandKind("NH3", ("N",), meta=(("smiles", "[NH3:1]"),))
 CL = LigandKind("Cl", ("Cl",), meta=(("charge", -1), ("smiles", "[Cl-:1]")))
 PPH3 = LigandKind("PPh3", ("P",), meta=(("smiles", "[P:1](c1ccccc1)(c1ccccc1)c1ccccc1"),))
 EN = LigandKind("en", ("N", "N"), meta=(("smiles", "[NH2:1]CC[NH2:2]"),))
-CP = LigandKind("Cp", ("C", "C", "C"), ring=True, meta=(("hapticity", 5), ("smiles", "[cH-]1cccc1")))
+CP = LigandKind("Cp", ("C",), ring=True, meta=(("hapticity", 5), ("smiles", "[cH-]1cccc1")))
 
 
 def _oc():
@@ -119,12 +119,17 @@ def test_chelate_and_ring_ligands():
     mol = Chem.MolFromMolBlock(s.molblock, removeHs=False)
     assert Chem.GetFormalCharge(mol) == 3
     comp = Composition("CpMn(CO)3", ((CP, 1), (CO, 3)), metal="Mn")
-    s = build_structure(_isomers(comp)[0], comp)
+    iso = enumerate_isomers(comp, load_rules().geometry("T-4")).isomers[0]  # the piano stool's frame
+    s = build_structure(iso, comp)
     assert s.kind == "full"
     pos = np.array(s.coords)
     ring = pos[[k for k, sym in enumerate(s.symbols) if sym == "C"][:5]]
-    centroid_distance = np.linalg.norm(ring.mean(axis=0))
-    assert 1.6 < centroid_distance < 1.95  # M-Cp(centroid) ~1.7-1.8 A in CpMn(CO)3 (from memory)
+    centroid = ring.mean(axis=0)
+    assert 1.6 < np.linalg.norm(centroid) < 1.95  # M-Cp(centroid) ~1.7-1.8 A in CpMn(CO)3 (from memory)
+    site = np.array(next(st.position for st in iso.sites if st.ring))
+    # the centroid lies on the ring's site direction and the ring plane is perpendicular to it (the model)
+    assert np.allclose(centroid / np.linalg.norm(centroid), site, atol=1e-4)
+    assert np.allclose((ring - centroid) @ site, 0.0, atol=1e-4)
 
 
 def test_unusable_smiles_falls_back_to_marked_core():

@@ -370,9 +370,11 @@ def letter_key(letter: str, chelate: bool, chain_neighbours: int = 0) -> tuple:
 
 def _chain_neighbours(kind: LigandKind, i: int) -> int:
     """Chain neighbours of donor i of an abstract chelate (donors in chain
-    order; a ring ligand has none that matter)."""
+    order; a ring ligand has none that matter, every donor of a tripod two)."""
     if kind.denticity < 2 or kind.ring:
         return 0
+    if kind.tripod:
+        return 2
     return (i > 0) + (i < kind.denticity - 1)
 
 

@@ -38,8 +38,8 @@ def count(ctx, formula, geometry, every, spans, arrangements, as_json, out):
     """Count the geometric isomers and stereoisomers of FORMULA up front
     (Burnside's lemma), without listing them.
 
-    Monodentate letters, chelates (AA)/(AB)/(ABA)/(ABC), fac/mer limits,
-    span settings and (ring) ligands are all counted exactly.
+    Monodentate letters, chelates (AA)/(AB)/(ABA)/(ABC), tripods {AAA},
+    fac/mer limits, span settings and (ring) ligands are all counted exactly.
 
     \b
     Examples:

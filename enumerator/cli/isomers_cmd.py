@@ -150,7 +150,8 @@ def isomers(ctx, formula, geometry, as_json, fmt, out, spans, arrangements, repo
     """List every isomer of FORMULA with its point group.
 
     FORMULA is the abstract notation (lowercase letters for monodentate
-    ligands, (AA)/(AB)/(ABA) for chelates, (ring) for a face-capping ring)
+    ligands, (AA)/(AB)/(ABA) for chelates, {AAA} for a tripod, (ring) for
+    an η-ring on one site)
     or a real condensed formula such as "[RuCl2(CO)2(PPh3)2]" or
     "[Fe(CN)5(NO)]2-" (ligand names: isosieve ligands); a real formula
     also gets its oxidation state, d count and electron count, and a

@@ -7,15 +7,16 @@ extraction of Pólya's theorem).  An operation fixes a colouring exactly
 when every one of its site cycles is one colour, so the fixed count is the
 number of ways to give each cycle a colour with the counts adding up.
 
-Chelates and rings are counted the same way, with placements in place of
-sites: an operation permutes the placements of each ligand kind, and a
-decoration it fixes is a union of whole cycles of placements (each cycle's
-members pairwise disjoint) that covers every site exactly once with the
-right number of molecules of each kind.  Those are counted by a small
-dynamic programme over covered-site bit masks (always extending the lowest
-uncovered site, so each decoration is counted once).  Burnside's lemma
-(W. Burnside, *Theory of Groups of Finite Order*, 1897; as used by G. Pólya,
-*Acta Math.* 68 (1937) 145) then averages these fixed counts over the group.
+Chelates, tripods and η-rings (which may take only the most symmetric sites)
+are counted the same way, with placements in place of sites: an operation
+permutes the placements of each ligand kind, and a decoration it fixes is a
+union of whole cycles of placements (each cycle's members pairwise disjoint)
+that covers every site exactly once with the right number of molecules of
+each kind.  Those are counted by a small dynamic programme over covered-site
+bit masks (always extending the lowest uncovered site, so each decoration is
+counted once).  Burnside's lemma (W. Burnside, *Theory of Groups of Finite
+Order*, 1897; as used by G. Pólya, *Acta Math.* 68 (1937) 145) then averages
+these fixed counts over the group.
 
 >>> from enumerator.rules.ruleset import load_rules
 >>> from enumerator.parse.abstract import parse_abstract
@@ -184,9 +185,10 @@ def burnside_counts(composition: Composition, geometry: Geometry) -> tuple[int, 
     enumerating: orbits under the full group and under the proper rotations.
 
     Works for monodentate ligands (cycle colouring), chelates of any span
-    setting, fac/mer-limited tridentates and face-capping rings (placement
-    cycles, see the module docstring).  None when the donor count does not
-    match the geometry; (0, 0) when the ligands cannot be placed together.
+    setting, fac/mer-limited tridentates, face-capping tripods and η-rings
+    on one site (placement cycles, see the module docstring).  None when the
+    donor count does not match the geometry; (0, 0) when the ligands cannot
+    be placed together.
 
     Parameters
     ----------
@@ -207,7 +209,7 @@ def burnside_counts(composition: Composition, geometry: Geometry) -> tuple[int, 
 @cached(maxsize=256)
 def _counts(parts: tuple[tuple[LigandKind, int], ...], geometry: Geometry) -> tuple[int, int]:
     ops = geometry.operations
-    if all(k.denticity == 1 for k, _ in parts):
+    if all(k.denticity == 1 and not k.ring for k, _ in parts):
         counts = tuple(sorted(n for _, n in parts))
         full = [_fixed(cycle_type(op.perm), counts) for op in ops]
     else:

@@ -47,6 +47,8 @@ __all__ = [
     "group_tables",
     "GroupTables",
     "canonical_placement",
+    "capping_faces",
+    "ring_sites",
 ]
 
 Placement = tuple[int, ...]
@@ -100,19 +102,20 @@ class Isomer:
         return tuple(k for k in self.stabiliser if ops[k].proper)
 
     def links(self) -> list[tuple[int, int, str]]:
-        """Chelate and ring links.
+        """Chelate and tripod links.
 
         Returns
         -------
         list of (int, int, str)
             (site, site, ligand name) per link, the lower site first, sorted;
-            a ring links every pair of its sites.
+            a tripod links every pair of its three sites, an η-ring (one site)
+            has no links.
         """
         out: list[tuple[int, int, str]] = []
         for kind, piece in self.placements:
             for t in piece:
                 pairs: Iterable[tuple[int, int]]
-                if kind.ring:
+                if kind.tripod:
                     pairs = itertools.combinations(sorted(t), 2)
                 else:
                     pairs = zip(t, t[1:])
@@ -229,7 +232,8 @@ def _tables(vectors: tuple[tuple[float, float, float], ...]) -> GroupTables:
 
 
 def canonical_placement(kind: LigandKind, t: Placement) -> Placement:
-    """One spelling per placement: a ring's sites sorted, a palindromic chain read from its lower end.
+    """One spelling per placement: a palindromic chain read from its lower end; a tripod's
+    interchangeable donors (those with the same label) on their sites in ascending order.
 
     Parameters
     ----------
@@ -241,20 +245,107 @@ def canonical_placement(kind: LigandKind, t: Placement) -> Placement:
     -------
     tuple of int
     """
-    if kind.ring:
-        return tuple(sorted(t))
+    if kind.tripod:
+        out = list(t)
+        for positions in _label_groups(kind.donors):
+            for k, site in zip(positions, sorted(t[k] for k in positions)):
+                out[k] = site
+        return tuple(out)
     if kind.palindromic:
         r = t[::-1]
         return r if r < t else t
     return t
 
 
+@cached(maxsize=None)
+def _label_groups(donors: tuple[str, ...]) -> tuple[tuple[int, ...], ...]:
+    """Donor positions grouped by label, groups of two or more only: ('N', 'N', 'P') -> ((0, 1),)."""
+    groups: dict[str, list[int]] = {}
+    for k, d in enumerate(donors):
+        groups.setdefault(d, []).append(k)
+    return tuple(tuple(v) for v in groups.values() if len(v) > 1)
+
+
+def capping_faces(geometry: Geometry) -> tuple[tuple[int, int, int], ...]:
+    """The triangular faces of a polyhedron: where a tripod may sit.
+
+    A face here is three sites whose tips span a plane of the convex hull
+    that holds no other tip, with every other tip and the metal on one side
+    and the metal off the plane.  So the equatorial triangle of TBPY-5 (its
+    plane holds the metal) and three corners of a square face (the fourth
+    lies on the plane) are not faces; the eight faces of OC-6, the four of
+    T-4 and the two triangular ones of TPR-6 are.
+
+    Parameters
+    ----------
+    geometry : Geometry
+
+    Returns
+    -------
+    tuple of (int, int, int)
+        Sorted site triples, in ascending order; cached by the site vectors.
+    """
+    return _capping_faces(geometry.vectors)
+
+
+@cached(maxsize=None)
+def _capping_faces(vectors: tuple[tuple[float, float, float], ...]) -> tuple[tuple[int, int, int], ...]:
+    from enumerator.tolerances import DEGENERATE_FACE_TOL, FACE_TOL
+
+    v = np.array(vectors, dtype=float)
+    out = []
+    for t in itertools.combinations(range(len(v)), 3):
+        i, j, k = t
+        nrm = np.cross(v[j] - v[i], v[k] - v[i])
+        size = float(np.linalg.norm(nrm))
+        if size < DEGENERATE_FACE_TOL:
+            continue
+        nrm = nrm / size
+        offset = float(np.dot(nrm, v[i]))  # the metal (origin) lies at -offset from the plane
+        if abs(offset) <= FACE_TOL:
+            continue
+        others = np.delete(v, t, axis=0) @ nrm - offset
+        if np.all(others * np.sign(-offset) > FACE_TOL):
+            out.append(t)
+    return tuple(out)
+
+
+def ring_sites(geometry: Geometry) -> tuple[int, ...]:
+    """The sites an η-ring may take: those with the largest site stabiliser.
+
+    The piano-stool idealisation puts an η-ring on one site whose local axis
+    carries the ring's symmetry, so the ring goes where the frame is most
+    symmetric about the site: every site of T-4, TPY-3, OC-6 or L-2, the apex
+    of SPY-5, the two axial sites of TBPY-5.
+
+    Parameters
+    ----------
+    geometry : Geometry
+
+    Returns
+    -------
+    tuple of int
+        Site indices, ascending; cached by the site vectors.
+    """
+    return _ring_sites(geometry.vectors)
+
+
+@cached(maxsize=None)
+def _ring_sites(vectors: tuple[tuple[float, float, float], ...]) -> tuple[int, ...]:
+    perms = _tables(vectors).perms
+    fixed = (perms == np.arange(perms.shape[1])[None, :]).sum(axis=0)
+    return tuple(int(i) for i in np.nonzero(fixed == fixed.max())[0])
+
+
 def placements_for(kind: LigandKind, geometry: Geometry) -> list[Placement]:
     """Every way one ligand of this kind can sit on the geometry, each once.
 
-    A chelate's links obey its span settings (the geometry's default span
-    where it sets none) and a tridentate chain its fac/mer limit; a ring caps
-    a face (its sites pairwise joined by polyhedron edges).
+    A monodentate ligand takes any site; an η-ring one of the sites of the
+    largest site stabiliser (:func:`ring_sites`); a tripod the three sites of
+    a triangular face (:func:`capping_faces`) in every assignment of its
+    donors that their labels tell apart.  A chelate chain's links obey its
+    span settings (the geometry's default span where it sets none) and a
+    tridentate chain its fac/mer limit.
 
     Parameters
     ----------
@@ -265,17 +356,19 @@ def placements_for(kind: LigandKind, geometry: Geometry) -> list[Placement]:
     -------
     list of tuple of int
         Sorted canonical placements (:func:`canonical_placement`): a symmetric
-        chelate's two directions count as one.
+        chelate's two directions count as one, and so do the assignments of a
+        tripod's like donors.
     """
     n = geometry.coordination_number
     d = kind.denticity
+    if kind.ring:
+        return [(i,) for i in ring_sites(geometry)]
     if d == 1:
         return [(i,) for i in range(n)]
     out: set[Placement] = set()
-    if kind.ring:
-        for t in itertools.combinations(range(n), d):
-            if all((a, b) in geometry.edges for a, b in itertools.combinations(t, 2)):
-                out.add(t)
+    if kind.tripod:
+        for face in capping_faces(geometry):
+            out.update(canonical_placement(kind, t) for t in itertools.permutations(face))
         return sorted(out)
     for t in itertools.permutations(range(n), d):
         if not all(geometry.span_ok(kind.span(k, geometry.default_span), t[k], t[k + 1]) for k in range(d - 1)):
@@ -342,9 +435,9 @@ def _check(composition: Composition, geometry: Geometry) -> list[tuple[LigandKin
         cands = placements_for(kind, geometry)
         if not cands:
             hint = (
-                f"allow a wider span with --span {kind.name}=cis or =trans"
-                if not kind.ring and kind.denticity > 1
-                else "choose a geometry with a triangular face"
+                "choose a geometry with a triangular face"
+                if kind.tripod
+                else f"allow a wider span with --span {kind.name}=cis or =trans"
             )
             raise InputError(f"ligand '{kind.name}' cannot be placed on {geometry.symbol} with its span settings", hint)
         levels.append((kind, count, cands))

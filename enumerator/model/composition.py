@@ -1,15 +1,32 @@
 """What is bound to the metal: ligand kinds and their counts.
 
 A :class:`LigandKind` says how one ligand molecule occupies sites: its donor
-sequence along the chain, whether it is a ring that caps a face, which spans
-its chelate links may take and, for tridentate chains, whether it binds fac,
-mer or either.  A :class:`Composition` is the multiset of kinds on one metal,
-in formula order.  Both are values: frozen, hashable, compared field by
-field (catalogue data included), so they can key a cache.
+sequence, its topology, which spans its chelate links may take and, for
+tridentate chains, whether it binds fac, mer or either.  The topology is one
+of :data:`TOPOLOGIES`:
+
+* ``chain``: the donors in chain order, each consecutive pair linked (a
+  monodentate ligand is a chain of one);
+* ``tripod``: three donors on the three sites of one polyhedron face, every
+  pair linked (Tp, tacn, triphos); donors with the same label are
+  interchangeable, so the symmetry of the face (C3, its mirrors) may permute
+  them;
+* ``ring``: an η-ring (Cp, arenes) on ONE site of its own whose local axis
+  carries the ring's symmetry (the piano-stool idealisation).
+
+A :class:`Composition` is the multiset of kinds on one metal, in formula
+order.  Both are values: frozen, hashable, compared field by field (catalogue
+data included), so they can key a cache.
 
 >>> en = LigandKind("en", ("N", "N"))
 >>> en.denticity, en.palindromic, en.with_span("cis").spans
 (2, True, ('cis',))
+>>> tacn = LigandKind("tacn", ("N", "N", "N"), topology="tripod")
+>>> tacn.denticity, tacn.tripod, tacn.ring
+(3, True, False)
+>>> cp = LigandKind("Cp", ("C",), ring=True)
+>>> cp.denticity, cp.topology
+(1, 'ring')
 >>> comp = Composition("[Co(en)2Cl2]+", ((en, 2), (LigandKind("Cl", ("Cl",)), 2)), metal="Co", charge=1)
 >>> comp.donor_count, [k.name for k in comp.kinds]
 (6, ['en', 'Cl'])
@@ -25,10 +42,12 @@ from typing import Any
 from enumerator.errors import InputError
 from enumerator.model.geometry import SPANS
 
-__all__ = ["LigandKind", "Composition", "ARRANGEMENTS"]
+__all__ = ["LigandKind", "Composition", "ARRANGEMENTS", "TOPOLOGIES"]
 
 #: Placements a tridentate chain may be limited to.
 ARRANGEMENTS = ("fac", "mer")
+#: How a ligand's donors are joined: a chain, a facial tripod, or an η-ring on one site.
+TOPOLOGIES = ("chain", "tripod", "ring")
 
 
 @dataclass(frozen=True)
@@ -40,8 +59,10 @@ class LigandKind:
     ``spans`` gives one span setting per chain link ('edge', 'cis', 'trans'
     or 'any'); empty means the geometry's default for every link.
     ``arrangements`` limits a tridentate chain to 'fac' and/or 'mer' (empty:
-    either).  A ``ring`` ligand caps a face: its donors are mutually adjacent
-    and interchangeable (the piano-stool idealisation of an η-ring).
+    either).  ``topology`` is 'chain', 'tripod' (three donors capping one
+    face, every pair linked) or 'ring' (an η-ring on one site of its own, the
+    piano-stool idealisation); ``ring=True`` is the same as
+    ``topology='ring'``, and the two fields always agree.
     ``reporter`` names the stretch-reporter class (CO, CN, NO, ...) if any.
     ``meta`` carries catalogue data (SMILES, charge, electron counts, ...) as
     sorted key/value pairs of hashable values.  It is part of equality and of
@@ -58,10 +79,43 @@ class LigandKind:
     arrangements: frozenset[str] = frozenset()
     reporter: str | None = None
     meta: tuple[tuple[str, object], ...] = ()
+    topology: str = "chain"
+
+    def __post_init__(self) -> None:
+        topology = "ring" if self.ring and self.topology == "chain" else self.topology
+        if topology not in TOPOLOGIES:
+            raise InputError(
+                f"ligand '{self.name}': topology '{topology}' is not one of {', '.join(TOPOLOGIES)}",
+                "use chain, tripod or ring",
+            )
+        if self.ring and topology != "ring":
+            raise InputError(f"ligand '{self.name}' is marked both ring and {topology}", "give one topology")
+        object.__setattr__(self, "topology", topology)
+        object.__setattr__(self, "ring", topology == "ring")
+        if topology == "ring" and len(self.donors) != 1:
+            raise InputError(
+                f"ring ligand '{self.name}' has {len(self.donors)} donors; an η-ring occupies one site",
+                "give the ring one donor label, e.g. donors=('C',)",
+            )
+        if topology == "tripod" and len(self.donors) != 3:
+            raise InputError(
+                f"tripod ligand '{self.name}' has {len(self.donors)} donors; a tripod caps a face with three",
+                "give three donor labels, e.g. ('N', 'N', 'N')",
+            )
+
+    @property
+    def tripod(self) -> bool:
+        """Three donors on one polyhedron face, every pair linked (Tp, tacn, triphos)."""
+        return self.topology == "tripod"
+
+    @property
+    def chain(self) -> bool:
+        """A chain of donors (monodentate ligands included): consecutive donors linked."""
+        return self.topology == "chain"
 
     @property
     def denticity(self) -> int:
-        """The number of sites the ligand occupies (3 for a face-capping ring)."""
+        """The number of sites the ligand occupies (1 for an η-ring, 3 for a tripod)."""
         return len(self.donors)
 
     def info(self, key: str, default: Any = None) -> Any:
@@ -137,7 +191,7 @@ class LigandKind:
         """
         if span not in SPANS:
             raise InputError(f"span '{span}' is not one of {', '.join(SPANS)}", "e.g. --span AA=trans")
-        if self.denticity < 2 or self.ring:
+        if self.denticity < 2 or not self.chain:
             raise InputError(
                 f"ligand '{self.name}' is not a chelate chain, so it has no span",
                 "give --span only for chelates such as (AA)",
@@ -165,7 +219,12 @@ class LigandKind:
         bad = sorted(chosen - set(ARRANGEMENTS))
         if bad:
             raise InputError(f"arrangement '{bad[0]}' is not fac or mer", "e.g. --arrangement AAA=fac")
-        if self.denticity != 3 or self.ring:
+        if self.tripod:
+            raise InputError(
+                f"ligand '{self.name}' is a tripod, which always caps a face (fac)",
+                "leave --arrangement out for tripods; write a chain as (AAA) to choose fac or mer",
+            )
+        if self.denticity != 3 or not self.chain:
             raise InputError(
                 f"ligand '{self.name}' is not a tridentate chain, so fac/mer does not apply",
                 "give --arrangement only for (AAA), (ABA), (ABC)",
@@ -244,8 +303,18 @@ class Composition:
         return replace(self, parts=tuple((new if k.name == name else k, n) for k, n in self.parts))
 
     @property
+    def rings(self) -> int:
+        """How many η-rings the centre carries (each on one site)."""
+        return sum(n for k, n in self.parts if k.ring)
+
+    @property
+    def legs(self) -> int:
+        """The sites held by everything but the η-rings (the legs of a piano stool)."""
+        return sum(k.denticity * n for k, n in self.parts if not k.ring)
+
+    @property
     def pattern(self) -> tuple:
-        """The value that decides the isomers: each kind's donors, ring, spans and
+        """The value that decides the isomers: each kind's donors, topology, spans and
         arrangements with its count, without names or catalogue data (so
         ``[Mo(CO)4(PPh3)2]`` and ``[W(CO)4(PMe3)2]`` share it)."""
-        return tuple((k.donors, k.ring, k.spans, tuple(sorted(k.arrangements)), n) for k, n in self.parts)
+        return tuple((k.donors, k.topology, k.spans, tuple(sorted(k.arrangements)), n) for k, n in self.parts)

@@ -3,15 +3,20 @@
 The abstract notation of the trade, with ``M`` for the metal:
 
 * a lowercase letter is a monodentate ligand: ``Ma2b2c2``, ``Mabcdef``;
-* uppercase letters in parentheses are one chelate, the letters its donors
-  in chain order: ``M(AA)2b2``, ``M(AB)3``, ``M(ABA)b3``;
-* ``(ring)`` is a ring ligand capping a face (piano stool): ``M(ring)a3``;
-* a count follows a letter or a closing parenthesis; square brackets and a
+* uppercase letters in parentheses are one chelate chain, the letters its
+  donors in chain order: ``M(AA)2b2``, ``M(AB)3``, ``M(ABA)b3``;
+* three uppercase letters in braces are one tripod, capping a face with
+  every pair of donors linked (Tp, tacn, triphos): ``M{AAA}b3``,
+  ``M{ABB}c3``; ``(AAA)`` stays a chain;
+* ``(ring)`` is an η-ring on one site of its own (piano stool): ``M(ring)a3``;
+* a count follows a letter or a closing bracket; square brackets and a
   trailing charge are allowed: ``[Ma4b2]+``.
 
 >>> c = parse_abstract("M(AA)2b2")
 >>> [(k.name, k.donors, n) for k, n in c.parts]
 [('AA', ('A', 'A'), 2), ('b', ('b',), 2)]
+>>> [(k.name, k.topology, k.denticity) for k in parse_abstract("M{AAA}(ring)b").kinds]
+[('{AAA}', 'tripod', 3), ('ring', 'ring', 1), ('b', 'chain', 1)]
 """
 
 from __future__ import annotations
@@ -39,7 +44,7 @@ def looks_abstract(text: str) -> bool:
         Also True for some real formulas ('Mo(CO)6'); :func:`enumerator.parse.formula.parse_formula` settles those.
     """
     t = text.strip().lstrip("[")
-    return bool(re.match(r"^M(?:[a-z(]|$)", t))
+    return bool(re.match(r"^M(?:[a-z({]|$)", t))
 
 
 def parse_charge(text: str) -> tuple[str, int]:
@@ -84,13 +89,48 @@ def _error(text: str, pos: int, what: str, fix: str) -> InputError:
     return InputError(f"formula '{text}': {what} at position {pos + 1}", fix)
 
 
+def _chelate(original: str, body: str, offset: int, i: int) -> tuple[LigandKind, int]:
+    """The chelate chain or ring opened by '(' at ``body[i]``, and the position after its ')'."""
+    close = body.find(")", i)
+    if close < 0:
+        raise _error(original, offset + i, "'(' is never closed", "close the chelate: (AA)")
+    inner = body[i + 1 : close]
+    if inner == "ring":
+        return LigandKind(name="ring", donors=("R",), ring=True), close + 1
+    if re.fullmatch(r"[A-Z]{2,6}", inner):
+        return LigandKind(name=inner, donors=tuple(inner)), close + 1
+    raise _error(
+        original,
+        offset + i + 1,
+        f"'({inner})' is not a chelate",
+        "write chelate donors as 2-6 capital letters, e.g. (AA), (AB), (ABA), "
+        "{AAA} for a tripod, or (ring) for an η-ring",
+    )
+
+
+def _tripod(original: str, body: str, offset: int, i: int) -> tuple[LigandKind, int]:
+    """The tripod opened by '{' at ``body[i]``, and the position after its '}'."""
+    close = body.find("}", i)
+    if close < 0:
+        raise _error(original, offset + i, "'{' is never closed", "close the tripod: {AAA}")
+    inner = body[i + 1 : close]
+    if not re.fullmatch(r"[A-Z]{3}", inner):
+        raise _error(
+            original,
+            offset + i + 1,
+            f"'{{{inner}}}' is not a tripod",
+            "write a tripod as three capital letters in braces, e.g. {AAA} or {ABB}",
+        )
+    return LigandKind(name="{" + inner + "}", donors=tuple(inner), topology="tripod"), close + 1
+
+
 def parse_abstract(text: str) -> Composition:
     """Parse the abstract letter notation (see the module docstring).
 
     Parameters
     ----------
     text : str
-        E.g. 'Ma4b2', 'M(AB)2b2', '[M(ring)a3]+'.
+        E.g. 'Ma4b2', 'M(AB)2b2', 'M{AAA}b3', '[M(ring)a3]+'.
 
     Returns
     -------
@@ -122,29 +162,16 @@ def parse_abstract(text: str) -> Composition:
             kind = LigandKind(name=ch, donors=(ch,))
             i += 1
         elif ch == "(":
-            close = body.find(")", i)
-            if close < 0:
-                raise _error(original, offset + i, "'(' is never closed", "close the chelate: (AA)")
-            inner = body[i + 1 : close]
-            if inner == "ring":
-                kind = LigandKind(name="ring", donors=("R", "R", "R"), ring=True)
-            elif re.fullmatch(r"[A-Z]{2,6}", inner):
-                kind = LigandKind(name=inner, donors=tuple(inner))
-            else:
-                raise _error(
-                    original,
-                    offset + i + 1,
-                    f"'({inner})' is not a chelate",
-                    "write chelate donors as 2-6 capital letters, e.g. (AA), (AB), (ABA), "
-                    "or (ring) for a face-capping ring",
-                )
-            i = close + 1
+            kind, i = _chelate(original, body, offset, i)
+        elif ch == "{":
+            kind, i = _tripod(original, body, offset, i)
         else:
             raise _error(
                 original,
                 offset + i,
                 f"unexpected '{ch}'",
-                "use lowercase letters for monodentate ligands, (AA)/(AB)/(ABA) for chelates and a number for a count",
+                "use lowercase letters for monodentate ligands, (AA)/(AB)/(ABA) for chelates, {AAA} for a tripod "
+                "and a number for a count",
             )
         m = re.match(r"\d+", body[i:])
         n = 1

@@ -65,7 +65,7 @@ test can check that every ligand was written as one.
 ('Fe', -2, [('CN', 5), ('NO', 1)])
 >>> c = parse_condensed("[(η5-C5H5)Mn(CO)3]", load_rules())
 >>> [(k.name, k.ring, n) for k, n in c.parts], c.donor_count
-([('Cp', True, 1), ('CO', False, 3)], 6)
+([('Cp', True, 1), ('CO', False, 3)], 4)
 >>> r = read_condensed("[RuH2(η2-H2)(PPh3)3]", load_rules())
 >>> [(s.name, r.text[s.start : s.end], s.count) for s in r.ligands]
 [('H', 'H', 2), ('dihydrogen', 'H2', 1), ('PPh3', 'PPh3', 3)]

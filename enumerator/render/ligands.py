@@ -30,7 +30,9 @@ HEADER = ("name", "donors", "sites", "η", "charge", "e cov", "e ion", "reporter
 
 def _placement(e: LigandEntry) -> str:
     if e.ring:
-        return "ring (facial)"
+        return "η-ring (one site)"
+    if e.topology == "tripod":
+        return "tripod (facial)"
     return ",".join(e.arrangements) or ",".join(e.spans) or ("-" if e.denticity == 1 else "edge")
 
 

@@ -2,8 +2,9 @@
 given with ``--rules DIR``), loaded and checked once per rule set.
 
 Each entry says how a real ligand occupies coordination sites (donor
-elements in chain order, denticity, hapticity, ring), the placements it
-allows (chelate spans, fac/mer), how it is counted (charge in the ionic
+elements in chain order, denticity, hapticity, topology: a chain, a facial
+tripod or an η-ring on one site), the placements it allows (chelate spans,
+fac/mer), how it is counted (charge in the ionic
 model, electrons donated in the covalent and the ionic count) and its
 stretch-reporter class.  Every SMILES is parsed by RDKit at load, and the
 atom-map numbers of its bound atoms, its formal charge and its donor
@@ -33,8 +34,11 @@ must be the default.
 (('P',), 0, 2, 2)
 >>> find_ligand(load_rules(), "C5H5").name
 'Cp'
->>> find_ligand(load_rules(), "cp").kind().ring
-True
+>>> k = find_ligand(load_rules(), "cp").kind()
+>>> k.ring, k.denticity
+(True, 1)
+>>> cat["tacn"].kind().topology
+'tripod'
 """
 
 from __future__ import annotations
@@ -48,7 +52,7 @@ from typing import Any
 
 from enumerator.caches import cached
 from enumerator.errors import InputError
-from enumerator.model.composition import ARRANGEMENTS, LigandKind
+from enumerator.model.composition import ARRANGEMENTS, TOPOLOGIES, LigandKind
 from enumerator.model.elements import element_symbols
 from enumerator.model.geometry import SPANS
 from enumerator.rules.checks import check_keys, closest_names, read_toml, rule_error
@@ -78,6 +82,7 @@ _OPTIONAL = (
     "aliases",
     "hapticity",
     "ring",
+    "topology",
     "spans",
     "arrangements",
     "reporter",
@@ -121,6 +126,8 @@ class LigandEntry:
     enclose: bool = False
     #: the entry a shared spelling means when no hapticity is written (see :class:`SpellingIndex`)
     hapto_default: bool = False
+    #: 'chain', 'tripod' or 'ring' (kept equal to ``ring``)
+    topology: str = "chain"
 
     @property
     def bound_atoms(self) -> int:
@@ -159,17 +166,12 @@ class LigandEntry:
         Returns
         -------
         LigandKind
-            A ring's donors are its first donor three times (it caps a face).
+            With the entry's topology: an η-ring on one site, a tripod on a face, else a chain.
         """
-        donors: tuple[str, ...]
-        if self.ring:
-            donors = (self.donors[0],) * 3
-        else:
-            donors = self.donors
         return LigandKind(
             name=self.name,
-            donors=donors,
-            ring=self.ring,
+            donors=self.donors,
+            topology=self.topology,
             spans=self.spans,
             arrangements=frozenset(self.arrangements),
             reporter=self.reporter,
@@ -245,12 +247,28 @@ def _hapticity(data: Mapping[str, Any], where: str) -> int | None:
     return hapticity
 
 
-def _check_ring(donors: tuple[str, ...], dent: int, hapticity: int | None, where: str) -> None:
-    if dent != 3 or len(donors) != 3 or len(set(donors)) != 1:
+def _topology(data: Mapping[str, Any], where: str) -> str:
+    """'chain', 'tripod' or 'ring' from the keys 'topology' and 'ring' (which must agree)."""
+    ring = _flag(data, where, "ring")
+    topology = data.get("topology", "ring" if ring else "chain")
+    if topology not in TOPOLOGIES:
         raise rule_error(
             where,
-            "a ring ligand caps a facial triad: it needs denticity = 3 and three equal donors",
-            'write donors = ["C", "C", "C"] and denticity = 3',
+            f"topology {topology!r} is not one of {', '.join(TOPOLOGIES)}",
+            'write topology = "tripod" for a face-capping tripod (Tp, tacn), or leave it out for a chain',
+        )
+    if ring and topology != "ring":
+        raise rule_error(where, f"'ring = true' but topology = {topology!r}", "give one of them")
+    return str(topology)
+
+
+def _check_ring(donors: tuple[str, ...], dent: int, hapticity: int | None, where: str) -> None:
+    if dent != 1 or len(donors) != 1:
+        raise rule_error(
+            where,
+            "an η-ring occupies one site of its own (the piano-stool idealisation): "
+            f"denticity is {dent} with {len(donors)} donor(s)",
+            'write denticity = 1 and donors = ["C"]',
         )
     if hapticity is None or hapticity < 3:
         raise rule_error(
@@ -258,22 +276,35 @@ def _check_ring(donors: tuple[str, ...], dent: int, hapticity: int | None, where
         )
 
 
-def _binding(data: Mapping[str, Any], where: str, donors: tuple[str, ...]) -> tuple[int, bool, int | None]:
-    """Denticity, ring and hapticity, checked against each other and the donors."""
+def _check_tripod(donors: tuple[str, ...], dent: int, hapticity: int | None, where: str) -> None:
+    if dent != 3 or len(donors) != 3:
+        raise rule_error(
+            where,
+            f"a tripod caps one face with three donors: denticity is {dent} with {len(donors)} donor(s)",
+            'write denticity = 3 and donors = ["N", "N", "N"]',
+        )
+    if hapticity is not None:
+        raise rule_error(where, "a tripod binds through its three donor atoms", "remove 'hapticity'")
+
+
+def _binding(data: Mapping[str, Any], where: str, donors: tuple[str, ...]) -> tuple[int, str, int | None]:
+    """Denticity, topology and hapticity, checked against each other and the donors."""
     dent = _int(data["denticity"], where, "denticity")
-    ring = _flag(data, where, "ring")
+    topology = _topology(data, where)
     hapticity = _hapticity(data, where)
-    if ring:
+    if topology == "ring":
         _check_ring(donors, dent, hapticity, where)
+    elif topology == "tripod":
+        _check_tripod(donors, dent, hapticity, where)
     elif dent != len(donors):
         raise rule_error(
             where, f"denticity {dent} but {len(donors)} donors are listed", "list one donor element per occupied site"
         )
     if dent < 1:
         raise rule_error(where, "denticity must be at least 1", "write denticity = 1")
-    if hapticity is not None and not ring and hapticity < dent:
+    if hapticity is not None and topology == "chain" and hapticity < dent:
         raise rule_error(where, f"hapticity {hapticity} is below the denticity {dent}", "check both keys")
-    return dent, ring, hapticity
+    return dent, topology, hapticity
 
 
 def _electrons(data: Mapping[str, Any], where: str) -> tuple[int, int, int]:
@@ -292,12 +323,12 @@ def _electrons(data: Mapping[str, Any], where: str) -> tuple[int, int, int]:
     return charge, e_cov, e_ion
 
 
-def _spans(data: Mapping[str, Any], where: str, dent: int, ring: bool) -> tuple[str, ...]:
+def _spans(data: Mapping[str, Any], where: str, dent: int, topology: str) -> tuple[str, ...]:
     spans = _str_list(data.get("spans", []), where, "spans", '["edge"]')
     for s in spans:
         if s not in SPANS:
             raise rule_error(where, f"span {s!r} is not one of {', '.join(SPANS)}", 'write e.g. spans = ["edge"]')
-    if spans and (ring or dent < 2):
+    if spans and (topology != "chain" or dent < 2):
         raise rule_error(where, "'spans' applies to chelate chains only", "remove 'spans'")
     if spans and len(spans) not in (1, dent - 1):
         raise rule_error(
@@ -306,14 +337,18 @@ def _spans(data: Mapping[str, Any], where: str, dent: int, ring: bool) -> tuple[
     return spans
 
 
-def _arrangements(data: Mapping[str, Any], where: str, dent: int, ring: bool) -> tuple[str, ...]:
+def _arrangements(data: Mapping[str, Any], where: str, dent: int, topology: str) -> tuple[str, ...]:
     arr = _str_list(data.get("arrangements", []), where, "arrangements", '["fac"]')
     for a in arr:
         if a not in ARRANGEMENTS:
             raise rule_error(
                 where, f"arrangement {a!r} is not fac or mer", 'write arrangements = ["fac"], ["mer"] or ["fac", "mer"]'
             )
-    if arr and (ring or dent != 3):
+    if arr and topology == "tripod":
+        raise rule_error(
+            where, "a tripod always caps a face, so 'arrangements' does not apply", "remove 'arrangements'"
+        )
+    if arr and (topology != "chain" or dent != 3):
         raise rule_error(where, "'arrangements' applies to tridentate chains only", "remove 'arrangements'")
     if set(arr) == set(ARRANGEMENTS):
         return ()  # either: no restriction
@@ -359,7 +394,7 @@ def parse_entry(data: Mapping[str, Any], where: str) -> LigandEntry:
     """One validated catalogue entry from a ``[[ligand]]`` table.
 
     The keys are checked in the order of the catalogue schema (name, label
-    and aliases, donors, denticity/ring/hapticity, charge and electron counts,
+    and aliases, donors, denticity/topology/hapticity, charge and electron counts,
     spans, arrangements, reporter, nitrosyl, note and naming, SMILES), then
     the SMILES against them (:func:`check_smiles`).
 
@@ -384,10 +419,10 @@ def parse_entry(data: Mapping[str, Any], where: str) -> LigandEntry:
     where = f"{where} ({name})"
     label, aliases = _label_and_aliases(data, where)
     donors = _donors(data, where)
-    dent, ring, hapticity = _binding(data, where, donors)
+    dent, topology, hapticity = _binding(data, where, donors)
     charge, e_cov, e_ion = _electrons(data, where)
-    spans = _spans(data, where, dent, ring)
-    arrangements = _arrangements(data, where, dent, ring)
+    spans = _spans(data, where, dent, topology)
+    arrangements = _arrangements(data, where, dent, topology)
     reporter, nitrosyl = _reporter_and_nitrosyl(data, where)
     note, iupac, enclose = _note_and_naming(data, where)
     entry = LigandEntry(
@@ -401,7 +436,8 @@ def parse_entry(data: Mapping[str, Any], where: str) -> LigandEntry:
         electrons_ionic=e_ion,
         aliases=aliases,
         hapticity=hapticity,
-        ring=ring,
+        ring=topology == "ring",
+        topology=topology,
         spans=spans,
         arrangements=arrangements,
         reporter=reporter,

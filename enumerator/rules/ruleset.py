@@ -8,6 +8,7 @@ follow, each mirroring the built-in layout::
     DIR/reporters.toml        extra reporter classes (enumerator.rules.reporters)
     DIR/forcefields.toml      force-field defaults (enumerator.rules.forcefields)
     DIR/element_names.toml    names of central atoms (enumerator.rules.element_names)
+    DIR/geometry_choice.toml  which polyhedron a centre takes by default (enumerator.rules.geometry_choice)
     DIR/substitution/*.toml   extra substitution rule sets (enumerator.rules.substitution)
 
 A user file is validated in full before it is used; an entry with the same
@@ -76,6 +77,7 @@ RULE_FILES = (
     "reporters.toml",
     "forcefields.toml",
     "element_names.toml",
+    "geometry_choice.toml",
     "substitution/*.toml",
 )
 

@@ -136,6 +136,8 @@ def assemble(
     lig_charge = 0
     hapto: list[int] = []
     spans: list[tuple[int, int]] = []
+    # where every non-ring donor will sit, and each ring's centroid direction: the rings keep clear of them
+    targets = [(s.unit, bond_length(metal, s.donor) * np.array(s.position)) for unit in units for s in unit]
     for sites in units:
         kind = comp.kind(sites[0].ligand)
         m = ligand_mol(kind)
@@ -149,7 +151,9 @@ def assemble(
         if kind.ring:
             ring = ring_atoms(m, kind)
             el = m.GetAtomWithIdx(ring[0]).GetSymbol()
-            pos = ring_positions([s.position for s in sites], len(ring), metal, el)
+            placed = [p for i, p in fixed.items() if i != m_idx]
+            avoid = placed + [tuple(p) for u, p in targets if u != sites[0].unit]
+            pos = ring_positions([s.position for s in sites], len(ring), metal, el, avoid)
             # one ring atom is bonded to the metal for the embedding (a
             # fully hapto-bonded ring defeats RDKit's bounds builder); the
             # other M-C bonds are added afterwards

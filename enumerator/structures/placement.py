@@ -4,9 +4,11 @@ The metal sits at the origin and every donor atom on its site vector of the
 ideal polyhedron, at the sum of the covalent radii of metal and donor
 element (RDKit's periodic table, ``GetRcovalent``; these are single-bond
 radii, so M-CO comes out some 0.2-0.3 A long, which an optimiser fixes in a
-few steps).  An η-ring (Cp, arene) is placed as a regular polygon of ring
-bond :data:`RING_BOND` centred on the axis of its three facial sites, each
-ring atom at the same M-C covalent distance.  Labels that are not element
+few steps).  An η-ring (Cp, arene) holds one site: it is placed as a regular
+polygon of ring bond :data:`RING_BOND` whose centroid lies on the site's
+direction and whose plane is perpendicular to it, each ring atom at the same
+M-C covalent distance, turned about its axis to keep clear of the other
+ligands.  Labels that are not element
 symbols (abstract 'a', 'b', 'M') get :data:`DUMMY_DISTANCE`.
 
 >>> bond_length("Ru", "C")  # 1.46 + 0.76, RDKit GetRcovalent
@@ -32,6 +34,7 @@ __all__ = [
     "element_or_none",
     "bond_length",
     "ring_positions",
+    "RING_TURNS",
     "round_coordinate",
 ]
 
@@ -99,37 +102,51 @@ def _unit(v: Sequence[float]) -> np.ndarray:
     return np.array([c / n for c in v])
 
 
-def ring_positions(site_vectors: Sequence[Vec], size: int, metal: str, element: str) -> list[Vec]:
-    """A regular ring of ``size`` atoms centred on the axis of the sites it caps.
+#: Turns of an η-ring about its axis tried when it is placed (over one ring bond's angle).
+RING_TURNS = 24
+
+
+def ring_positions(
+    site_vectors: Sequence[Vec], size: int, metal: str, element: str, avoid: Sequence[Vec] = ()
+) -> list[Vec]:
+    """A regular ring of ``size`` atoms, its centroid on the ring's site direction and its plane perpendicular.
 
     Parameters
     ----------
     site_vectors : sequence of Vec
-        The unit vectors of the capped (facial) sites.
+        The unit vector of the ring's site (several vectors: their sum is the axis).
     size : int
         Ring atoms.
     metal, element : str
         The metal and the ring atoms' element (for the M-C distance).
+    avoid : sequence of Vec, optional
+        Points (A) of the other ligands the ring should keep clear of: of
+        :data:`RING_TURNS` turns about its axis the one whose nearest atom is
+        farthest from them is taken (the first of equals, so the placement is
+        reproducible).
 
     Returns
     -------
     list of Vec
-        The ring atoms in ring order, the first toward the first capped site.
+        The ring atoms in ring order; at turn 0 the first lies in the plane of the
+        axis and the laboratory z axis (x where the axis is along z).
     """
     u = _unit(np.sum(np.array(site_vectors), axis=0))
     radius = RING_BOND / (2 * math.sin(math.pi / size))
     mc = bond_length(metal, element)
     h = math.sqrt(max(mc * mc - radius * radius, 0.25))
-    # in-plane frame: e1 toward the first capped site, projected
-    first = np.array(site_vectors[0], dtype=float)
-    e1 = first - (first @ u) * u
-    if np.linalg.norm(e1) < 1e-6:  # pragma: no cover - sites on the axis
-        e1 = np.cross(u, [1.0, 0.0, 0.0]) if abs(u[0]) < 0.9 else np.cross(u, [0.0, 1.0, 0.0])
+    ref = np.array([0.0, 0.0, 1.0]) if abs(u[2]) < 0.9 else np.array([1.0, 0.0, 0.0])
+    e1 = ref - (ref @ u) * u
     e1 = e1 / np.linalg.norm(e1)
     e2 = np.cross(u, e1)
-    out: list[Vec] = []
-    for k in range(size):
-        t = 2 * math.pi * k / size
-        p = h * u + radius * (math.cos(t) * e1 + math.sin(t) * e2)
-        out.append((float(p[0]), float(p[1]), float(p[2])))
-    return out
+    others = np.array(avoid, dtype=float).reshape(-1, 3)
+    best: np.ndarray | None = None
+    best_gap = -1.0
+    for turn in range(RING_TURNS if len(others) else 1):
+        t = 2 * math.pi * (np.arange(size) / size + turn / (RING_TURNS * size))
+        ring = h * u + radius * (np.cos(t)[:, None] * e1 + np.sin(t)[:, None] * e2)
+        gap = float(np.min(np.linalg.norm(ring[:, None, :] - others[None, :, :], axis=2))) if len(others) else 0.0
+        if best is None or gap > best_gap + 1e-9:
+            best, best_gap = ring, gap
+    assert best is not None
+    return [(float(p[0]), float(p[1]), float(p[2])) for p in best]

@@ -141,13 +141,14 @@ def pattern_key(comp: Composition, geometry: str, limit: int | None = None) -> t
     tuple
         ``Composition.parts`` with each kind's donor labels renamed a, b, c by first appearance within that
         kind (different kinds are never interchanged, so only the pattern within a kind matters), plus each
-        kind's ring flag, spans, arrangements, reporter class and count; the geometry and the limit.
+        kind's topology (chain, tripod or ring), spans, arrangements, reporter class and count; the geometry and
+        the limit.
     """
     parts = []
     for k, n in comp.parts:
         ren: dict[str, str] = {}
         donors = tuple(ren.setdefault(d, "abcdefghijkl"[len(ren)]) for d in k.donors)
-        parts.append((donors, k.ring, k.spans, tuple(sorted(k.arrangements)), k.reporter, n))
+        parts.append((donors, k.topology, k.spans, tuple(sorted(k.arrangements)), k.reporter, n))
     return (tuple(parts), geometry, limit)
 
 

@@ -199,6 +199,7 @@ class LigandCatalogue:
             "denticity": e.denticity,
             "hapticity": e.hapticity,
             "ring": e.ring,
+            "topology": e.topology,
             "charge": e.charge,
             "electrons_covalent": e.electrons_covalent,
             "electrons_ionic": e.electrons_ionic,

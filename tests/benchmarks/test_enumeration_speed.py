@@ -43,7 +43,7 @@ ENUMERATION_CASES: tuple[tuple[str, str], ...] = (
     ("SAPR-8", "Ma2b2c2d2"),
     ("OC-6", "Mabcdef"),
     ("IC-12", "M(AA)6"),
-    ("IC-12", "M(ring)a3b3c3"),
+    ("IC-12", "M{AAA}a3b3c3"),
 )
 #: Cases where the naive enumerator runs too (when it fits the budget).
 BASELINE_CASES: tuple[tuple[str, str], ...] = (

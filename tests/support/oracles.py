@@ -11,8 +11,10 @@ derivation they check; each is written from its definition:
   colourings of each operation counted as a coefficient of Pólya's cycle-index
   product (G. Pólya, Acta Math. 68 (1937) 145);
 * :func:`chelate_decorations` and :func:`orbits_by_burnside` - every labelled
-  placement of chelates, rings and single ligands listed by brute force, and
-  their orbits counted by Burnside's lemma;
+  placement of chelates, tripods, η-rings and single ligands listed by brute
+  force, and their orbits counted by Burnside's lemma; a tripod's faces come
+  from scipy's convex hull (Qhull), an η-ring's sites from counting the
+  operations that fix each site;
 * :func:`brute_stabiliser` - the operations that keep every site label and
   every link of an isomer, found by trying each operation;
 * :func:`naive_isomers` - all n! labellings of a monodentate formula, each
@@ -58,8 +60,9 @@ __all__ = [
 #: Ligand letters of abstract formulas, in order.
 LETTERS = "abcdefghijkl"
 
-#: A chelate or single ligand to place: (donors, count, span, ring, arrangements).
-KindSpec = tuple[str, int, str, bool, tuple[str, ...]]
+#: A chelate or single ligand to place: (donors, count, span, topology, arrangements); the topology is
+#: False or "chain", True or "ring" (an η-ring: one donor, one site), or "tripod" (three donors on a face).
+KindSpec = tuple[str, int, str, bool | str, tuple[str, ...]]
 
 
 # --------------------------------------------------------------------------- groups
@@ -151,12 +154,48 @@ def burnside_count(ops: Sequence[Any], counts: Sequence[int]) -> int:
 # --------------------------------------------------------------------------- chelates
 
 
+def _topology(kind: KindSpec) -> str:
+    t = kind[3]
+    return "ring" if t is True else "chain" if t is False else str(t)
+
+
+def hull_faces(g: Any) -> frozenset[frozenset[int]]:
+    """The triangular faces of the convex hull of the site tips and the metal, found by scipy's ConvexHull
+    (Qhull), whose plane holds no other tip and not the metal."""
+    from scipy.spatial import ConvexHull, QhullError
+
+    pts = np.vstack([np.array(g.vectors, dtype=float), np.zeros(3)])
+    metal = len(pts) - 1
+    try:
+        hull = ConvexHull(pts)
+    except (QhullError, ValueError):
+        return frozenset()  # flat or collinear: no faces
+    out = set()
+    for simplex, eq in zip(hull.simplices, hull.equations):
+        if metal in simplex:
+            continue
+        dist = pts @ eq[:3] + eq[3]
+        on_plane = {int(i) for i in np.nonzero(np.abs(dist) < 1e-6)[0]}
+        if on_plane == {int(i) for i in simplex}:
+            out.add(frozenset(int(i) for i in simplex))
+    return frozenset(out)
+
+
+def most_symmetric_sites(g: Any) -> frozenset[int]:
+    """The sites fixed by the largest number of the geometry's operations, counted one by one."""
+    fixed = [sum(1 for op in g.operations if op.perm[i] == i) for i in range(g.coordination_number)]
+    return frozenset(i for i, f in enumerate(fixed) if f == max(fixed))
+
+
 def _fits(g: Any, kind: KindSpec, t: tuple[int, ...]) -> bool:
-    """Whether a placement ``t`` (sites in donor order) obeys the kind's span, ring and fac/mer settings."""
-    _, _, span, ring, arr = kind
+    """Whether a placement ``t`` (sites in donor order) obeys the kind's topology, span and fac/mer settings."""
+    _, _, span, _, arr = kind
+    topology = _topology(kind)
+    if topology == "ring":
+        return t[0] in most_symmetric_sites(g)
+    if topology == "tripod":
+        return frozenset(t) in hull_faces(g)
     edges = g.edges
-    if ring:
-        return all((min(a, b), max(a, b)) in edges for a, b in itertools.combinations(t, 2))
     for a, b in zip(t, t[1:]):
         trans = g.angles[a, b] > 179
         if span == "edge" and (min(a, b), max(a, b)) not in edges:
@@ -173,10 +212,11 @@ def _fits(g: Any, kind: KindSpec, t: tuple[int, ...]) -> bool:
 
 
 def normal_placement(kind: KindSpec, t: tuple[int, ...]) -> tuple[int, ...]:
-    """One spelling per placement: a ring's sites sorted, a symmetric chain from its lower end."""
-    donors, _, _, ring, _ = kind
-    if ring:
-        return tuple(sorted(t))
+    """One spelling per placement: a tripod's sites ordered by (donor label, site), a symmetric chain from its
+    lower end."""
+    donors = kind[0]
+    if _topology(kind) == "tripod":
+        return tuple(site for _, site in sorted(zip(donors, t)))
     return min(t, t[::-1]) if donors == donors[::-1] else t
 
 

@@ -9,8 +9,10 @@ One job per module:
 * :mod:`.departures`: the count judged against the 18-electron rule and its
   usual exceptions, with a warning and the nearest formulas that count 18 for
   a departure (:func:`check_count`);
-* :mod:`.geometry`: the default polyhedron from the coordination number and
-  the d-count, and the choice when one is requested (:func:`choose_geometry`);
+* :mod:`.geometry`: the default polyhedron by the rules of
+  ``rules/geometry_choice.toml`` (site count, d-count, the textbook
+  exceptions, piano stools), and the choice when one is requested
+  (:func:`choose_geometry`);
 * :mod:`.analysis`: the pipeline stage and :class:`CentreAnalysis`.
 
 >>> from enumerator.rules.ruleset import load_rules
@@ -26,7 +28,7 @@ One job per module:
 from enumerator.analyses.centre.analysis import CentreAnalysis, centre_notes, stage
 from enumerator.analyses.centre.departures import CountCheck, Suggestion, check_count
 from enumerator.analyses.centre.electrons import ElectronCount, LigandCount, NitrosylBinding, count_electrons, roman
-from enumerator.analyses.centre.geometry import choose_geometry, default_geometry
+from enumerator.analyses.centre.geometry import GeometryDecision, choose_geometry, default_geometry, geometry_decision
 
 __all__ = [
     "ElectronCount",
@@ -39,6 +41,8 @@ __all__ = [
     "count_electrons",
     "choose_geometry",
     "default_geometry",
+    "geometry_decision",
+    "GeometryDecision",
     "centre_notes",
     "roman",
     "stage",

@@ -6,8 +6,8 @@ letters).  Its count check (:mod:`.departures`) says whether the
 valence-electron count obeys the 18-electron rule or one of its usual
 exceptions, and gives a departure its own warning with the likely cause and
 the nearest formulas that count 18.  Its notes warn where the site
-idealisation or the nitrosyl binding may mislead: η-rings as three facial
-sites, and {MNO}n with n >= 7 on an octahedron, usually bent
+idealisation or the nitrosyl binding may mislead: an η-ring as one site
+(the piano-stool idealisation), and {MNO}n with n >= 7 on an octahedron, usually bent
 (Enemark–Feltham, *Coord. Chem. Rev.* 13 (1974) 339), or a count above 18
 with a linear NO.
 
@@ -27,7 +27,7 @@ from typing import Any
 
 from enumerator.analyses.centre.departures import CountCheck, check_count
 from enumerator.analyses.centre.electrons import ElectronCount, count_electrons
-from enumerator.analyses.centre.geometry import default_geometry
+from enumerator.analyses.centre.geometry import geometry_decision
 from enumerator.analyses.views import RequestView, ResultView
 from enumerator.errors import InputError
 from enumerator.model.composition import Composition
@@ -53,6 +53,10 @@ class CentreAnalysis:
     def warnings(self) -> tuple[str, ...]:
         """The departures from the electron-count rules, one line each (empty when the count is usual)."""
         return self.check.warnings if self.check else ()
+
+    #: the geometry-choice rule behind the default and its source ('' where none matched)
+    geometry_rule: str = ""
+    geometry_source: str = ""
 
     def isomer_json(self, isomer_id: str) -> Mapping[str, Any]:
         """Nothing per isomer."""
@@ -90,6 +94,8 @@ class CentreAnalysis:
                 "geometry": self.geometry,
                 "geometry_reason": self.geometry_reason,
                 "geometry_alternatives": list(self.alternatives),
+                "geometry_rule": self.geometry_rule or None,
+                "geometry_source": self.geometry_source or None,
                 "notes": list(self.notes),
                 "count_check": self.check.to_dict() if self.check else None,
                 "count_warnings": list(self.warnings),
@@ -116,8 +122,8 @@ def centre_notes(comp: Composition, c: ElectronCount, geometry: str) -> tuple[st
     notes = list(c.notes)
     if any(k.ring for k in comp.kinds):
         notes.append(
-            "point groups are those of the site idealisation (an η-ring as three facial sites); "
-            "the full molecular symmetry of the ring is not represented"
+            "point groups are those of the site idealisation (an η-ring as one site whose axis carries the "
+            "ring's symmetry); the full molecular symmetry of the ring is not represented"
         )
     linear = [name for name, _, b in c.nitrosyls if b == "linear"]
     if linear and c.enemark_feltham and geometry == "OC-6":
@@ -154,9 +160,10 @@ def stage(res: ResultView, req: RequestView) -> CentreAnalysis | None:
     c = count_electrons(comp)
     rules = load_rules(req.rules)
     try:
-        _, _, alts = default_geometry(comp, rules, c)
+        d = geometry_decision(comp, rules, c)
+        alts, rule, source = d.alternatives, d.rule, d.source
     except InputError:
-        alts = ()
+        alts, rule, source = (), "", ""
     check = check_count(comp, c, rules)
     return CentreAnalysis(
         count=c,
@@ -166,4 +173,6 @@ def stage(res: ResultView, req: RequestView) -> CentreAnalysis | None:
         sites=comp.donor_count,
         notes=centre_notes(comp, c, res.geometry.symbol) + check.notes,
         check=check,
+        geometry_rule=rule,
+        geometry_source=source,
     )
