@@ -237,6 +237,8 @@ class Band:
     #: IR / Raman allowed by the species (None without a character table)
     ir_allowed: bool | None = None
     raman_allowed: bool | None = None
+    #: one standard uncertainty of ``wavenumber`` (cm^-1) from the band model's validation, when it has one
+    sigma: float | None = field(default=None, compare=False)
 
     @property
     def ir_active(self) -> bool:
@@ -271,6 +273,7 @@ class Band:
             "ir_active": self.ir_active,
             "ir_allowed": self.ir_allowed,
             "raman_allowed": self.raman_allowed,
+            **({"sigma": round(self.sigma, 1)} if self.sigma is not None else {}),
         }
 
 
