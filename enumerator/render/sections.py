@@ -30,7 +30,7 @@ from types import MappingProxyType
 from enumerator.analyses.centre import CentreAnalysis
 from enumerator.analyses.descriptors import DescriptorAnalysis
 from enumerator.analyses.safety import SafetyAnalysis
-from enumerator.analyses.stretch import StretchAnalysis
+from enumerator.analyses.stretch import MAX_LISTED_PAIRS, StretchAnalysis
 from enumerator.render.typeset import latex_escape
 from enumerator.workflow.result import Result
 
@@ -369,9 +369,8 @@ def pair_tally_text(a: StretchAnalysis) -> str:
     n = len(a.ids)
     tally = a.pair_tally()
     total = n * (n - 1) // 2
-    body = f"{n} isomers, {total} pairs (list in --json 'pairs'): " + ", ".join(
-        f"{k} {v}" for k, v in sorted(tally.items())
-    )
+    where = "list in --json 'pairs'" if total <= MAX_LISTED_PAIRS else "per-isomer numbers in --json 'pair_signatures'"
+    body = f"{n} isomers, {total} pairs ({where}): " + ", ".join(f"{k} {v}" for k, v in sorted(tally.items()))
     legend = "first technique whose counts differ (cost order IR < Raman < NMR); " + _LEGEND_TAIL
     return "\n".join([body, legend])
 

@@ -19,6 +19,7 @@ from __future__ import annotations
 
 from collections.abc import Mapping
 from dataclasses import dataclass
+from functools import cached_property
 from typing import Any
 
 from enumerator.analyses.stretch.modes import ModeSet, environments, stretch_modes
@@ -41,9 +42,11 @@ __all__ = [
     "ENANTIOMER_NOTE",
 ]
 
-#: Above this many isomer pairs the JSON gives the tally, not the list
-#: (2,000,000 pairs is about 2,000 isomers and a 400 MB document).
-MAX_LISTED_PAIRS = 2_000_000
+#: Above this many isomer pairs the JSON gives the tally and each isomer's
+#: signature numbers (``pair_signatures``, linear in the isomers), not the
+#: list: 20,000 pairs is 200 isomers and about 4 MB of JSON; the list grows
+#: with the square of the isomers (1,680 isomers: 1.4 million pairs, 230 MB).
+MAX_LISTED_PAIRS = 20_000
 #: The NMR caution for geometries marked fluxional (``{geo}``: the polyhedral symbol).
 FLUXIONAL_NOTE = (
     "{geo} centres are often fluxional (e.g. Berry pseudorotation): NMR may show averaged signals, "
@@ -86,6 +89,14 @@ class StretchAnalysis:
     geometry: str
     reporter_ligands: tuple[str, ...] = ()
 
+    @cached_property
+    def _position(self) -> Mapping[str, int]:
+        # the first position of each id, as tuple.index finds it
+        out: dict[str, int] = {}
+        for k, i in enumerate(self.ids):
+            out.setdefault(i, k)
+        return out
+
     def signatures(self) -> Signatures:
         """Each isomer's IR, Raman and NMR count signature, numbered."""
         ir = [tuple(m.ir for m in ms) for ms in self.modes]
@@ -107,7 +118,7 @@ class StretchAnalysis:
 
     def isomer_json(self, isomer_id: str) -> Mapping[str, Any]:
         """``modes`` (per reporter class), ``nmr_environments`` (per ligand) and ``axes``."""
-        k = self.ids.index(isomer_id)
+        k = self._position[isomer_id]
         return {
             "modes": {m.reporter: m.to_dict() for m in self.modes[k]},
             "nmr_environments": {
@@ -143,12 +154,23 @@ class StretchAnalysis:
         total = n * (n - 1) // 2
         doc: dict[str, Any] = {"pair_tally": self.pair_tally()}
         if total > MAX_LISTED_PAIRS:
+            ir, raman, nmr = self.signatures()
             doc["pairs"] = []
             doc["pairs_listed"] = False
             doc["pairs_note"] = (
                 f"{total} pairs are too many to list (more than {MAX_LISTED_PAIRS}); "
-                "'pair_tally' counts them; use --limit or --pick to list the pairs of fewer isomers"
+                "'pair_tally' counts them and 'pair_signatures' decides any pair; "
+                "use --limit or --pick to list the pairs of fewer isomers"
             )
+            doc["pair_signatures"] = {
+                "about": (
+                    "one number per listed isomer, in listing order, for each technique: two isomers are told "
+                    "apart by a technique when their numbers differ; enantiomers never are"
+                ),
+                "ir": list(ir),
+                "raman": list(raman),
+                "nmr": list(nmr),
+            }
         else:
             doc["pairs"] = [p.to_dict() for p in self.pairs()]
             doc["pairs_listed"] = True
