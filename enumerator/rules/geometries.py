@@ -6,8 +6,11 @@ and the site directions (normalised here); optionally the coordination
 number (checked against the sites, as is the number that ends the symbol),
 the span a chelate link takes by default, whether the shape is
 fluxional, a note, and whether it is the default for abstract formulas of
-its coordination number.  The symmetry operations are derived from the
-vectors at load, so a degenerate site set fails here, naming the file.
+its coordination number.  The symmetry operations of a user's geometry are
+derived from the vectors at load, so a degenerate site set fails here,
+naming the file; those of the built-in geometries (checked by the test
+suite) are derived on first use, so a command pays only for the geometries
+it touches.
 
 >>> from enumerator.rules.ruleset import load_rules
 >>> geos = load_geometries(load_rules().files("geometries/*.toml"))
@@ -73,7 +76,7 @@ def _site_vectors(sites: Any, where: str) -> tuple[Vec, ...]:
     return tuple(vecs)
 
 
-def parse_geometry(path: str | Path, data: Mapping[str, Any]) -> Geometry:
+def parse_geometry(path: str | Path, data: Mapping[str, Any], derive: bool = True) -> Geometry:
     """One validated geometry from the parsed TOML of a geometry file.
 
     Parameters
@@ -82,11 +85,14 @@ def parse_geometry(path: str | Path, data: Mapping[str, Any]) -> Geometry:
         The file (named in errors and kept as ``Geometry.source``).
     data : Mapping[str, Any]
         Its parsed TOML.
+    derive : bool, optional
+        Derive the symmetry operations now, so that a degenerate site set
+        fails here (default); False leaves them to the first use.
 
     Returns
     -------
     Geometry
-        With unit site vectors; its symmetry operations are derived once here.
+        With unit site vectors.
 
     Raises
     ------
@@ -140,18 +146,21 @@ def parse_geometry(path: str | Path, data: Mapping[str, Any]) -> Geometry:
         default_for_abstract=data.get("default_for_abstract", False),
         source=where,
     )
-    if not geo.linear and len(vecs) >= 2:
+    if derive and not geo.linear and len(vecs) >= 2:
         _ = geo.operations  # derive once now so that a degenerate set fails at load
     return geo
 
 
-def load_geometries(paths: Iterable[Path]) -> Mapping[str, Geometry]:
+def load_geometries(paths: Iterable[Path], trusted: Path | None = None) -> Mapping[str, Geometry]:
     """Every geometry of the given files; a later file with the same symbol replaces an earlier one.
 
     Parameters
     ----------
     paths : iterable of Path
         Geometry files, built-in first (``RuleSet.files("geometries/*.toml")``).
+    trusted : Path, optional
+        The built-in folder: its geometries' operations are derived on first
+        use instead of at load (every other file is checked in full at load).
 
     Returns
     -------
@@ -166,7 +175,7 @@ def load_geometries(paths: Iterable[Path]) -> Mapping[str, Geometry]:
     """
     geos: dict[str, Geometry] = {}
     for path in paths:
-        g = parse_geometry(path, read_toml(path))
+        g = parse_geometry(path, read_toml(path), derive=trusted is None or trusted not in Path(path).parents)
         geos[g.symbol] = g
     for cn in sorted({g.coordination_number for g in geos.values()}):
         marked = [g for g in geos.values() if g.coordination_number == cn and g.default_for_abstract]
