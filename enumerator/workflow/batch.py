@@ -31,13 +31,15 @@ from concurrent.futures import Future
 from dataclasses import dataclass, field, replace
 from typing import Any
 
-from enumerator.analyses.centre import count_electrons
+from enumerator.analyses.centre import choose_geometry, count_electrons
 from enumerator.analyses.safety import cautions
 from enumerator.analyses.stretch import StretchAnalysis
 from enumerator.errors import IsosieveError
 from enumerator.model.composition import Composition
 from enumerator.parse.batch import read_formulas
-from enumerator.workflow.pipeline import Request, prepare, run
+from enumerator.parse.formula import parse_formula
+from enumerator.rules.ruleset import RuleSet, load_rules
+from enumerator.workflow.pipeline import Request, run
 from enumerator.workflow.result import Result
 
 __all__ = ["BatchRow", "BatchResult", "PatternSummary", "screen", "run_batch", "screen_file", "pattern_key"]
@@ -181,27 +183,72 @@ def _summarise(formula: str, geometry: str, rules: tuple[str, ...], limit: int |
     )
 
 
-def _prepare(
-    index: int, formula: str, label: str, geometry: str | None, rules: tuple[str, ...], limit: int | None
-) -> tuple[BatchRow, tuple]:
-    """The row's centre data (no enumeration yet) and its pattern key."""
-    comp, geo, reason = prepare(Request(formula=formula, geometry=geometry, rules=rules, limit=limit))
+def _centre(comp: Composition, symbol: str, reason: str, limit: int | None) -> tuple[BatchRow, tuple]:
+    """The row fields that follow from a centre (formula text aside) and its pattern key."""
     real = comp.metal != "M"
     ec = count_electrons(comp) if real else None
     row = BatchRow(
-        index=index,
-        formula=formula,
-        label=label,
+        index=0,
+        formula="",
         metal=comp.metal if real else None,
         charge=comp.charge,
         oxidation_state=ec.oxidation_state if ec else None,
         d_electrons=ec.d_electrons if ec else None,
         valence_electrons=ec.valence_electrons if ec else None,
-        geometry=geo.symbol,
+        geometry=symbol,
         geometry_reason=reason,
         safety=bool(cautions(comp)),
     )
-    return row, pattern_key(comp, geo.symbol, limit)
+    return row, pattern_key(comp, symbol, limit)
+
+
+class _Reader:
+    """Rows of one screen before enumeration: each formula read once, each centre worked out once.
+
+    What :func:`enumerator.workflow.pipeline.prepare` does for one request,
+    with the request's options checked and the rules loaded once for the
+    whole screen.  A centre is keyed by its ligands, metal and charge (the
+    formula text aside: two spellings of one complex share it); only a
+    geometry refusal names the formula, and refusals are not kept."""
+
+    def __init__(self, geometry: str | None, rules: tuple[str, ...], limit: int | None) -> None:
+        self.geometry, self.limit = geometry, limit
+        self.rules: RuleSet | None = None
+        self.setup_error: str | None = None
+        try:
+            Request("", geometry=geometry, rules=rules, limit=limit)  # the options, checked once
+            self.rules = load_rules(rules)
+        except IsosieveError as exc:
+            self.setup_error = exc.line()
+        self.formulas: dict[str, tuple[BatchRow, tuple | None]] = {}
+        self.centres: dict[tuple, tuple[BatchRow, tuple]] = {}
+
+    def row(self, index: int, formula: str, label: str) -> tuple[BatchRow, tuple | None]:
+        """The row of one formula (its pattern key None for an error): a repeat costs one look-up."""
+        hit = self.formulas.get(formula)
+        if hit is None:
+            hit = self.formulas[formula] = self._read(formula)
+        row, key = hit
+        return replace(row, index=index, label=label), key
+
+    def _read(self, formula: str) -> tuple[BatchRow, tuple | None]:
+        if self.setup_error is not None:
+            return BatchRow(0, formula, error=self.setup_error), None
+        rules = self.rules
+        assert rules is not None
+        try:
+            comp = parse_formula(formula, rules)
+            ident = (comp.parts, comp.metal, comp.charge)
+            done = self.centres.get(ident)
+            if done is None:
+                symbol, reason = choose_geometry(comp, rules, self.geometry)
+                symbol = rules.geometry(symbol).symbol
+                done = _centre(comp, symbol, reason, self.limit)
+                if comp.formula not in reason:  # a reason that quotes the formula stays with it
+                    self.centres[ident] = done
+        except IsosieveError as exc:
+            return BatchRow(0, formula, error=exc.line()), None
+        return replace(done[0], formula=formula), done[1]
 
 
 def _with(row: BatchRow, summary: PatternSummary, cached: bool) -> BatchRow:
@@ -256,12 +303,8 @@ def screen(
         same pattern.
     """
     rules = tuple(rules)
-    prepared: list[tuple[BatchRow, tuple | None]] = []
-    for k, formula, label in _items(formulas):
-        try:
-            prepared.append(_prepare(k, formula, label, geometry, rules, limit))
-        except IsosieveError as exc:
-            prepared.append((BatchRow(k, formula, label, error=exc.line()), None))
+    reader = _Reader(geometry, rules, limit)
+    prepared = [reader.row(k, formula, label) for k, formula, label in _items(formulas)]
     first: dict[tuple, str] = {}
     for row, key in prepared:
         if key is not None and key not in first:
