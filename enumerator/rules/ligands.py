@@ -46,6 +46,7 @@ from __future__ import annotations
 import re
 from collections.abc import Mapping
 from dataclasses import dataclass, replace
+from functools import cached_property
 from pathlib import Path
 from types import MappingProxyType
 from typing import Any
@@ -166,8 +167,13 @@ class LigandEntry:
         Returns
         -------
         LigandKind
-            With the entry's topology: an η-ring on one site, a tripod on a face, else a chain.
+            With the entry's topology: an η-ring on one site, a tripod on a face, else a chain; made once
+            per entry (every formula that names the ligand shares it: it is immutable).
         """
+        return self._kind
+
+    @cached_property
+    def _kind(self) -> LigandKind:
         return LigandKind(
             name=self.name,
             donors=self.donors,

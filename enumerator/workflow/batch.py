@@ -28,7 +28,8 @@ from __future__ import annotations
 
 from collections.abc import Iterable, Iterator, Sequence
 from concurrent.futures import Future
-from dataclasses import dataclass, field, replace
+from dataclasses import dataclass, field, fields, replace
+from operator import attrgetter
 from typing import Any
 
 from enumerator.analyses.centre import choose_geometry, count_electrons
@@ -223,13 +224,13 @@ class _Reader:
         self.formulas: dict[str, tuple[BatchRow, tuple | None]] = {}
         self.centres: dict[tuple, tuple[BatchRow, tuple]] = {}
 
-    def row(self, index: int, formula: str, label: str) -> tuple[BatchRow, tuple | None]:
-        """The row of one formula (its pattern key None for an error): a repeat costs one look-up."""
+    def row(self, formula: str) -> tuple[BatchRow, tuple | None]:
+        """The row of one formula, index and label left out (its pattern key None for an error): a repeat
+        costs one look-up."""
         hit = self.formulas.get(formula)
         if hit is None:
             hit = self.formulas[formula] = self._read(formula)
-        row, key = hit
-        return replace(row, index=index, label=label), key
+        return hit
 
     def _read(self, formula: str) -> tuple[BatchRow, tuple | None]:
         if self.setup_error is not None:
@@ -248,20 +249,42 @@ class _Reader:
                     self.centres[ident] = done
         except IsosieveError as exc:
             return BatchRow(0, formula, error=exc.line()), None
-        return replace(done[0], formula=formula), done[1]
+        row = done[0]
+        return BatchRow(0, formula, "", *_REST(row)), done[1]
+
+
+#: The fields of a row after index, formula and label, in order.
+_REST = attrgetter(*(f.name for f in fields(BatchRow)[3:]))
+
+
+def _relabel(row: BatchRow, index: int, label: str) -> BatchRow:
+    """The row at another place in the input, with its label (one constructor call, no field-by-field copy)."""
+    return BatchRow(index, row.formula, label, *_REST(row))
 
 
 def _with(row: BatchRow, summary: PatternSummary, cached: bool) -> BatchRow:
     if summary.error is not None:
         return replace(row, error=summary.error, cached=cached)
-    return replace(
-        row,
-        geometric_isomers=summary.geometric_isomers,
-        stereoisomers=summary.stereoisomers,
-        complete=summary.complete,
-        point_groups=summary.point_groups,
-        ir_bands=summary.ir_bands,
-        cached=cached,
+    r = row
+    return BatchRow(
+        r.index,
+        r.formula,
+        r.label,
+        r.error,
+        r.metal,
+        r.charge,
+        r.oxidation_state,
+        r.d_electrons,
+        r.valence_electrons,
+        r.geometry,
+        r.geometry_reason,
+        summary.geometric_isomers,
+        summary.stereoisomers,
+        summary.complete,
+        summary.point_groups,
+        summary.ir_bands,
+        r.safety,
+        cached,
     )
 
 
@@ -304,9 +327,9 @@ def screen(
     """
     rules = tuple(rules)
     reader = _Reader(geometry, rules, limit)
-    prepared = [reader.row(k, formula, label) for k, formula, label in _items(formulas)]
+    prepared = [(k, label, *reader.row(formula)) for k, formula, label in _items(formulas)]
     first: dict[tuple, str] = {}
-    for row, key in prepared:
+    for _, _, row, key in prepared:
         if key is not None and key not in first:
             first[key] = row.formula
     done: dict[tuple, PatternSummary | Future[PatternSummary]] = {}
@@ -319,14 +342,20 @@ def screen(
             done[key] = pool.submit(_summarise, formula, key[1], rules, limit)
     try:
         seen: set[tuple] = set()
-        for row, key in prepared:
+        # a formula's finished row, by whether its pattern was seen before: a repeat is relabelled
+        finished: dict[tuple[str, bool], BatchRow] = {}
+        for k, label, row, key in prepared:
             if key is None:
-                yield row
+                yield _relabel(row, k, label)
                 continue
-            value = done[key] if key in done else _summarise(first[key], key[1], rules, limit)
-            summary = value.result() if isinstance(value, Future) else value
-            done[key] = summary
-            yield _with(row, summary, key in seen)
+            cached = key in seen
+            out = finished.get((row.formula, cached))
+            if out is None:
+                value = done[key] if key in done else _summarise(first[key], key[1], rules, limit)
+                summary = value.result() if isinstance(value, Future) else value
+                done[key] = summary
+                out = finished[(row.formula, cached)] = _with(row, summary, cached)
+            yield _relabel(out, k, label)
             seen.add(key)
     finally:
         if pool is not None:
