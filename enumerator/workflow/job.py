@@ -19,12 +19,15 @@ from __future__ import annotations
 
 from collections.abc import Sequence
 from dataclasses import dataclass
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 from enumerator.errors import InputError
 from enumerator.parse.job import Job, JobOutput, load_job
 from enumerator.workflow.pipeline import run
 from enumerator.workflow.result import Result
+
+if TYPE_CHECKING:
+    import pandas as pd
 
 __all__ = ["JobComplex", "JobResult", "run_job", "run_job_file"]
 
@@ -58,6 +61,41 @@ class JobResult:
     def to_dict(self) -> dict[str, Any]:
         """The JSON document of ``isosieve job --format json``: the title and one object per complex."""
         return {"title": self.title, "complexes": [c.to_dict() for c in self.complexes]}
+
+    def to_dataframe(self, wide: bool = True) -> pd.DataFrame:
+        """Every complex's isomer table stacked, a ``label`` column in front (the columns of
+        :meth:`Result.to_dataframe`; a column one complex lacks is empty in its rows).
+
+        Parameters
+        ----------
+        wide : bool, optional
+            Keep the wide columns (the IUPAC name).
+
+        Returns
+        -------
+        pandas.DataFrame
+        """
+        from enumerator.workflow.table import join_frames
+
+        return join_frames((c.label, c.result.to_dataframe(wide)) for c in self.complexes)
+
+    def __repr__(self) -> str:
+        return f"<JobResult {self.title!r}: {len(self.complexes)} complex(es)>"
+
+    def _repr_html_(self) -> str:
+        """One line per complex: label, formula, geometry, isomer counts."""
+        import html
+
+        rows = "".join(
+            f"<tr><td>{html.escape(c.label)}</td><td>{html.escape(c.result.composition.formula)}</td>"
+            f"<td>{html.escape(c.result.geometry.symbol)}</td><td>{c.result.isomer_set.geometric_isomers}</td>"
+            f"<td>{c.result.isomer_set.stereoisomers}</td></tr>"
+            for c in self.complexes
+        )
+        return (
+            f"<p><b>{html.escape(self.title)}</b></p><table><tr><th>label</th><th>formula</th><th>geometry</th>"
+            f"<th>geometric isomers</th><th>stereoisomers</th></tr>{rows}</table>"
+        )
 
 
 def run_job(job: Job) -> JobResult:
