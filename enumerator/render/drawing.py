@@ -181,7 +181,7 @@ def plain_text(text: str) -> str:
     -------
     str
     """
-    return text.replace("\\", "\\\\").replace("$", "\\$")
+    return text.replace("$", "\\$")
 
 
 def _bonds(s: Structure) -> list[tuple[int, int]]:
