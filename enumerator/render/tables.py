@@ -71,6 +71,7 @@ __all__ = [
     "result_caption",
     "slug",
     "write_csv",
+    "cell_text",
     "latex_symbol",
     "latex_species",
     "latex_escape",
@@ -133,7 +134,8 @@ def _kinds(df: pd.DataFrame) -> Mapping[str, str]:
     return df.attrs.get("kinds", {})
 
 
-def _cell(v: Any) -> str:
+def cell_text(v: Any) -> str:
+    """A frame cell as text: '' for a missing value, else ``str``."""
     if v is None:
         return ""
     try:
@@ -190,7 +192,7 @@ def write_csv(header: Sequence[str], records: Iterable[Sequence[Any]]) -> str:
     w = _csv.writer(buf, lineterminator="\r\n", quoting=_csv.QUOTE_MINIMAL)
     w.writerow([neutralise(str(h)) for h in header])
     for r in records:
-        cells = [neutralise(_cell(x)) for x in r]
+        cells = [neutralise(cell_text(x)) for x in r]
         w.writerow(cells + [""] * (len(header) - len(cells)))
     return buf.getvalue()
 
@@ -322,7 +324,7 @@ def latex_comment(text: str) -> str:
     return "% " + latex_escape(flat)
 
 
-def _tex_cell(kind: str, value: str) -> str:
+def _texcell_text(kind: str, value: str) -> str:
     if not value:
         return ""
     if kind == "symbol":
@@ -357,7 +359,7 @@ def _widths(df: pd.DataFrame, cols: Sequence[str], kinds: Mapping[str, str]) -> 
     least, pref = [], []
     for c in cols:
         kind = kinds.get(c, "text")
-        cells = [_cell(v) for v in df[c]]
+        cells = [cell_text(v) for v in df[c]]
         words = [w for v in cells for w in _tokens(kind, v)]
         scale = 0.8 if kind == "symbol" else 1.0
         lo = max([_em(w) * scale for w in words if w] + [_em(w) for w in c.split(" ")]) * FONT_PT + 1.5
@@ -444,12 +446,12 @@ def latex_table(
         "\\endfoot",
     ]
     for row in df[cols].itertuples(index=False, name=None):
-        out.append(" & ".join(_tex_cell(kinds.get(c, "text"), _cell(v)) for c, v in zip(cols, row)) + " \\\\")
+        out.append(" & ".join(_texcell_text(kinds.get(c, "text"), cell_text(v)) for c, v in zip(cols, row)) + " \\\\")
     out.append("\\end{longtable}")
     out.append("\\endgroup")
     if turned:
         out = ["\\begin{landscape}", *out, "\\end{landscape}"]
-    if "IUPAC name" in df.columns and df["IUPAC name"].map(_cell).any():
+    if "IUPAC name" in df.columns and df["IUPAC name"].map(cell_text).any():
         out += _names_table(df, key)
     if cautions:
         out.append("\\par\\noindent{\\footnotesize\\textbf{Safety.} " + latex_escape(" ".join(cautions)) + "}\\par")
@@ -472,7 +474,7 @@ def _names_table(df: pd.DataFrame, key: str) -> list[str]:
         "\\endfoot",
     ]
     for row in df[[*idcol, "IUPAC name"]].itertuples(index=False, name=None):
-        cells = [latex_breakable(_cell(x)) for x in row]
+        cells = [latex_breakable(cell_text(x)) for x in row]
         out.append(" & ".join(cells) + " \\\\")
     return out + ["\\end{longtable}", "\\endgroup"]
 
@@ -543,7 +545,7 @@ _MD_CELL: Mapping[str, Callable[[str], str]] = {
 }
 
 
-def _md_cell(kind: str, value: str) -> str:
+def _mdcell_text(kind: str, value: str) -> str:
     f = _MD_CELL.get(kind)
     if f is not None:
         return f(value).replace("|", "\\|")
@@ -569,7 +571,9 @@ def markdown_table(df: pd.DataFrame, omit: Sequence[str] = ("formula", "geometry
     cols = [c for c in df.columns if c not in omit]
     out = ["| " + " | ".join(nucleus_html(c) for c in cols) + " |", "|" + "|".join("---" for _ in cols) + "|"]
     for row in df[cols].itertuples(index=False, name=None):
-        out.append("| " + " | ".join(_md_cell(kinds.get(c, "text"), _cell(v)) for c, v in zip(cols, row)) + " |")
+        out.append(
+            "| " + " | ".join(_mdcell_text(kinds.get(c, "text"), cell_text(v)) for c, v in zip(cols, row)) + " |"
+        )
     return "\n".join(out)
 
 
