@@ -337,13 +337,14 @@ def _cell_html(kind: str, value: Any) -> Markup:
     return Markup(f(text) if f and text else nucleus_html(text))
 
 
-def _isomer_table(res: Result) -> tuple[list[Markup], list[list[Markup]]]:
+def _isomer_table(res: Result) -> tuple[list[Markup], list[list[tuple[str, Markup]]]]:
+    """The header and the rows of (kind, typeset cell); the kind is the cell's class (how it may wrap)."""
     df = res.to_dataframe()
     kinds = df.attrs.get("kinds", {})
     cols = [c for c in df.columns if c not in ("formula", "geometry")]
     head = [Markup(nucleus_html(c)) for c in cols]
     rows = [
-        [_cell_html(kinds.get(c, "text"), v) for c, v in zip(cols, r)]
+        [(kinds.get(c, "text"), _cell_html(kinds.get(c, "text"), v)) for c, v in zip(cols, r)]
         for r in df[cols].itertuples(index=False, name=None)
     ]
     return head, rows
@@ -385,7 +386,7 @@ def _telling(a: StretchAnalysis | None) -> list[str]:
     for p in a.pairs():
         key = "en" if p.note == "enantiomers" else (p.cheapest or "--")
         by.setdefault(key, []).append((p.a, p.b))
-    out = [f"{_TECH.get(k, k)} tell apart {len(v)} pair(s): {_pairs_text(v)}" for k, v in by.items() if k in _TECH]
+    out = [f"{_TECH[k]} tell apart {len(by[k])} pair(s): {_pairs_text(by[k])}" for k in _TECH if k in by]
     if "--" in by:
         out.append(f"no count tells apart {len(by['--'])} pair(s): {_pairs_text(by['--'])}")
     if "en" in by:
