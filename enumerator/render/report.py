@@ -458,40 +458,12 @@ def _drawing(c: ReportComplex, iso: Isomer, k: int) -> tuple[Markup, str]:
     return Markup(f'{svg}<div class="legend">{legend}</div>'), caption
 
 
-def _fields(iso: Isomer, res: Result) -> list[tuple[Markup, Markup]]:
-    e = html.escape
-    out = [("point group", html_symbol(iso.point_group))]
-    out.append(("chirality", f"chiral; its mirror image is {e(iso.enantiomer or '?')}" if iso.chiral else "achiral"))
-    desc = res.analysis(DescriptorAnalysis)
-    d = desc.get(iso.id) if desc is not None else None
-    if d is not None:
-        out.append(("IUPAC descriptor (IR-9.3)", e(d.text)))
-        if d.prefix:
-            out.append(("everyday prefix", e(d.prefix)))
-        name = dict(desc.names).get(iso.id)
-        if name:
-            out.append(("IUPAC name (IR-9.2)", e(name)))
+def _fields(iso: Isomer, res: Result) -> list[tuple[str, str]]:
+    """What a card adds to the isomer table: the axes behind its Mulliken labels."""
     a = res.analysis(StretchAnalysis)
     if a is not None and iso.id in a.ids:
-        k = a.ids.index(iso.id)
-        for ci, m in enumerate(a.modes[k]):
-            nuc = a.info[ci].nucleus
-            out.append((f"{e(m.reporter)} stretching modes", html_species(m.species)))
-            counts = f"IR {m.ir}, Raman {m.raman}, {nucleus_html(str(nuc))} NMR {m.nmr}"
-            out.append((f"{e(m.reporter)} bands and signals", counts))
-        other = [x for x in a.nmr[k] if x.ligand not in a.reporter_ligands and x.nucleus]
-        if other:
-            out.append(
-                (
-                    "NMR environments",
-                    ", ".join(f"{e(x.ligand)} ({nucleus_html(x.nucleus or '')}): {x.environments}" for x in other),
-                )
-            )
-        out.append(("axes of the Mulliken labels", e(a.axes[k])))
-    from enumerator.isomers.occupancy import occupancy
-
-    out.append(("sites (ligand: site numbers)", e(occupancy(iso))))
-    return [(Markup(e(k) if "<" not in k else k), Markup(v)) for k, v in out]
+        return [("axes of the Mulliken labels", a.axes[a.ids.index(iso.id)])]
+    return []
 
 
 def _spectra(c: ReportComplex, k: int, iso: Isomer, descriptor: str) -> list[dict[str, Any]]:
@@ -528,6 +500,7 @@ def _cards(c: ReportComplex) -> list[dict[str, Any]]:
         cards.append(
             {
                 "id": iso.id,
+                "group": Markup(html_symbol(iso.point_group)),
                 "descriptor": d.text if d else "",
                 "drawing": drawing,
                 "caption": caption,

@@ -569,7 +569,10 @@ def markdown_table(df: pd.DataFrame, omit: Sequence[str] = ("formula", "geometry
     """
     kinds = _kinds(df)
     cols = [c for c in df.columns if c not in omit]
-    out = ["| " + " | ".join(nucleus_html(c) for c in cols) + " |", "|" + "|".join("---" for _ in cols) + "|"]
+    out = [
+        "| " + " | ".join(nucleus_html(c).replace("|", "\\|") for c in cols) + " |",
+        "|" + "|".join("---" for _ in cols) + "|",
+    ]
     for row in df[cols].itertuples(index=False, name=None):
         out.append(
             "| " + " | ".join(_mdcell_text(kinds.get(c, "text"), cell_text(v)) for c, v in zip(cols, row)) + " |"
