@@ -18,7 +18,7 @@ renderers in :mod:`enumerator.render.bands` draw the text and the plots.
 
 from __future__ import annotations
 
-from collections.abc import Mapping, Sequence
+from collections.abc import Callable, Mapping, Sequence
 from dataclasses import dataclass
 from types import MappingProxyType
 from typing import Any
@@ -193,6 +193,7 @@ def predict_spectra(
     measured: Sequence[Observation] | None = None,
     fixed: Mapping[str, float] | None = None,
     tie_ck: bool = False,
+    progress: Callable[[str, int, int], None] | None = None,
 ) -> BandsResult:
     """Predict the stretching bands of every isomer of a formula, optionally fitting the constants.
 
@@ -214,6 +215,8 @@ def predict_spectra(
         Constants held during the fit.
     tie_ck : bool
         During the fit tie kt = 2 kc (the Cotton–Kraihanzel approximation).
+    progress : callable, optional
+        Called as ``progress(isomer id, done, total)`` after each isomer is predicted (and fitted).
 
     Returns
     -------
@@ -254,6 +257,8 @@ def predict_spectra(
         )
         label = iso.id + (f"/{iso.enantiomer}" if iso.enantiomer and not isomer_id else "")
         entries.append(IsomerBands(iso.id, label, iso.point_group, desc.get(iso.id), patterns))
+        if progress is not None:
+            progress(iso.id, len(entries), len(chosen))
     return BandsResult(
         formula=comp.formula,
         geometry=iso_set.geometry.symbol,

@@ -17,7 +17,7 @@ the files its ``[[output]]`` tables ask for.
 
 from __future__ import annotations
 
-from collections.abc import Sequence
+from collections.abc import Callable, Sequence
 from dataclasses import dataclass
 from typing import TYPE_CHECKING, Any
 
@@ -98,12 +98,14 @@ class JobResult:
         )
 
 
-def run_job(job: Job) -> JobResult:
+def run_job(job: Job, progress: Callable[[str, int, int], None] | None = None) -> JobResult:
     """Run every complex of a checked job.
 
     Parameters
     ----------
     job : Job
+    progress : callable, optional
+        Called as ``progress(label, done, total)`` after each complex (a progress bar).
 
     Returns
     -------
@@ -120,10 +122,14 @@ def run_job(job: Job) -> JobResult:
             out.append(JobComplex(e.label, run(e.request)))
         except InputError as exc:
             raise InputError(f"complex '{e.label}': {exc.what}", exc.fix) from None
+        if progress is not None:
+            progress(e.label, len(out), len(job.entries))
     return JobResult(job.title, tuple(out), job.outputs, job.folder)
 
 
-def run_job_file(path: str, rules: Sequence[str] = ()) -> JobResult:
+def run_job_file(
+    path: str, rules: Sequence[str] = (), progress: Callable[[str, int, int], None] | None = None
+) -> JobResult:
     """Read, check and run a job file.
 
     Parameters
@@ -132,6 +138,8 @@ def run_job_file(path: str, rules: Sequence[str] = ()) -> JobResult:
         The TOML job file.
     rules : sequence of str
         Rule folders in force (``--rules DIR``).
+    progress : callable, optional
+        As for :func:`run_job`.
 
     Returns
     -------
@@ -143,4 +151,4 @@ def run_job_file(path: str, rules: Sequence[str] = ()) -> JobResult:
         The file cannot be read or checked (:func:`enumerator.parse.job.load_job`), or a complex cannot be
         analysed.
     """
-    return run_job(load_job(path, rules))
+    return run_job(load_job(path, rules), progress)

@@ -222,7 +222,7 @@ def report_from_job(
     title : str, optional
         The page title (default: the job file's title, else its name).
     progress : callable, optional
-        As for :func:`build_report`.
+        As for :func:`build_report`; called for the analyses of the complexes, then for their report parts.
 
     Returns
     -------
@@ -233,7 +233,7 @@ def report_from_job(
     InputError
         The job file cannot be read or checked, or a complex cannot be analysed.
     """
-    job = run_job_file(path, rules)
+    job = run_job_file(path, rules, progress)
     return build_report(
         [(c.label, c.result) for c in job.complexes],
         title=title or job.title or Path(path).stem,
