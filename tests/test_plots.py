@@ -19,7 +19,7 @@ def test_returns_a_figure_with_axes_units_and_legend():
     labels = [t.get_text() for t in ax.get_legend().get_texts()]
     assert "predicted band" in labels and "measured" in labels
     assert ax.get_title(loc="left") == "[Cr(CO)5(PPh3)] OC-6"
-    assert ax.get_xlim()[0] > ax.get_xlim()[1]  # wavenumbers fall to the right, as IR spectra are drawn (common practice)
+    assert ax.get_xlim()[0] > ax.get_xlim()[1]  # wavenumbers fall to the right, as IR spectra are drawn (common)
 
 
 def test_draws_into_a_given_ax_and_leaves_the_backend_alone():

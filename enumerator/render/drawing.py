@@ -37,7 +37,16 @@ if TYPE_CHECKING:
     from matplotlib.axes import Axes
     from matplotlib.figure import Figure
 
-__all__ = ["JMOL_COLOURS", "element_colour", "project", "molecule_figure", "figure_svg", "plain_text", "donor_atoms"]
+__all__ = [
+    "JMOL_COLOURS",
+    "element_colour",
+    "project",
+    "molecule_figure",
+    "figure_svg",
+    "plain_text",
+    "mpl_formula",
+    "donor_atoms",
+]
 
 #: Element -> colour of Jmol's table (H to Rn), as pymatgen ships it (ElementColorSchemes.yaml, "Jmol").
 JMOL_COLOURS: Mapping[str, str] = MappingProxyType(
@@ -185,9 +194,8 @@ def plain_text(text: str) -> str:
 
 
 def _bonds(s: Structure) -> list[tuple[int, int]]:
-    from rdkit import Chem, RDLogger
+    from rdkit import Chem
 
-    RDLogger.DisableLog("rdApp.*")
     mol = Chem.MolFromMolBlock(s.molblock + "\n", sanitize=False, removeHs=False)
     if mol is None:
         return [(0, k) for k in range(1, len(s.symbols))]
@@ -227,22 +235,24 @@ def _hapto_groups(s: Structure, bonds: Sequence[tuple[int, int]]) -> list[set[in
     return groups
 
 
-def _place_labels(anchors: Sequence[tuple[float, float, float, str]], centre: tuple[float, float]) -> list:
+def _place_labels(
+    anchors: Sequence[tuple[float, float, float, str]], centre: tuple[float, float]
+) -> list[tuple[float, float, str]]:
     """Label positions just beyond each ligand's reach from the metal, then pushed apart until no two boxes
     overlap (at most 200 rounds of pairwise pushes; boxes estimated from the text length, angstrom units)."""
-    pos = []
-    for x, y, reach, text in anchors:
+    xy: list[list[float]] = []
+    texts = [t for *_, t in anchors]
+    for x, y, reach, _ in anchors:
         dx, dy = x - centre[0], y - centre[1]
         n = math.hypot(dx, dy) or 1.0
-        pos.append([centre[0] + (reach + 0.7) * dx / n, centre[1] + (reach + 0.7) * dy / n, text])
-    half_h = 0.42
+        xy.append([centre[0] + (reach + 0.7) * dx / n, centre[1] + (reach + 0.7) * dy / n])
     for _ in range(200):
         moved = False
-        for i in range(len(pos)):
-            for j in range(i + 1, len(pos)):
-                a, b = pos[i], pos[j]
-                ox = 0.26 * (len(a[2]) + len(b[2])) + 0.3 - abs(a[0] - b[0])
-                oy = 2 * half_h - abs(a[1] - b[1])
+        for i in range(len(xy)):
+            for j in range(i + 1, len(xy)):
+                a, b = xy[i], xy[j]
+                ox = 0.26 * (len(texts[i]) + len(texts[j])) + 0.3 - abs(a[0] - b[0])
+                oy = 0.84 - abs(a[1] - b[1])
                 if ox > 0 and oy > 0:
                     moved = True
                     axis, gap = (1, oy) if oy < ox else (0, ox)
@@ -251,7 +261,7 @@ def _place_labels(anchors: Sequence[tuple[float, float, float, str]], centre: tu
                     b[axis] -= sgn * (gap / 2 + 0.01)
         if not moved:
             break
-    return pos
+    return [(p[0], p[1], t) for p, t in zip(xy, texts)]
 
 
 def molecule_figure(
@@ -281,7 +291,6 @@ def molecule_figure(
     """
     from matplotlib.figure import Figure
     from matplotlib.lines import Line2D
-    from matplotlib.patches import Circle
 
     if ax is None:
         fig = Figure(figsize=(3.3, 3.5))
@@ -291,42 +300,9 @@ def molecule_figure(
     shown = [k for k, e in enumerate(s.symbols) if e != "H"]
     pts = {k: project(s.coords[k]) for k in shown}
     bonds = _bonds(s)
-    hapto = _hapto_groups(s, bonds)
-    for a, b in bonds:
-        if a in pts and b in pts and not ({a, b} & {0} and ({a, b} - {0}) <= set().union(*hapto)):
-            (x1, y1, d1), (x2, y2, d2) = pts[a], pts[b]
-            ax.plot([x1, x2], [y1, y2], color="#444444", lw=1.6, zorder=10 - (d1 + d2) / 2, solid_capstyle="round")
-    for group in hapto:  # an eta-ring or eta-alkene: one bond to the centroid of its bound atoms
-        cx, cy = (sum(pts[a][i] for a in group) / len(group) for i in (0, 1))
-        ax.plot([pts[0][0], cx], [pts[0][1], cy], color="#444444", lw=1.2, ls=(0, (3, 2)), zorder=9)
-    for k in sorted(shown, key=lambda k: -pts[k][2]):
-        x, y, d = pts[k]
-        r = 0.5 if k == 0 else 0.3
-        ax.add_patch(Circle((x, y), r, facecolor=element_colour(s.symbols[k]), edgecolor="#000", lw=0.6, zorder=20 - d))
-    metal = s.symbols[0]
-    ax.text(pts[0][0], pts[0][1], plain_text(metal), ha="center", va="center", fontsize=7, zorder=40, color="#000")
-    anchors = []
-    parts = _components(len(s.symbols), bonds)
-    for label, atoms in ligand_atoms:
-        body = sorted({k for a in atoms for k in parts.get(a, (a,)) if k in pts})
-        if not body:
-            continue
-        cx = sum(pts[a][0] for a in body) / len(body)
-        cy = sum(pts[a][1] for a in body) / len(body)
-        reach = max(math.hypot(pts[a][0] - pts[0][0], pts[a][1] - pts[0][1]) for a in body)
-        anchors.append((cx, cy, reach, label))
-    for x, y, text in _place_labels(anchors, (pts[0][0], pts[0][1])):
-        ax.text(
-            x,
-            y,
-            plain_text(text),
-            ha="center",
-            va="center",
-            fontsize=7.5,
-            zorder=50,
-            bbox={"boxstyle": "round,pad=0.15", "fc": "white", "ec": "#888888", "lw": 0.5, "alpha": 0.9},
-        )
-    placed = _place_labels(anchors, (pts[0][0], pts[0][1]))
+    _draw_bonds(ax, pts, bonds, _hapto_groups(s, bonds))
+    _draw_atoms(ax, s, pts)
+    placed = _draw_labels(ax, pts, ligand_atoms, _components(len(s.symbols), bonds))
     xs = [p[0] for p in pts.values()] + [x + sgn * 0.14 * len(t) for x, _, t in placed for sgn in (-1, 1)]
     ys = [p[1] for p in pts.values()] + [y + sgn * 0.45 for _, y, t in placed for sgn in (-1, 1)]
     half = max(max(xs) - min(xs), max(ys) - min(ys)) / 2 + 0.6
@@ -337,6 +313,7 @@ def molecule_figure(
     ax.axis("off")
     if title:
         ax.set_title(plain_text(title), fontsize=8)
+    metal = s.symbols[0]
     elements = sorted({s.symbols[k] for k in shown}, key=lambda e: (e != metal, e))
     handles = [
         Line2D([], [], marker="o", ls="", markersize=6, markerfacecolor=element_colour(e), markeredgecolor="#000")
@@ -353,6 +330,75 @@ def molecule_figure(
         columnspacing=0.8,
     )
     return fig
+
+
+Points = Mapping[int, tuple[float, float, float]]
+
+
+def _draw_bonds(ax: Axes, pts: Points, bonds: Sequence[tuple[int, int]], hapto: Sequence[set[int]]) -> None:
+    """Bonds as lines, far ones underneath; an eta-bound group through one dashed line to its centroid."""
+    bound = set().union(*hapto)
+    for a, b in bonds:
+        if a not in pts or b not in pts or (0 in (a, b) and (a or b) in bound):
+            continue
+        (x1, y1, d1), (x2, y2, d2) = pts[a], pts[b]
+        ax.plot([x1, x2], [y1, y2], color="#444444", lw=1.6, zorder=10 - (d1 + d2) / 2, solid_capstyle="round")
+    for group in hapto:
+        cx, cy = (sum(pts[a][i] for a in group) / len(group) for i in (0, 1))
+        ax.plot([pts[0][0], cx], [pts[0][1], cy], color="#444444", lw=1.2, ls=(0, (3, 2)), zorder=9)
+
+
+def _draw_atoms(ax: Axes, s: Structure, pts: Points) -> None:
+    """Atoms as element-coloured discs, far ones first; the metal larger, with its symbol."""
+    from matplotlib.patches import Circle
+
+    for k in sorted(pts, key=lambda k: -pts[k][2]):
+        x, y, d = pts[k]
+        r = 0.5 if k == 0 else 0.3
+        ax.add_patch(Circle((x, y), r, facecolor=element_colour(s.symbols[k]), edgecolor="#000", lw=0.6, zorder=20 - d))
+    ax.text(pts[0][0], pts[0][1], plain_text(s.symbols[0]), ha="center", va="center", fontsize=7, zorder=40)
+
+
+def _draw_labels(
+    ax: Axes, pts: Points, ligand_atoms: Sequence[tuple[str, Sequence[int]]], parts: Mapping[int, tuple[int, ...]]
+) -> list[tuple[float, float, str]]:
+    """One label per ligand, just beyond its atoms as seen from the metal, none overlapping another."""
+    anchors = []
+    for label, atoms in ligand_atoms:
+        body = sorted({k for a in atoms for k in parts.get(a, (a,)) if k in pts})
+        if not body:
+            continue
+        cx = sum(pts[a][0] for a in body) / len(body)
+        cy = sum(pts[a][1] for a in body) / len(body)
+        reach = max(math.hypot(pts[a][0] - pts[0][0], pts[a][1] - pts[0][1]) for a in body)
+        anchors.append((cx, cy, reach, label))
+    placed = _place_labels(anchors, (pts[0][0], pts[0][1]))
+    box = {"boxstyle": "round,pad=0.15", "fc": "white", "ec": "#888888", "lw": 0.5, "alpha": 0.9}
+    for x, y, text in placed:
+        ax.text(x, y, mpl_formula(text), ha="center", va="center", fontsize=7.5, zorder=50, bbox=box)
+    return placed
+
+
+def mpl_formula(text: str) -> str:
+    """A ligand or formula label for matplotlib: counts as subscripts, mass numbers raised, the rest as text.
+
+    Parameters
+    ----------
+    text : str
+
+    Returns
+    -------
+    str
+
+    >>> mpl_formula("PPh3"), mpl_formula("13CO")
+    ('PPh$_{3}$', '$^{13}$CO')
+    """
+    from enumerator.render.typeset import formula_parts
+
+    out = []
+    for kind, t in formula_parts(text):
+        out.append(plain_text(t) if kind == "text" else (f"$_{{{t}}}$" if kind == "sub" else f"$^{{{t}}}$"))
+    return "".join(out)
 
 
 def figure_svg(fig: Figure) -> bytes:

@@ -101,8 +101,10 @@ def _panel(
         lw=1.0,
         label=f"envelope (FWHM {width_cm1:g} cm$^{{-1}}$)",
     )
-    for k, b in enumerate(bands):
-        ax.vlines(b.wavenumber, 0, b.intensity, color="tab:blue", lw=1.5, label="predicted band" if k == 0 else None)
+    if bands:
+        pos, height = [b.wavenumber for b in bands], [b.intensity for b in bands]
+        ax.vlines(pos, 0, height, color="tab:blue", lw=1.5, label="predicted band")
+    for b in bands:
         if b.intensity > 0 and b.species:
             ax.text(b.wavenumber, b.intensity + 0.03, plain_text(b.species), ha="center", va="bottom", fontsize=7)
     for k, m in enumerate(measured):

@@ -467,7 +467,7 @@ def _fields(iso: Isomer, res: Result) -> list[tuple[str, str]]:
 
 
 def _spectra(c: ReportComplex, k: int, iso: Isomer, descriptor: str) -> list[dict[str, Any]]:
-    out = []
+    out: list[dict[str, Any]] = []
     for spec in c.spectra[k].classes:
         cls = spec.reporter_class
         if spec.pattern is None:

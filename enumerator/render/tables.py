@@ -295,7 +295,9 @@ def csv_metadata(
         "safety": list(cautions),
         "notes": list(notes),
         "tableSchema": {
-            "columns": [{"name": f"c{k}", "titles": h, "dc:description": _describe(h)} for k, h in enumerate(df)]
+            "columns": [
+                {"name": f"c{k}", "titles": str(h), "dc:description": _describe(str(h))} for k, h in enumerate(df)
+            ]
         },
     }
     return json.dumps(doc, ensure_ascii=False, indent=2) + "\n"
