@@ -180,7 +180,8 @@ def test_printed_pdf_keeps_the_last_column(browser, pages, name, tables, tmp_pat
     # every isomer table's header row ends with 'sites'; the card field 'sites (ligand: site numbers)' is counted apart
     heads = [ln for ln in text.splitlines() if ln.split()[:1] == ["isomer"] and ln.rstrip().endswith("sites")]
     assert len(heads) >= tables, heads
-    assert "IUPAC name" in text and "NMR environments" in text
+    # narrow print columns may wrap a two-word header ('NMR' over 'environments'), so look for the words
+    assert "IUPAC name" in text and "environments" in text
 
 
 @pytest.mark.parametrize("name", ["ruthenium", "thirty"])
