@@ -80,9 +80,9 @@ def test_plots_leave_pyplot_alone():
     # drawing a spectrum must not load pyplot (its global figure list and backend switch) in the caller's process
     code = (
         "import sys;"
-        "from enumerator.render.plots import stick_spectrum;"
+        "from enumerator.render.plots import picture, stick_spectrum;"
         "from enumerator.vibrations.solver import Band;"
-        "stick_spectrum([Band(2000.0, 1.0, 'A1')]); stick_spectrum([Band(2000.0, 1.0, 'A1')], fmt='png');"
+        "picture(stick_spectrum([Band(2000.0, 1.0, 'A1')])); picture(stick_spectrum([Band(2000.0, 1.0, 'A1')]), 'png');"
         "print('matplotlib.pyplot' in sys.modules)"
     )
     out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True).stdout

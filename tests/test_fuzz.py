@@ -38,8 +38,9 @@ from enumerator.workflow.pipeline import Request, run
 RULES = load_rules()
 #: ISOSIEVE_FUZZ_SCALE=20 runs twenty times the examples (a deep run, not for the suite)
 SCALE = max(1, int(os.environ.get("ISOSIEVE_FUZZ_SCALE", "1") or 1))
-FAST = settings(max_examples=150 * SCALE, deadline=None, suppress_health_check=[HealthCheck.too_slow])
-SLOW = settings(max_examples=50 * SCALE, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+_LENIENT = [HealthCheck.too_slow, HealthCheck.filter_too_much]
+FAST = settings(max_examples=150 * SCALE, deadline=None, suppress_health_check=_LENIENT)
+SLOW = settings(max_examples=50 * SCALE, deadline=None, suppress_health_check=_LENIENT)
 
 # characters a chemist (or a bad paste) may type into a formula
 FORMULA_CHARS = "Mabcdefxyz ABCR()[]{}0123456789+-−·.,;η⁵'\"\\/\t_*#=@CNOPHClBrFeRuMonrig"

@@ -1,13 +1,13 @@
-"""The HTML report and its tables (the browser run is in test_browser.py)."""
+"""The HTML report and its files (the browser run is in test_browser.py)."""
 
 from __future__ import annotations
 
-import csv
-import io
+import json
 import re
 import xml.etree.ElementTree as ET
 from pathlib import Path
 
+import pandas as pd
 import pytest
 from _cli import cli
 
@@ -15,6 +15,7 @@ from enumerator.cli import main
 from enumerator.isomers.enumeration import enumerate_isomers
 from enumerator.model.composition import Composition, LigandKind
 from enumerator.render import tables
+from enumerator.render.drawing import JMOL_COLOURS
 from enumerator.render.report import pair_grid_html, polyhedron_svg, render_report, report_files
 from enumerator.rules.ruleset import load_rules
 from enumerator.workflow.pipeline import analyse
@@ -31,25 +32,98 @@ def _hostile():
     return Result(comp, geo, "OC-6 as requested", enumerate_isomers(comp, geo), notes=(HOSTILE,))
 
 
+@pytest.fixture(scope="module")
+def ru_page():
+    return render_report(build_report([("Ru-1", analyse("[RuCl2(CO)2(PPh3)2]")), analyse("M(AA)2b2")]))
+
+
 def test_user_strings_are_escaped():
-    page = render_report(build_report([_hostile()], title=HOSTILE))
+    page = render_report(build_report([(HOSTILE, _hostile())], title=HOSTILE))
     assert "<script" not in page and "<b onmouseover" not in page
     assert "&lt;script&gt;alert(1)&lt;/script&gt;" in page
-    assert "&quot;&gt;&lt;b onmouseover=x&gt;" in page
+    assert "&#34;&gt;&lt;b onmouseover=x&gt;" in page or "&quot;&gt;&lt;b onmouseover=x&gt;" in page
 
 
-def test_page_is_self_contained_and_deterministic():
+def test_page_is_self_contained_and_deterministic(ru_page):
     results = [analyse("[RuCl2(CO)2(PPh3)2]"), analyse("M(AA)2b2")]
-    a, b = render_report(build_report(results)), render_report(build_report(results))
-    assert a == b  # same input, same bytes
-    urls = set(re.findall(r"https?://[^\s\"'<>)]+", a))
+    assert render_report(build_report(results)) == render_report(build_report(results))  # same input, same bytes
+    urls = set(re.findall(r"https?://[^\s\"'<>)]+", ru_page))
     assert urls <= {"http://www.w3.org/2000/svg"}  # only the SVG namespace name, never fetched
     for bad in ("<link", "<script", "@import", "<iframe", 'src="http'):
-        assert bad not in a
-    assert "Safety" in a and "Carbon monoxide" in a  # the cautions of the safety module
-    assert (
-        a.count('class="card"') == 6 + 3
-    )  # Ma2b2c2-type 5 geometric/6 stereo; M(AA)2b2: trans + cis pair (common practice)
+        assert bad not in ru_page
+    assert "Safety" in ru_page and "Carbon monoxide" in ru_page  # the cautions of the safety module
+    # 5 geometric / 6 stereoisomers of [RuCl2(CO)2(PPh3)2]; M(AA)2b2: trans and the cis pair (common practice)
+    assert ru_page.count('class="card"') == 6 + 3
+
+
+def test_no_raw_data_on_the_page(ru_page):
+    text = re.sub(r"<[^>]+>", " ", re.sub(r'src="data:[^"]+"', "", ru_page.split("</style>", 1)[1]))
+    for raw in (
+        "null",
+        "true",
+        "false",
+        "None",
+        "True",
+        "False",
+        "_distinct",
+        "pairs_listed",
+        "{",
+        "descriptor_detail",
+    ):
+        assert raw not in text.split(), raw
+
+
+def test_nothing_repeated(ru_page):
+    # each IUPAC name once (the isomer table), the pair grid once, each section once per complex
+    name = "(OC-6-12)-dicarbonyldichloridobis(triphenylphosphane)ruthenium(II)"
+    assert ru_page.count(name) == 1
+    assert ru_page.count('class="grid"') == 2
+    for title in ("<h3>Metal centre</h3>", "<h3>Isomer table</h3>"):
+        assert ru_page.count(title) == 2 - (title == "<h3>Metal centre</h3>")  # letters have no metal centre
+
+
+def test_summary_comes_first_and_typesets(ru_page):
+    assert ru_page.index('id="summary"') < ru_page.index('id="complex-1"')
+    assert "[RuCl<sub>2</sub>(CO)<sub>2</sub>(PPh<sub>3</sub>)<sub>2</sub>]" in ru_page
+    assert "C<sub>2v</sub>" in ru_page and "B<sub>2u</sub>" in ru_page
+    # the all-trans isomer (D2h) is the one IR tells apart from the others by its single CO band
+    # (Cotton, Chemical Applications of Group Theory, 3rd ed., ch. 10; from memory)
+    assert "IR band counts tell apart 5 pair(s): 1a/5, 1b/5, 2/5, 3/5, 4/5" in ru_page
+
+
+def test_element_colours_are_jmols():
+    # Jmol's element colours as pymatgen ships them (pymatgen/vis/ElementColorSchemes.yaml)
+    from pymatgen.vis.structure_vtk import EL_COLORS
+
+    for el, rgb in EL_COLORS["Jmol"].items():
+        if el in JMOL_COLOURS:
+            assert JMOL_COLOURS[el] == "#{:02X}{:02X}{:02X}".format(*rgb), el
+    assert {"H", "C", "N", "O", "P", "Cl", "Fe", "Ru", "Pt"} <= set(JMOL_COLOURS)
+
+
+def test_structure_drawing_has_a_legend_and_a_ring():
+    from enumerator.render.drawing import donor_atoms, molecule_figure
+    from enumerator.structures.result import structure_set
+
+    res = analyse("[CpFe(CO)2Cl]")
+    s = structure_set(res).structures[0]
+    iso = res.isomers[0]
+    atoms = donor_atoms(s, [site.position for site in iso.sites])
+    fig = molecule_figure(s, [(site.ligand, (a,)) for site, a in zip(iso.sites, atoms)])
+    assert sorted(t.get_text() for t in fig.legends[0].get_texts()) == ["C", "Cl", "Fe", "O"]
+    ax = fig.axes[0]
+    # the five ring carbons are bonded in a ring (C5 cycle: 5 C-C bonds), and the ring is bound through one
+    # dashed line to its centroid instead of five M-C lines
+    dashed = [ln for ln in ax.lines if ln.get_linestyle() not in ("-", "solid")]
+    assert len(dashed) == 1
+    texts = [t for t in ax.texts if t.get_text() in ("Cp", "CO", "Cl")]
+    from matplotlib.backends.backend_agg import FigureCanvasAgg
+
+    renderer = FigureCanvasAgg(fig).get_renderer()
+    boxes = [t.get_window_extent(renderer) for t in texts]
+    for i in range(len(boxes)):
+        for j in range(i + 1, len(boxes)):
+            assert not boxes[i].overlaps(boxes[j]), (texts[i].get_text(), texts[j].get_text())
 
 
 def test_polyhedron_drawing_is_valid_svg_with_links():
@@ -84,13 +158,16 @@ def test_table_files_are_the_isomers_command_tables():
     # the report's CSV and LaTeX files come from the one writer of each kind (render/tables.py)
     res = analyse("[RuCl2(CO)2(PPh3)2]")
     files = dict(report_files(build_report([res])))
-    assert sorted(files) == ["01_RuCl2_CO_2_PPh3_2.csv", "01_RuCl2_CO_2_PPh3_2.tex", "report.html"]
-    assert files["01_RuCl2_CO_2_PPh3_2.csv"] == tables.csv(res)
-    assert files["01_RuCl2_CO_2_PPh3_2.tex"] == tables.latex(res)
-    rows = list(csv.reader(io.StringIO(files["01_RuCl2_CO_2_PPh3_2.csv"])))
-    assert rows[0][:4] == ["formula", "geometry", "isomer", "point group"] and rows[6][0].startswith("[RuCl2")
-    tex = files["01_RuCl2_CO_2_PPh3_2.tex"]
-    assert "\\begin{tabular}" in tex and "\\bottomrule" in tex and "$C_{2v}$" in tex
+    stem = "01_RuCl2_CO_2_PPh3_2"
+    assert sorted(files) == sorted(
+        [f"{stem}.csv", f"{stem}.csv-metadata.json", f"{stem}.tex", "README.txt", "report.html"]
+    )
+    assert files[f"{stem}.csv"] == tables.csv(res)
+    assert files[f"{stem}.tex"] == tables.latex(res)
+    meta = json.loads(files[f"{stem}.csv-metadata.json"])
+    assert any("Carbon monoxide" in x for x in meta["safety"]) and "Carbon monoxide" in files["README.txt"]
+    tex = files[f"{stem}.tex"]
+    assert "\\begin{longtable}" in tex and "\\bottomrule" in tex and "$C_{2v}$" in tex
     assert "M<script>alert(1)</script>6" in tables.latex(_hostile())  # LaTeX needs no HTML escaping
 
 
@@ -101,6 +178,7 @@ def test_report_model_holds_what_the_page_shows():
     assert [s.isomer_id for s in ru.spectra] == [i.id for i in ru.result.isomers]
     assert all(c.reporter_class == "CO" and c.pattern is not None for s in ru.spectra for c in s.classes)
     assert ab.spectra[0].classes == ()  # no reporter class on the letters
+    assert ru.structures is not None and ab.structures is None  # letters are drawn on the polyhedron
     doc = rep.to_dict()
     assert doc["files"] == list(rep.files) and doc["complexes"][0]["result"]["formula"] == "[RuCl2(CO)2(PPh3)2]"
 
@@ -113,8 +191,15 @@ def test_report_command(tmp_path, capsys):
         main(["report", str(job), "--out", str(out)])
     except SystemExit as exc:
         assert exc.code in (0, None)
-    assert sorted(p.name for p in out.iterdir()) == ["01_Ma4b2.csv", "01_Ma4b2.tex", "report.html"]
+    assert sorted(p.name for p in out.iterdir()) == [
+        "01_Ma4b2.csv",
+        "01_Ma4b2.csv-metadata.json",
+        "01_Ma4b2.tex",
+        "README.txt",
+        "report.html",
+    ]
     assert "<!DOCTYPE html>" in (out / "report.html").read_text()
+    assert len(pd.read_csv(out / "01_Ma4b2.csv")) == 2  # cis and trans Ma4b2 (common practice)
     bad = tmp_path / "bad.toml"
     bad.write_text("[[complex]]\ngeometry = 'OC-6'\n", encoding="utf-8")
     try:
@@ -144,3 +229,6 @@ def test_report_command_on_the_examples(tmp_path, job, complexes):
     assert page.count('<section id="complex-') == complexes
     assert len(list(out.glob("*.csv"))) == len(list(out.glob("*.tex"))) == complexes
     assert f"({complexes} complex(es))" in stdout
+    for f in out.glob("*.csv"):
+        df = pd.read_csv(f)  # the README's recipe: no options
+        assert {"formula", "geometry", "isomer", "point group"} <= set(df.columns) and len(df) >= 1

@@ -53,8 +53,13 @@ from enumerator.errors import InputError
 )
 @click.option("--json", "as_json", is_flag=True, help="Print one JSON document.")
 @click.option("--out", type=click.Path(dir_okay=False), help="Write the text or JSON to this file (atomically).")
+@click.option(
+    "--dpi", type=click.IntRange(10, 2400), default=150, show_default=True, help="Resolution of a .png --plot."
+)
 @click.pass_context
-def bands(ctx, formula, geometry, reporters, klass, isomer_id, constants, fit, fixes, ck, plot, width, as_json, out):
+def bands(
+    ctx, formula, geometry, reporters, klass, isomer_id, constants, fit, fixes, ck, plot, width, dpi, as_json, out
+):
     """Predict the stretching bands of every isomer of FORMULA from an
     energy-factored (Cotton-Kraihanzel) force field, with relative IR
     intensities and symmetry species; optionally fit the constants.
@@ -81,17 +86,21 @@ def bands(ctx, formula, geometry, reporters, klass, isomer_id, constants, fit, f
         reporters=parse_pairs(reporters, "--reporter", "a=CO"),
         rules=rules_of(ctx),
     )
-    result = predict_spectra(
-        request,
-        reporter_class=klass,
-        isomer_id=isomer_id,
-        constants=parse_constants(constants) if constants else None,
-        measured=parse_bands(fit, "--fit") if fit else None,
-        fixed=_fixed(fixes) if fit else None,
-        tie_ck=ck,
-    )
+    from enumerator.cli.progress import bar
+
+    with bar("bands --fit" if fit else "bands") as progress:
+        result = predict_spectra(
+            request,
+            reporter_class=klass,
+            isomer_id=isomer_id,
+            constants=parse_constants(constants) if constants else None,
+            measured=parse_bands(fit, "--fit") if fit else None,
+            fixed=_fixed(fixes) if fit else None,
+            tie_ck=ck,
+            progress=progress,
+        )
     if plot:
-        write_atomic_bytes(plot, bands_plot(result, format_for(plot), width))
+        write_atomic_bytes(plot, bands_plot(result, format_for(plot), width, dpi))
     emit(dumps(result.to_dict()) if as_json else bands_text(result), out)
 
 

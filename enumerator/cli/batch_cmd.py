@@ -36,11 +36,15 @@ def batch(
       isosieve batch formulas.txt
       isosieve batch screen.csv --workers 2 --format csv --out results.csv
     """
+    from enumerator.cli.progress import bar
     from enumerator.errors import InputError
     from enumerator.render.batch import render_batch
     from enumerator.workflow.batch import screen_file
 
-    result = screen_file(file, rules=rules_of(ctx), workers=workers, geometry=geometry, limit=limit)
+    with bar("batch") as progress:
+        result = screen_file(
+            file, rules=rules_of(ctx), workers=workers, geometry=geometry, limit=limit, progress=progress
+        )
     emit(render_batch(result, fmt), out)
     if result.failed:
         bad = ", ".join(str(r.index + 1) for r in result.failed)

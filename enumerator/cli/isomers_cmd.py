@@ -6,7 +6,7 @@ from typing import TYPE_CHECKING
 
 import click
 
-from enumerator.cli.common import emit, parse_pairs, rules_of
+from enumerator.cli.common import parse_pairs, rules_of
 
 if TYPE_CHECKING:
     from enumerator.parse.request import Request
@@ -89,7 +89,12 @@ def _run(req: Request, partial: bool) -> tuple[Result, bool]:
                     found.append(iso)
                     bar.update(1)
 
-                return run(req, on_isomer=step), False
+                def stage(name: str, done: int, total: int) -> None:
+                    bar.label = f"analysing ({name}, {done}/{total})"
+                    bar.render_progress()
+
+                res = run(req, on_isomer=step, progress=stage)
+            return res, False
         return run(req, on_isomer=found.append), False
     except KeyboardInterrupt:
         if not partial or not found:
@@ -175,7 +180,6 @@ def isomers(ctx, formula, geometry, as_json, fmt, out, spans, arrangements, repo
     """
     import sys
 
-    from enumerator.render.result import render_result
     from enumerator.workflow.pipeline import Request
 
     req = Request(
@@ -190,7 +194,9 @@ def isomers(ctx, formula, geometry, as_json, fmt, out, spans, arrangements, repo
     )
     try:
         res, interrupted = _run(req, partial)
-        emit(render_result(res, "json" if as_json else fmt), out)
+        from enumerator.cli.table_output import emit_result
+
+        emit_result(res, "json" if as_json else fmt, out)
     except KeyboardInterrupt:
         click.echo("isosieve: interrupted; nothing written (give --partial to keep what was found)", err=True)
         sys.exit(130)

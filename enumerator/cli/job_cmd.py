@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import click
 
-from enumerator.cli.common import emit, rules_of, write_atomic
+from enumerator.cli.common import rules_of, write_atomic
 from enumerator.parse.job import FORMATS
 
 
@@ -27,13 +27,19 @@ def job(ctx: click.Context, file: str, fmt: str, out: str | None, write_outputs:
       isosieve job examples/ruthenium/ru_dicarbonyl.toml --format latex --out si_table.tex
       isosieve job examples/iron/fe_cyanide_nitrosyl.toml --write
     """
+    from enumerator.cli.progress import bar
     from enumerator.errors import InputError
     from enumerator.render.job import job_files, render_job
     from enumerator.workflow.job import run_job_file
 
-    result = run_job_file(file, rules_of(ctx))
+    with bar("job") as progress:
+        result = run_job_file(file, rules_of(ctx), progress)
     if not write_outputs:
-        emit(render_job(result, fmt), out)
+        from enumerator.cli.table_output import emit_table
+        from enumerator.render.job import job_cautions
+
+        frame = result.to_dataframe() if fmt == "csv" else None
+        emit_table(render_job(result, fmt), out, fmt, frame, title=result.title, cautions=job_cautions(result))
         return
     if not result.outputs:
         raise InputError(

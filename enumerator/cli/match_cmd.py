@@ -52,8 +52,11 @@ from enumerator.errors import InputError
 )
 @click.option("--json", "as_json", is_flag=True, help="Print one JSON document.")
 @click.option("--out", type=click.Path(dir_okay=False), help="Write the text or JSON to this file (atomically).")
+@click.option(
+    "--dpi", type=click.IntRange(10, 2400), default=150, show_default=True, help="Resolution of a .png --plot."
+)
 @click.pass_context
-def match(ctx, formula, bands_text, tolerance, weak, geometry, reporters, klass, plot, as_json, out):
+def match(ctx, formula, bands_text, tolerance, weak, geometry, reporters, klass, plot, dpi, as_json, out):
     """Rank the isomers of FORMULA by how well they explain measured
     stretching bands: band count (allowing weak or coincident bands) and
     pattern fit after one common shift of the stretching constants, and,
@@ -91,5 +94,5 @@ def match(ctx, formula, bands_text, tolerance, weak, geometry, reporters, klass,
         weak=weak,
     )
     if plot:
-        write_atomic_bytes(plot, match_plot(report, format_for(plot)))
+        write_atomic_bytes(plot, match_plot(report, format_for(plot), dpi))
     emit(dumps(report.to_dict()) if as_json else match_text(report), out)

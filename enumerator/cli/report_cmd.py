@@ -22,7 +22,9 @@ from enumerator.cli.common import rules_of, write_atomic
 @click.pass_context
 def report(ctx: click.Context, job: str, out_dir: str, title: str | None) -> None:
     """Write DIR/report.html for the complexes of JOB, with the isomer tables
-    beside it as LaTeX (.tex) and CSV (.csv), one pair per complex.
+    beside it as LaTeX (.tex) and plain CSV (.csv, with a .csv-metadata.json
+    sidecar holding the cautions and column meanings), one set per complex,
+    and a README.txt saying what each file is.
 
     The page needs no network (inline CSS and SVG, no scripts).  JOB is a
     job file as for 'isosieve job'; a minimal one:
@@ -40,12 +42,17 @@ def report(ctx: click.Context, job: str, out_dir: str, title: str | None) -> Non
       isosieve report job.toml --out si
       isosieve --rules mylib report job.toml --out si --title "SI tables"
     """
+    from enumerator.cli.progress import bar
     from enumerator.render.report import report_files
     from enumerator.workflow.report import report_from_job
 
-    built = report_from_job(job, rules_of(ctx), title)
+    with bar("report") as progress:
+        built = report_from_job(job, rules_of(ctx), title, progress)
+        progress("writing the page", 0, 1)
+        files = report_files(built)
+        progress("writing the page", 1, 1)
     folder = Path(out_dir)
     folder.mkdir(parents=True, exist_ok=True)
-    for name, text in report_files(built):
+    for name, text in files:
         write_atomic(folder / name, text)
     click.echo(f"{folder / 'report.html'}  ({len(built.complexes)} complex(es)); tables: {', '.join(built.files)}")

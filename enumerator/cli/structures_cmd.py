@@ -65,17 +65,20 @@ def structures(
       isosieve structures "[Mo(CO)3(PMe3)3]" --out mo --format sdf
       isosieve structures Ma2b2c2 --out core
     """
+    from enumerator.cli.progress import bar
     from enumerator.render.structures import structure_files, structure_listing
     from enumerator.workflow.queries import formula_structures
 
-    built = formula_structures(
-        formula,
-        geometry=geometry,
-        spans=parse_pairs(spans, "--span", "AA=trans"),
-        arrangements=parse_pairs(arrangements, "--arrangement", "AAA=fac"),
-        limit=limit,
-        rules=rules_of(ctx),
-    )
+    with bar("structures") as progress:
+        built = formula_structures(
+            formula,
+            geometry=geometry,
+            spans=parse_pairs(spans, "--span", "AA=trans"),
+            arrangements=parse_pairs(arrangements, "--arrangement", "AAA=fac"),
+            limit=limit,
+            rules=rules_of(ctx),
+            progress=progress,
+        )
     folder = Path(out_dir)
     folder.mkdir(parents=True, exist_ok=True)
     for name, text in structure_files(built, fmt):

@@ -11,7 +11,7 @@ from __future__ import annotations
 
 from collections.abc import Sequence
 
-from enumerator.render.plots import spectra_figure
+from enumerator.render.plots import picture, spectra_figure
 from enumerator.render.text import table
 from enumerator.vibrations.fitting import FitResult
 from enumerator.vibrations.matching import MatchResult
@@ -127,7 +127,11 @@ def match_text(report: MatchReport) -> str:
 def bands_panels(result: BandsResult) -> list[tuple[str, tuple[Band, ...]]]:
     """(title, bands) per isomer and class, as :func:`bands_plot` draws them."""
     return [
-        (f"isomer {e.label} ({e.point_group}) {cb.reporter_class}", cb.pattern.bands)
+        (
+            f"{result.formula} isomer {e.label} ({', '.join(x for x in (e.point_group, e.descriptor) if x)}) "
+            f"{cb.reporter_class}",
+            cb.pattern.bands,
+        )
         for e in result.isomers
         for cb in e.patterns
     ]
@@ -136,12 +140,16 @@ def bands_panels(result: BandsResult) -> list[tuple[str, tuple[Band, ...]]]:
 def match_panels(report: MatchReport) -> list[tuple[str, tuple[Band, ...]]]:
     """(title, shifted bands) per candidate, as :func:`match_plot` draws them."""
     return [
-        (f"#{c.rank} isomer {'/'.join(c.isomers)} ({c.point_group}), shift {c.shift:+.2f} mdyn/Å", c.shifted)
+        (
+            f"{report.formula} #{c.rank} isomer {'/'.join(c.isomers)} "
+            f"({', '.join(x for x in (c.point_group, c.descriptor) if x)}), shift {c.shift:+.2f} mdyn/Å",
+            c.shifted,
+        )
         for c in report.match.candidates
     ]
 
 
-def bands_plot(result: BandsResult, fmt: str = "svg", width_cm1: float = 10.0) -> bytes:
+def bands_plot(result: BandsResult, fmt: str = "svg", width_cm1: float = 10.0, dpi: int = 150) -> bytes:
     """Stick spectra of every isomer and class, with the fitted bands as measured lines.
 
     Parameters
@@ -158,10 +166,10 @@ def bands_plot(result: BandsResult, fmt: str = "svg", width_cm1: float = 10.0) -
         The picture (SVG byte-deterministic).
     """
     measured = list(result.measured) if result.measured else None
-    return spectra_figure(bands_panels(result), measured=measured, fmt=fmt, width_cm1=width_cm1)
+    return picture(spectra_figure(bands_panels(result), measured=measured, width_cm1=width_cm1), fmt, dpi)
 
 
-def match_plot(report: MatchReport, fmt: str = "svg") -> bytes:
+def match_plot(report: MatchReport, fmt: str = "svg", dpi: int = 150) -> bytes:
     """Each candidate's shifted prediction over the measured bands.
 
     The Lorentzian width is the match tolerance.
@@ -178,4 +186,4 @@ def match_plot(report: MatchReport, fmt: str = "svg") -> bytes:
         The picture (SVG byte-deterministic).
     """
     res = report.match
-    return spectra_figure(match_panels(report), measured=list(res.measured), fmt=fmt, width_cm1=res.tolerance)
+    return picture(spectra_figure(match_panels(report), measured=list(res.measured), width_cm1=res.tolerance), fmt, dpi)

@@ -4,14 +4,17 @@
 panel per isomer.  Measured bands, when given, are drawn as dashed vertical
 lines.  Wavenumbers run from high to low, as chemists draw IR spectra.
 
-The figures are drawn on a bare :class:`matplotlib.figure.Figure`, not through
-pyplot, so no global backend or figure list is touched.  SVG output is
-deterministic (``svg.hashsalt`` fixed, no date, text kept as text), so the
-same input gives the same bytes.
+Both return a bare :class:`matplotlib.figure.Figure` (not through pyplot, so no
+global backend or figure list is touched; a notebook shows it inline) and draw
+into given axes when asked (``ax=`` / ``axes=``); :func:`picture` writes a figure
+as SVG (deterministic: ``svg.hashsalt`` fixed, no date, text kept as text) or
+PNG at a chosen resolution.  Each panel has axes with units, a legend
+(predicted bands, envelope, measured bands) and its title.
 
 >>> from enumerator.vibrations.solver import Band
->>> stick_spectrum([Band(2045.0, 0.4, "A1"), Band(1980.0, 1.0, "E")])[:5]
-b'<?xml'
+>>> fig = stick_spectrum([Band(2045.0, 0.4, "A1"), Band(1980.0, 1.0, "E")], title="[Cr(CO)5(PPh3)] C4v")
+>>> fig.axes[0].get_xlabel(), picture(fig)[:5]
+('wavenumber / cm$^{-1}$', b'<?xml')
 """
 
 from __future__ import annotations
@@ -20,13 +23,19 @@ import io
 from collections.abc import Sequence
 from os import PathLike
 from pathlib import Path
+from typing import TYPE_CHECKING
 
 import numpy as np
 
 from enumerator.errors import InputError
+from enumerator.render.drawing import plain_text
 from enumerator.vibrations.solver import Band
 
-__all__ = ["stick_spectrum", "spectra_figure", "lorentzian_trace", "format_for"]
+if TYPE_CHECKING:
+    from matplotlib.axes import Axes
+    from matplotlib.figure import Figure
+
+__all__ = ["stick_spectrum", "spectra_figure", "picture", "lorentzian_trace", "format_for"]
 
 
 def format_for(path: str | PathLike[str], option: str = "--plot") -> str:
@@ -82,27 +91,43 @@ def lorentzian_trace(bands: Sequence[Band], x: np.ndarray, width_cm1: float) -> 
     return y
 
 
-def _panel(ax, title: str, bands: Sequence[Band], x: np.ndarray, measured: Sequence[float], width_cm1: float) -> None:
-    ax.plot(x, lorentzian_trace(bands, x, width_cm1), color="black", lw=1.0)
+def _panel(
+    ax: Axes, title: str, bands: Sequence[Band], x: np.ndarray, measured: Sequence[float], width_cm1: float
+) -> None:
+    ax.plot(
+        x,
+        lorentzian_trace(bands, x, width_cm1),
+        color="black",
+        lw=1.0,
+        label=f"envelope (FWHM {width_cm1:g} cm$^{{-1}}$)",
+    )
+    if bands:
+        pos, height = [b.wavenumber for b in bands], [b.intensity for b in bands]
+        ax.vlines(pos, 0, height, color="tab:blue", lw=1.5, label="predicted band")
     for b in bands:
-        ax.vlines(b.wavenumber, 0, b.intensity, color="tab:blue", lw=1.5)
         if b.intensity > 0 and b.species:
-            ax.text(b.wavenumber, b.intensity + 0.03, b.species, ha="center", va="bottom", fontsize=7)
-    for m in measured:
-        ax.axvline(m, color="tab:red", ls="--", lw=0.8)
-    ax.set_title(title, fontsize=9, loc="left")
+            ax.text(b.wavenumber, b.intensity + 0.03, plain_text(b.species), ha="center", va="bottom", fontsize=7)
+    for k, m in enumerate(measured):
+        ax.axvline(m, color="tab:red", ls="--", lw=0.8, label="measured" if k == 0 else None)
+    ax.set_title(plain_text(title), fontsize=9, loc="left")
     ax.set_ylim(0, 1.25)
-    ax.set_ylabel("rel. intensity")
+    ax.set_ylabel("rel. IR intensity")
+    ax.legend(fontsize=6.5, loc="upper left", frameon=False)
+
+
+def _range(panels: Sequence[tuple[str, Sequence[Band]]], measured: Sequence[float]) -> tuple[float, float]:
+    pos = [b.wavenumber for _, bands in panels for b in bands] + list(measured)
+    return (min(pos) - 60, max(pos) + 60) if pos else (1800.0, 2200.0)
 
 
 def spectra_figure(
     panels: Sequence[tuple[str, Sequence[Band]]],
     *,
     measured: Sequence[float] | None = None,
-    fmt: str = "svg",
     width_cm1: float = 10.0,
-) -> bytes:
-    """Stick spectra, one panel per (title, bands), on a shared wavenumber axis.
+    axes: Sequence[Axes] | None = None,
+) -> Figure:
+    """Stick spectra, one panel per (title, bands), on a shared wavenumber axis (high to low, cm-1).
 
     Parameters
     ----------
@@ -110,52 +135,43 @@ def spectra_figure(
         A title and the bands of each panel, top to bottom.
     measured : Sequence[float], optional
         Measured wavenumbers (cm-1), drawn as red dashed lines in every panel.
-    fmt : str
-        'svg' or 'png'.
     width_cm1 : float
         Lorentzian full width at half maximum, cm-1.
+    axes : sequence of matplotlib Axes, optional
+        Draw into these (one per panel) instead of a new figure.
 
     Returns
     -------
-    bytes
-        The SVG or PNG file.
-
-    Raises
-    ------
-    InputError
-        For a format other than svg or png.
+    matplotlib.figure.Figure
+        A bare Figure (no pyplot): show it in a notebook, or write it with :func:`picture`.
     """
-    if fmt not in ("svg", "png"):
-        raise InputError(f"plot format '{fmt}' is not svg or png", "name the file .svg or .png")
-    import matplotlib
     from matplotlib.figure import Figure
 
-    pos = [b.wavenumber for _, bands in panels for b in bands] + list(measured or [])
-    lo, hi = (min(pos) - 60, max(pos) + 60) if pos else (1800.0, 2200.0)
+    lo, hi = _range(panels, measured or [])
     x = np.linspace(lo, hi, 2000)
-    with matplotlib.rc_context({"svg.hashsalt": "isosieve", "svg.fonttype": "none", "font.size": 9}):
-        fig = Figure(figsize=(6.0, 1.8 * max(1, len(panels))))
-        axes = fig.subplots(len(panels) or 1, 1, squeeze=False, sharex=True)
-        for ax, (title, bands) in zip(axes[:, 0], panels):
-            _panel(ax, title, bands, x, measured or [], width_cm1)
-        axes[-1, 0].set_xlim(hi, lo)
-        axes[-1, 0].set_xlabel("wavenumber / cm$^{-1}$")
-        fig.tight_layout()
-        buf = io.BytesIO()
-        meta = {"Date": None} if fmt == "svg" else {"Software": None}
-        fig.savefig(buf, format=fmt, metadata=meta, dpi=150)
-    return buf.getvalue()
+    if axes is None:
+        fig = Figure(figsize=(6.0, 1.9 * max(1, len(panels))), layout="tight")
+        grid = fig.subplots(len(panels) or 1, 1, squeeze=False, sharex=True)
+        axes = list(grid[:, 0])
+    else:
+        fig = axes[0].get_figure()  # type: ignore[assignment]
+    for ax, (title, bands) in zip(axes, panels):
+        _panel(ax, title, bands, x, measured or [], width_cm1)
+    for ax in axes:
+        ax.set_xlim(hi, lo)
+    axes[-1].set_xlabel("wavenumber / cm$^{-1}$")
+    return fig
 
 
 def stick_spectrum(
     bands: Sequence[Band],
     *,
     measured: Sequence[float] | None = None,
-    fmt: str = "svg",
     width_cm1: float = 10.0,
     title: str = "",
-) -> bytes:
-    """One stick spectrum: :func:`spectra_figure` with a single panel.
+    ax: Axes | None = None,
+) -> Figure:
+    """One stick spectrum: :func:`spectra_figure` with a single panel, drawn into ``ax`` when given.
 
     Parameters
     ----------
@@ -163,16 +179,50 @@ def stick_spectrum(
         Bands with ``wavenumber``, ``intensity`` and ``species``.
     measured : Sequence[float], optional
         Measured wavenumbers (cm-1), drawn as red dashed lines.
-    fmt : str
-        'svg' or 'png'.
     width_cm1 : float
         Lorentzian full width at half maximum, cm-1.
     title : str
-        Panel title.
+        Panel title (the formula and the isomer's descriptor, as the report and the CLI write it).
+    ax : matplotlib Axes, optional
+        Draw here instead of a new figure.
+
+    Returns
+    -------
+    matplotlib.figure.Figure
+    """
+    return spectra_figure(
+        [(title, list(bands))], measured=measured, width_cm1=width_cm1, axes=None if ax is None else [ax]
+    )
+
+
+def picture(fig: Figure, fmt: str = "svg", dpi: int = 150) -> bytes:
+    """A figure as an SVG or PNG file (SVG byte-deterministic: fixed ids, no date, text kept as text).
+
+    Parameters
+    ----------
+    fig : matplotlib.figure.Figure
+    fmt : str
+        'svg' or 'png'.
+    dpi : int
+        Resolution of a PNG (dots per inch).
 
     Returns
     -------
     bytes
-        The SVG or PNG file.
+
+    Raises
+    ------
+    InputError
+        For a format other than svg or png, or a resolution below 10 or above 2400 dpi.
     """
-    return spectra_figure([(title, list(bands))], measured=measured, fmt=fmt, width_cm1=width_cm1)
+    if fmt not in ("svg", "png"):
+        raise InputError(f"plot format '{fmt}' is not svg or png", "name the file .svg or .png")
+    if not 10 <= dpi <= 2400:
+        raise InputError(f"--dpi {dpi} is outside 10-2400", "give e.g. --dpi 300")
+    import matplotlib
+
+    buf = io.BytesIO()
+    with matplotlib.rc_context({"svg.hashsalt": "isosieve", "svg.fonttype": "none"}):
+        meta = {"Date": None} if fmt == "svg" else {"Software": None}
+        fig.savefig(buf, format=fmt, metadata=meta, dpi=dpi)
+    return buf.getvalue()

@@ -1,31 +1,26 @@
 """The self-contained HTML report for supporting information, formatted from a
-:class:`~enumerator.workflow.report.Report`.
+:class:`~enumerator.workflow.report.Report` through a Jinja2 template.
 
 Everything shown is computed before, by :mod:`enumerator.workflow.report`
-(results, band patterns, cautions, file names, version); this module only
-formats it.  :func:`render_report` writes one HTML page that needs no
-network: inline CSS, inline SVG and ``data:`` images only, no scripts, no
-web fonts.  For each complex it shows the isomer table (every analysis's
-columns), then one card per isomer with
+(results, band patterns, 3D starting structures, cautions, file names,
+version); this module only formats it, into ``templates/report.html.j2`` with
+the screen-and-print style sheet ``templates/report.css``.  The page needs no
+network: inline CSS, images as ``data:`` URIs, no scripts, no web fonts.
 
-* a drawing of the ideal polyhedron (:func:`polyhedron_svg`: an oblique
-  projection of the site vectors with the polyhedron edges, the M-donor
-  bonds, the donor labels and the chelate/ring links, drawn here);
-* its point group, IUPAC descriptor, stretch species and band counts and
-  any other per-isomer keys the analyses add (read through the Analysis
-  protocol, so a new analysis shows up without a change here);
-* its predicted stick spectrum per reporter class, drawn by
-  :func:`enumerator.render.plots.stick_spectrum`, with the band list;
+The page opens with a summary (per complex: the isomers and their point
+groups, which technique tells which pairs apart, the predicted IR-active
+bands, the cautions), then the details of each complex once each: the isomer
+table (every column of the written tables, symbols and formulas typeset), the
+pair grid, one card per isomer (a drawing, every field under a human label,
+the predicted stick spectrum with axes, units and legend, and its band list),
+the metal centre, the descriptor basis and the spectroscopy notes.  Drawings
+of real formulas are the 3D starting structures in element colours
+(:mod:`enumerator.render.drawing`); a letter formula is drawn on its ideal
+polyhedron (:func:`polyhedron_svg`) with a colour legend.
 
-then the pair matrix (top-level ``pairs``) as a grid whose cells carry
-text and a fill pattern as well as a colour, so it reads in greyscale, and
-every analysis's text sections (safety cautions first and boxed).
-:func:`report_files` adds each complex's CSV and LaTeX table, written by
-:mod:`enumerator.render.tables` as ``isosieve isomers`` writes them.
-
-Every string that can come from a user (formulae, ligand names from user
-rule files, notes) goes through :func:`html.escape`.  The same input gives
-byte-identical output.
+Jinja2 escapes every string that can come from a user (formulae, ligand names
+from user rule files, labels, notes); the typeset pieces are built from escaped
+text.  The same input gives byte-identical output.
 
 >>> from enumerator.workflow.pipeline import analyse
 >>> from enumerator.workflow.report import build_report
@@ -38,20 +33,27 @@ from __future__ import annotations
 
 import base64
 import html
-import json
 import math
 from collections.abc import Mapping, Sequence
 from typing import Any
 
+from markupsafe import Markup
+
+from enumerator.analyses.centre import CentreAnalysis
+from enumerator.analyses.descriptors import DescriptorAnalysis
+from enumerator.analyses.safety import SafetyAnalysis
+from enumerator.analyses.stretch import StretchAnalysis
 from enumerator.isomers.enumeration import Isomer
 from enumerator.render import tables
-from enumerator.render.plots import stick_spectrum
-from enumerator.render.sections import result_sections
-from enumerator.render.text import isomer_rows
-from enumerator.workflow.report import ClassSpectrum, IsomerSpectra, Report, ReportComplex
+from enumerator.render.drawing import donor_atoms, figure_svg, molecule_figure
+from enumerator.render.plots import picture, stick_spectrum
+from enumerator.render.sections import sections
+from enumerator.render.typeset import formula_html, html_species, html_symbol, nucleus_html
+from enumerator.structures.structure import Structure
+from enumerator.workflow.report import ClassSpectrum, Report, ReportComplex
 from enumerator.workflow.result import Result
 
-__all__ = ["render_report", "report_files", "polyhedron_svg", "pair_grid_html"]
+__all__ = ["render_report", "report_files", "polyhedron_svg", "pair_grid_html", "report_readme"]
 
 #: Fill colours for ligand kinds, chosen to differ in lightness too.
 _PALETTE = (
@@ -65,46 +67,6 @@ _PALETTE = (
     "#17becf",
     "#bcbd22",
     "#7f7f7f",
-)
-
-#: The page's style sheet, one rule set a line.
-_CSS = "\n".join(
-    (
-        "",
-        "body{font-family:system-ui,-apple-system,'Segoe UI',Helvetica,Arial,sans-serif;"
-        "margin:1.5rem auto;max-width:75rem;color:#111;background:#fff;line-height:1.35;"
-        "padding:0 1rem}",
-        "h1{font-size:1.6rem;margin:.2rem 0}h2{font-size:1.3rem;border-bottom:2px solid #333;"
-        "margin-top:2rem}h3{font-size:1.05rem;margin:.3rem 0}",
-        "table{border-collapse:collapse;margin:.5rem 0}th,td{border:1px solid #888;"
-        "padding:.15rem .45rem;text-align:left;vertical-align:top;font-size:.9rem}",
-        "th{background:#eee}",
-        ".meta{color:#333;font-size:.9rem}",
-        ".caution{border:3px solid #000;background:#fff3cd;padding:.4rem .8rem;margin:.8rem 0}",
-        '.caution h3::before{content:"\\26A0  "}',
-        ".cards{display:block}",
-        ".card{border:1px solid #666;border-radius:4px;padding:.5rem;margin:.8rem 0;"
-        "display:grid;grid-template-columns:250px minmax(0,1fr);gap:.4rem 1rem;break-inside:avoid}",
-        ".card h3{grid-column:1/-1}",
-        ".card dl{display:grid;grid-template-columns:max-content minmax(0,1fr);gap:.1rem .6rem;"
-        "margin:0;font-size:.88rem}",
-        ".card dt{font-weight:600}.card dd{margin:0;overflow-x:auto;overflow-wrap:break-word}",
-        ".card dd table th,.card dd table td{font-size:.78rem;padding:.05rem .3rem}",
-        ".specs{grid-column:1/-1;display:flex;flex-wrap:wrap;gap:1rem}",
-        ".spec{width:24rem}.spec img,.spec svg{width:100%;height:auto}",
-        "pre{white-space:pre-wrap;font-size:.85rem;background:#f6f6f6;padding:.4rem;border:1px solid #ddd}",
-        "code{font-size:.85rem}",
-        ".grid td{text-align:center;min-width:4.2rem;font-size:.8rem}",
-        ".grid .d0{background:repeating-linear-gradient(45deg,#fff 0 4px,#bbb 4px 6px);font-weight:700}",
-        ".grid .d1{background:#fde0c5}",
-        ".grid .d2{background:#f59e5a}",
-        ".grid .d3{background:#a4471a;color:#fff}",
-        ".grid .self{background:#fff;color:#000}",
-        ".grid .na{background:#fff;color:#555}",
-        ".legend span{display:inline-block;border:1px solid #888;padding:0 .4rem;margin-right:.4rem;font-size:.8rem}",
-        "footer{margin-top:2rem;font-size:.8rem;color:#333}",
-        "",
-    )
 )
 
 
@@ -231,33 +193,6 @@ def _label(x: float, y: float, text: str, size: int, italic: bool = False, grey:
         f'<text x="{_num(x)}" y="{_num(y)}" text-anchor="middle" font-size="{size}"{style} fill="{fill}" '
         f'stroke="#fff" stroke-width="3" paint-order="stroke">{_e(t)}</text>'
     )
-
-
-# ---------------------------------------------------------------- spectra
-def _spectrum_html(iso_id: str, spec: ClassSpectrum) -> str:
-    cls = spec.reporter_class
-    if spec.pattern is None:
-        return f'<p class="meta">{_e(cls)} bands: not predicted ({_e(spec.error)})</p>'
-    bands = spec.pattern.bands
-    data = base64.b64encode(stick_spectrum(bands, fmt="svg")).decode("ascii")
-    img = (
-        f'<img alt="predicted {_e(cls)} stick spectrum of isomer {_e(iso_id)}" src="data:image/svg+xml;base64,{data}">'
-    )
-    rows = "".join(
-        f"<tr><td>{_num(b.wavenumber, 0)}</td><td>{_e(b.species or '-')}</td><td>{_num(b.intensity, 2)}</td></tr>"
-        for b in bands
-    )
-    return (
-        f'<div class="spec"><h3>predicted {_e(cls)} stretches</h3>{img}'
-        f"<table><tr><th>cm\u207b\u00b9</th><th>species</th><th>rel. IR intensity</th></tr>{rows}</table></div>"
-    )
-
-
-# ---------------------------------------------------------------- tables
-def _table_html(header: Sequence[str], rows: Sequence[Sequence[str]]) -> str:
-    head = "".join(f"<th>{_e(h)}</th>" for h in header)
-    body = "".join("<tr>" + "".join(f"<td>{_e(c)}</td>" for c in r) + "</tr>" for r in rows)
-    return f"<table><thead><tr>{head}</tr></thead><tbody>{body}</tbody></table>"
 
 
 # ---------------------------------------------------------------- pair grid
@@ -390,146 +325,280 @@ def pair_grid_html(ids: Sequence[str], pairs: Any) -> str:
     )
 
 
-# ---------------------------------------------------------------- generic values
-def _value_html(v: Any) -> str:
-    if isinstance(v, str):
-        return _e(v)
-    if isinstance(v, bool) or v is None:
-        return _e(json.dumps(v))
-    if isinstance(v, (int, float)):
-        return _e(_num(v, 4).rstrip("0").rstrip(".") if isinstance(v, float) else v)
-    if isinstance(v, Mapping) and v and all(isinstance(x, Mapping) for x in v.values()):
-        keys: list[str] = []
-        for x in v.values():
-            for k in x:
-                if k not in keys:
-                    keys.append(k)
-        head = "".join(f"<th>{_e(k)}</th>" for k in keys)
-        body = "".join(
-            f"<tr><th>{_e(name)}</th>" + "".join(f"<td>{_value_html(x.get(k, ''))}</td>" for k in keys) + "</tr>"
-            for name, x in v.items()
-        )
-        return f"<table><tr><th></th>{head}</tr>{body}</table>"
-    if isinstance(v, Mapping):
-        return "; ".join(f"{_e(k)}: {_value_html(x)}" for k, x in v.items())
-    if isinstance(v, (list, tuple)) and all(not isinstance(x, (Mapping, list, tuple)) for x in v):
-        return _e(", ".join(str(x) for x in v))
-    return f"<code>{_e(json.dumps(v, ensure_ascii=False, sort_keys=True))}</code>"
+# ---------------------------------------------------------------- typeset cells
+_HTML_CELL = {"symbol": html_symbol, "species": html_species, "formula": formula_html}
+_MAX_GRID = 12
+_MAX_LISTED = 12
 
 
-def _descriptor_text(v: Any) -> str:
-    if isinstance(v, str):
-        return v
-    if isinstance(v, Mapping):
-        return str(v.get("text", ""))
-    return ""
+def _cell_html(kind: str, value: Any) -> Markup:
+    text = tables.cell_text(value)
+    f = _HTML_CELL.get(kind)
+    return Markup(f(text) if f and text else nucleus_html(text))
 
 
-_CAUTION_WORDS = ("safety", "caution", "hazard", "danger", "warning")
-
-
-def _is_caution(title: str) -> bool:
-    t = title.lower()
-    return any(w in t for w in _CAUTION_WORDS)
-
-
-# ---------------------------------------------------------------- page
-def _caution_blocks(c: ReportComplex) -> tuple[list[str], list[str]]:
-    """(boxed caution blocks, other section blocks) of one complex.
-
-    Sections whose title speaks of safety are boxed; when the pipeline attached none, the cautions of the
-    composition are boxed instead."""
-    cautions: list[str] = []
-    sections: list[str] = []
-    for sec in result_sections(c.result):
-        block = f"<h3>{_e(sec.title)}</h3><pre>{_e(sec.text)}</pre>"
-        (cautions if _is_caution(sec.title) else sections).append(block)
-    if not cautions and c.cautions:
-        cautions.append("<h3>Safety</h3><pre>" + _e("\n".join(f"- {x}" for x in c.cautions)) + "</pre>")
-    return cautions, sections
-
-
-def _meta_html(res: Result) -> list[str]:
-    iso_set = res.isomer_set
-    out = [
-        f'<p class="meta">geometry {_e(res.geometry.symbol)} ({_e(res.geometry.name)}): {_e(res.geometry_reason)}<br>'
-        f"{iso_set.geometric_isomers} geometric isomer(s), {iso_set.stereoisomers} stereoisomer(s)"
-        + ("" if iso_set.complete else " (list stopped at the limit)")
-        + "</p>"
+def _isomer_table(res: Result) -> tuple[list[Markup], list[list[tuple[str, Markup]]]]:
+    """The header and the rows of (kind, typeset cell); the kind is the cell's class (how it may wrap)."""
+    df = res.to_dataframe()
+    kinds = df.attrs.get("kinds", {})
+    cols = [c for c in df.columns if c not in ("formula", "geometry")]
+    head = [Markup(nucleus_html(c)) for c in cols]
+    rows = [
+        [(kinds.get(c, "text"), _cell_html(kinds.get(c, "text"), v)) for c, v in zip(cols, r)]
+        for r in df[cols].itertuples(index=False, name=None)
     ]
-    if res.geometry.fluxional:
-        out.append(
-            '<p class="meta">This polyhedron is marked fluxional: '
-            "isomers may interconvert in solution on the NMR time scale.</p>"
-        )
-    out += [f'<p class="meta">note: {_e(note)}</p>' for note in res.notes]
-    return out
+    return head, rows
 
 
-def _card_html(n: int, iso: Isomer, data: Mapping[str, Any], spectra: IsomerSpectra, res: Result) -> str:
-    comp = res.composition
-    dl = [
-        ("point group", iso.point_group),
-        ("chiral", ("yes, enantiomer " + (iso.enantiomer or "?")) if iso.chiral else "no"),
-    ]
-    desc = _descriptor_text(data.get("descriptor"))
-    if desc:
-        dl.append(("IUPAC descriptor", desc))
-    body = "".join(f"<dt>{_e(k)}</dt><dd>{_e(v)}</dd>" for k, v in dl)
-    for key, value in data.items():
-        if key == "descriptor" and desc:
-            continue
-        label = "stretch species and band counts" if key == "modes" else key.replace("_", " ")
-        body += f"<dt>{_e(label)}</dt><dd>{_value_html(value)}</dd>"
-    specs = "".join(_spectrum_html(iso.id, spec) for spec in spectra.classes)
-    return (
-        f'<div class="card" id="c{n}-isomer-{_e(iso.id)}"><h3>isomer {_e(iso.id)}</h3>'
-        + polyhedron_svg(iso, [k.name for k in comp.kinds], comp.metal)
-        + f"<dl>{body}</dl>"
-        + f'<div class="specs">{specs}</div>'
-        + "</div>"
+# ---------------------------------------------------------------- pieces of the summary
+def _counts(res: Result) -> str:
+    iso = res.isomer_set
+    return f"{iso.geometric_isomers} geometric isomer(s), {iso.stereoisomers} stereoisomer(s)" + (
+        "" if iso.complete else " (list stopped at the limit)"
     )
 
 
-def _top_html(res: Result, top: Mapping[str, Any], boxed: bool) -> list[str]:
-    """The pair grid and the other top-level keys of the analyses (caution keys left out when boxed)."""
-    out = []
-    if "pairs" in top:
-        grid = pair_grid_html([i.id for i in res.isomers], top["pairs"])
-        if grid:
-            out.append("<h3>Which isomer pairs can be told apart</h3>" + grid)
-        else:
-            out.append("<h3>Isomer pairs</h3>" + _value_html(top["pairs"]))
-    for key, value in top.items():
-        if key == "pairs" or (boxed and _is_caution(key)):
-            continue
-        out.append(f"<h3>{_e(key.replace('_', ' '))}</h3><div>{_value_html(value)}</div>")
+def _point_groups(res: Result) -> Markup:
+    by: dict[str, list[str]] = {}
+    for i in res.isomers:
+        by.setdefault(i.point_group, []).append(i.id)
+    parts = [f"{html_symbol(g)} ({html.escape(', '.join(ids))})" for g, ids in by.items()]
+    return Markup("; ".join(parts))
+
+
+def _pairs_text(pairs: Sequence[tuple[str, str]]) -> str:
+    shown = ", ".join(f"{a}/{b}" for a, b in pairs[:_MAX_LISTED])
+    return shown + (f" and {len(pairs) - _MAX_LISTED} more" if len(pairs) > _MAX_LISTED else "")
+
+
+_TECH = {"IR": "IR band counts", "Raman": "Raman band counts (not IR)", "NMR": "NMR signal counts (not IR or Raman)"}
+
+
+def _telling(a: StretchAnalysis | None) -> list[str]:
+    """Per technique, the pairs it is the cheapest to tell apart; the pairs no count separates."""
+    if a is None or len(a.ids) < 2:
+        return [] if a is None else ["only one isomer: nothing to tell apart"]
+    n = len(a.ids)
+    if n * (n - 1) // 2 > 2000:
+        tally = a.pair_tally()
+        return [f"{k}: {v} pair(s)" for k, v in sorted(tally.items())]
+    by: dict[str, list[tuple[str, str]]] = {}
+    for p in a.pairs():
+        key = "en" if p.note == "enantiomers" else (p.cheapest or "--")
+        by.setdefault(key, []).append((p.a, p.b))
+    out = [f"{_TECH[k]} tell apart {len(by[k])} pair(s): {_pairs_text(by[k])}" for k in _TECH if k in by]
+    if "--" in by:
+        out.append(f"no count tells apart {len(by['--'])} pair(s): {_pairs_text(by['--'])}")
+    if "en" in by:
+        out.append(
+            f"enantiomers ({_pairs_text(by['en'])}): the same by IR, Raman and NMR in achiral media (use CD or X-ray)"
+        )
     return out
 
 
-def _complex_html(c: ReportComplex) -> str:
-    res, n = c.result, c.number
-    cautions, sections = _caution_blocks(c)
-    top: dict[str, Any] = {}
-    per: dict[str, dict[str, Any]] = {i.id: {} for i in res.isomers}
+def _band_cell(spec: ClassSpectrum | None) -> Markup:
+    if spec is None:
+        return Markup("")
+    if spec.pattern is None:
+        return Markup(html.escape(f"not predicted ({spec.error})"))
+    bands = [b for b in spec.pattern.bands if b.ir_active]
+    return Markup(
+        ", ".join(f"{b.wavenumber:.0f} ({html_species(b.species or '?')})" for b in bands) or "none IR-active"
+    )
+
+
+def _band_rows(c: ReportComplex) -> tuple[list[str], list[list[Markup]]]:
+    classes = sorted({s.reporter_class for sp in c.spectra for s in sp.classes})
+    desc = c.result.analysis(DescriptorAnalysis)
+    rows = []
+    for iso, sp in zip(c.result.isomers, c.spectra):
+        if iso.chiral and iso.id.endswith("b"):
+            continue  # the mirror image has the same bands
+        by = {s.reporter_class: s for s in sp.classes}
+        d = desc.get(iso.id) if desc is not None else None
+        label = iso.id + (f"/{iso.enantiomer}" if iso.enantiomer else "")
+        rows.append(
+            [Markup(html.escape(label)), Markup(html_symbol(iso.point_group)), Markup(html.escape(d.text if d else ""))]
+            + [_band_cell(by.get(k)) for k in classes]
+        )
+    return classes, rows if classes else []
+
+
+# ---------------------------------------------------------------- cards
+def _data_uri(data: bytes, mime: str) -> str:
+    return f"data:{mime};base64,{base64.b64encode(data).decode('ascii')}"
+
+
+def _structure_drawing(iso: Isomer, s: Structure) -> str:
+    atoms = donor_atoms(s, [site.position for site in iso.sites])
+    units: dict[int, tuple[str, list[int]]] = {}
+    for site, a in zip(iso.sites, atoms):
+        units.setdefault(site.unit, (site.ligand, []))[1].append(a)
+    fig = molecule_figure(s, list(units.values()))
+    return _data_uri(figure_svg(fig), "image/svg+xml")
+
+
+def _drawing(c: ReportComplex, iso: Isomer, k: int) -> tuple[Markup, str]:
+    comp = c.result.composition
+    s = c.structures.structures[k] if c.structures is not None and k < len(c.structures.structures) else None
+    if s is not None and s.kind == "full":
+        uri = _structure_drawing(iso, s)
+        alt = f"starting structure of isomer {iso.id} of {comp.formula}"
+        caption = "Starting structure (RDKit, donors on the ideal polyhedron); hydrogen atoms left out."
+        if s.note:
+            caption += f" Warning: {s.note}."
+        return Markup(f'<img alt="{html.escape(alt)}" src="{uri}">'), caption
+    kinds = [k.name for k in comp.kinds]
+    legend = "".join(
+        f'<span><i class="swatch" style="background:{_PALETTE[i % len(_PALETTE)]}"></i>{html.escape(n)}</span>'
+        for i, n in enumerate(kinds)
+    )
+    svg = polyhedron_svg(iso, kinds, comp.metal)
+    caption = "Ideal polyhedron: dashed edges are at the back, small numbers are site numbers."
+    return Markup(f'{svg}<div class="legend">{legend}</div>'), caption
+
+
+def _fields(iso: Isomer, res: Result) -> list[tuple[str, str]]:
+    """What a card adds to the isomer table: the axes behind its Mulliken labels."""
+    a = res.analysis(StretchAnalysis)
+    if a is not None and iso.id in a.ids:
+        return [("axes of the Mulliken labels", a.axes[a.ids.index(iso.id)])]
+    return []
+
+
+def _spectra(c: ReportComplex, k: int, iso: Isomer, descriptor: str) -> list[dict[str, Any]]:
+    out: list[dict[str, Any]] = []
+    for spec in c.spectra[k].classes:
+        cls = spec.reporter_class
+        if spec.pattern is None:
+            out.append({"image": "", "alt": f"{cls} bands not predicted: {spec.error}", "bands": []})
+            continue
+        title = f"{c.result.composition.formula} isomer {iso.id}" + (f" ({descriptor})" if descriptor else "")
+        fig = stick_spectrum(spec.pattern.bands, title=f"{title}, {cls} stretches")
+        bands = [
+            (
+                f"{b.wavenumber:.0f}",
+                Markup(html_species(b.species or "-")),
+                f"{b.intensity:.2f}",
+                "active" if b.ir_active else "inactive",
+                "active" if b.raman_allowed else "inactive",
+            )
+            for b in spec.pattern.bands
+        ]
+        alt = f"predicted {cls} stick spectrum of isomer {iso.id}"
+        out.append({"image": _data_uri(picture(fig), "image/svg+xml"), "alt": alt, "bands": bands})
+    return out
+
+
+def _cards(c: ReportComplex) -> list[dict[str, Any]]:
+    res = c.result
+    desc = res.analysis(DescriptorAnalysis)
+    cards = []
+    for k, iso in enumerate(res.isomers):
+        d = desc.get(iso.id) if desc is not None else None
+        drawing, caption = _drawing(c, iso, k)
+        cards.append(
+            {
+                "id": iso.id,
+                "group": Markup(html_symbol(iso.point_group)),
+                "descriptor": d.text if d else "",
+                "drawing": drawing,
+                "caption": caption,
+                "fields": _fields(iso, res),
+                "spectra": _spectra(c, k, iso, d.text if d else ""),
+            }
+        )
+    return cards
+
+
+# ---------------------------------------------------------------- details
+def _lines(analysis: object, keep: int | None = None) -> list[str]:
+    secs = sections(analysis)
+    if keep is not None:
+        secs = secs[keep : keep + 1]
+    return [line.removeprefix("- ") for sec in secs for line in sec.text.splitlines() if line.strip()]
+
+
+def _details(res: Result) -> dict[str, Any]:
+    """The centre, descriptor and spectroscopy lines; the sections of analyses this page does not know."""
+    out: dict[str, Any] = {"centre": [], "descriptors": [], "spectroscopy": [], "other": []}
     for a in res.analyses:
-        top.update(a.top_json())
-        for i in res.isomers:
-            per[i.id].update(a.isomer_json(i.id))
-    out = [f'<section id="complex-{n}"><h2>{n}. {_e(res.composition.formula)}</h2>', *_meta_html(res)]
-    out += [f'<div class="caution">{x}</div>' for x in cautions]
-    out.append(_table_html(*isomer_rows(res)))
-    out.append('<div class="cards">')
-    out += [_card_html(n, i, per[i.id], s, res) for i, s in zip(res.isomers, c.spectra)]
-    out.append("</div>")
-    out += _top_html(res, top, bool(cautions))
-    out += sections
-    out.append("</section>")
-    return "".join(out)
+        if isinstance(a, CentreAnalysis):
+            out["centre"] = _lines(a)
+        elif isinstance(a, DescriptorAnalysis):
+            out["descriptors"] = _lines(a, 0)
+        elif isinstance(a, StretchAnalysis):
+            secs = sections(a)
+            out["spectroscopy"] = [ln for s in secs if s.title == "Spectroscopy notes" for ln in s.text.splitlines()]
+        elif not isinstance(a, SafetyAnalysis):
+            out["other"] += [(s.title, s.text.splitlines()) for s in sections(a)]
+    return out
+
+
+def _grid(res: Result) -> tuple[Markup | None, list[str]]:
+    a = res.analysis(StretchAnalysis)
+    if a is None or len(a.ids) < 2:
+        return None, []
+    if len(a.ids) <= _MAX_GRID:
+        top: dict[str, Any] = {}
+        for x in res.analyses:
+            top.update(x.top_json())
+        grid = pair_grid_html([i.id for i in res.isomers], top.get("pairs", []))
+        return (Markup(grid) if grid else None), []
+    tally = a.pair_tally()
+    names = {"IR": "IR", "Raman": "Raman", "NMR": "NMR", "--": "no count", "en": "enantiomers (no count)"}
+    lines = [f"{names.get(k, k)} first tells apart {v} pair(s)" for k, v in sorted(tally.items())]
+    return None, [f"{len(a.ids)} isomers are too many for a grid: see the summary for the pairs."] + lines
+
+
+def _complex_view(c: ReportComplex) -> dict[str, Any]:
+    res = c.result
+    head, rows = _isomer_table(res)
+    classes, band_rows = _band_rows(c)
+    grid, tally = _grid(res)
+    return {
+        "number": c.number,
+        "label": c.label,
+        "formula": Markup(formula_html(res.composition.formula)),
+        "geometry": f"{res.geometry.symbol} ({res.geometry.name})",
+        "reason": res.geometry_reason,
+        "counts": _counts(res),
+        "point_groups": _point_groups(res),
+        "fluxional": res.geometry.fluxional,
+        "notes": list(res.notes),
+        "cautions": list(c.cautions),
+        "telling": _telling(res.analysis(StretchAnalysis)),
+        "band_classes": classes,
+        "band_rows": band_rows,
+        "table_head": head,
+        "table_rows": rows,
+        "grid": grid,
+        "tally": tally,
+        "cards": _cards(c),
+        **_details(res),
+    }
+
+
+# ---------------------------------------------------------------- page
+def _environment() -> Any:
+    import jinja2
+
+    return jinja2.Environment(
+        loader=jinja2.PackageLoader("enumerator.render", "templates"),
+        autoescape=True,
+        undefined=jinja2.StrictUndefined,
+        keep_trailing_newline=True,
+    )
+
+
+def _css() -> Markup:
+    from importlib.resources import files
+
+    return Markup((files("enumerator.render") / "templates" / "report.css").read_text(encoding="utf-8"))
 
 
 def render_report(report: Report) -> str:
-    """The whole HTML page of a report (one section per complex).
+    """The whole HTML page of a report: the summary, then one section per complex.
 
     Parameters
     ----------
@@ -541,34 +610,56 @@ def render_report(report: Report) -> str:
     str
         The page, ending in a newline.
     """
-    toc = "".join(
-        f'<li><a href="#complex-{c.number}">{_e(c.result.composition.formula)}</a></li>' for c in report.complexes
-    )
-    head = [
-        "<!DOCTYPE html>",
-        '<html lang="en"><head><meta charset="utf-8">',
-        '<meta name="viewport" content="width=device-width, initial-scale=1">',
-        f"<title>{_e(report.title)}</title>",
-        f"<style>{_CSS}</style></head><body>",
-        f"<h1>{_e(report.title)}</h1>",
-        '<p class="meta">Ideal-polyhedron isomers, point groups, stretching-mode species and predicted bands. '
-        "Drawings are projections of the ideal polyhedron (dashed edges are at the back; small numbers are site "
-        "numbers). Band positions come from an energy-factored force field and are estimates, not measurements.</p>",
-    ]
-    if report.files:
-        head.append(
-            '<p class="meta">Tables also written as: '
-            + ", ".join(f"<code>{_e(f)}</code>" for f in report.files)
-            + "</p>"
+    page = (
+        _environment()
+        .get_template("report.html.j2")
+        .render(
+            title=report.title,
+            css=_css(),
+            files=[f for c in report.complexes for f in c.files],
+            latex_packages=tables.LATEX_PACKAGES,
+            complexes=[_complex_view(c) for c in report.complexes],
+            version=report.version,
         )
-    head.append(f"<nav><ol>{toc}</ol></nav>")
-    blocks = [_complex_html(c) for c in report.complexes]
-    tail = [f"<footer>written by isosieve {_e(report.version)}</footer></body></html>", ""]
-    return "\n".join(head + blocks + tail)
+    )
+    return page if page.endswith("\n") else page + "\n"
+
+
+def report_readme(report: Report) -> str:
+    """README.txt of a report folder: what each file is, the safety cautions, the provenance.
+
+    Parameters
+    ----------
+    report : Report
+
+    Returns
+    -------
+    str
+    """
+    lines = [report.title, "=" * len(report.title), "", f"Written by isosieve {report.version}.", "", "Files:"]
+    lines.append("  report.html  the report (self-contained; print it to PDF from a browser)")
+    for c in report.complexes:
+        csv_name, tex_name = c.files
+        what = c.result.composition.formula + (f" ({c.label})" if c.label else "")
+        lines.append(f"  {csv_name}  isomer table of {what}: plain CSV, one row per isomer (pandas.read_csv reads it)")
+        lines.append(f"  {csv_name}-metadata.json  its column meanings, cautions and notes (W3C CSV on the Web)")
+        lines.append(f"  {tex_name}  the same table for LaTeX; preamble: {tables.LATEX_PACKAGES}")
+    cautions: list[str] = []
+    for c in report.complexes:
+        cautions += [x for x in c.cautions if x not in cautions]
+    if cautions:
+        lines += ["", "Safety:"] + [f"  - {x}" for x in cautions]
+    lines += [
+        "",
+        "Band positions are estimates from an energy-factored force field, not measurements; isomers are on ideal",
+        "polyhedra.",
+    ]
+    return "\n".join(lines) + "\n"
 
 
 def report_files(report: Report) -> list[tuple[str, str]]:
-    """Every file of the report: each complex's CSV and LaTeX table, then ``report.html``.
+    """Every file of the report: each complex's CSV (with its sidecar) and LaTeX table, README.txt, then
+    ``report.html``.
 
     The tables are the ones ``isosieve isomers --format csv|latex`` writes
     (:func:`enumerator.render.tables.csv`, :func:`enumerator.render.tables.latex`).
@@ -585,6 +676,16 @@ def report_files(report: Report) -> list[tuple[str, str]]:
     out = []
     for c in report.complexes:
         csv_name, tex_name = c.files
-        out += [(csv_name, tables.csv(c.result)), (tex_name, tables.latex(c.result))]
+        res = c.result
+        meta = tables.csv_metadata(
+            res.to_dataframe(),
+            csv_name,
+            title=f"{report.title}: {res.composition.formula}" + (f" ({c.label})" if c.label else ""),
+            cautions=c.cautions,
+            notes=[res.geometry_reason, *res.notes],
+            version=report.version,
+        )
+        out += [(csv_name, tables.csv(res)), (f"{csv_name}-metadata.json", meta), (tex_name, tables.latex(res))]
+    out.append(("README.txt", report_readme(report)))
     out.append(("report.html", render_report(report)))
     return out

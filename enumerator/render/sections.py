@@ -1,45 +1,35 @@
-"""Table columns and text sections drawn from each analysis.
+"""Text sections drawn from each analysis.
 
 The analyses of a :class:`~enumerator.workflow.result.Result` are data; this
-module turns each kind into what people read:
-
-* :func:`columns` gives the extra isomer-table columns of one analysis
-  (every table format shows them: terminal, Markdown, CSV, LaTeX, report);
-* :func:`sections` gives its titled text blocks (terminal, Markdown, report).
-
-Both dispatch on the analysis type (:func:`functools.singledispatch`); an
-analysis with no renderer registered adds nothing.  A new stage registers
-its own, e.g. ``@columns.register(MyAnalysis)``.  :func:`result_columns` and
-:func:`result_sections` collect them over a result in stage order.
+module turns each kind into titled text blocks (terminal, Markdown):
+:func:`sections` dispatches on the analysis type
+(:func:`functools.singledispatch`); an analysis with no renderer registered
+adds nothing, and a new stage registers its own with
+``@sections.register(MyAnalysis)``.  :func:`result_sections` collects them
+over a result in stage order.  The isomer-table columns are not drawn here:
+every table comes from the result's DataFrame
+(:mod:`enumerator.workflow.table`).
 
 >>> from enumerator.workflow.pipeline import analyse
 >>> r = analyse("Ma3b3", geometry="OC-6", reporters=(("a", "CO"),))
->>> [c.header for c in result_columns(r)][:4]
-['descriptor', 'prefix', 'CO species', 'CO IR']
 >>> [s.title for s in result_sections(r)][:2]
 ['Safety', 'Descriptors']
 """
 
 from __future__ import annotations
 
-from collections.abc import Mapping
 from dataclasses import dataclass
 from functools import singledispatch
-from types import MappingProxyType
 
 from enumerator.analyses.centre import CentreAnalysis
 from enumerator.analyses.descriptors import DescriptorAnalysis
 from enumerator.analyses.safety import SafetyAnalysis
 from enumerator.analyses.stretch import MAX_LISTED_PAIRS, StretchAnalysis
-from enumerator.render.typeset import latex_escape
 from enumerator.workflow.result import Result
 
 __all__ = [
-    "Column",
     "Section",
-    "columns",
     "sections",
-    "result_columns",
     "result_sections",
     "safety_lines",
     "pair_matrix_text",
@@ -48,41 +38,11 @@ __all__ = [
 
 
 @dataclass(frozen=True)
-class Column:
-    """One extra table column: a header and a cell per isomer id.
-
-    ``latex`` optionally gives the cells typeset for LaTeX (else they are
-    escaped as plain text).  A ``wide`` column (a full name) is left out of
-    the terminal table and kept in the written tables and the report."""
-
-    header: str
-    values: Mapping[str, str]
-    latex: Mapping[str, str] | None = None
-    wide: bool = False
-
-
-@dataclass(frozen=True)
 class Section:
     """A titled block of text shown after the isomer table."""
 
     title: str
     text: str
-
-
-@singledispatch
-def columns(analysis: object) -> tuple[Column, ...]:
-    """The isomer-table columns of one analysis (none unless a renderer is registered for its type).
-
-    Parameters
-    ----------
-    analysis : object
-        One entry of ``Result.analyses``.
-
-    Returns
-    -------
-    tuple of Column
-    """
-    return ()
 
 
 @singledispatch
@@ -99,23 +59,6 @@ def sections(analysis: object) -> tuple[Section, ...]:
     tuple of Section
     """
     return ()
-
-
-def result_columns(res: Result, wide: bool = True) -> list[Column]:
-    """Every analysis's columns in stage order; ``wide=False`` leaves out the wide ones (the terminal table).
-
-    Parameters
-    ----------
-    res : Result
-        The analysed formula.
-    wide : bool, optional
-        Keep the wide columns.
-
-    Returns
-    -------
-    list of Column
-    """
-    return [c for a in res.analyses for c in columns(a) if wide or not c.wide]
 
 
 def result_sections(res: Result) -> list[Section]:
@@ -209,38 +152,6 @@ def centre_sections(a: CentreAnalysis) -> tuple[Section, ...]:
 
 # ---------------------------------------------------------------- descriptors
 
-_SYMBOL_LATEX = MappingProxyType({"Delta": r"$\Delta$", "Lambda": r"$\Lambda$"})
-
-
-@columns.register(DescriptorAnalysis)
-def descriptor_columns(a: DescriptorAnalysis) -> tuple[Column, ...]:
-    """The descriptor (chirality symbol typeset for LaTeX), the everyday prefix where any, and the IUPAC name (wide).
-
-    Parameters
-    ----------
-    a : DescriptorAnalysis
-
-    Returns
-    -------
-    tuple of Column
-        Empty when no descriptor could be assigned.
-    """
-    if not a.descriptors:
-        return ()
-    values = {k: d.text for k, d in a.descriptors}
-    latex = {}
-    for k, d in a.descriptors:
-        sym = d.chirality
-        tail = f"-{_SYMBOL_LATEX.get(sym, sym)}" if sym else ""
-        latex[k] = d.stereo_free + tail
-    cols = [Column("descriptor", values, latex)]
-    if any(d.prefix for _, d in a.descriptors):
-        cols.append(Column("prefix", {k: d.prefix or "-" for k, d in a.descriptors}))
-    if a.names:
-        names = dict(a.names)
-        cols.append(Column("IUPAC name", names, {k: latex_escape(v) for k, v in names.items()}, wide=True))
-    return tuple(cols)
-
 
 @sections.register(DescriptorAnalysis)
 def descriptor_sections(a: DescriptorAnalysis) -> tuple[Section, ...]:
@@ -291,38 +202,6 @@ AXES_MAX = 40
 _LEGEND_TAIL = (
     "-- = same counts by all three; en = enantiomers (same by IR, Raman and NMR in achiral media: use CD or X-ray)"
 )
-
-
-@columns.register(StretchAnalysis)
-def stretch_columns(a: StretchAnalysis) -> tuple[Column, ...]:
-    """Per reporter class: species, IR and Raman band counts, NMR signal count; then the other ligands' environments.
-
-    Parameters
-    ----------
-    a : StretchAnalysis
-
-    Returns
-    -------
-    tuple of Column
-    """
-    cols = []
-    for ci, cls in enumerate(a.classes):
-        nuc = a.info[ci].nucleus
-        cols.append(Column(f"{cls} species", {i: a.modes[k][ci].species for k, i in enumerate(a.ids)}))
-        cols.append(Column(f"{cls} IR", {i: str(a.modes[k][ci].ir) for k, i in enumerate(a.ids)}))
-        cols.append(Column(f"{cls} Raman", {i: str(a.modes[k][ci].raman) for k, i in enumerate(a.ids)}))
-        cols.append(Column(f"{cls} {nuc} NMR", {i: str(a.modes[k][ci].nmr) for k, i in enumerate(a.ids)}))
-    other = {}
-    for k, i in enumerate(a.ids):
-        cells = [
-            f"{x.ligand}{'(' + x.nucleus + ')' if x.nucleus else ''}:{x.environments}"
-            for x in a.nmr[k]
-            if x.ligand not in a.reporter_ligands
-        ]
-        other[i] = " ".join(cells)
-    if any(other.values()):
-        cols.append(Column("NMR environments", other))
-    return tuple(cols)
 
 
 @sections.register(StretchAnalysis)

@@ -15,8 +15,7 @@ from __future__ import annotations
 
 from collections.abc import Sequence
 
-from enumerator.isomers.occupancy import occupancy
-from enumerator.render.sections import result_columns, result_sections
+from enumerator.render.sections import result_sections
 from enumerator.workflow.result import Result
 
 __all__ = ["table", "isomer_table", "isomer_rows", "render"]
@@ -53,10 +52,8 @@ def table(header: Sequence[str], rows: Sequence[Sequence[str]], indent: str = ""
 
 
 def isomer_rows(res: Result, wide: bool = True) -> tuple[list[str], list[list[str]]]:
-    """Header and rows of the isomer table, every analysis's columns included.
-
-    Shared by the terminal table and the report; ``wide=False`` leaves out the
-    wide columns (full names), for the terminal.
+    """Header and rows of the isomer table (the result's DataFrame without formula and geometry, which the
+    heading gives); ``wide=False`` leaves out the wide columns (full names), for the terminal.
 
     Parameters
     ----------
@@ -70,28 +67,10 @@ def isomer_rows(res: Result, wide: bool = True) -> tuple[list[str], list[list[st
     (list of str, list of list of str)
         The header and one row of cells per isomer.
     """
-    extra = result_columns(res, wide)
-    header = [
-        "isomer",
-        "point group",
-        "chiral",
-        "enantiomer",
-        *[c.header for c in extra],
-        "sites (ligand:site numbers)",
-    ]
-    rows = []
-    for iso in res.isomers:
-        rows.append(
-            [
-                iso.id,
-                iso.point_group,
-                "yes" if iso.chiral else "no",
-                iso.enantiomer or "-",
-                *[str(c.values.get(iso.id, "")) for c in extra],
-                occupancy(iso),
-            ]
-        )
-    return header, rows
+    df = res.to_dataframe(wide)
+    cols = [c for c in df.columns if c not in ("formula", "geometry")]
+    rows = [["-" if v in ("", None) else str(v) for v in r] for r in df[cols].itertuples(index=False, name=None)]
+    return cols, rows
 
 
 def isomer_table(res: Result) -> str:

@@ -19,7 +19,7 @@ from __future__ import annotations
 
 from collections.abc import Iterator, Mapping, Sequence
 from dataclasses import dataclass
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 from enumerator.errors import CapacityError
 from enumerator.isomers.enumeration import Isomer
@@ -30,6 +30,9 @@ from enumerator.routes.space import Counts, Endpoints, Space, Species, prepare_e
 from enumerator.rules.ruleset import load_rules
 from enumerator.rules.substitution import SubstitutionRules, choose_rule_set, load_substitution_rules
 from enumerator.schema import SCHEMA_VERSION
+
+if TYPE_CHECKING:
+    import pandas as pd
 
 __all__ = ["Step", "Route", "RoutePlan", "plan_routes", "MAX_ROUTES"]
 
@@ -120,6 +123,41 @@ class RoutePlan:
             "notes": list(self.notes),
             "safety": list(self.safety),
         }
+
+    def to_dataframe(self) -> pd.DataFrame:
+        """One row per order of addition searched: the order, whether it reaches the target, the outcome, the
+        number of steps, and the major product of the last step.
+
+        Returns
+        -------
+        pandas.DataFrame
+        """
+        import pandas as pd
+
+        rows = [
+            {
+                "order": " then ".join(r.order),
+                "reaches target": r.reaches_target,
+                "outcome": r.outcome,
+                "steps": len(r.steps),
+            }
+            for r in self.routes
+        ]
+        return pd.DataFrame(rows, columns=["order", "reaches target", "outcome", "steps"])
+
+    def __repr__(self) -> str:
+        return (
+            f"<RoutePlan {self.start.formula} -> {self.target.formula}: {len(self.reaching)} of "
+            f"{len(self.routes)} order(s) reach the target>"
+        )
+
+    def _repr_html_(self) -> str:
+        """The orders (:meth:`to_dataframe`) under a heading naming start and target, the cautions below."""
+        import html
+
+        head = f"<p><b>{html.escape(self.start.label())} to {html.escape(self.target.label())}</b></p>"
+        tail = "".join(f"<p><b>Safety:</b> {html.escape(x)}</p>" for x in self.safety)
+        return head + self.to_dataframe().to_html(index=False, escape=True) + tail
 
 
 def _orders(entering: Mapping[str, int], names: Sequence[str]) -> Iterator[tuple[str, ...]]:

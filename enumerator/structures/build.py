@@ -28,7 +28,7 @@ True
 
 from __future__ import annotations
 
-from collections.abc import Mapping, Sequence
+from collections.abc import Callable, Mapping, Sequence
 
 import numpy as np
 
@@ -80,7 +80,11 @@ def build_structure(isomer: Isomer, composition: Composition, *, label: str = ""
     return _core(isomer, composition, reason, label)
 
 
-def structures_for(result: ResultView, labels: Mapping[str, str] | None = None) -> tuple[Structure, ...]:
+def structures_for(
+    result: ResultView,
+    labels: Mapping[str, str] | None = None,
+    progress: Callable[[str, int, int], None] | None = None,
+) -> tuple[Structure, ...]:
     """One structure per isomer of a result, in listing order; ``labels`` by isomer id go into the titles.
 
     Parameters
@@ -89,13 +93,20 @@ def structures_for(result: ResultView, labels: Mapping[str, str] | None = None) 
         An analysed formula.
     labels : Mapping[str, str], optional
         Isomer id -> text added to the title (e.g. the IUPAC descriptor).
+    progress : callable, optional
+        Called as ``progress(isomer id, done, total)`` after each structure (a progress bar).
 
     Returns
     -------
     tuple of Structure
     """
     labels = labels or {}
-    return tuple(build_structure(i, result.composition, label=labels.get(i.id, "")) for i in result.isomers)
+    out = []
+    for k, i in enumerate(result.isomers, 1):
+        out.append(build_structure(i, result.composition, label=labels.get(i.id, "")))
+        if progress is not None:
+            progress(i.id, k, len(result.isomers))
+    return tuple(out)
 
 
 def _why_not_full(comp: Composition) -> str:

@@ -16,6 +16,7 @@ True
 
 from __future__ import annotations
 
+from collections.abc import Callable
 from dataclasses import dataclass
 from typing import Any
 
@@ -63,16 +64,18 @@ def descriptor_labels(result: ResultView) -> dict[str, str]:
     return {k: d.text for k, d in a.descriptors if d.text}
 
 
-def structure_set(result: ResultView) -> StructureSet:
+def structure_set(result: ResultView, progress: Callable[[str, int, int], None] | None = None) -> StructureSet:
     """Starting structures of every listed isomer of a result, descriptors in the titles.
 
     Parameters
     ----------
     result : Result
         An analysed formula.
+    progress : callable, optional
+        Called as ``progress(isomer id, done, total)`` after each structure (a progress bar).
 
     Returns
     -------
     StructureSet
     """
-    return StructureSet(result.composition.formula, structures_for(result, descriptor_labels(result)))
+    return StructureSet(result.composition.formula, structures_for(result, descriptor_labels(result), progress))

@@ -18,10 +18,10 @@ renderers in :mod:`enumerator.render.bands` draw the text and the plots.
 
 from __future__ import annotations
 
-from collections.abc import Mapping, Sequence
+from collections.abc import Callable, Mapping, Sequence
 from dataclasses import dataclass
 from types import MappingProxyType
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 from enumerator.analyses.descriptors import describe_isomer
 from enumerator.analyses.safety import cautions
@@ -34,6 +34,9 @@ from enumerator.vibrations.matching import DEFAULT_TOLERANCE, DEFAULT_WEAK, Matc
 from enumerator.vibrations.model import build_model, reporter_classes
 from enumerator.vibrations.pattern import BandPattern, band_pattern
 from enumerator.workflow.pipeline import Request, prepare
+
+if TYPE_CHECKING:
+    import pandas as pd
 
 __all__ = [
     "ClassBands",
@@ -114,6 +117,45 @@ class BandsResult:
             "safety": list(self.safety),
         }
 
+    def to_dataframe(self) -> pd.DataFrame:
+        """One row per predicted band: formula, isomer (both enantiomers where one entry shows the pair),
+        point group, descriptor, reporter class, wavenumber (cm-1), species, degeneracy, relative IR
+        intensity, IR and Raman activity.
+
+        Returns
+        -------
+        pandas.DataFrame
+        """
+        import pandas as pd
+
+        rows = [
+            {
+                "formula": self.formula,
+                "isomer": e.label,
+                "point group": e.point_group,
+                "descriptor": e.descriptor,
+                "class": cb.reporter_class,
+                "wavenumber": round(b.wavenumber, 1),
+                "species": b.species,
+                "degeneracy": b.degeneracy,
+                "rel. IR intensity": round(b.intensity, 3),
+                "IR": b.ir_active,
+                "Raman": bool(b.raman_allowed),
+            }
+            for e in self.isomers
+            for cb in e.patterns
+            for b in cb.pattern.bands
+        ]
+        return pd.DataFrame(rows, columns=_BAND_COLUMNS)
+
+    def __repr__(self) -> str:
+        n = sum(len(cb.pattern.bands) for e in self.isomers for cb in e.patterns)
+        return f"<BandsResult {self.formula} on {self.geometry}: {len(self.isomers)} isomer(s), {n} band(s)>"
+
+    def _repr_html_(self) -> str:
+        """The band table (:meth:`to_dataframe`) under a one-line heading, the cautions below."""
+        return _html(f"{self.formula} on {self.geometry}: predicted bands", self.to_dataframe(), self.safety)
+
 
 @dataclass(frozen=True)
 class MatchReport:
@@ -135,6 +177,82 @@ class MatchReport:
         doc.update(self.match.to_dict())
         doc["safety"] = list(self.safety)
         return doc
+
+    def to_dataframe(self) -> pd.DataFrame:
+        """One row per candidate, best first: rank, isomers, point group, descriptor, species, IR band count,
+        common shift (mdyn/Å), RMS and largest residual (cm-1), problems (strong bands unseen plus measured
+        bands unassigned).
+
+        Returns
+        -------
+        pandas.DataFrame
+        """
+        import pandas as pd
+
+        rows = [
+            {
+                "rank": c.rank,
+                "isomers": "/".join(c.isomers),
+                "point group": c.point_group,
+                "descriptor": c.descriptor,
+                "species": c.species,
+                "IR bands": len(c.ir_bands),
+                "shift": round(c.shift, 3),
+                "RMS": round(c.rms, 2),
+                "max residual": round(c.max_residual, 2),
+                "problems": c.problems,
+            }
+            for c in self.match.candidates
+        ]
+        return pd.DataFrame(rows, columns=_MATCH_COLUMNS)
+
+    def __repr__(self) -> str:
+        m = self.match
+        best = m.candidates[0].isomers if m.candidates else ()
+        return (
+            f"<MatchReport {self.formula}: {len(m.candidates)} candidate(s) for {len(m.measured)} "
+            f"{m.reporter_class} band(s), best {'/'.join(best) or '-'}>"
+        )
+
+    def _repr_html_(self) -> str:
+        """The ranking (:meth:`to_dataframe`) under a heading naming the measured bands, the cautions below."""
+        bands = ", ".join(f"{v:g}" for v in self.match.measured)
+        head = f"{self.formula}: candidates for {self.match.reporter_class} bands at {bands} cm-1"
+        return _html(head, self.to_dataframe(), self.safety)
+
+
+_BAND_COLUMNS = (
+    "formula",
+    "isomer",
+    "point group",
+    "descriptor",
+    "class",
+    "wavenumber",
+    "species",
+    "degeneracy",
+    "rel. IR intensity",
+    "IR",
+    "Raman",
+)
+_MATCH_COLUMNS = (
+    "rank",
+    "isomers",
+    "point group",
+    "descriptor",
+    "species",
+    "IR bands",
+    "shift",
+    "RMS",
+    "max residual",
+    "problems",
+)
+
+
+def _html(heading: str, df: pd.DataFrame, cautions: Sequence[str]) -> str:
+    import html
+
+    tail = "".join(f"<p><b>Safety:</b> {html.escape(x)}</p>" for x in cautions)
+    return f"<p><b>{html.escape(heading)}</b></p>" + df.to_html(index=False, escape=True, na_rep="") + tail
 
 
 def _load(request: Request) -> tuple[Composition, IsomerSet, str, RuleSet]:
@@ -193,6 +311,7 @@ def predict_spectra(
     measured: Sequence[Observation] | None = None,
     fixed: Mapping[str, float] | None = None,
     tie_ck: bool = False,
+    progress: Callable[[str, int, int], None] | None = None,
 ) -> BandsResult:
     """Predict the stretching bands of every isomer of a formula, optionally fitting the constants.
 
@@ -214,6 +333,8 @@ def predict_spectra(
         Constants held during the fit.
     tie_ck : bool
         During the fit tie kt = 2 kc (the Cotton–Kraihanzel approximation).
+    progress : callable, optional
+        Called as ``progress(isomer id, done, total)`` after each isomer is predicted (and fitted).
 
     Returns
     -------
@@ -254,6 +375,8 @@ def predict_spectra(
         )
         label = iso.id + (f"/{iso.enantiomer}" if iso.enantiomer and not isomer_id else "")
         entries.append(IsomerBands(iso.id, label, iso.point_group, desc.get(iso.id), patterns))
+        if progress is not None:
+            progress(iso.id, len(entries), len(chosen))
     return BandsResult(
         formula=comp.formula,
         geometry=iso_set.geometry.symbol,

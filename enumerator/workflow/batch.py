@@ -26,7 +26,7 @@ True
 
 from __future__ import annotations
 
-from collections.abc import Iterable, Iterator, Sequence
+from collections.abc import Callable, Iterable, Iterator, Sequence
 from concurrent.futures import Future
 from dataclasses import dataclass, field, fields, replace
 from operator import attrgetter
@@ -369,6 +369,7 @@ def run_batch(
     workers: int = 1,
     geometry: str | None = None,
     limit: int | None = None,
+    progress: Callable[[str, int, int], None] | None = None,
 ) -> BatchResult:
     """Every row of :func:`screen`, collected.
 
@@ -376,12 +377,20 @@ def run_batch(
     ----------
     formulas, rules, workers, geometry, limit
         As for :func:`screen`.
+    progress : callable, optional
+        Called as ``progress(formula, done, total)`` after each row (a progress bar).
 
     Returns
     -------
     BatchResult
     """
-    return BatchResult(tuple(screen(formulas, rules=rules, workers=workers, geometry=geometry, limit=limit)))
+    items = list(formulas)
+    rows = []
+    for row in screen(items, rules=rules, workers=workers, geometry=geometry, limit=limit):
+        rows.append(row)
+        if progress is not None:
+            progress(row.formula, len(rows), len(items))
+    return BatchResult(tuple(rows))
 
 
 def screen_file(
@@ -391,6 +400,7 @@ def screen_file(
     workers: int = 1,
     geometry: str | None = None,
     limit: int | None = None,
+    progress: Callable[[str, int, int], None] | None = None,
 ) -> BatchResult:
     """Read the formulas of a batch file and screen them.
 
@@ -398,8 +408,8 @@ def screen_file(
     ----------
     path : str
         One formula a line ('#' comments), or a CSV file with a 'formula' (and optional 'label') column.
-    rules, workers, geometry, limit
-        As for :func:`screen`.
+    rules, workers, geometry, limit, progress
+        As for :func:`run_batch`.
 
     Returns
     -------
@@ -410,4 +420,6 @@ def screen_file(
     InputError
         The file cannot be read or holds no formulas.
     """
-    return run_batch(read_formulas(path), rules=rules, workers=workers, geometry=geometry, limit=limit)
+    return run_batch(
+        read_formulas(path), rules=rules, workers=workers, geometry=geometry, limit=limit, progress=progress
+    )

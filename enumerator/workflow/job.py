@@ -17,14 +17,17 @@ the files its ``[[output]]`` tables ask for.
 
 from __future__ import annotations
 
-from collections.abc import Sequence
+from collections.abc import Callable, Sequence
 from dataclasses import dataclass
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 from enumerator.errors import InputError
 from enumerator.parse.job import Job, JobOutput, load_job
 from enumerator.workflow.pipeline import run
 from enumerator.workflow.result import Result
+
+if TYPE_CHECKING:
+    import pandas as pd
 
 __all__ = ["JobComplex", "JobResult", "run_job", "run_job_file"]
 
@@ -59,13 +62,50 @@ class JobResult:
         """The JSON document of ``isosieve job --format json``: the title and one object per complex."""
         return {"title": self.title, "complexes": [c.to_dict() for c in self.complexes]}
 
+    def to_dataframe(self, wide: bool = True) -> pd.DataFrame:
+        """Every complex's isomer table stacked, a ``label`` column in front (the columns of
+        :meth:`Result.to_dataframe`; a column one complex lacks is empty in its rows).
 
-def run_job(job: Job) -> JobResult:
+        Parameters
+        ----------
+        wide : bool, optional
+            Keep the wide columns (the IUPAC name).
+
+        Returns
+        -------
+        pandas.DataFrame
+        """
+        from enumerator.workflow.table import join_frames
+
+        return join_frames((c.label, c.result.to_dataframe(wide)) for c in self.complexes)
+
+    def __repr__(self) -> str:
+        return f"<JobResult {self.title!r}: {len(self.complexes)} complex(es)>"
+
+    def _repr_html_(self) -> str:
+        """One line per complex: label, formula, geometry, isomer counts."""
+        import html
+
+        rows = "".join(
+            f"<tr><td>{html.escape(c.label)}</td><td>{html.escape(c.result.composition.formula)}</td>"
+            f"<td>{html.escape(c.result.geometry.symbol)}</td><td>{c.result.isomer_set.geometric_isomers}</td>"
+            f"<td>{c.result.isomer_set.stereoisomers}</td></tr>"
+            for c in self.complexes
+        )
+        return (
+            f"<p><b>{html.escape(self.title)}</b></p><table><tr><th>label</th><th>formula</th><th>geometry</th>"
+            f"<th>geometric isomers</th><th>stereoisomers</th></tr>{rows}</table>"
+        )
+
+
+def run_job(job: Job, progress: Callable[[str, int, int], None] | None = None) -> JobResult:
     """Run every complex of a checked job.
 
     Parameters
     ----------
     job : Job
+    progress : callable, optional
+        Called as ``progress(label, done, total)`` after each complex (a progress bar).
 
     Returns
     -------
@@ -82,10 +122,14 @@ def run_job(job: Job) -> JobResult:
             out.append(JobComplex(e.label, run(e.request)))
         except InputError as exc:
             raise InputError(f"complex '{e.label}': {exc.what}", exc.fix) from None
+        if progress is not None:
+            progress(e.label, len(out), len(job.entries))
     return JobResult(job.title, tuple(out), job.outputs, job.folder)
 
 
-def run_job_file(path: str, rules: Sequence[str] = ()) -> JobResult:
+def run_job_file(
+    path: str, rules: Sequence[str] = (), progress: Callable[[str, int, int], None] | None = None
+) -> JobResult:
     """Read, check and run a job file.
 
     Parameters
@@ -94,6 +138,8 @@ def run_job_file(path: str, rules: Sequence[str] = ()) -> JobResult:
         The TOML job file.
     rules : sequence of str
         Rule folders in force (``--rules DIR``).
+    progress : callable, optional
+        As for :func:`run_job`.
 
     Returns
     -------
@@ -105,4 +151,4 @@ def run_job_file(path: str, rules: Sequence[str] = ()) -> JobResult:
         The file cannot be read or checked (:func:`enumerator.parse.job.load_job`), or a complex cannot be
         analysed.
     """
-    return run_job(load_job(path, rules))
+    return run_job(load_job(path, rules), progress)

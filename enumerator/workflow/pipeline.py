@@ -157,6 +157,7 @@ def run(
     *,
     on_isomer: Callable[[Isomer], None] | None = None,
     isomers: IsomerSet | None = None,
+    progress: Callable[[str, int, int], None] | None = None,
 ) -> Result:
     """Enumerate and run every stage; with ``req.pick``, keep only the isomers it matches.
 
@@ -170,6 +171,8 @@ def run(
     isomers : IsomerSet, optional
         Skip enumeration and analyse this, possibly incomplete, set instead (e.g. the part found before an
         interruption); its composition and geometry must come from :func:`prepare` of the same request.
+    progress : callable, optional
+        Called as ``progress(stage, done, total)`` after each analysis stage (a progress bar).
 
     Returns
     -------
@@ -190,12 +193,14 @@ def run(
     pointer = load_rules(req.rules).geometry_note(req.geometry)  # an old spelling of a geometry symbol
     notes = ((pointer,) if pointer else ()) + _notes(req, iso)
     res = Result(composition=comp, geometry=geo, geometry_reason=reason, isomer_set=iso, notes=notes)
-    for stage in STAGES:
+    for k, stage in enumerate(STAGES, 1):
         module, _, func = stage.partition(":")
         step = getattr(importlib.import_module(module), func)
         added = step(res, req)
         if added is not None:
             res = replace(res, analyses=res.analyses + (added,))
+        if progress is not None:
+            progress((module.split(".") + ["", "", module])[2], k, len(STAGES))  # 'centre', 'stretch' ...
     if req.pick:
         res = select_isomers(res, req.pick)
     return res

@@ -21,7 +21,7 @@ whose ``to_dict()`` is the command's JSON.
 
 from __future__ import annotations
 
-from collections.abc import Sequence
+from collections.abc import Callable, Sequence
 from dataclasses import dataclass
 from typing import Any
 
@@ -251,6 +251,7 @@ def formula_structures(
     arrangements: Pairs = (),
     limit: int | None = None,
     rules: Sequence[str] = (),
+    progress: Callable[[str, int, int], None] | None = None,
 ) -> StructureSet:
     """Starting structures (full ligands where their SMILES are known) of every isomer of a formula.
 
@@ -265,6 +266,9 @@ def formula_structures(
         Stop after this many stereoisomers.
     rules : sequence of str
         Rule folders (``--rules DIR``) in force.
+
+    progress : callable, optional
+        Called as ``progress(isomer id, done, total)`` after each structure (a progress bar).
 
     Returns
     -------
@@ -283,4 +287,4 @@ def formula_structures(
         limit=limit,
         rules=tuple(rules),
     )
-    return structure_set(run(req))
+    return structure_set(run(req), progress)

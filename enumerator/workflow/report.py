@@ -21,7 +21,7 @@ isosieve version.  :func:`build_report` builds it from results,
 from __future__ import annotations
 
 import re
-from collections.abc import Iterable, Sequence
+from collections.abc import Callable, Iterable, Sequence
 from dataclasses import dataclass
 from pathlib import Path
 from typing import Any
@@ -30,6 +30,7 @@ from enumerator.analyses.safety import cautions
 from enumerator.errors import IsosieveError
 from enumerator.isomers.enumeration import Isomer
 from enumerator.rules.ruleset import RuleSet, load_rules
+from enumerator.structures.result import StructureSet, structure_set
 from enumerator.vibrations.model import reporter_classes
 from enumerator.vibrations.pattern import BandPattern, band_pattern
 from enumerator.workflow.job import run_job_file
@@ -67,13 +68,17 @@ class IsomerSpectra:
 
 @dataclass(frozen=True)
 class ReportComplex:
-    """One complex of the report: its number (from 1), result, spectra per isomer, cautions, file stem."""
+    """One complex of the report: its number (from 1), result, spectra per isomer, cautions, file stem, the
+    label the job file gives it, and the 3D starting structures the drawings are made from (None for a
+    letter formula, whose drawing is the ideal polyhedron)."""
 
     number: int
     result: Result
     spectra: tuple[IsomerSpectra, ...]
     cautions: tuple[str, ...]
     stem: str
+    label: str = ""
+    structures: StructureSet | None = None
 
     @property
     def files(self) -> tuple[str, str]:
@@ -84,6 +89,7 @@ class ReportComplex:
         """The complex's number, files, cautions, spectra and result document."""
         return {
             "number": self.number,
+            "label": self.label,
             "files": list(self.files),
             "cautions": list(self.cautions),
             "spectra": [s.to_dict() for s in self.spectra],
@@ -148,36 +154,63 @@ def _spectra(iso: Isomer, rules: RuleSet | None) -> IsomerSpectra:
     return IsomerSpectra(iso.id, tuple(out))
 
 
-def build_report(results: Iterable[Result], *, title: str = "isosieve report", rules: RuleSet | None = None) -> Report:
-    """The report of the given results: band patterns, cautions and file names computed here.
+#: Progress callback: (what is being done, steps done, steps in all).
+Progress = Callable[[str, int, int], None]
+
+
+def _structures(res: Result) -> StructureSet | None:
+    """The 3D starting structures of a real formula's isomers (None for letters)."""
+    if res.composition.metal == "M":
+        return None
+    return structure_set(res)
+
+
+def build_report(
+    results: Iterable[Result | tuple[str, Result]],
+    *,
+    title: str = "isosieve report",
+    rules: RuleSet | None = None,
+    progress: Progress | None = None,
+) -> Report:
+    """The report of the given results: band patterns, 3D structures, cautions and file names computed here.
 
     Parameters
     ----------
-    results : iterable of Result
+    results : iterable of Result or (label, Result)
         One per complex, in the order shown.
     title : str
         The page title.
     rules : RuleSet, optional
         The rules in force, for the force constants (default: the built-in rules).
+    progress : callable, optional
+        Called as ``progress(what, done, total)`` after each complex (a progress bar).
 
     Returns
     -------
     Report
     """
-    complexes = tuple(
-        ReportComplex(
-            n,
-            res,
-            tuple(_spectra(i, rules) for i in res.isomers),
-            tuple(cautions(res.composition)),
-            _stem(n, res.composition.formula),
+    items = [r if isinstance(r, tuple) else ("", r) for r in results]
+    complexes = []
+    for n, (label, res) in enumerate(items, 1):
+        complexes.append(
+            ReportComplex(
+                n,
+                res,
+                tuple(_spectra(i, rules) for i in res.isomers),
+                tuple(cautions(res.composition)),
+                _stem(n, res.composition.formula),
+                label,
+                _structures(res),
+            )
         )
-        for n, res in enumerate(results, 1)
-    )
-    return Report(title, complexes, version())
+        if progress is not None:
+            progress(res.composition.formula, n, len(items))
+    return Report(title, tuple(complexes), version())
 
 
-def report_from_job(path: str, rules: Sequence[str] = (), title: str | None = None) -> Report:
+def report_from_job(
+    path: str, rules: Sequence[str] = (), title: str | None = None, progress: Progress | None = None
+) -> Report:
     """Read, check and run a job file and build its report.
 
     Parameters
@@ -188,6 +221,8 @@ def report_from_job(path: str, rules: Sequence[str] = (), title: str | None = No
         Rule folders in force (``--rules DIR``).
     title : str, optional
         The page title (default: the job file's title, else its name).
+    progress : callable, optional
+        As for :func:`build_report`; called for the analyses of the complexes, then for their report parts.
 
     Returns
     -------
@@ -198,5 +233,10 @@ def report_from_job(path: str, rules: Sequence[str] = (), title: str | None = No
     InputError
         The job file cannot be read or checked, or a complex cannot be analysed.
     """
-    job = run_job_file(path, rules)
-    return build_report(job.results, title=title or job.title or Path(path).stem, rules=load_rules(tuple(rules)))
+    job = run_job_file(path, rules, progress)
+    return build_report(
+        [(c.label, c.result) for c in job.complexes],
+        title=title or job.title or Path(path).stem,
+        rules=load_rules(tuple(rules)),
+        progress=progress,
+    )

@@ -21,13 +21,16 @@ from __future__ import annotations
 
 from collections.abc import Mapping
 from dataclasses import dataclass, field
-from typing import Any, Protocol, runtime_checkable
+from typing import TYPE_CHECKING, Any, Protocol, runtime_checkable
 
 from enumerator.caches import cached
 from enumerator.isomers.enumeration import Isomer, IsomerSet
 from enumerator.model.composition import Composition
 from enumerator.model.geometry import Geometry
 from enumerator.schema import SCHEMA_VERSION
+
+if TYPE_CHECKING:
+    import pandas as pd
 
 __all__ = ["Result", "Analysis", "isomer_to_dict", "SCHEMA_VERSION"]
 
@@ -147,3 +150,47 @@ class Result:
                 d.update(a.isomer_json(i.id))
             doc.update(a.top_json())
         return doc
+
+    def to_dataframe(self, wide: bool = True) -> pd.DataFrame:
+        """The isomer table as a pandas DataFrame: one row per stereoisomer, the columns of every written table
+        (:mod:`enumerator.workflow.table`); ``attrs["kinds"]`` says how each column is typeset.
+
+        Parameters
+        ----------
+        wide : bool, optional
+            Keep the wide columns (the IUPAC name).
+
+        Returns
+        -------
+        pandas.DataFrame
+        """
+        from enumerator.workflow.table import result_frame
+
+        return result_frame(self, wide)
+
+    def __repr__(self) -> str:
+        iso = self.isomer_set
+        more = "" if iso.complete else "+"
+        return (
+            f"<Result {self.composition.formula} on {self.geometry.symbol}: "
+            f"{iso.geometric_isomers}{more} geometric, {iso.stereoisomers}{more} stereoisomers>"
+        )
+
+    def _repr_html_(self) -> str:
+        """A compact summary for a notebook: the heading, one row per isomer (id, point group, descriptor,
+        band counts), the cautions."""
+        import html
+
+        iso = self.isomer_set
+        df = self.to_dataframe(wide=False)
+        keep = [c for c in df.columns if c not in ("formula", "geometry", "chiral", "sites", "NMR environments")]
+        head = (
+            f"<p><b>{html.escape(self.composition.formula)}</b> on {html.escape(self.geometry.symbol)} "
+            f"({html.escape(self.geometry.name)}): {iso.geometric_isomers} geometric isomer(s), "
+            f"{iso.stereoisomers} stereoisomer(s){'' if iso.complete else ' (incomplete)'}</p>"
+        )
+        from enumerator.analyses.safety import SafetyAnalysis
+
+        safety = self.analysis(SafetyAnalysis)
+        tail = "".join(f"<p><b>Safety:</b> {html.escape(line)}</p>" for line in (safety.lines if safety else ()))
+        return head + df[keep].to_html(index=False, escape=True, na_rep="") + tail
