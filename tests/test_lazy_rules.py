@@ -109,3 +109,30 @@ def test_group_tables_by_permutations_equal_those_by_matrices():
         assert by_perm[2] == by_matrix[2]
         checked += 1
     assert checked >= 15
+
+
+@pytest.mark.parametrize(
+    "formula, options",
+    [
+        ("Ma6", {}),
+        ("Ma2b2c2", {}),
+        ("Ma3b3", {"reporters": (("a", "CO"),)}),
+        ("M(AA)2b2", {}),
+        ("[RuCl2(CO)2(PPh3)2]", {}),
+        ("[Fe(CN)5(NO)]2-", {}),
+        ("[Co(NH3)3(NO2)3]", {}),
+        ("Ma4b", {"geometry": "TBPY-5", "reporters": (("a", "CO"),)}),
+    ],
+)
+def test_the_terminal_table_without_pandas_reads_as_the_dataframe_does(formula, options):
+    # the text table skips pandas where the DataFrame hands the values back unchanged (start-up)
+    from enumerator.render.text import _plain_rows
+    from enumerator.workflow.pipeline import analyse
+
+    res = analyse(formula, **options)
+    for wide in (False, True):
+        plain = _plain_rows(res, wide)
+        df = res.to_dataframe(wide)
+        cols = [c for c in df.columns if c not in ("formula", "geometry")]
+        rows = [["-" if v in ("", None) else str(v) for v in r] for r in df[cols].itertuples(index=False, name=None)]
+        assert plain is None or plain == (cols, rows)
