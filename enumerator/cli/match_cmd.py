@@ -71,7 +71,6 @@ def match(ctx, formula, bands_text, tolerance, weak, geometry, reporters, klass,
     """
     from enumerator.render.bands import match_plot, match_text
     from enumerator.render.jsonout import dumps
-    from enumerator.render.plots import format_for
     from enumerator.vibrations.matching import parse_measured
     from enumerator.workflow.bands import match_spectrum
     from enumerator.workflow.pipeline import Request
@@ -94,5 +93,7 @@ def match(ctx, formula, bands_text, tolerance, weak, geometry, reporters, klass,
         weak=weak,
     )
     if plot:
+        from enumerator.render.plots import format_for  # only a plot needs it (and matplotlib)
+
         write_atomic_bytes(plot, match_plot(report, format_for(plot), dpi))
     emit(dumps(report.to_dict()) if as_json else match_text(report), out)
