@@ -42,6 +42,11 @@ from enumerator.errors import InputError
 )
 @click.option("--ck", is_flag=True, help="During --fit tie kt = 2 kc (the Cotton-Kraihanzel approximation).")
 @click.option(
+    "--window",
+    metavar="LOW:HIGH",
+    help="Accept --fit bands in this window (cm-1) instead of the class's usual one; widen it on purpose only.",
+)
+@click.option(
     "--plot", type=click.Path(dir_okay=False), help="Write stick spectra (one panel per isomer) to this .svg or .png."
 )
 @click.option(
@@ -54,10 +59,13 @@ from enumerator.errors import InputError
 @click.option("--json", "as_json", is_flag=True, help="Print one JSON document.")
 @click.option("--out", type=click.Path(dir_okay=False), help="Write the text or JSON to this file (atomically).")
 @click.pass_context
-def bands(ctx, formula, geometry, reporters, klass, isomer_id, constants, fit, fixes, ck, plot, width, as_json, out):
+def bands(
+    ctx, formula, geometry, reporters, klass, isomer_id, constants, fit, fixes, ck, window, plot, width, as_json, out
+):
     """Predict the stretching bands of every isomer of FORMULA from an
     energy-factored (Cotton-Kraihanzel) force field, with relative IR
-    intensities and symmetry species; optionally fit the constants.
+    intensities (bond-dipole model, ideal angles), symmetry species and
+    position uncertainties; optionally fit the constants.
 
     \b
     Examples:
@@ -67,6 +75,7 @@ def bands(ctx, formula, geometry, reporters, klass, isomer_id, constants, fit, f
       isosieve bands Ma4b2 --reporter a=CO --isomer 1 --fit 2030,1940,1915,1890 --ck
       isosieve bands "[Cr(CO)5(13CO)]" --plot spectra.svg
     """
+    from enumerator.cli.match_cmd import parse_window
     from enumerator.render.bands import bands_plot, bands_text
     from enumerator.render.jsonout import dumps
     from enumerator.render.plots import format_for
@@ -89,6 +98,7 @@ def bands(ctx, formula, geometry, reporters, klass, isomer_id, constants, fit, f
         measured=parse_bands(fit, "--fit") if fit else None,
         fixed=_fixed(fixes) if fit else None,
         tie_ck=ck,
+        window=parse_window(window),
     )
     if plot:
         write_atomic_bytes(plot, bands_plot(result, format_for(plot), width))

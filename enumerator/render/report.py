@@ -261,7 +261,7 @@ def _table_html(header: Sequence[str], rows: Sequence[Sequence[str]]) -> str:
 
 
 # ---------------------------------------------------------------- pair grid
-_TECH_ORDER = ("ir", "raman", "nmr")
+_TECH_ORDER = ("ir", "ir (pattern)", "raman", "nmr")
 
 
 def _pair_ids(entry: Mapping[str, Any]) -> tuple[str, str] | None:
@@ -275,8 +275,13 @@ def _pair_ids(entry: Mapping[str, Any]) -> tuple[str, str] | None:
     return None
 
 
+#: Pair keys that qualify a verdict rather than name a technique.
+_QUALIFIER_KEYS = ("ir_bond_dipole_distinct", "ir_pattern_distinct", "cheapest_qualifier", "cheapest")
+
+
 def _distinguishers(entry: Mapping[str, Any]) -> list[str]:
-    """Which techniques tell a pair apart, as short labels."""
+    """Which techniques tell a pair apart, as short labels ('IR (pattern)' for the IR pattern tier; IR counts
+    that differ only by bands predicted weak are left out, as the pair verdicts leave them out)."""
     for key in ("distinguished_by", "by", "techniques", "methods"):
         v = entry.get(key)
         if isinstance(v, (list, tuple)):
@@ -285,12 +290,18 @@ def _distinguishers(entry: Mapping[str, Any]) -> list[str]:
     for k, v in entry.items():
         if k in ("a", "b", "pair", "isomers", "ids", "first", "second", "isomer_a", "isomer_b", "i", "j"):
             continue
+        if k in _QUALIFIER_KEYS:
+            continue
         if isinstance(v, bool) and v:
             out.append(k[: -len("_distinct")] if k.endswith("_distinct") else k)
         elif isinstance(v, Mapping):
             flag = v.get("distinguishable", v.get("distinct", v.get("differs")))
             if flag is True:
                 out.append(k)
+    if "ir" in out and entry.get("ir_bond_dipole_distinct") is False:
+        out.remove("ir")
+    if entry.get("ir_pattern_distinct") is True and "ir" not in out:
+        out.append("IR (pattern)")
     return out
 
 
@@ -361,7 +372,8 @@ def pair_grid_html(ids: Sequence[str], pairs: Any) -> str:
         The isomer ids, in table order.
     pairs : list or mapping
         The top-level ``pairs`` of a result: entries ``{"a", "b", "ir_distinct", "raman_distinct",
-        "nmr_distinct", "note"}``; ``distinguished_by`` lists and mappings keyed "a|b" are read too.
+        "nmr_distinct", "note", "ir_bond_dipole_distinct", "ir_pattern_distinct"}``; ``distinguished_by``
+        lists and mappings keyed "a|b" are read too.
 
     Returns
     -------
@@ -378,7 +390,10 @@ def pair_grid_html(ids: Sequence[str], pairs: Any) -> str:
         'style="background:repeating-linear-gradient(45deg,#fff 0 4px,#bbb 4px 6px)">none (hatched): '
         'not distinguishable</span><span style="background:#fde0c5">one technique</span>'
         '<span style="background:#f59e5a">two</span>'
-        '<span style="background:#a4471a;color:#fff">three or more</span></p>'
+        '<span style="background:#a4471a;color:#fff">three or more</span>'
+        "<span>IR = IR band counts differ; IR (pattern) = the predicted IR band patterns differ beyond the band "
+        "model's uncertainty (idealised bond-dipole intensities); IR counts that differ only by bands predicted "
+        "weak are not counted</span></p>"
     )
     return (
         '<table class="grid"><thead><tr><th>isomer</th>'
