@@ -110,7 +110,7 @@ def check_constants(values: Mapping[str, float], option: str = "--constants") ->
     ...     check_constants({"k": 1e308})
     ... except InputError as exc:
     ...     print(exc.what)
-    --constants: k = 1e+308 mdyn/Å is outside the physical range of a stretching constant, 2-30 mdyn/Å
+    --constants: k = 1e+308 mdyn/Å is outside the physical range of a stretching constant, from 2 to 30 mdyn/Å
     """
     example = {"interaction": "kc=0.3", "stretch": "k=16.2"}
     for name, v in values.items():
@@ -119,8 +119,9 @@ def check_constants(values: Mapping[str, float], option: str = "--constants") ->
         if not (math.isfinite(v) and lo <= v <= hi):
             what = "an interaction constant" if kind == "interaction" else "a stretching constant"
             raise InputError(
-                f"{option}: {name} = {v:g} mdyn/Å is outside the physical range of {what}, {lo:g}-{hi:g} mdyn/Å",
-                f"give a value in mdyn/Å inside {lo:g}-{hi:g}, e.g. {option} {example[kind]}",
+                f"{option}: {name} = {v:g} mdyn/Å is outside the physical range of {what}, "
+                f"from {lo:g} to {hi:g} mdyn/Å",
+                f"give a value in that range, e.g. {option} {example[kind]}",
             )
 
 

@@ -101,6 +101,7 @@ __all__ = [
     "DEFAULT_WEAK",
     "INTENSITY_WORDS",
     "MAX_INTENSITY",
+    "WINDOW_LIMITS",
     "IDEALISED_NOTE",
 ]
 
@@ -114,6 +115,8 @@ INTENSITY_WORDS: Mapping[str, float] = MappingProxyType(
 )
 #: The largest intensity number accepted: relative intensities, as fractions of the strongest or in per cent.
 MAX_INTENSITY = 100.0
+#: cm-1: no window, however widened, reaches outside this (the mid-infrared where stretching bands lie).
+WINDOW_LIMITS = (100.0, 4000.0)
 #: What every output says about the predicted intensities.
 IDEALISED_NOTE = (
     "predicted intensities are idealised: bond-dipole model on the ideal polyhedron (ideal angles, one dipole "
@@ -297,13 +300,20 @@ def check_window(
     """
     lo, hi = window
     for v in values:
-        if not lo <= v <= hi:
-            wide = f"{min(lo, math.floor(v / 50) * 50):g}:{max(hi, math.ceil(v / 50) * 50):g}"
+        if lo <= v <= hi:
+            continue
+        where = f"{option}: {v:g} cm-1 is outside the {reporter_class} window {lo:g}-{hi:g} cm-1 ({source})"
+        if not WINDOW_LIMITS[0] <= v <= WINDOW_LIMITS[1]:
             raise InputError(
-                f"{option}: {v:g} cm-1 is outside the {reporter_class} window {lo:g}-{hi:g} cm-1 ({source})",
-                f"check the value (a typing slip?); if the band is real, widen the window on purpose, "
-                f"e.g. --window {wide}",
+                where,
+                f"check the value (a typing slip?): stretching bands lie within {WINDOW_LIMITS[0]:g}-"
+                f"{WINDOW_LIMITS[1]:g} cm-1",
             )
+        wide = f"{min(lo, math.floor(v / 50) * 50):g}:{max(hi, math.ceil(v / 50) * 50):g}"
+        raise InputError(
+            where,
+            f"check the value (a typing slip?); if the band is real, widen the window on purpose, e.g. --window {wide}",
+        )
 
 
 # --------------------------------------------------------------------------
