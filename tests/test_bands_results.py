@@ -21,7 +21,7 @@ def test_bands_cli_is_the_result_rendered():
     code, out, err = cli(["bands", "[Cr(CO)5(PPh3)]", "--json"])
     assert code == 0, err
     assert out == dumps(result.to_dict())
-    assert list(json.loads(out)) == ["formula", "geometry", "geometry_reason", "isomers", "safety"]
+    assert list(json.loads(out)) == ["formula", "geometry", "geometry_reason", "isomers", "notes", "safety"]
     code, out, _ = cli(["bands", "[Cr(CO)5(PPh3)]"])
     assert out == bands_text(result)
 
@@ -87,3 +87,24 @@ def test_plots_leave_pyplot_alone():
     )
     out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True).stdout
     assert out.split() == ["False"]
+
+
+def test_bands_say_how_sure_and_how_idealised():
+    # the bands answer states the position uncertainty it used (the class default while the band model gives
+    # none: 30 cm-1 for CO, a tool convention) and that the intensities are the bond-dipole model's on the
+    # ideal polyhedron
+    result = predict_spectra(Request("[Cr(CO)5(PPh3)]"))
+    doc = result.to_dict()
+    pat = doc["isomers"][0]["patterns"][0]
+    assert pat["position_sigma_cm1"] == 30.0 and pat["position_sigma_default"] is True
+    assert pat["ir_count"] == 3 and pat["ir_predicted_weak"] == 0  # 2A1 + E (Cotton 10.2)
+    assert any("idealised" in n for n in doc["notes"]) and any("class default" in n for n in doc["notes"])
+    text = bands_text(result)
+    assert "± cm-1" in text and "IR: 3; position uncertainty ± 30 cm-1" in text
+
+
+def test_match_text_says_the_ranking_and_its_decision():
+    report = match_spectrum(MA4B2, [2030.0, 1940.0, 1915.0, 1890.0])
+    text = match_text(report)
+    assert text.splitlines()[2].startswith("ranking: 1 1.00") and "strong evidence" in text.splitlines()[2]
+    assert "measurement term ± 5 cm-1" in text
