@@ -51,7 +51,7 @@ from enumerator.errors import InputError
 )
 @click.option(
     "--width",
-    type=click.FloatRange(min=0.1),
+    type=click.FloatRange(min=0.1, max=500.0),
     default=10.0,
     show_default=True,
     help="Lorentzian full width at half maximum for --plot, cm-1.",

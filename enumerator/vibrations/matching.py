@@ -485,7 +485,7 @@ class MatchResult:
             "window_cm1": list(self.window),
             "window_source": self.window_source,
             "decision": self.decision,
-            "odds": None if self.odds is None else (round(self.odds, 2) if math.isfinite(self.odds) else "inf"),
+            "odds": None if self.odds is None else float(f"{self.odds:.4g}"),
             "reliable": self.reliable,
             "looks_like_no_candidate": self.looks_like_none,
             "candidates": [c.to_dict() for c in self.candidates],
@@ -830,11 +830,15 @@ def _ranked(cands: Sequence[Candidate], reporter_class: str, n_measured: int) ->
 
 
 def _decision(ranked: Sequence[Candidate]) -> tuple[str, float | None]:
-    """('strong' | 'favoured' | 'undecided', odds of the first against the rest)."""
+    """('strong' | 'favoured' | 'undecided', odds of the first against the rest), the odds from the log
+    evidences (finite however lopsided)."""
     if len(ranked) < 2:
         return "single", None
-    p = ranked[0].probability
-    odds = p / (1.0 - p) if p < 1.0 else math.inf
+    top = ranked[0].log_evidence
+    rest = [c.log_evidence for c in ranked[1:]]
+    m = max(rest)
+    log_rest = m + math.log(sum(math.exp(x - m) for x in rest))
+    odds = math.exp(min(top - log_rest, 690.0))
     if odds >= STRONG_ODDS:
         return "strong", odds
     if odds >= DECIDE_ODDS:
@@ -846,7 +850,7 @@ def _decision_note(ranked: Sequence[Candidate], decision: str, odds: float | Non
     if decision == "single":
         return "only one candidate: the ranking says how well it explains the bands, not which isomer it is"
     top = "/".join(ranked[0].isomers)
-    shown = "inf" if odds is None or not math.isfinite(odds) else f"{odds:.3g}"
+    shown = "-" if odds is None else f"{odds:.3g}"
     if decision == "strong":
         return f"isomer {top} is strongly favoured (odds {shown} : 1 against the rest; strong from 20, Kass & Raftery)"
     if decision == "favoured":
