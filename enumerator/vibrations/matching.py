@@ -58,6 +58,7 @@ purpose (``window``).
 
 from __future__ import annotations
 
+import inspect
 import math
 import re
 from collections.abc import Mapping, Sequence
@@ -82,6 +83,7 @@ from enumerator.analyses.stretch.likelihood import (
 from enumerator.analyses.stretch.modes import ModeSet, stretch_modes
 from enumerator.errors import InputError
 from enumerator.isomers.enumeration import Isomer, IsomerSet
+from enumerator.model.composition import Composition
 from enumerator.rules.reporters import load_reporters
 from enumerator.rules.ruleset import RuleSet, load_rules
 from enumerator.vibrations.fitting import FitResult, Observation, dicarbonyl_angle, fit_constants
@@ -95,6 +97,7 @@ __all__ = [
     "match_bands",
     "parse_measured",
     "predicted_bands",
+    "pattern_for",
     "class_window",
     "check_window",
     "DEFAULT_TOLERANCE",
@@ -214,6 +217,34 @@ def _intensity(words: str | None, part: str, option: str) -> float | None:
 
 # --------------------------------------------------------------------------
 # the predicted bands as the likelihood reads them, and the class's window
+
+#: Whether :func:`band_pattern` takes the composition (the band model for real complexes needs the metal, its
+#: charge and the ligands; a version without that keyword predicts from the generic constants alone).
+_PATTERN_TAKES_COMPOSITION = "composition" in inspect.signature(band_pattern).parameters
+
+
+def pattern_for(
+    isomer: Isomer, reporter_class: str, *, rules: RuleSet | None, composition: Composition | None
+) -> BandPattern:
+    """The predicted pattern the matcher and the pair verdicts use: :func:`band_pattern` of the isomer, given
+    its composition so that the band model can use the metal, the charge and the ligands.
+
+    Parameters
+    ----------
+    isomer : Isomer
+    reporter_class : str
+    rules : RuleSet or None
+    composition : Composition or None
+        The isomer's composition (None: the generic constants).
+
+    Returns
+    -------
+    BandPattern
+    """
+    extra: dict[str, Any] = {}
+    if _PATTERN_TAKES_COMPOSITION and composition is not None:
+        extra["composition"] = composition
+    return band_pattern(isomer, reporter_class, rules=rules, **extra)
 
 
 def predicted_bands(pattern: BandPattern, modes: ModeSet) -> tuple[PredictedBand, ...]:
@@ -571,12 +602,13 @@ class _Settings:
     tolerance: float
     weak: float
     window_width: float
+    composition: Composition | None = None
 
 
 def _evaluate(isomers: Sequence[Isomer], obs: Observed, cfg: _Settings, descriptor, rules) -> Candidate:
     """The likelihood of one geometric isomer (its enantiomers share the spectrum), with what it assigns."""
     iso = isomers[0]
-    pattern = band_pattern(iso, cfg.reporter_class, rules=rules)
+    pattern = pattern_for(iso, cfg.reporter_class, rules=rules, composition=cfg.composition)
     modes = stretch_modes(iso, pattern.reporter_class)
     pred = predicted_bands(pattern, modes)
     sc: PatternScore = score_pattern(
@@ -956,7 +988,7 @@ def match_bands(
         win, source = (float(window[0]), float(window[1])), "widened on purpose with --window"
     check_window(meas, reporter_class, win, source, "--bands")
     obs = Observed(meas, meas_int if any(x is not None for x in meas_int) else ())
-    cfg = _Settings(reporter_class, float(tolerance), float(weak), win[1] - win[0])
+    cfg = _Settings(reporter_class, float(tolerance), float(weak), win[1] - win[0], isomer_set.composition)
     groups: dict[int, list[Isomer]] = {}
     for iso in isomer_set.isomers:
         groups.setdefault(iso.number, []).append(iso)

@@ -54,6 +54,7 @@ from enumerator.vibrations.matching import (
     check_window,
     class_window,
     match_bands,
+    pattern_for,
     predicted_bands,
 )
 from enumerator.vibrations.model import build_model, reporter_classes
@@ -466,7 +467,12 @@ def stretch_stage(res: ResultView, req: RequestView) -> StretchAnalysis:
     for iso in res.isomers:
         try:
             patterns.append(
-                tuple(predicted_bands(band_pattern(iso, c, rules=rules), stretch_modes(iso, c)) for c in a.classes)
+                tuple(
+                    predicted_bands(
+                        pattern_for(iso, c, rules=rules, composition=res.composition), stretch_modes(iso, c)
+                    )
+                    for c in a.classes
+                )
             )
         except IsosieveError as exc:
             failed.append(f"{iso.id}: {exc.what}")
