@@ -322,4 +322,7 @@ def test_undecided_and_probabilities_are_said_plainly():
         sum(c["probability"] for c in doc["candidates"]), 1, abs_tol=1e-3
     )
     assert any("predicted intensities are idealised" in n for n in doc["match_notes"])
-    assert any("default 30 cm-1 for CO" in n for n in doc["match_notes"])
+    # the notes say which position uncertainty was used: the class default (30 cm-1 for CO, a tool convention)
+    # only where the band model gives no sigma
+    defaulted = any(c["sigma_default"] for c in doc["candidates"])
+    assert any("default 30 cm-1 for CO" in n for n in doc["match_notes"]) == defaulted
