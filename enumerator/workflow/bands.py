@@ -172,10 +172,11 @@ def _class_bands(
     tie_ck: bool,
     others: Sequence[str],
     rules: RuleSet,
+    composition: Composition | None = None,
 ) -> ClassBands:
     """One class on one isomer; ``others`` are the ids of every isomer shown (a fit needs exactly one)."""
     use = _constants_for(iso, cls, constants, rules) if constants and per_isomer else constants
-    pattern = band_pattern(iso, cls, use, rules=rules)
+    pattern = band_pattern(iso, cls, use, rules=rules, composition=composition)
     if measured is None:
         return ClassBands(cls, pattern)
     if len(others) > 1:
@@ -249,6 +250,7 @@ def predict_spectra(
                 tie_ck=tie_ck,
                 others=ids,
                 rules=rules,
+                composition=comp,
             )
             for cls in classes
         )
