@@ -38,7 +38,21 @@ GROUPS_FILE = BUILTIN_RULES / "bandgroups.toml"
 
 #: Kinds of parameter name (the part before the first colon) and how many colon-separated parts follow.
 PARAMETER_KINDS = MappingProxyType(
-    {"k0": 1, "d": 2, "q": 1, "q2": 1, "row": 2, "phase": 2, "ea": 2, "eb": 2, "la": 2, "lb": 2, "ia": 1, "ib": 1, "ig": 1}
+    {
+        "k0": 1,
+        "d": 2,
+        "q": 1,
+        "q2": 1,
+        "row": 2,
+        "phase": 2,
+        "ea": 2,
+        "eb": 2,
+        "la": 2,
+        "lb": 2,
+        "ia": 1,
+        "ib": 1,
+        "ig": 1,
+    }
 )
 _NAME = re.compile(r"^[^:\s]+(:[^:\s]+)+$")
 _MODEL_KEYS = ("name", "method", "dataset", "fitted", "command", "reference_k", "ridge")

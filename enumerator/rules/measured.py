@@ -89,7 +89,7 @@ class MeasuredComplex:
 
 def _text(v: object, where: str, key: str, empty_ok: bool = True) -> str:
     if not isinstance(v, str) or (not empty_ok and not v.strip()):
-        raise rule_error(where, f"'{key}' must be {'a' if empty_ok else 'a non-empty'} string", f"write {key} = \"...\"")
+        raise rule_error(where, f"'{key}' must be {'a' if empty_ok else 'a non-empty'} string", f'write {key} = "..."')
     return v
 
 
@@ -102,7 +102,9 @@ def _band(b: Any, where: str) -> MeasuredBand:
         raise rule_error(where, f"band cm1 = {cm1!r} is not a wavenumber", "give a number of cm-1 between 0 and 4000")
     cls = b["class"]
     if cls not in REPORTER_CLASSES:
-        raise rule_error(where, f"band class '{cls}' is not a reporter class", f"use one of {', '.join(REPORTER_CLASSES)}")
+        raise rule_error(
+            where, f"band class '{cls}' is not a reporter class", f"use one of {', '.join(REPORTER_CLASSES)}"
+        )
     if b["technique"] not in ("IR", "Raman"):
         raise rule_error(where, f"technique '{b['technique']}' is neither IR nor Raman", 'write technique = "IR"')
     species = b.get("species")
@@ -122,8 +124,11 @@ def _row(c: Any, where: str) -> MeasuredComplex:
     for key in ("isomer", "geometry", "note"):
         _text(c[key], where, key)
     if not c["confirmed"].lower().startswith(("search", "from memory")):
-        raise rule_error(where, "'confirmed' says neither how the value was seen nor that it is recalled",
-                         "start it with 'search ...' (where it was seen) or 'from memory'")
+        raise rule_error(
+            where,
+            "'confirmed' says neither how the value was seen nor that it is recalled",
+            "start it with 'search ...' (where it was seen) or 'from memory'",
+        )
     bands = c["bands"]
     if not isinstance(bands, list) or not bands:
         raise rule_error(where, "no bands", "give bands = [ { cm1 = ..., class = ..., technique = ... } ]")
@@ -157,7 +162,7 @@ def _row(c: Any, where: str) -> MeasuredComplex:
 
 @cached(maxsize=4)
 def _load(folder: Path, stamp: tuple[tuple[str, int, int], ...]) -> tuple[MeasuredComplex, ...]:
-    out = []
+    out: list[MeasuredComplex] = []
     for name, _, _ in stamp:
         path = folder / name
         doc = read_toml(path)
