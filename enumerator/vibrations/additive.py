@@ -41,7 +41,7 @@ parameter values; :func:`coverage` says which ligands fall back.
 >>> iso = enumerate_isomers(comp, rules.geometry("OC-6")).isomers[0]
 >>> d = build_design(iso, centre_of(comp), "CO")
 >>> d.pclass, len(d.sites), [n for n, _ in d.terms[0][:3]]
-('CO', 6, ['k0:CO', 'd:CO:6', 'q:CO'])
+('CO', 6, ['k0:CO', 'd:CO:6', 'ea:CO:CO'])
 """
 
 from __future__ import annotations

@@ -163,7 +163,22 @@ def _pick(iso_set, comp: Composition, text: str) -> list[Isomer]:
                 alt.append(i)
         if len({i.number for i in alt}) == 1:
             return alt
+        if text in ("cis", "trans"):
+            alt = [i for i in iso_set.isomers if _reporters_relate(i, text)]
+            if len({i.number for i in alt}) == 1:
+                return alt
     return found
+
+
+def _reporters_relate(isomer: Isomer, relation: str) -> bool:
+    """Whether every reporter site is ``relation`` ('cis'/'trans') to every monodentate non-reporter site
+    ('trans-[Ru(NO)(dmgH)2Cl]': the nitrosyl trans to the chloride, the chelates in the plane)."""
+    mono = [
+        s.index for s in isomer.sites if s.reporter is None and not any(s.index in (a, b) for a, b, _ in isomer.links())
+    ]
+    reps = [s.index for s in isomer.sites if s.reporter]
+    geo = isomer.geometry
+    return bool(mono and reps) and all(geo.relation(r, m) == relation for r in reps for m in mono)
 
 
 def _phase(text: str) -> str:

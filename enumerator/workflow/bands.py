@@ -10,7 +10,7 @@ renderers in :mod:`enumerator.render.bands` draw the text and the plots.
 
 >>> r = predict_spectra(Request("[Cr(CO)6]"))
 >>> [(b.species, round(b.wavenumber)) for b in r.isomers[0].patterns[0].pattern.ir_bands]
-[('T1u', 1978)]
+[('T1u', 1985)]
 >>> m = match_spectrum(Request("Ma4b2", reporters=(("a", "CO"),)), [1950.0])
 >>> m.match.candidates[0].point_group
 'D4h'
