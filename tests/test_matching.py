@@ -38,6 +38,8 @@ def _top(formula, bands):
     """The first candidate of ``isosieve match FORMULA --bands BANDS`` and the whole report."""
     obs = parse_measured(bands)
     rep = match_spectrum(Request(formula), [v for v, _ in obs], [x for _, x in obs])
+    # the textbook cases are judged on the additive band model's absolute predictions and its sigma
+    assert all(c.band_model == "additive" and not c.sigma_default for c in rep.match.candidates)
     return rep.match.candidates[0], rep.match
 
 
@@ -128,11 +130,11 @@ def test_a_shift_far_outside_the_model_is_reported():
 
 
 def test_bands_outside_the_window_are_refused_in_one_line():
-    # CO window 1850-2125 cm-1 (rules/reporters.toml, Nakamoto; from memory); [Ti(CO)6]2- absorbs near 1748
-    # (from memory), so it needs the window widened on purpose
+    # CO window 1850-2125 cm-1 (rules/reporters.toml, Nakamoto; from memory); a band at 1748 cm-1 is no
+    # [Cr(CO)6] band (its T1u band lies near 1985-2000; from memory), so it needs the window widened on purpose
     for args, words in (
         (["match", "[Cr(CO)6]", "--bands", "19500"], "19500 cm-1 is outside the CO window 1850-2125"),
-        (["match", "[Ti(CO)6]2-", "--bands", "1748"], "--window 1700:2125"),
+        (["match", "[Cr(CO)6]", "--bands", "1748"], "--window 1700:2125"),
         (["match", "[Cr(CO)6]", "--bands", "2000", "--window", "5:9"], "not a range inside 100-4000"),
         (["match", "[Cr(CO)6]", "--bands", "2000", "--window", "abc"], "is not LOW:HIGH"),
         (["match", "[Cr(CO)6]", "--bands", "2000 (500)"], "(0, 100]"),
@@ -149,6 +151,36 @@ def test_bands_outside_the_window_are_refused_in_one_line():
     code, out, err = run_cli(["match", "[Ti(CO)6]2-", "--bands", "1748", "--window", "1700:2125", "--json"])
     assert code == 0, err
     assert json.loads(out)["window_source"] == "widened on purpose with --window"
+
+
+def test_the_window_reaches_the_band_model_s_prediction_for_the_formula():
+    # [Ti(CO)6]2- absorbs near 1748 cm-1 and [V(CO)6]- near 1859 (T1u; from memory), below the usual CO window
+    # 1850-2125: the band model predicts them there, so the window reaches out to its predictions ± 4 sigma
+    # and says so; the generic constants of an abstract formula never widen it
+    for formula, band in (("[Ti(CO)6]2-", "1748"), ("[V(CO)6]-", "1859")):
+        code, out, err = run_cli(["match", formula, "--bands", band, "--json"])
+        assert code == 0, err
+        doc = json.loads(out)
+        c = doc["candidates"][0]
+        assert c["band_model"] == "additive" and c["shift_z"] < 3 and doc["reliable"]
+        assert doc["window_cm1"][0] < float(band)
+        assert "widened to the predicted bands" in doc["window_source"]
+    m = match_spectrum(Request("Ma6", reporters=(("a", "CO"),)), [2000.0])
+    assert m.match.window == (1850.0, 2125.0) and "widened" not in m.match.window_source
+    assert m.match.candidates[0].band_model == "generic" and m.match.candidates[0].sigma_default
+
+
+def test_candidates_say_which_model_predicted_them():
+    # a real complex is predicted by the additive band model (sigma from its cross-validation); the JSON says
+    # which model and which ligands fell back; an abstract formula uses the generic constants, said as such
+    doc = match_spectrum(Request("[Mo(CO)4(PPh3)2]"), [1890.0]).match.to_dict()
+    for c in doc["candidates"]:
+        assert c["band_model"] in ("additive", "generic") and isinstance(c["fallbacks"], list)
+        assert isinstance(c["model_notes"], list)
+        assert c["sigma_default"] == (c["band_model"] == "generic")
+    doc = match_spectrum(Request("Ma4b2", reporters=(("a", "CO"),)), [1950.0]).match.to_dict()
+    assert {c["band_model"] for c in doc["candidates"]} == {"generic"}
+    assert any("default 30 cm-1 for CO" in n and "generic constants" in n for n in doc["match_notes"])
 
 
 def test_cli_json_and_errors():

@@ -15,6 +15,7 @@ from enumerator.render.plots import spectra_figure
 from enumerator.render.text import table
 from enumerator.vibrations.fitting import FitResult
 from enumerator.vibrations.matching import MatchResult
+from enumerator.vibrations.pattern import BandPattern
 from enumerator.vibrations.solver import Band
 from enumerator.workflow.bands import BandsResult, ClassBands, IsomerBands, MatchReport
 
@@ -73,13 +74,19 @@ def _class_lines(entry: IsomerBands, cb: ClassBands) -> list[str]:
     sigma, default = cb.sigma
     lines.append(
         f"  IR: {ir}; position uncertainty ± {sigma:.0f} cm-1"
-        + (f" (* the {pat.reporter_class} default: the band model gives none)" if default else " (band model)")
+        + (f" (* the {pat.reporter_class} default: the band model gives none)" if default else _model_tag(pat))
     )
     lines += [f"  note: {n}" for n in pat.notes]
     if cb.fit is not None:
         lines += _fit_lines(cb.fit)
     lines.append("")
     return lines
+
+
+def _model_tag(pat: BandPattern) -> str:
+    """Which model gave the sigma shown, and the ligands it widened it for."""
+    name = "additive band model" if pat.model_name == "additive" else "band model"
+    return f" ({name}" + (f"; widened for {', '.join(pat.fallbacks)}" if pat.fallbacks else "") + ")"
 
 
 def _safety_lines(safety: Sequence[str]) -> list[str]:
@@ -143,6 +150,8 @@ def match_text(report: MatchReport) -> str:
         f"window {res.window[0]:g}-{res.window[1]:g} cm-1)",
         "",
     ]
+    if "widened" in res.window_source:
+        lines[-1:-1] = [f"window: {res.window_source}"]
     if not res.reliable:
         lines += ["UNRELIABLE: " + res.notes[0], ""]
     lines.append(

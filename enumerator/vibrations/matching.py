@@ -42,8 +42,10 @@ a cis-M(CO)2 unit with both intensities the OC-M-CO angle that the
 bond-dipole model reads from their ratio (:func:`~enumerator.vibrations.fitting.dicarbonyl_angle`).
 
 Measured bands outside the class's window (``ir_window_cm1`` of
-rules/reporters.toml) are refused unless the caller widens the window on
-purpose (``window``).
+rules/reporters.toml, reaching out to every candidate's predicted IR bands
+± :data:`WINDOW_SIGMAS` sigma where the band model puts them outside it, as for
+[Ti(CO)6]2-) are refused unless the caller widens the window on purpose
+(``window``).
 
 >>> from enumerator.rules.ruleset import load_rules
 >>> from enumerator.parse.abstract import parse_abstract
@@ -58,7 +60,6 @@ purpose (``window``).
 
 from __future__ import annotations
 
-import inspect
 import math
 import re
 from collections.abc import Mapping, Sequence
@@ -99,6 +100,7 @@ __all__ = [
     "predicted_bands",
     "pattern_for",
     "class_window",
+    "predicted_window",
     "check_window",
     "DEFAULT_TOLERANCE",
     "DEFAULT_WEAK",
@@ -218,10 +220,6 @@ def _intensity(words: str | None, part: str, option: str) -> float | None:
 # --------------------------------------------------------------------------
 # the predicted bands as the likelihood reads them, and the class's window
 
-#: Whether :func:`band_pattern` takes the composition (the band model for real complexes needs the metal, its
-#: charge and the ligands; a version without that keyword predicts from the generic constants alone).
-_PATTERN_TAKES_COMPOSITION = "composition" in inspect.signature(band_pattern).parameters
-
 
 def pattern_for(
     isomer: Isomer, reporter_class: str, *, rules: RuleSet | None, composition: Composition | None
@@ -241,10 +239,7 @@ def pattern_for(
     -------
     BandPattern
     """
-    extra: dict[str, Any] = {}
-    if _PATTERN_TAKES_COMPOSITION and composition is not None:
-        extra["composition"] = composition
-    return band_pattern(isomer, reporter_class, rules=rules, **extra)
+    return band_pattern(isomer, reporter_class, rules=rules, composition=composition)
 
 
 def predicted_bands(pattern: BandPattern, modes: ModeSet) -> tuple[PredictedBand, ...]:
@@ -305,6 +300,45 @@ def class_window(reporter_class: str, rules: RuleSet | None = None) -> tuple[tup
             f"no reporter class '{reporter_class}' in the reporter rules", f"known: {', '.join(reps.names)}"
         ) from None
     return (float(c.window[0]), float(c.window[1])), c.source
+
+
+#: How many of a predicted band's sigmas the window reaches beyond it, when the band model puts a formula's bands
+#: outside the class's usual window (e.g. [Ti(CO)6]2-, whose T1u band lies near 1750 cm-1).
+WINDOW_SIGMAS = 4.0
+
+
+def predicted_window(
+    reporter_class: str, predictions: Sequence[Sequence[PredictedBand]], rules: RuleSet | None = None
+) -> tuple[tuple[float, float], str]:
+    """The window measured bands must lie in: the class's, reaching out to the band model's predictions.
+
+    A formula whose bands the band model predicts outside the class's usual window (a highly charged
+    carbonylate, a cationic carbonyl) keeps its measured bands: the window is widened to every predicted
+    IR band ± :data:`WINDOW_SIGMAS` of its sigma, and the source says so.  Only the band model's own
+    predictions widen it (bands with a sigma of their own); the generic constants never do.
+
+    Parameters
+    ----------
+    reporter_class : str
+    predictions : Sequence[Sequence[PredictedBand]]
+        The IR-allowed predicted bands of every candidate.
+    rules : RuleSet, optional
+
+    Returns
+    -------
+    ((low, high), source)
+    """
+    (lo, hi), source = class_window(reporter_class, rules)
+    bands = [b for p in predictions for b in p if not b.sigma_default]
+    plo = min((b.wavenumber - WINDOW_SIGMAS * b.sigma for b in bands), default=lo)
+    phi = max((b.wavenumber + WINDOW_SIGMAS * b.sigma for b in bands), default=hi)
+    if plo >= lo and phi <= hi:
+        return (lo, hi), source
+    new = (max(min(lo, math.floor(plo)), WINDOW_LIMITS[0]), min(max(hi, math.ceil(phi)), WINDOW_LIMITS[1]))
+    return new, (
+        f"{source}; widened to the predicted bands of this formula ± {WINDOW_SIGMAS:g} σ, "
+        f"since the band model puts some outside {lo:g}-{hi:g} cm-1"
+    )
 
 
 def check_window(
@@ -409,6 +443,12 @@ class Candidate:
     swapped: bool = False
     oc_angle: float | None = None
     assignments_scored: int = 0
+    #: which model predicted the positions: 'additive' (the fitted ligand-effect model) or 'generic'
+    band_model: str = "generic"
+    #: ligands the band model has no parameters of its own for (their sigma is widened)
+    fallbacks: tuple[str, ...] = ()
+    #: what the band model says about this prediction (fallbacks, why the generic constants were used)
+    model_notes: tuple[str, ...] = ()
 
     @property
     def ir_bands(self) -> tuple[Band, ...]:
@@ -448,6 +488,9 @@ class Candidate:
             "shift_sigma_cm1": round(self.shift_sigma, 1),
             "shift_z": None if self.shift_z is None else round(self.shift_z, 2),
             "sigma_default": self.sigma_default,
+            "band_model": self.band_model,
+            "fallbacks": list(self.fallbacks),
+            "model_notes": list(self.model_notes),
             "rms": round(self.rms, 2) if math.isfinite(self.rms) else None,
             "max_residual": round(self.max_residual, 1) if math.isfinite(self.max_residual) else None,
             "assignment": [
@@ -605,12 +648,35 @@ class _Settings:
     composition: Composition | None = None
 
 
-def _evaluate(isomers: Sequence[Isomer], obs: Observed, cfg: _Settings, descriptor, rules) -> Candidate:
+@dataclass(frozen=True)
+class _Prediction:
+    """One geometric isomer's predicted pattern, its stretch species and the bands as the likelihood reads them."""
+
+    pattern: BandPattern
+    modes: ModeSet
+    bands: tuple[PredictedBand, ...]
+
+
+def _predict(iso: Isomer, reporter_class: str, composition: Composition | None, rules: RuleSet) -> _Prediction:
+    pattern = pattern_for(iso, reporter_class, rules=rules, composition=composition)
+    modes = stretch_modes(iso, pattern.reporter_class)
+    return _Prediction(pattern, modes, predicted_bands(pattern, modes))
+
+
+def _model_notes(pattern: BandPattern) -> tuple[str, ...]:
+    """What the band model says about its own prediction: which model, and the ligands that fell back."""
+    if pattern.model_name == "additive":
+        keep = ("parameters", "sigma", "band model", "base value")
+        return tuple(n for n in pattern.notes if any(k in n for k in keep))
+    return tuple(n for n in pattern.notes if "generic constants" in n or "band model" in n)
+
+
+def _evaluate(
+    isomers: Sequence[Isomer], obs: Observed, cfg: _Settings, descriptor, rules, prediction: _Prediction
+) -> Candidate:
     """The likelihood of one geometric isomer (its enantiomers share the spectrum), with what it assigns."""
     iso = isomers[0]
-    pattern = pattern_for(iso, cfg.reporter_class, rules=rules, composition=cfg.composition)
-    modes = stretch_modes(iso, pattern.reporter_class)
-    pred = predicted_bands(pattern, modes)
+    pattern, modes, pred = prediction.pattern, prediction.modes, prediction.bands
     sc: PatternScore = score_pattern(
         obs, pred, window_width=cfg.window_width, measurement_sigma=cfg.tolerance, weak=cfg.weak
     )
@@ -660,6 +726,9 @@ def _evaluate(isomers: Sequence[Isomer], obs: Observed, cfg: _Settings, descript
         swapped=it.swapped,
         oc_angle=_oc_angle(iso, pattern, it, obs, pred),
         assignments_scored=sc.tried,
+        band_model=pattern.model_name,
+        fallbacks=pattern.fallbacks,
+        model_notes=_model_notes(pattern),
     )
 
 
@@ -704,7 +773,10 @@ def _headline(c: Candidate, reporter_class: str, n_measured: int, n_candidates: 
 def _shift_sentences(c: Candidate, reporter_class: str) -> list[str]:
     if not c.assignment:
         return ["No measured band is explained by this isomer's pattern."]
-    where = "default for " + reporter_class + ", the band model gives none" if c.sigma_default else "band model"
+    if c.sigma_default:
+        where = f"default for {reporter_class}: positions from the generic constants, the band model gives no sigma"
+    else:
+        where = "additive band model" + (f"; widened for {', '.join(c.fallbacks)}" if c.fallbacks else "")
     out = [
         f"Common shift {c.shift_cm1:+.0f} cm-1 (Δk = {c.shift:+.2f} mdyn/Å of every stretching constant); "
         f"the bands ask for {c.shift_z:.1f} σ of the {c.shift_sigma:.0f} cm-1 position uncertainty ({where})."
@@ -775,6 +847,7 @@ def _explain(c: Candidate, reporter_class: str, n_measured: int, n_candidates: i
     parts = [
         _headline(c, reporter_class, n_measured, n_candidates),
         *_shift_sentences(c, reporter_class),
+        *(f"Band model: {n}." for n in c.model_notes),
         *_count_sentences(c),
         *_intensity_sentences(c),
         *_verdict_sentences(c),
@@ -924,9 +997,15 @@ def _sigma_note(ranked: Sequence[Candidate], reporter_class: str) -> str:
     if any(c.sigma_default for c in ranked):
         return (
             f"position uncertainty: the default {default_sigma(reporter_class):g} cm-1 for {reporter_class} "
-            "(a tool convention; the band model gives no sigma for these bands), plus the measurement term"
+            "(a tool convention, wider than the band model's; the positions come from the generic constants "
+            "and the band model gives no sigma for these bands), plus the measurement term"
         )
-    return "position uncertainty: each band's sigma from the band model, plus the measurement term"
+    widened = sorted({x for c in ranked for x in c.fallbacks})
+    return (
+        "position uncertainty: each band's sigma from the additive band model"
+        + (f" (widened where it falls back for {', '.join(widened)})" if widened else "")
+        + ", plus the measurement term"
+    )
 
 
 def match_bands(
@@ -983,18 +1062,20 @@ def match_bands(
     reporter_class = _reporter_class(isomer_set, reporter_class)
     rules = rules if rules is not None else load_rules()
     meas, meas_int = _sorted_measured(measured, intensities)
-    win, source = class_window(reporter_class, rules)
-    if window is not None:
-        win, source = (float(window[0]), float(window[1])), "widened on purpose with --window"
-    check_window(meas, reporter_class, win, source, "--bands")
-    obs = Observed(meas, meas_int if any(x is not None for x in meas_int) else ())
-    cfg = _Settings(reporter_class, float(tolerance), float(weak), win[1] - win[0], isomer_set.composition)
     groups: dict[int, list[Isomer]] = {}
     for iso in isomer_set.isomers:
         groups.setdefault(iso.number, []).append(iso)
+    preds = {n: _predict(groups[n][0], reporter_class, isomer_set.composition, rules) for n in sorted(groups)}
+    if window is not None:
+        win, source = (float(window[0]), float(window[1])), "widened on purpose with --window"
+    else:
+        win, source = predicted_window(reporter_class, [p.bands for p in preds.values()], rules)
+    check_window(meas, reporter_class, win, source, "--bands")
+    obs = Observed(meas, meas_int if any(x is not None for x in meas_int) else ())
+    cfg = _Settings(reporter_class, float(tolerance), float(weak), win[1] - win[0], isomer_set.composition)
     cands = [
-        _evaluate(groups[number], obs, cfg, (descriptors or {}).get(groups[number][0].id), rules)
-        for number in sorted(groups)
+        _evaluate(groups[n], obs, cfg, (descriptors or {}).get(groups[n][0].id), rules, preds[n])
+        for n in sorted(groups)
     ]
     ranked = _ranked(cands, reporter_class, len(meas))
     decision, odds = _decision(ranked)

@@ -21,7 +21,7 @@ gives its species zero intensity
 
 >>> r = predict_spectra(Request("[Cr(CO)6]"))
 >>> [(b.species, round(b.wavenumber)) for b in r.isomers[0].patterns[0].pattern.ir_bands]
-[('T1u', 1978)]
+[('T1u', 1985)]
 >>> m = match_spectrum(Request("Ma4b2", reporters=(("a", "CO"),)), [1950.0])
 >>> m.match.candidates[0].point_group
 'D4h'
@@ -52,10 +52,10 @@ from enumerator.vibrations.matching import (
     IDEALISED_NOTE,
     MatchResult,
     check_window,
-    class_window,
     match_bands,
     pattern_for,
     predicted_bands,
+    predicted_window,
 )
 from enumerator.vibrations.model import build_model, reporter_classes
 from enumerator.vibrations.pattern import BandPattern, band_pattern
@@ -232,10 +232,11 @@ def _class_bands(
     tie_ck: bool,
     others: Sequence[str],
     rules: RuleSet,
+    composition: Composition | None = None,
 ) -> ClassBands:
     """One class on one isomer; ``others`` are the ids of every isomer shown (a fit needs exactly one)."""
     use = _constants_for(iso, cls, constants, rules) if constants and per_isomer else constants
-    pattern = band_pattern(iso, cls, use, rules=rules)
+    pattern = band_pattern(iso, cls, use, rules=rules, composition=composition)
     modes = stretch_modes(iso, pattern.reporter_class)
     if measured is None:
         return ClassBands(cls, pattern, None, modes)
@@ -252,7 +253,8 @@ def _bands_notes(entries: Sequence[IsomerBands]) -> tuple[str, ...]:
     if defaults:
         shown = ", ".join(f"{c} {default_sigma(c):g} cm-1" for c in defaults)
         notes.append(
-            f"position uncertainty: the class default ({shown}; a tool convention), the band model gives no sigma"
+            f"position uncertainty: the class default ({shown}; a tool convention, wider than the band model's), "
+            "where the positions come from the generic constants or typed constants and the band model gives no sigma"
         )
     notes.append(IDEALISED_NOTE)
     notes.append(
@@ -264,14 +266,15 @@ def _bands_notes(entries: Sequence[IsomerBands]) -> tuple[str, ...]:
 
 def _check_fit_inputs(
     comp: Composition,
-    iso_set: IsomerSet,
+    chosen: Sequence[Isomer],
     classes: Sequence[str],
     constants: Mapping[str, float] | None,
     measured: Sequence[Observation] | None,
     window: tuple[float, float] | None,
     rules: RuleSet,
 ) -> None:
-    """Bound what was typed: the constants to their physical ranges, fitted bands to the class's window."""
+    """Bound what was typed: the constants to their physical ranges, fitted bands to the class's window (reaching
+    out to the band model's predictions for the isomers shown)."""
     if constants:
         check_constants(constants, "--constants")
     if not measured:
@@ -281,9 +284,14 @@ def _check_fit_inputs(
             f"{comp.formula} has several reporter classes ({', '.join(classes)})",
             f"say which the --fit bands belong to, e.g. --class {classes[0]}",
         )
-    win, source = class_window(classes[0], rules)
     if window is not None:
         win, source = window, "widened on purpose with --window"
+    else:
+        preds = [
+            predicted_bands(pattern_for(i, classes[0], rules=rules, composition=comp), stretch_modes(i, classes[0]))
+            for i in chosen
+        ]
+        win, source = predicted_window(classes[0], preds, rules)
     check_window([o.wavenumber for o in measured], classes[0], win, source, "--fit")
 
 
@@ -342,7 +350,7 @@ def predict_spectra(
     classes = [reporter_class] if reporter_class else sorted({c for i in chosen for c in reporter_classes(i)})
     if not classes:
         raise InputError(f"{comp.formula} has no stretch reporter", "mark one, e.g. --reporter a=CO")
-    _check_fit_inputs(comp, iso_set, classes, constants, measured, window, rules)
+    _check_fit_inputs(comp, chosen, classes, constants, measured, window, rules)
     desc = _descriptors(comp, iso_set)
     ids = [i.id for i in chosen]
     entries = []
@@ -358,6 +366,7 @@ def predict_spectra(
                 tie_ck=tie_ck,
                 others=ids,
                 rules=rules,
+                composition=comp,
             )
             for cls in classes
         )
