@@ -25,7 +25,7 @@ from enumerator.rules.ruleset import load_rules
 from enumerator.vibrations.fitting import dicarbonyl_angle
 from enumerator.vibrations.matching import match_bands, parse_measured
 from enumerator.vibrations.pattern import band_pattern, predict_bands
-from enumerator.workflow.bands import match_spectrum
+from enumerator.workflow.bands import match_spectrum, predict_spectra
 from enumerator.workflow.pipeline import Request, apply_settings
 
 
@@ -181,6 +181,20 @@ def test_candidates_say_which_model_predicted_them():
     doc = match_spectrum(Request("Ma4b2", reporters=(("a", "CO"),)), [1950.0]).match.to_dict()
     assert {c["band_model"] for c in doc["candidates"]} == {"generic"}
     assert any("default 30 cm-1 for CO" in n and "generic constants" in n for n in doc["match_notes"])
+
+
+def test_a_ligand_the_band_model_lacks_is_named_and_its_sigma_widened():
+    # the band model's coverage (rules/bandmodel.toml) decides which ligands fall back; bands and match must say
+    # the same, and a fallback widens the sigma the matcher uses (the model's widening factor)
+    formula = "[Cr(CO)5(NH3)]"
+    pat = predict_spectra(Request(formula)).to_dict()["isomers"][0]["patterns"][0]
+    c = match_spectrum(Request(formula), [2070.0, 1940.0, 1915.0]).match.candidates[0]
+    assert c.band_model == pat["model"] == "additive" and list(c.fallbacks) == pat["fallbacks"]
+    base = match_spectrum(Request("[Cr(CO)5(PPh3)]"), [2070.0, 1940.0, 1915.0]).match.candidates[0]
+    if c.fallbacks:
+        assert c.shift_sigma > base.shift_sigma and "widened for " + c.fallbacks[0] in c.explanation
+        assert any(c.fallbacks[0] in n for n in c.model_notes)
+        assert any(c.fallbacks[0] in n for n in pat["notes"])
 
 
 def test_cli_json_and_errors():

@@ -170,7 +170,11 @@ class StretchAnalysis:
         if len(self.ids) > PATTERN_MAX_ISOMERS:
             return f"IR patterns not judged: more than {PATTERN_MAX_ISOMERS} isomers (use --limit or --pick)"
         sigma = {b.sigma_default for p in self.patterns if p for ps in p for b in ps}
-        where = "the class default sigma (the band model gives none)" if True in sigma else "the band model's sigma"
+        where = (
+            "the class default sigma (positions from the generic constants; the band model gives no sigma)"
+            if True in sigma
+            else "the additive band model's positions and sigma"
+        )
         return f"IR patterns judged with {where}; predicted intensities idealised (bond-dipole model, ideal angles)"
 
     def fluxional_note(self) -> str | None:
