@@ -114,3 +114,14 @@ def test_match_text_says_the_ranking_and_its_decision():
     text = match_text(report)
     assert text.splitlines()[2].startswith("ranking: 1 1.00") and "strong evidence" in text.splitlines()[2]
     assert "measurement term ± 5 cm-1" in text
+
+
+def test_fit_bands_may_lie_where_the_band_model_predicts_them():
+    # [Ti(CO)6]2- T1u near 1748 cm-1 (from memory), below the usual CO window 1850-2125 (rules/reporters.toml):
+    # the additive model predicts it there, so --fit takes it; the same band typed for [Cr(CO)6] (T1u near
+    # 1985-2000, from memory) is still refused in one line
+    fix = ["--fix", "kc=0.5", "--fix", "kt=0.7"]
+    code, out, err = cli(["bands", "[Ti(CO)6]2-", "--fit", "1748", *fix])
+    assert code == 0 and "1748.0 -> T1u(1)" in out, err
+    code, out, err = cli(["bands", "[Cr(CO)6]", "--fit", "1748", *fix])
+    assert code == 2 and out == "" and "--fit: 1748 cm-1 is outside the CO window" in err and err.count("\n") == 1
