@@ -116,5 +116,11 @@ def test_the_pair_matrix_explains_its_cells():
     # the cells are the tool's own abbreviations: every one is in the legend
     code, out, _ = cli(["isomers", "M(AA)2b2", "--reporter", "b=CO"])
     assert code == 0
-    for words in ("IR, Ra (Raman) or NMR", "-- = same counts by all three", "en = enantiomers"):
+    for words in (
+        "IR = IR band counts",
+        "IRp = IR told apart by the band pattern",
+        "Ra = Raman",
+        "-- = ",
+        "en = enantiomers",
+    ):
         assert words in out

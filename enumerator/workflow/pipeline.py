@@ -61,7 +61,7 @@ STAGES: tuple[str, ...] = (
     "enumerator.analyses.centre.analysis:stage",
     "enumerator.analyses.safety:stage",
     "enumerator.analyses.descriptors.analysis:descriptor_stage",
-    "enumerator.analyses.stretch.analysis:stage",
+    "enumerator.workflow.bands:stretch_stage",
 )
 
 

@@ -1,0 +1,229 @@
+"""The fitted additive band model (``rules/bandmodel.toml``) and its ligand groups (``rules/bandgroups.toml``).
+
+``bandmodel.toml`` is written by ``python -m enumerator.vibrations.calibrate``
+(never by hand): a ``[model]`` header saying how, when and on which data the
+parameters were fitted, ``[sigma]`` (one standard uncertainty per band
+category, cm-1, from the leave-one-complex-out cross-validation),
+``[widen]`` (the factors by which sigma grows when a ligand falls back to its
+group or to the generic value), ``[cv]`` (the validation figures) and
+``[parameters]`` (name = value; the names are those of
+:mod:`enumerator.vibrations.additive`).  ``bandgroups.toml`` is written by
+hand: ``[group.NAME]`` tables with a ``label`` and the catalogue ``ligands``
+in the group.  Both are validated in full on first use; a problem is a
+:class:`~enumerator.errors.RuleError` naming the file, the table and the fix.
+
+>>> bm = load_bandmodel()
+>>> bm.parameters["k0:CO"] > 10, bm.group_of("PPh3")
+(True, 'arylphosphine')
+"""
+
+from __future__ import annotations
+
+import math
+import re
+from collections.abc import Mapping
+from dataclasses import dataclass
+from pathlib import Path
+from types import MappingProxyType
+from typing import Any
+
+from enumerator.caches import cached
+from enumerator.rules.checks import check_keys, read_toml, rule_error
+from enumerator.rules.ruleset import BUILTIN_RULES
+
+__all__ = ["BandModelRules", "load_bandmodel", "load_groups", "PARAMETER_KINDS", "BANDMODEL_FILE", "GROUPS_FILE"]
+
+BANDMODEL_FILE = BUILTIN_RULES / "bandmodel.toml"
+GROUPS_FILE = BUILTIN_RULES / "bandgroups.toml"
+
+#: Kinds of parameter name (the part before the first colon) and how many colon-separated parts follow.
+PARAMETER_KINDS = MappingProxyType(
+    {
+        "k0": 1,
+        "d": 2,
+        "q": 1,
+        "q2": 1,
+        "row": 2,
+        "phase": 2,
+        "ea": 2,
+        "eb": 2,
+        "la": 2,
+        "lb": 2,
+        "ia": 1,
+        "ib": 1,
+        "ig": 1,
+    }
+)
+_NAME = re.compile(r"^[^:\s]+(:[^:\s]+)+$")
+_MODEL_KEYS = ("name", "method", "dataset", "fitted", "command", "reference_k", "ridge")
+
+
+@dataclass(frozen=True)
+class BandModelRules:
+    """The fitted parameters, their validation and the ligand groups (read-only mappings).
+
+    ``header`` holds the ``[model]`` table; ``sigma`` one standard uncertainty
+    (cm-1) per band category ('CO neutral', 'CO charged', 'CN', 'NO linear',
+    'NO bent', 'CS', 'CNR', 'N2', 'pooled'); ``widen`` the factors 'group' and
+    'generic'; ``cv`` the validation figures as written; ``groups`` ligand ->
+    group; ``group_labels`` group -> words.
+    """
+
+    header: Mapping[str, Any]
+    parameters: Mapping[str, float]
+    sigma: Mapping[str, float]
+    widen: Mapping[str, float]
+    cv: Mapping[str, Any]
+    groups: Mapping[str, str]
+    group_labels: Mapping[str, str]
+    path: str = ""
+
+    def group_of(self, ligand: str) -> str | None:
+        """The group of a catalogue ligand, or None when it is in none."""
+        return self.groups.get(ligand)
+
+    def reference_k(self, pclass: str) -> float:
+        """The reference stretching constant of a parameter class (mdyn/Å): the start and prior centre of its k0."""
+        return float(self.header["reference_k"][pclass])
+
+
+def _number(v: object) -> bool:
+    return isinstance(v, (int, float)) and not isinstance(v, bool) and math.isfinite(float(v))
+
+
+def _read_groups(path: Path) -> tuple[dict[str, str], dict[str, str]]:
+    doc = read_toml(path)
+    check_keys(doc, str(path), ("group",))
+    groups: dict[str, str] = {}
+    labels: dict[str, str] = {}
+    for name, table in doc["group"].items():
+        where = f"{path} [group.{name}]"
+        if not isinstance(table, Mapping):
+            raise rule_error(where, "not a table", "write [group.NAME] with label and ligands")
+        check_keys(table, where, ("label", "ligands"))
+        ligs = table["ligands"]
+        if not isinstance(ligs, list) or not all(isinstance(x, str) and x for x in ligs):
+            raise rule_error(where, "'ligands' must be a list of catalogue names", 'write ligands = ["PPh3", ...]')
+        labels[name] = str(table["label"])
+        for lig in ligs:
+            if lig in groups:
+                raise rule_error(where, f"ligand '{lig}' is also in group '{groups[lig]}'", "put it in one group only")
+            groups[lig] = name
+    return groups, labels
+
+
+@cached(maxsize=4)
+def _load_groups(path: Path, stamp: tuple[int, int]) -> tuple[Mapping[str, str], Mapping[str, str]]:
+    groups, labels = _read_groups(path)
+    return MappingProxyType(groups), MappingProxyType(labels)
+
+
+def load_groups(path: Path | str | None = None) -> tuple[Mapping[str, str], Mapping[str, str]]:
+    """The ligand groups: (ligand -> group, group -> label), read-only.
+
+    Parameters
+    ----------
+    path : Path or str, optional
+        A groups file (default: the built-in ``rules/bandgroups.toml``).
+
+    Returns
+    -------
+    (Mapping[str, str], Mapping[str, str])
+
+    Raises
+    ------
+    RuleError
+        A missing key, a ligand in two groups, a malformed list.
+    """
+    p = Path(path) if path is not None else GROUPS_FILE
+    st = p.stat() if p.exists() else None
+    return _load_groups(p, (st.st_size, st.st_mtime_ns) if st else (0, 0))
+
+
+def _floats(table: Any, where: str, positive: bool = False) -> dict[str, float]:
+    if not isinstance(table, Mapping):
+        raise rule_error(where, "not a table", "regenerate the file with python -m enumerator.vibrations.calibrate")
+    out = {}
+    for k, v in table.items():
+        if not _number(v) or (positive and float(v) <= 0):
+            raise rule_error(where, f"'{k}' = {v!r} is not a {'positive ' if positive else ''}number", "give a number")
+        out[str(k)] = float(v)
+    return out
+
+
+def _check_names(params: Mapping[str, float], where: str) -> None:
+    for name in params:
+        kind = name.split(":", 1)[0]
+        if not _NAME.match(name) or kind not in PARAMETER_KINDS or name.count(":") != PARAMETER_KINDS[kind]:
+            raise rule_error(
+                where,
+                f"parameter name '{name}' is not KIND:CLASS[:WHAT]",
+                f"kinds: {', '.join(f'{k} ({n} part(s) after it)' for k, n in PARAMETER_KINDS.items())}",
+            )
+
+
+def _read_bandmodel(path: Path, groups_path: Path) -> BandModelRules:
+    doc = read_toml(path)
+    check_keys(doc, str(path), ("model", "sigma", "widen", "cv", "parameters"))
+    header = doc["model"]
+    check_keys(header, f"{path} [model]", _MODEL_KEYS)
+    refk = _floats(header["reference_k"], f"{path} [model] reference_k", positive=True)
+    params = _floats(doc["parameters"], f"{path} [parameters]")
+    _check_names(params, f"{path} [parameters]")
+    for name in params:
+        if name.startswith("k0:") and name[3:] not in refk:
+            raise rule_error(f"{path} [model]", f"no reference_k for class '{name[3:]}'", "regenerate the file")
+    sigma = _floats(doc["sigma"], f"{path} [sigma]", positive=True)
+    if "pooled" not in sigma:
+        raise rule_error(f"{path} [sigma]", "no 'pooled' sigma", "regenerate the file")
+    widen = _floats(doc["widen"], f"{path} [widen]", positive=True)
+    for key in ("group", "generic"):
+        if widen.get(key, 0.0) < 1.0:
+            raise rule_error(f"{path} [widen]", f"'{key}' must be a factor >= 1", "regenerate the file")
+    groups, labels = load_groups(groups_path)
+    hdr = dict(header)
+    hdr["reference_k"] = MappingProxyType(refk)
+    return BandModelRules(
+        header=MappingProxyType(hdr),
+        parameters=MappingProxyType(params),
+        sigma=MappingProxyType(sigma),
+        widen=MappingProxyType(widen),
+        cv=MappingProxyType(dict(doc["cv"])),
+        groups=groups,
+        group_labels=labels,
+        path=str(path),
+    )
+
+
+@cached(maxsize=4)
+def _load_bandmodel(path: Path, groups_path: Path, stamp: tuple[int, int, int, int]) -> BandModelRules:
+    return _read_bandmodel(path, groups_path)
+
+
+def load_bandmodel(path: Path | str | None = None, groups: Path | str | None = None) -> BandModelRules:
+    """The fitted band model, validated once (cached by the files' sizes and modification times).
+
+    Parameters
+    ----------
+    path : Path or str, optional
+        A band-model file (default: the built-in ``rules/bandmodel.toml``).
+    groups : Path or str, optional
+        A groups file (default: the built-in ``rules/bandgroups.toml``).
+
+    Returns
+    -------
+    BandModelRules
+
+    Raises
+    ------
+    RuleError
+        A missing table or key, a parameter name of no known kind, a
+        non-numeric value, a sigma that is not positive, a widening factor below 1.
+    """
+    p = Path(path) if path is not None else BANDMODEL_FILE
+    g = Path(groups) if groups is not None else GROUPS_FILE
+    if not p.exists():
+        raise rule_error(p, "no band-model file", "run python -m enumerator.vibrations.calibrate to write it")
+    s1, s2 = p.stat(), g.stat() if g.exists() else None
+    stamp = (s1.st_size, s1.st_mtime_ns, s2.st_size if s2 else 0, s2.st_mtime_ns if s2 else 0)
+    return _load_bandmodel(p, g, stamp)
