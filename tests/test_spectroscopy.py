@@ -290,7 +290,11 @@ def test_trans_dicarbonyl_counts_agree_in_every_output():
     doc = r.to_dict()
     modes = next(x for x in doc["isomers"] if x["id"] == "2")["modes"]["CO"]
     assert (modes["ir"], modes["ir_predicted_weak"], modes["ir_bond_dipole"]) == (2, 1, 1)
-    assert "2 (1 predicted weak)" in render(r)
+    # the isomer table (text, CSV, LaTeX, Markdown and the DataFrame share one model) keeps integer counts and
+    # gives the predicted-weak bands a column of their own right after the IR count
+    df = r.to_dataframe().set_index("isomer")
+    assert (df.loc["2", "CO IR"], df.loc["2", "CO IR predicted weak"]) == (2, 1)
+    assert "CO IR predicted weak" in render(r)
     bands = predict_spectra(Request("[RuCl2(CO)2(PPh3)2]"), isomer_id="2").to_dict()
     pat = bands["isomers"][0]["patterns"][0]
     assert (pat["ir_count"], pat["ir_predicted_weak"]) == (2, 1)

@@ -123,7 +123,7 @@ class BandPattern:
         }
 
 
-def _pattern_notes(model: Model, modes: Sequence[Mode], note: str | None) -> tuple[str, ...]:
+def _pattern_notes(model: Model, modes: Sequence[Mode], note: str | None, fitted: bool = False) -> tuple[str, ...]:
     notes = [note] if note else []
     quiet = [m.band.name for m in modes if m.band.dipole_forbidden]
     if quiet:
@@ -133,7 +133,14 @@ def _pattern_notes(model: Model, modes: Sequence[Mode], note: str | None) -> tup
         )
     lo, hi = model.field.range
     out = [m.band for m in modes if m.band.ir_active and not lo <= m.band.wavenumber <= hi]
-    if out:
+    if out and fitted:
+        # the fitted model put them there from the metal, charge and ligands (e.g. [Ti(CO)6]2- near 1750):
+        # say so, without blaming constants nobody typed
+        notes.append(
+            f"{len(out)} IR band(s) predicted outside the usual {model.field.name} range {lo:.0f}-{hi:.0f} cm-1, "
+            "as the band model's charge and ligand terms place them"
+        )
+    elif out:
         notes.append(
             f"{len(out)} IR band(s) fall outside the usual {model.field.name} range {lo:.0f}-{hi:.0f} cm-1: "
             "check the constants"
@@ -250,7 +257,8 @@ def band_pattern(
         model = replace(model, pair_weights=tuple(w for w in model.pair_weights if rel[(w[0], w[1])] not in drop))
     values = model.resolve(params)
     solution = solve_modes(model, isomer, values)
-    notes = list(_pattern_notes(model, solution.modes, solution.note))
+    fitted = isinstance(add, _Additive) and not params
+    notes = list(_pattern_notes(model, solution.modes, solution.note, fitted))
     bands = solution.bands
     if isinstance(add, _Additive):
         notes += add.notes
