@@ -6,7 +6,8 @@ from pathlib import Path
 
 import click
 
-from enumerator.cli.common import rules_of, write_atomic
+from enumerator.cli.common import rules_of
+from enumerator.cli.output import register_inputs, write_files
 
 
 @click.command("report")
@@ -23,6 +24,9 @@ from enumerator.cli.common import rules_of, write_atomic
 def report(ctx: click.Context, job: str, out_dir: str, title: str | None) -> None:
     """Write DIR/report.html for the complexes of JOB, with the isomer tables
     beside it as LaTeX (.tex) and CSV (.csv), one pair per complex.
+
+    The files are written all or nothing: each is staged beside its place
+    and only when every one is written are they renamed into place.
 
     The page needs no network (inline CSS and SVG, no scripts).  JOB is a
     job file as for 'isosieve job'; a minimal one:
@@ -43,9 +47,8 @@ def report(ctx: click.Context, job: str, out_dir: str, title: str | None) -> Non
     from enumerator.render.report import report_files
     from enumerator.workflow.report import report_from_job
 
+    register_inputs(ctx, job)
     built = report_from_job(job, rules_of(ctx), title)
     folder = Path(out_dir)
-    folder.mkdir(parents=True, exist_ok=True)
-    for name, text in report_files(built):
-        write_atomic(folder / name, text)
+    write_files([(folder / name, text) for name, text in report_files(built)], folder=folder)
     click.echo(f"{folder / 'report.html'}  ({len(built.complexes)} complex(es)); tables: {', '.join(built.files)}")
