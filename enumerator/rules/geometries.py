@@ -37,7 +37,7 @@ __all__ = ["parse_geometry", "load_geometries"]
 #: An IUPAC polyhedral symbol (IR-9.3.2.1: capitals, hyphen, coordination number), or a name of the
 #: tool's own for a shape IUPAC does not list: a lower-case word, hyphen, coordination number
 #: ('hexplane-6'), which cannot pass for an IUPAC symbol.
-_SYMBOL = re.compile(r"^(?:[A-Z]{1,5}|[a-z]{3,12})-(\d{1,2})$")
+_SYMBOL = re.compile(r"^(?:[A-Z]{1,5}|[a-z]{3,12})-([0-9]{1,2})$")
 _OPTIONAL = ("coordination_number", "default_span", "fluxional", "note", "default_for_abstract", "source")
 #: Two site directions closer than this (unit vectors, Euclidean distance) are the same site.
 _SAME_SITE = 1e-3

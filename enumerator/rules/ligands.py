@@ -539,7 +539,7 @@ def check_smiles(entry: LigandEntry, where: str) -> None:
 
 
 #: A hapticity prefix as formulas write it: ``η5-``, ``η^5-``, ``eta5-``, ``h5-`` (superscript digits too).
-HAPTO_PREFIX = re.compile(r"(?:η\^?|eta\^?|h)([0-9⁰¹²³⁴⁵⁶⁷⁸⁹]+)-")
+HAPTO_PREFIX = re.compile(r"(?:η\^?|eta\^?|h)([0-9⁰¹²³⁴⁵⁶⁷⁸⁹]{1,2})-")
 _SUPERSCRIPT = str.maketrans("⁰¹²³⁴⁵⁶⁷⁸⁹", "0123456789")
 
 
