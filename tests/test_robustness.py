@@ -19,7 +19,9 @@ from pathlib import Path
 
 import pytest
 
-from enumerator.cli.isomers_cmd import PROGRESS_MIN, SIZE_CAP, check_size, want_progress
+from enumerator.cli.isomers_cmd import PROGRESS_MIN, SIZE_CAP, want_progress
+from enumerator.isomers.counting import check_size
+from enumerator.parse.abstract import parse_abstract
 from enumerator.errors import CapacityError, RuleError
 from enumerator.rules.ruleset import load_rules
 from enumerator.workflow.pipeline import Request, run
@@ -81,10 +83,14 @@ def test_size_guard_refuses_huge_requests_without_limit():
 
 
 def test_size_guard_and_progress_rules():
+    ic = load_rules().geometry("IC-12")
+    big = parse_abstract("Mabcdefghijkl")  # 12!/60 = 7,983,360 stereoisomers (Burnside's lemma by hand)
     with pytest.raises(CapacityError):
-        check_size(SIZE_CAP + 1, None, "Mx", "OC-6")
-    check_size(SIZE_CAP + 1, 10, "Mx", "OC-6")  # a limit lifts the guard
-    check_size(None, None, "Mx", "OC-6")  # unknown count: the enumerator decides
+        check_size(big, ic)
+    assert check_size(big, ic, limit=10) is None  # a limit lifts the guard
+    with pytest.raises(CapacityError):
+        check_size(parse_abstract("Ma6"), load_rules().geometry("OC-6"), cap=0)
+    assert check_size(parse_abstract("Ma6"), load_rules().geometry("TPR-6")) is None  # small: decided by the bound
 
     class Tty(io.StringIO):
         def isatty(self):
