@@ -45,6 +45,7 @@ from typing import Any
 
 from enumerator.errors import InputError
 from enumerator.parse.request import Request, check_option, option_names, unknown_option
+from enumerator.rules.checks import read_toml
 from enumerator.rules.ruleset import closest_names
 
 __all__ = ["FORMATS", "Job", "JobEntry", "JobOutput", "load_job", "parse_job", "ENTRY_KEYS"]
@@ -140,6 +141,8 @@ def _output(raw: Any, where: str) -> JobOutput:
     f = raw["file"]
     if not isinstance(f, str) or not f.strip() or Path(f).is_absolute() or ".." in Path(f).parts:
         raise _bad(where, f"file {f!r} must be a relative path inside the job's folder", 'write file = "table.md"')
+    if "\0" in f or f.rstrip().endswith(("/", "\\")) or Path(f).name in ("", ".") or not Path(f).name.strip():
+        raise _bad(where, f"file {f!r} does not name a file", 'write file = "table.md"')
     return JobOutput(raw["format"], f)
 
 
@@ -214,15 +217,13 @@ def load_job(path: str, rules: Sequence[str] = ()) -> Job:
     Raises
     ------
     InputError
-        The file cannot be read, is not TOML, or does not check (:func:`parse_job`).
+        The file cannot be read, is not UTF-8 TOML, nests too deeply, or does not check (:func:`parse_job`).
     """
-    import tomllib
-
-    try:
-        with open(path, "rb") as fh:
-            data = tomllib.load(fh)
-    except OSError as exc:
-        raise InputError(f"cannot read job file '{path}' ({exc.strerror})", "check the path") from None
-    except tomllib.TOMLDecodeError as exc:
-        raise InputError(f"job file '{path}': TOML syntax error ({exc})", "fix the file at that line") from None
+    data = read_toml(path, _job_error)
     return parse_job(data, str(path), rules, str(Path(path).parent))
+
+
+def _job_error(where: Any, what: str, fix: str) -> InputError:
+    if what.startswith("cannot read"):
+        return InputError(f"cannot read job file '{where}'{what[len('cannot read') :]}", "check the path")
+    return InputError(f"job file '{where}': {what}", fix)

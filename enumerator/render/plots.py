@@ -90,7 +90,7 @@ def _panel(ax, title: str, bands: Sequence[Band], x: np.ndarray, measured: Seque
             ax.text(b.wavenumber, b.intensity + 0.03, b.species, ha="center", va="bottom", fontsize=7)
     for m in measured:
         ax.axvline(m, color="tab:red", ls="--", lw=0.8)
-    ax.set_title(title, fontsize=9, loc="left")
+    ax.set_title(title.replace("$", r"\$"), fontsize=9, loc="left")  # a '$' in a class name is text, not TeX
     ax.set_ylim(0, 1.25)
     ax.set_ylabel("rel. intensity")
 

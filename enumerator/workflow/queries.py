@@ -110,6 +110,7 @@ class GeometryCatalogue:
                 "operations": len(g.operations),
                 "polyhedron_edges": len(g.edges),
                 "fluxional": g.fluxional,
+                **({"adjusted": g.adjusted} if g.adjusted else {}),
             }
             for g in self.geometries
         ]
