@@ -53,6 +53,7 @@ import errno
 import os
 import secrets
 import stat
+import warnings
 from collections.abc import Iterable, Sequence
 from dataclasses import dataclass
 from pathlib import Path
@@ -80,6 +81,9 @@ STDOUT = "-"
 TEMP_PREFIX = ".isosieve-"
 #: Bytes handed to one ``os.write`` call.
 _CHUNK = 1 << 20
+#: The watchdog's pipe is written with the ``os.write`` of import time, so that a test injecting faults into
+#: ``os.write`` (a full disk) fails the data, not the bookkeeping.
+_PIPE_WRITE = os.write
 
 #: errno -> (what went wrong, how to fix it); '{opt}' is the option or key that named the file.
 _REASONS: dict[int, tuple[str, str]] = {
@@ -135,7 +139,7 @@ class _Watchdog:
             return
         assert self.fd is not None
         try:
-            os.write(self.fd, message)
+            _PIPE_WRITE(self.fd, message)
         except OSError:  # the helper is gone: the in-process clean-up still runs
             self._forget()
 
@@ -150,7 +154,9 @@ class _Watchdog:
             return False
         read_end, write_end = os.pipe()
         try:
-            pid = os.fork()
+            with warnings.catch_warnings():  # Python 3.12+ warns about fork in a threaded process; the helper
+                warnings.simplefilter("ignore", DeprecationWarning)  # only reads a pipe and unlinks files
+                pid = os.fork()
         except OSError:
             os.close(read_end)
             os.close(write_end)

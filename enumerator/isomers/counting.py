@@ -353,7 +353,8 @@ def check_size(
     raise CapacityError(
         f"{composition.formula} on {geometry.symbol} has {many} stereoisomers (Burnside count), "
         f"more than the {cap:,} listed at once",
-        "give --limit N to list the first N, or run 'isosieve count' for the numbers alone",
+        "list the first N with 'isosieve isomers ... --limit N' (limit = N in a job file, --limit in batch and "
+        "structures), or run 'isosieve count' for the numbers alone",
     )
 
 

@@ -141,7 +141,8 @@ def _output(raw: Any, where: str) -> JobOutput:
     f = raw["file"]
     if not isinstance(f, str) or not f.strip() or Path(f).is_absolute() or ".." in Path(f).parts:
         raise _bad(where, f"file {f!r} must be a relative path inside the job's folder", 'write file = "table.md"')
-    if "\0" in f or f.rstrip().endswith(("/", "\\")) or Path(f).name in ("", ".") or not Path(f).name.strip():
+    last = f.replace("\\", "/").split("/")[-1]  # as written: pathlib would drop a trailing '/.'
+    if "\0" in f or last.strip() in ("", ".", ".."):
         raise _bad(where, f"file {f!r} does not name a file", 'write file = "table.md"')
     return JobOutput(raw["format"], f)
 

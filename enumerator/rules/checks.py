@@ -93,7 +93,7 @@ def read_toml(path: Path | str, error: ErrorFactory = rule_error) -> dict[str, A
         line = raw[: exc.start].count(b"\n") + 1
         raise error(
             path,
-            f"is not UTF-8 text (byte 0x{raw[exc.start]:02x} on line {line})",
+            f"the file is not UTF-8 text (byte 0x{raw[exc.start]:02x} on line {line})",
             "save the file as UTF-8",
         ) from None
     try:
