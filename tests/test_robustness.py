@@ -19,10 +19,10 @@ from pathlib import Path
 
 import pytest
 
-from enumerator.cli.isomers_cmd import PROGRESS_MIN, SIZE_CAP, want_progress
+from enumerator.cli.isomers_cmd import PROGRESS_MIN, want_progress
+from enumerator.errors import CapacityError, RuleError
 from enumerator.isomers.counting import check_size
 from enumerator.parse.abstract import parse_abstract
-from enumerator.errors import CapacityError, RuleError
 from enumerator.rules.ruleset import load_rules
 from enumerator.workflow.pipeline import Request, run
 
@@ -30,6 +30,7 @@ CMD = [sys.executable, "-m", "enumerator"]
 
 
 from _cli import cli  # noqa: E402  (tests/ is on sys.path under pytest)
+from support.bad_inputs import make_fixtures, matches, table_rows  # noqa: E402
 
 # --------------------------------------------------------------------------- determinism
 
@@ -217,3 +218,33 @@ def test_ctrl_c_with_partial_writes_what_was_found(tmp_path):
     assert doc["complete"] is False and 0 < doc["stereoisomers"] < 124920
     assert len(doc["isomers"]) == doc["stereoisomers"]
     assert any("interrupted" in n for n in doc["notes"])
+
+
+# --------------------------------------------------------------------------- the bad-input table
+
+
+DEVELOPERS = Path(__file__).resolve().parent.parent / "DEVELOPERS.md"
+_ROWS = table_rows(DEVELOPERS.read_text(encoding="utf-8"))
+
+
+@pytest.fixture(scope="module")
+def fixtures(tmp_path_factory):
+    return make_fixtures(tmp_path_factory.mktemp("bad-inputs"))
+
+
+def test_the_table_has_its_rows():
+    # every class of the robustness section has rows; a table cut short by an edit would pass silently otherwise
+    assert len(_ROWS) >= 60
+    assert {code for _a, _e, code in _ROWS} == {2}
+
+
+@pytest.mark.parametrize(("args", "expected", "status"), _ROWS, ids=[" ".join(r[0])[:60] for r in _ROWS])
+def test_bad_input_table(fixtures, monkeypatch, args, expected, status):
+    # DEVELOPERS.md, "Robustness": each row is the one line and the status the command gives (common practice
+    # for command-line tools: 2 for a usage or input error, one line on stderr)
+    monkeypatch.chdir(fixtures)
+    code, _out, err = cli(args)
+    lines = err.strip().splitlines()
+    assert code == status, (args, code, err)
+    assert len(lines) == 1, (args, err)
+    assert matches(expected, lines[0]), (args, lines[0])

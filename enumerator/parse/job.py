@@ -187,7 +187,8 @@ def parse_job(data: Mapping[str, Any], where: str, rules: Sequence[str] = (), fo
     ------
     InputError
         A missing or unknown key or option (with the nearest names), a value of the wrong kind, a label used
-        twice, an output format not in :data:`FORMATS`, an output path outside the folder.
+        twice, an output format not in :data:`FORMATS`, an output path outside the folder, one that names no
+        file ('.', 'sub/'), or two outputs naming one file.
     """
     _keys(data, where, ("title", "defaults", "complex", "output"), ("complex",))
     title = data.get("title", "")
@@ -198,6 +199,14 @@ def parse_job(data: Mapping[str, Any], where: str, rules: Sequence[str] = (), fo
     if not isinstance(raw_out, list):
         raise _bad(where, "'output' must be a list of [[output]] tables", "write [[output]] with format and file")
     outputs = tuple(_output(o, f"{where} [[output]] #{k}") for k, o in enumerate(raw_out, start=1))
+    for k, o in enumerate(outputs):
+        for j in range(k):
+            if Path(outputs[j].file) == Path(o.file):
+                raise _bad(
+                    f"{where} [[output]] #{k + 1}",
+                    f"file {o.file!r} is the file of [[output]] #{j + 1} ({outputs[j].file!r})",
+                    "give each output its own file",
+                )
     return Job(title, entries, outputs, folder)
 
 
