@@ -234,8 +234,12 @@ def test_two_outputs_with_one_name(tmp_path):
         '[[complex]]\nformula = "Ma4b2"\n[[output]]\nformat = "json"\nfile = "x.json"\n'
         '[[output]]\nformat = "csv"\nfile = "./x.json"\n'
     )
-    code, _, err = cli(["job", str(job), "--write"])
-    assert code == 2 and "name the same file" in _one_line(err) and not (tmp_path / "x.json").exists()
+    code, _, err = cli(["job", str(job), "--write"])  # refused when the job is read
+    assert code == 2 and "is the file of [[output]] #1" in _one_line(err) and not (tmp_path / "x.json").exists()
+    # and by the output layer itself, whatever calls it
+    with pytest.raises(InputError, match="name the same file"):
+        write_files([(tmp_path / "x.json", "a"), (tmp_path / "." / "x.json", "b")], inputs=())
+    assert not (tmp_path / "x.json").exists()
 
 
 # --------------------------------------------------------------------------- special files
@@ -360,3 +364,28 @@ def test_the_watchdog_is_not_kept_open_by_forked_children():
     w.fd, w.pid = 99999, 1
     w.after_fork_in_child()
     assert w.fd is None and w.pid is None
+
+
+@POSIX
+def test_a_failing_watchdog_pipe_never_removes_the_files_being_staged(tmp_path, monkeypatch):
+    # Once the pipe fails the writer stops registering but keeps the pipe open: closing it would tell a live
+    # helper that this process is gone, and it would remove the staged files before they are renamed.
+    dog = output._Watchdog()
+    monkeypatch.setattr(output, "_WATCHDOG", dog)
+    real = output._PIPE_WRITE
+    sent = {"n": 0}
+
+    def pipe_write(fd, data):
+        sent["n"] += 1
+        if sent["n"] > 1:
+            raise OSError(errno.EPIPE, os.strerror(errno.EPIPE))
+        return real(fd, data)
+
+    monkeypatch.setattr(output, "_PIPE_WRITE", pipe_write)
+    files = [(tmp_path / f"f{k}.txt", f"{k}\n") for k in range(3)]
+    try:
+        write_files(files, inputs=())
+    finally:
+        dog._forget()
+    assert [p.read_text() for p, _ in files] == ["0\n", "1\n", "2\n"]
+    assert dog.broken and _temps(tmp_path) == []

@@ -133,15 +133,18 @@ class _Watchdog:
     def __init__(self) -> None:
         self.fd: int | None = None
         self.pid: int | None = None
+        self.broken = False
 
     def send(self, message: bytes) -> None:
-        if self.fd is None and not self._start():
+        if self.broken or (self.fd is None and not self._start()):
             return
         assert self.fd is not None
         try:
             _PIPE_WRITE(self.fd, message)
-        except OSError:  # the helper is gone: the in-process clean-up still runs
-            self._forget()
+        except OSError:
+            # The helper is gone, or the pipe failed: stop registering (the in-process clean-up still runs) but
+            # keep the pipe open, since closing it would make a live helper remove the files staged so far.
+            self.broken = True
 
     def _forget(self) -> None:
         if self.fd is not None:
@@ -173,6 +176,7 @@ class _Watchdog:
         """A forked child (a worker) must not keep the pipe open: the helper would outlive this process."""
         self._forget()
         self.pid = None
+        self.broken = False
 
 
 def _watch(read_end: int) -> None:  # pragma: no cover - runs in the helper process
