@@ -567,7 +567,7 @@ def emit(text: str, out: str | None, *, inputs: Iterable[str | os.PathLike[str]]
     ----------
     text : str
     out : str, optional
-        The file of ``--out``; standard output when None or ``-``.
+        The file of ``--out``; standard output when None or ``-`` (an empty name is refused).
     inputs : iterable of paths, optional
         The command's input files (default: those of the running command).
 
@@ -576,7 +576,7 @@ def emit(text: str, out: str | None, *, inputs: Iterable[str | os.PathLike[str]]
     InputError
         As :func:`write_files`.
     """
-    if out and out != STDOUT:
+    if out is not None and out != STDOUT:
         write_text(out, text, inputs=inputs)
     else:
         click.echo(text, nl=False)

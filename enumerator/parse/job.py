@@ -142,7 +142,9 @@ def _output(raw: Any, where: str) -> JobOutput:
     if not isinstance(f, str) or not f.strip() or Path(f).is_absolute() or ".." in Path(f).parts:
         raise _bad(where, f"file {f!r} must be a relative path inside the job's folder", 'write file = "table.md"')
     last = f.replace("\\", "/").split("/")[-1]  # as written: pathlib would drop a trailing '/.'
-    if "\0" in f or last.strip() in ("", ".", ".."):
+    if "\0" in f:
+        raise _bad(where, f"file {f!r} holds a NUL character (U+0000), which no file name may", "retype the name")
+    if last.strip() in ("", ".", ".."):
         raise _bad(where, f"file {f!r} does not name a file", 'write file = "table.md"')
     return JobOutput(raw["format"], f)
 

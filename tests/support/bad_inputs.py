@@ -66,6 +66,7 @@ FILES: dict[str, str | bytes] = {
     "dot.toml": _JOB + '[[output]]\nformat = "json"\nfile = "."\n',
     "twice.toml": _JOB
     + '[[output]]\nformat = "json"\nfile = "x.json"\n[[output]]\nformat = "csv"\nfile = "./x.json"\n',
+    "nul.toml": _JOB + '[[output]]\nformat = "json"\nfile = "a\\u0000b"\n',
     "deep.toml": "a = " + "[" * 5000 + "]" * 5000 + "\n",
     "latin1.toml": b'title = "caf\xe9"\n' + _JOB.encode(),
     "latin1.txt": b"Ma4b2\n[Fe(CO)5]\xff\n",
