@@ -20,6 +20,7 @@ __all__ = [
     "MAX_COUNT_DIGITS",
     "MAX_FORMULA_CHARS",
     "MAX_NESTING",
+    "MAX_LABEL_CHARS",
     "MAX_TOML_DEPTH",
     "MAX_SMILES_CHARS",
     "MAX_SMILES_ATOMS",
@@ -45,6 +46,10 @@ MAX_COUNT_DIGITS = 4
 #: Longest formula read, in characters.  The longest condensed formula of the catalogue's kind is well under
 #: 100 characters; a longer text is a paste gone wrong.
 MAX_FORMULA_CHARS = 500
+
+#: Longest label or title (a job's ``title`` and ``label``, a batch file's label column), in characters: they
+#: head tables and captions, where a paragraph is a paste gone wrong.
+MAX_LABEL_CHARS = 300
 
 #: Deepest nesting of brackets in a formula: ``[Mo(CO)3(P(OMe)3)3]`` nests three deep.
 MAX_NESTING = 8

@@ -44,9 +44,12 @@ def report(ctx: click.Context, job: str, out_dir: str, title: str | None) -> Non
       isosieve report job.toml --out si
       isosieve --rules mylib report job.toml --out si --title "SI tables"
     """
+    from enumerator.parse.text import check_label_text
     from enumerator.render.report import report_files
     from enumerator.workflow.report import report_from_job
 
+    if title is not None:
+        check_label_text(title, "--title")
     register_inputs(ctx, job)
     built = report_from_job(job, rules_of(ctx), title)
     folder = Path(out_dir)

@@ -45,6 +45,7 @@ from typing import Any
 
 from enumerator.errors import InputError
 from enumerator.parse.request import Request, check_option, option_names, unknown_option
+from enumerator.parse.text import check_label_text
 from enumerator.rules.checks import read_toml
 from enumerator.rules.ruleset import closest_names
 
@@ -125,6 +126,7 @@ def _entry(raw: Any, defaults: Mapping[str, Any], where: str, rules: tuple[str, 
     _keys(e, where, ENTRY_KEYS, ("formula",))
     formula = _text(e, "formula", where, '"[RuCl2(CO)2(PPh3)2]"')
     label = _text(e, "label", where, '"1"') if "label" in e else formula
+    check_label_text(label, f"{where}: label")
     options = {name: check_option(name, e.get(name), where) for name in option_names("entry")}
     options.update(
         (name, check_option(name, value, where)) for name, value in _stage_options(e.get("options", {}), where).items()
@@ -196,6 +198,7 @@ def parse_job(data: Mapping[str, Any], where: str, rules: Sequence[str] = (), fo
     title = data.get("title", "")
     if not isinstance(title, str):
         raise _bad(where, "'title' must be a string", 'write title = "..."')
+    check_label_text(title, f"{where}: title")
     entries = _entries(data, where, tuple(rules))
     raw_out = data.get("output", [])
     if not isinstance(raw_out, list):

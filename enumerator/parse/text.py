@@ -10,6 +10,11 @@ A formula is refused here, with one line naming what and where, when it
   LaTeX caption, and some change what the text appears to say;
 * nests brackets more than :data:`~enumerator.limits.MAX_NESTING` deep.
 
+Labels and titles (a job's, a batch file's) are checked alike by
+:func:`check_label_text`: no control, format or unusual space character (a
+line break in a label would end a LaTeX comment and start a command), and at
+most :data:`~enumerator.limits.MAX_LABEL_CHARS` characters.
+
 Numbers are read by :func:`read_number`, which takes ASCII digits only and
 refuses a number of more than :data:`~enumerator.limits.MAX_COUNT_DIGITS`
 digits before converting it.  :func:`describe_char` names a character by its
@@ -30,11 +35,19 @@ from __future__ import annotations
 import unicodedata
 
 from enumerator.errors import InputError, shorten
-from enumerator.limits import ECHO_CHARS, MAX_COUNT_DIGITS, MAX_FORMULA_CHARS, MAX_NESTING, MAX_SITES
+from enumerator.limits import (
+    ECHO_CHARS,
+    MAX_COUNT_DIGITS,
+    MAX_FORMULA_CHARS,
+    MAX_LABEL_CHARS,
+    MAX_NESTING,
+    MAX_SITES,
+)
 from enumerator.model.composition import Composition
 
 __all__ = [
     "check_formula_text",
+    "check_label_text",
     "check_sites",
     "describe_char",
     "read_number",
@@ -149,6 +162,44 @@ def check_formula_text(text: str, what: str = "formula") -> None:
                 )
         elif ch in CLOSERS:
             depth = max(0, depth - 1)
+
+
+def check_label_text(text: str, what: str) -> None:
+    """Refuse a label or title that is too long or holds a character a table or caption must not hold.
+
+    Parameters
+    ----------
+    text : str
+        The label or title as given.
+    what : str
+        Where it comes from, for the message (e.g. ``"job.toml [[complex]] #2: label"``).
+
+    Raises
+    ------
+    InputError
+        Naming the first offending character (escaped, with its code point) and its position, or the length.
+
+    Examples
+    --------
+    >>> check_label_text("Ru, cis", "label")
+    >>> check_label_text("x\\ninput", "label")  # doctest: +ELLIPSIS
+    Traceback (most recent call last):
+    ...
+    enumerator.errors.InputError: label 'x\\ninput': control character U+000A (LINE FEED) at position 2; ...
+    """
+    if len(text) > MAX_LABEL_CHARS:
+        raise InputError(
+            f"{what} '{echo(text)}' has {len(text):,} characters, more than the {MAX_LABEL_CHARS} allowed",
+            "shorten it",
+        )
+    for k, ch in enumerate(text):
+        kind = _bad_character(ch)
+        if kind is not None:
+            name = _CONTROL_NAMES.get(ch) or unicodedata.name(ch, "")
+            raise InputError(
+                f"{what} '{echo(text)}': {kind} U+{ord(ch):04X}{f' ({name})' if name else ''} at position {k + 1}",
+                "remove it (a label or title is one line of printable text)",
+            )
 
 
 def read_number(digits: str, text: str, pos: int, noun: str, largest: int) -> int:

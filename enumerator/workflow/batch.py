@@ -38,6 +38,7 @@ from enumerator.errors import IsosieveError, shorten
 from enumerator.limits import ECHO_CHARS
 from enumerator.model.composition import Composition
 from enumerator.parse.batch import read_formulas
+from enumerator.parse.text import check_label_text
 from enumerator.workflow.pipeline import Request, prepare, run
 from enumerator.workflow.result import Result
 
@@ -186,6 +187,8 @@ def _prepare(
     index: int, formula: str, label: str, geometry: str | None, rules: tuple[str, ...], limit: int | None
 ) -> tuple[BatchRow, tuple]:
     """The row's centre data (no enumeration yet) and its pattern key."""
+    if label:
+        check_label_text(label, "label")
     comp, geo, reason = prepare(Request(formula=formula, geometry=geometry, rules=rules, limit=limit))
     real = comp.metal != "M"
     ec = count_electrons(comp) if real else None

@@ -67,10 +67,13 @@ FILES: dict[str, str | bytes] = {
     "twice.toml": _JOB
     + '[[output]]\nformat = "json"\nfile = "x.json"\n[[output]]\nformat = "csv"\nfile = "./x.json"\n',
     "nul.toml": _JOB + '[[output]]\nformat = "json"\nfile = "a\\u0000b"\n',
+    "label.toml": '[[complex]]\nformula = "Ma4b2"\nlabel = "x\\n\\\\input{/etc/passwd}"\n',
+    "title.toml": 'title = "a\\u001bb"\n' + _JOB,
     "deep.toml": "a = " + "[" * 5000 + "]" * 5000 + "\n",
     "latin1.toml": b'title = "caf\xe9"\n' + _JOB.encode(),
     "latin1.txt": b"Ma4b2\n[Fe(CO)5]\xff\n",
     "screen.txt": "Ma4b2\n" + "".join(f"Ma{k + 25}\n" for k in range(30)),
+    "labels.csv": "formula,label\nMa4b2,ok\nMa3b3,x\x1bq\nMa5b,fine\n",
     "controls.txt": "Ma4b2\n[Cr(CO)5\x1bCl]\nMa3\x0bb3\n",
 }
 
