@@ -174,20 +174,29 @@ LONG = ["isomers", "Ma2b2c2d2e2f2", "--geometry", "IC-12", "--json"]  # 124,920 
 # The analysis stages run on the isomers found before the interruption; their
 # cost (the pair table is quadratic in the isomer count) is not what is under
 # test here, so the child runs the command with no stages.
+# The child touches the file named by ISOSIEVE_TEST_READY once it is about to run the command, so that on a
+# loaded machine the interrupt never lands while Python is still importing (that would end it by the signal).
 NO_STAGES = [
     sys.executable,
     "-c",
-    "import sys, enumerator.workflow.pipeline as p; p.STAGES = (); from enumerator.cli import main; main(sys.argv[1:])",
+    "import os, sys, enumerator.workflow.pipeline as p; p.STAGES = (); from enumerator.cli import main; "
+    "import enumerator.cli.isomers_cmd; open(os.environ['ISOSIEVE_TEST_READY'], 'w').close(); main(sys.argv[1:])",
 ]
 
 
 def _interrupt(args, wait: float = 2.0):
+    ready = Path(os.environ.get("TMPDIR", "/tmp")) / f"isosieve-ready-{os.getpid()}-{time.monotonic_ns()}"
     p = subprocess.Popen(
         NO_STAGES + args,
         stdout=subprocess.PIPE,
         stderr=subprocess.PIPE,
+        env=dict(os.environ, ISOSIEVE_TEST_READY=str(ready)),
         preexec_fn=lambda: signal.signal(signal.SIGINT, signal.SIG_DFL),
     )
+    deadline = time.monotonic() + 120
+    while not ready.exists() and p.poll() is None and time.monotonic() < deadline:
+        time.sleep(0.05)
+    ready.unlink(missing_ok=True)
     time.sleep(wait)
     assert p.poll() is None, "the enumeration finished before it could be interrupted"
     p.send_signal(signal.SIGINT)
