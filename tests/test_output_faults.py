@@ -186,7 +186,7 @@ def test_job_output_that_names_a_folder(tmp_path, name):
     job = tmp_path / "job.toml"
     job.write_text(f'[[complex]]\nformula = "Ma4b2"\n[[output]]\nformat = "csv"\nfile = "{name}"\n')
     code, _, err = cli(["job", str(job), "--write"])
-    assert code == 2 and "holds a NUL character" in _one_line(err)
+    assert code == 2 and "does not name a file" in _one_line(err)
     assert job.read_text().startswith("[[complex]]")
 
 
