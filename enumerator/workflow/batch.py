@@ -34,9 +34,11 @@ from typing import Any
 from enumerator.analyses.centre import count_electrons
 from enumerator.analyses.safety import cautions
 from enumerator.analyses.stretch import StretchAnalysis
-from enumerator.errors import IsosieveError
+from enumerator.errors import IsosieveError, shorten
+from enumerator.limits import ECHO_CHARS
 from enumerator.model.composition import Composition
 from enumerator.parse.batch import read_formulas
+from enumerator.parse.text import check_label_text
 from enumerator.workflow.pipeline import Request, prepare, run
 from enumerator.workflow.result import Result
 
@@ -169,8 +171,8 @@ def _summarise(formula: str, geometry: str, rules: tuple[str, ...], limit: int |
         res = run(Request(formula=formula, geometry=geometry, rules=rules, limit=limit))
     except IsosieveError as exc:
         return PatternSummary(error=exc.line())
-    except Exception as exc:  # an internal error stays in its row
-        return PatternSummary(error=f"internal error: {type(exc).__name__}: {exc}")
+    except Exception as exc:  # an internal error (memory too) stays in its row
+        return PatternSummary(error=f"internal error: {type(exc).__name__}: {shorten(str(exc), 200)}")
     iso = res.isomer_set
     return PatternSummary(
         geometric_isomers=iso.geometric_isomers,
@@ -185,6 +187,8 @@ def _prepare(
     index: int, formula: str, label: str, geometry: str | None, rules: tuple[str, ...], limit: int | None
 ) -> tuple[BatchRow, tuple]:
     """The row's centre data (no enumeration yet) and its pattern key."""
+    if label:
+        check_label_text(label, "label")
     comp, geo, reason = prepare(Request(formula=formula, geometry=geometry, rules=rules, limit=limit))
     real = comp.metal != "M"
     ec = count_electrons(comp) if real else None
@@ -252,8 +256,10 @@ def screen(
     Yields
     ------
     BatchRow
-        ``error`` set for a formula that cannot be read or analysed; ``cached`` when an earlier row had the
-        same pattern.
+        ``error`` set for a formula that cannot be read or analysed, or whose enumeration would exceed the
+        size cap (:data:`enumerator.limits.SIZE_CAP`, unless ``limit``): the row says so and the screen goes
+        on; ``cached`` when an earlier row had the same pattern.  A refused row shows its formula with
+        control characters escaped and shortened to :data:`enumerator.limits.ECHO_CHARS` characters.
     """
     rules = tuple(rules)
     prepared: list[tuple[BatchRow, tuple | None]] = []
@@ -261,7 +267,10 @@ def screen(
         try:
             prepared.append(_prepare(k, formula, label, geometry, rules, limit))
         except IsosieveError as exc:
-            prepared.append((BatchRow(k, formula, label, error=exc.line()), None))
+            prepared.append((BatchRow(k, _shown(formula), _shown(label), error=exc.line()), None))
+        except Exception as exc:  # an internal error (memory too) stays in its row; the screen goes on
+            error = f"internal error: {type(exc).__name__}: {shorten(str(exc), 200)}"
+            prepared.append((BatchRow(k, _shown(formula), _shown(label), error=error), None))
     first: dict[tuple, str] = {}
     for row, key in prepared:
         if key is not None and key not in first:
@@ -281,13 +290,27 @@ def screen(
                 yield row
                 continue
             value = done[key] if key in done else _summarise(first[key], key[1], rules, limit)
-            summary = value.result() if isinstance(value, Future) else value
+            summary = _collect(value) if isinstance(value, Future) else value
             done[key] = summary
             yield _with(row, summary, key in seen)
             seen.add(key)
     finally:
         if pool is not None:
             pool.shutdown(cancel_futures=True)
+
+
+def _collect(future: Future[PatternSummary]) -> PatternSummary:
+    """A worker's summary, or the row error when the worker died (killed for memory, a broken pool)."""
+    try:
+        return future.result()
+    except Exception as exc:  # BrokenProcessPool and the like: this pattern's rows fail, the rest go on
+        return PatternSummary(error=f"the worker process failed ({type(exc).__name__}); run this row alone")
+
+
+def _shown(text: str) -> str:
+    """A refused row's text as the table shows it: control characters escaped, long text shortened."""
+    escaped = "".join(ch if ch.isprintable() else repr(ch)[1:-1] for ch in text)
+    return shorten(escaped, ECHO_CHARS)
 
 
 def run_batch(
