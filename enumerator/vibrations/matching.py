@@ -770,6 +770,12 @@ def _headline(c: Candidate, reporter_class: str, n_measured: int, n_candidates: 
     return text + f"; {n_measured} measured."
 
 
+def _signed(x: float, places: int) -> str:
+    """'+4', '-0.07', and '0' rather than '-0' for a value that rounds to zero."""
+    text = f"{x:+.{places}f}"
+    return text[1:] if float(text) == 0 else text
+
+
 def _shift_sentences(c: Candidate, reporter_class: str) -> list[str]:
     if not c.assignment:
         return ["No measured band is explained by this isomer's pattern."]
@@ -778,7 +784,8 @@ def _shift_sentences(c: Candidate, reporter_class: str) -> list[str]:
     else:
         where = "additive band model" + (f"; widened for {', '.join(c.fallbacks)}" if c.fallbacks else "")
     out = [
-        f"Common shift {c.shift_cm1:+.0f} cm-1 (Δk = {c.shift:+.2f} mdyn/Å of every stretching constant); "
+        f"Common shift {_signed(c.shift_cm1, 0)} cm-1 (Δk = {_signed(c.shift, 2)} mdyn/Å of every stretching "
+        "constant); "
         f"the bands ask for {c.shift_z:.1f} σ of the {c.shift_sigma:.0f} cm-1 position uncertainty ({where})."
     ]
     if c.shift_z is not None and c.shift_z > SHIFT_LIMIT:
