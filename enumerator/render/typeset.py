@@ -139,7 +139,7 @@ def latex_species(text: str) -> str:
     -------
     str
     """
-    terms = [t.strip() for t in text.split("+")] if text.strip() else []
+    terms = [t.strip() for t in re.split(r"\s\+\s", text)] if text.strip() else []
     out = []
     for t in terms:
         m = re.match(r"^(\d*)\s*(\S+)$", t)
