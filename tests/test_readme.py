@@ -26,7 +26,7 @@ ORDER = [
     "## Concepts",
     "## Python",
     "## Reference",
-    "## Commands",
+    "## Commands at a glance",
     "## JSON schema (`--json`)",
     "### The axis rule (used for every label that depends on the axes)",
     "## IUPAC stereodescriptors (IR-9.3)",
