@@ -43,6 +43,8 @@ PARAMETER_KINDS = MappingProxyType(
         "d": 2,
         "q": 1,
         "q2": 1,
+        "qd": 2,
+        "ox": 1,
         "row": 2,
         "phase": 2,
         "ea": 2,
@@ -52,6 +54,8 @@ PARAMETER_KINDS = MappingProxyType(
         "ia": 1,
         "ib": 1,
         "ig": 1,
+        "ir": 2,
+        "iq": 1,
     }
 )
 _NAME = re.compile(r"^[^:\s]+(:[^:\s]+)+$")

@@ -10,10 +10,10 @@ extended to every reporter class (terminal CN, linear and bent NO, CS, CNR,
 N2), each with parameters of its own, and written for one oscillator a of
 class c on a centre of charge z and d count d:
 
-    k_a = k0[c] + d[c, d] + q[c]·z + q2[c]·z² + row[c, 4|5] + phase[c, medium]
-          + Σ_{b ≠ a} ( ea[c, G_b] + eb[c, G_b]·cos θ_ab + la[c, L_b] + lb[c, L_b]·cos θ_ab )
+    k_a = k0[c] + d[c, d] + q[c]·z + q2[c]·z² + qd[c, d]·z + ox[c]·(oxidation state) + row[c, 4|5]
+          + phase[c, medium] + Σ_{b ≠ a} ( ea[c, G_b] + eb[c, G_b]·cos θ_ab + la[c, L_b] + lb[c, L_b]·cos θ_ab )
 
-    F_ab = ia[c] + ib[c]·cos θ_ab + ig[c]·(k_ref[c] − (k_a + k_b)/2)
+    F_ab = ia[c] + ib[c]·cos θ_ab + ir[c, 4|5] + iq[c]·z + ig[c]·(k_ref[c] − (k_a + k_b)/2)
 
 where the sum runs over every other occupied site b (a chelate counts once
 per donor site, an η-ring once), L_b is the ligand there and G_b its group
@@ -21,8 +21,12 @@ per donor site, an η-ring once), L_b is the ligand there and G_b its group
 linear-in-cos θ form of ε_L(θ) takes Timney's cis and trans effects as its
 values at 90° and 180° and interpolates between them (120° of a trigonal
 bipyramid, 109.5° of a tetrahedron).  ``row`` is an offset for 4d and 5d
-metals, ``phase`` one for gas-phase and matrix spectra (the model predicts
-condensed-phase, solution values).  The ligand terms la, lb are fitted with
+metals (``ir`` its counterpart in the interactions), ``qd`` lets the charge
+act differently on each d count (the d10 and d6 isoelectronic series are not
+spaced alike), ``ox`` is a term in the metal's oxidation state (a neutral
+Au(I) carbonyl behaves like the cationic Cu(I) one, not like Ni(0)), ``phase``
+an offset for gas-phase and matrix spectra (the model predicts condensed-phase,
+solution values).  The ligand terms la, lb are fitted with
 ridge regularisation toward zero, i.e. toward the ligand's group: a ligand
 without fitted terms of its own falls back to its group, and a group never
 fitted for a class falls back to no effect (the generic value).  The
@@ -89,6 +93,7 @@ class Centre:
     charge: int
     d: int | None
     row: int
+    oxidation_state: int | None = None
 
 
 def centre_of(comp: Composition) -> Centre | None:
@@ -114,11 +119,12 @@ def _centre(comp: Composition) -> Centre | None:
     except IsosieveError:
         return None
     try:
-        d = count_electrons(comp).d_electrons
+        ec = count_electrons(comp)
+        d, ox = ec.d_electrons, ec.oxidation_state
     except IsosieveError:
-        d = None
+        d, ox = None, None
     row = 3 if z <= 30 else (4 if z <= 48 else 5)
-    return Centre(comp.metal, comp.charge, d, row)
+    return Centre(comp.metal, comp.charge, d, row, ox)
 
 
 def parameter_class(reporter_class: str, ligand: str, nitrosyl: str | None = None) -> str:
@@ -185,6 +191,8 @@ class Design:
     terms: tuple[tuple[tuple[str, float], ...], ...]
     pairs: tuple[tuple[int, int, float], ...]
     neighbours: tuple[tuple[str, str | None], ...]
+    #: (parameter name, coefficient) terms added to every pair's interaction (row and charge terms)
+    pair_terms: tuple[tuple[str, float], ...] = ()
 
     @property
     def names(self) -> tuple[str, ...]:
@@ -192,7 +200,7 @@ class Design:
         out = {n for t in self.terms for n, _ in t}
         c = self.pclass
         if self.pairs:
-            out |= {f"ia:{c}", f"ib:{c}", f"ig:{c}"}
+            out |= {f"ia:{c}", f"ib:{c}", f"ig:{c}"} | {n for n, _ in self.pair_terms}
         return tuple(sorted(out))
 
 
@@ -246,6 +254,10 @@ def _oscillator_terms(centre: Centre, c: str, phase: str) -> list[tuple[str, flo
     z = float(centre.charge)
     if z:
         t += [(f"q:{c}", z), (f"q2:{c}", z * z)]
+        if centre.d is not None:
+            t.append((f"qd:{c}:{centre.d}", z))
+    if centre.oxidation_state:
+        t.append((f"ox:{c}", float(centre.oxidation_state)))
     if centre.row > 3:
         t.append((f"row:{c}:{centre.row}", 1.0))
     if phase in _PHASES:
@@ -290,7 +302,27 @@ def _design(
         for b in range(a + 1, len(osc))
     )
     neighbours = tuple(sorted({(s.ligand, groups.get(s.ligand)) for s in isomer.sites if not s.reporter}, key=str))
-    return Design(reporter_class, c, centre.charge, tuple(s.index for s in osc), tuple(terms), pairs, neighbours)
+    pair_terms = _pair_terms(centre, c) if pairs else []
+    return Design(
+        reporter_class,
+        c,
+        centre.charge,
+        tuple(s.index for s in osc),
+        tuple(terms),
+        pairs,
+        neighbours,
+        tuple(pair_terms),
+    )
+
+
+def _pair_terms(centre: Centre, c: str) -> list[tuple[str, float]]:
+    """The terms every interaction constant of class ``c`` shares: a 4d/5d row offset and one linear in charge."""
+    out: list[tuple[str, float]] = []
+    if centre.row > 3:
+        out.append((f"ir:{c}:{centre.row}", 1.0))
+    if centre.charge:
+        out.append((f"iq:{c}", float(centre.charge)))
+    return out
 
 
 def _merge(terms: list[tuple[str, float]]) -> list[tuple[str, float]]:
@@ -336,8 +368,9 @@ def f_matrix(design: Design, values: Mapping[str, float], k_ref: float) -> np.nd
     f = np.diag(k)
     c = design.pclass
     ia, ib, ig = (float(values.get(f"{x}:{c}", 0.0)) for x in ("ia", "ib", "ig"))
+    extra = sum(v * float(values.get(n, 0.0)) for n, v in design.pair_terms)
     for a, b, cos in design.pairs:
-        f[a, b] = f[b, a] = ia + ib * cos + ig * (k_ref - 0.5 * (k[a] + k[b]))
+        f[a, b] = f[b, a] = ia + ib * cos + extra + ig * (k_ref - 0.5 * (k[a] + k[b]))
     return f
 
 

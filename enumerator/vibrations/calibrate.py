@@ -86,6 +86,8 @@ PRIORS: Mapping[str, tuple[float, float | None]] = {
     "d": (0.0, 1.0),
     "q": (0.0, 3.0),
     "q2": (0.0, 1.0),
+    "qd": (0.0, 1.0),
+    "ox": (0.0, 1.0),
     "row": (0.0, 0.5),
     "phase": (0.0, 0.5),
     "ea": (0.0, 1.0),
@@ -95,6 +97,8 @@ PRIORS: Mapping[str, tuple[float, float | None]] = {
     "ia": (0.3, 0.5),
     "ib": (0.0, 0.5),
     "ig": (0.0, 0.2),
+    "ir": (0.0, 0.3),
+    "iq": (0.0, 0.2),
 }
 #: Widening factors written when the validation has too few bands to measure them.
 ASSUMED_WIDEN = {"group": 1.5, "generic": 2.0}
@@ -323,6 +327,7 @@ class _Block:
     pairs: tuple[tuple[int, int, float], ...]
     iabg: tuple[int, int, int]
     k_ref: float
+    extra: tuple[tuple[int, float], ...] = ()
 
 
 class Problem:
@@ -352,7 +357,8 @@ class Problem:
                 d[a, self.index[n]] += v
         p = c.design.pclass
         iabg = tuple(self.index.get(f"{x}:{p}", -1) for x in ("ia", "ib", "ig"))
-        return _Block(c, s.row.weight, d, c.design.pairs, (iabg[0], iabg[1], iabg[2]), REFERENCE_K[p])
+        extra = tuple((self.index[n], v) for n, v in c.design.pair_terms)
+        return _Block(c, s.row.weight, d, c.design.pairs, (iabg[0], iabg[1], iabg[2]), REFERENCE_K[p], extra)
 
     def touched(self, k: int) -> set[int]:
         """Parameter indices sample ``k`` depends on."""
@@ -360,7 +366,7 @@ class Problem:
         for b in self.blocks[k]:
             out |= set(np.nonzero(np.any(b.d != 0, axis=0))[0].tolist())
             if b.pairs:
-                out |= {i for i in b.iabg if i >= 0}
+                out |= {i for i in b.iabg if i >= 0} | {i for i, _ in b.extra}
         return out
 
 
@@ -368,8 +374,9 @@ def _f(b: _Block, p: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
     k = b.d @ p
     f = np.diag(k)
     ia, ib, ig = (p[i] if i >= 0 else 0.0 for i in b.iabg)
+    extra = sum(p[i] * v for i, v in b.extra)
     for a, c, cos in b.pairs:
-        f[a, c] = f[c, a] = ia + ib * cos + ig * (b.k_ref - 0.5 * (k[a] + k[c]))
+        f[a, c] = f[c, a] = ia + ib * cos + extra + ig * (b.k_ref - 0.5 * (k[a] + k[c]))
     return f, k
 
 
@@ -385,6 +392,8 @@ def _dlam(b: _Block, p: np.ndarray, k: np.ndarray, gy: np.ndarray) -> np.ndarray
             out[ia] += w
             out[ib] += w * cos
             out[ig] += w * (b.k_ref - 0.5 * (k[a] + k[c]))
+            for i, v in b.extra:
+                out[i] += w * v
         out -= w * 0.5 * pig * (b.d[a] + b.d[c])
     return out
 
