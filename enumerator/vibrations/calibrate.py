@@ -23,11 +23,13 @@ arguments give the same bytes.
   the parameters that only it touches are reset to their prior centre (no leakage), the rest refitted to
   convergence from the full fit, and the held-out bands predicted.  Per category the number of bands, MAE and
   maximum error are reported for this model and for the generic constants of ``rules/forcefields.toml``.
-* **Uncertainty.**  sigma of a category is the RMS of its cross-validated residuals over complexes all of whose
+* **Uncertainty.** sigma of a category is the RMS of its cross-validated residuals over complexes all of whose
   parameters were seen elsewhere (categories with fewer than :data:`MIN_SIGMA_BANDS` such bands take the pooled
-  value).  The widening factors are measured in the same validation: the RMS of the complexes that needed a
-  ligand's group (their own ligand terms were reset) or the generic value (a group, d count, row or class term
-  was reset), over the pooled RMS; with too few such bands an assumed factor is written and marked so.
+  value, or the RMS of all their cross-validated residuals where that is larger, so a class the model predicts badly
+  never borrows the carbonyls' sigma). The widening factors are measured in the same validation: the RMS of the
+  complexes that needed a ligand's group (their own ligand terms were reset) or the generic value (a group, d count,
+  row or class term was reset), over the pooled RMS; with too few such bands an assumed factor is written and marked
+  so.
 """
 
 from __future__ import annotations
@@ -674,8 +676,11 @@ def uncertainty(v: Validation) -> tuple[dict[str, float], dict[str, float], dict
     sigma = {"pooled": round(pooled, 1)}
     for cat in CATEGORIES:
         e = [x for c, x in clean if c == cat]
+        every = [pr - m for c, m, pr, _, _ in v.additive if c == cat]
         if len(e) >= MIN_SIGMA_BANDS:
             sigma[cat] = round(_rms(e), 1)
+        elif every and _rms(every) > pooled:
+            sigma[cat] = round(_rms(every), 1)  # too few clean bands, but those there are say: worse than pooled
     widen, how = {}, {}
     for level in ("group", "generic"):
         e = [pr - m for _, m, pr, lvl, _ in v.additive if lvl == level]
