@@ -22,7 +22,7 @@ from __future__ import annotations
 import math
 import re
 from collections.abc import Mapping
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 from pathlib import Path
 from types import MappingProxyType
 from typing import Any
@@ -31,7 +31,7 @@ from enumerator.caches import cached
 from enumerator.rules.checks import check_keys, read_toml, rule_error
 from enumerator.rules.ruleset import BUILTIN_RULES
 
-__all__ = ["BandModelRules", "load_bandmodel", "load_groups", "PARAMETER_KINDS", "BANDMODEL_FILE", "GROUPS_FILE"]
+__all__ = ["BandModelRules", "load_bandmodel", "load_groups", "load_families", "load_substituents", "PARAMETER_KINDS", "BANDMODEL_FILE", "GROUPS_FILE"]
 
 BANDMODEL_FILE = BUILTIN_RULES / "bandmodel.toml"
 GROUPS_FILE = BUILTIN_RULES / "bandgroups.toml"
@@ -43,8 +43,15 @@ PARAMETER_KINDS = MappingProxyType(
         "d": 2,
         "q": 1,
         "q2": 1,
+        "qd": 2,
+        "ox": 1,
         "row": 2,
         "phase": 2,
+        "sd": 2,
+        "sa": 2,
+        "sb": 2,
+        "fa": 2,
+        "fb": 2,
         "ea": 2,
         "eb": 2,
         "la": 2,
@@ -52,6 +59,8 @@ PARAMETER_KINDS = MappingProxyType(
         "ia": 1,
         "ib": 1,
         "ig": 1,
+        "ir": 2,
+        "iq": 1,
     }
 )
 _NAME = re.compile(r"^[^:\s]+(:[^:\s]+)+$")
@@ -66,7 +75,8 @@ class BandModelRules:
     (cm-1) per band category ('CO neutral', 'CO charged', 'CN', 'NO linear',
     'NO bent', 'CS', 'CNR', 'N2', 'pooled'); ``widen`` the factors 'group' and
     'generic'; ``cv`` the validation figures as written; ``groups`` ligand ->
-    group; ``group_labels`` group -> words.
+    group; ``group_labels`` group -> words; ``families`` group -> family;
+    ``substituents`` phosphorus ligand -> its substituents.
     """
 
     header: Mapping[str, Any]
@@ -77,6 +87,8 @@ class BandModelRules:
     groups: Mapping[str, str]
     group_labels: Mapping[str, str]
     path: str = ""
+    families: Mapping[str, str] = field(default_factory=lambda: MappingProxyType({}))
+    substituents: Substituents = field(default_factory=lambda: MappingProxyType({}))
 
     def group_of(self, ligand: str) -> str | None:
         """The group of a catalogue ligand, or None when it is in none."""
@@ -91,16 +103,40 @@ def _number(v: object) -> bool:
     return isinstance(v, (int, float)) and not isinstance(v, bool) and math.isfinite(float(v))
 
 
-def _read_groups(path: Path) -> tuple[dict[str, str], dict[str, str]]:
+Substituents = Mapping[str, tuple[tuple[str, int], ...]]
+
+
+def _read_substituents(table: Any, where: str, groups: Mapping[str, str]) -> dict[str, tuple[tuple[str, int], ...]]:
+    if not isinstance(table, Mapping):
+        raise rule_error(where, "not a table", 'write "PClPh2" = { Cl = 1, Ph = 2 }')
+    out = {}
+    for lig, subs in table.items():
+        if lig not in groups:
+            raise rule_error(where, f"'{lig}' is in no group", "add it to a [group.NAME] first")
+        ok = isinstance(subs, Mapping) and subs and all(isinstance(n, int) and n > 0 for n in subs.values())
+        if not ok or sum(subs.values()) != 3:
+            raise rule_error(where, f"'{lig}' = {subs!r} is not three substituents", f'write "{lig}" = {{ Ph = 3 }}')
+        out[str(lig)] = tuple(sorted((str(k), int(n)) for k, n in subs.items()))
+    return out
+
+
+def _read_groups(
+    path: Path,
+) -> tuple[dict[str, str], dict[str, str], dict[str, str], dict[str, tuple[tuple[str, int], ...]]]:
     doc = read_toml(path)
-    check_keys(doc, str(path), ("group",))
+    check_keys(doc, str(path), ("group",), ("substituents",))
     groups: dict[str, str] = {}
     labels: dict[str, str] = {}
+    families: dict[str, str] = {}
     for name, table in doc["group"].items():
         where = f"{path} [group.{name}]"
         if not isinstance(table, Mapping):
             raise rule_error(where, "not a table", "write [group.NAME] with label and ligands")
-        check_keys(table, where, ("label", "ligands"))
+        check_keys(table, where, ("label", "ligands"), ("family",))
+        if "family" in table:
+            if not isinstance(table["family"], str) or not _NAME.match(f"x:{table['family']}"):
+                raise rule_error(where, f"family {table['family']!r} is not a name", 'write family = "phosphorus"')
+            families[name] = table["family"]
         ligs = table["ligands"]
         if not isinstance(ligs, list) or not all(isinstance(x, str) and x for x in ligs):
             raise rule_error(where, "'ligands' must be a list of catalogue names", 'write ligands = ["PPh3", ...]')
@@ -109,13 +145,58 @@ def _read_groups(path: Path) -> tuple[dict[str, str], dict[str, str]]:
             if lig in groups:
                 raise rule_error(where, f"ligand '{lig}' is also in group '{groups[lig]}'", "put it in one group only")
             groups[lig] = name
-    return groups, labels
+    subs = _read_substituents(doc.get("substituents", {}), f"{path} [substituents]", groups)
+    return groups, labels, families, subs
 
 
 @cached(maxsize=4)
-def _load_groups(path: Path, stamp: tuple[int, int]) -> tuple[Mapping[str, str], Mapping[str, str]]:
-    groups, labels = _read_groups(path)
-    return MappingProxyType(groups), MappingProxyType(labels)
+def _load_group_file(
+    path: Path, stamp: tuple[int, int]
+) -> tuple[Mapping[str, str], Mapping[str, str], Mapping[str, str], Substituents]:
+    groups, labels, families, subs = _read_groups(path)
+    return MappingProxyType(groups), MappingProxyType(labels), MappingProxyType(families), MappingProxyType(subs)
+
+
+def _stamped(path: Path | str | None) -> tuple[Mapping[str, str], Mapping[str, str], Mapping[str, str], Substituents]:
+    p = Path(path) if path is not None else GROUPS_FILE
+    st = p.stat() if p.exists() else None
+    return _load_group_file(p, (st.st_size, st.st_mtime_ns) if st else (0, 0))
+
+
+def load_families(path: Path | str | None = None) -> Mapping[str, str]:
+    """The ligand families: group -> family (the level a group's effects are regularised toward), read-only.
+
+    Parameters
+    ----------
+    path : Path or str, optional
+        A groups file (default: the built-in ``rules/bandgroups.toml``).
+
+    Returns
+    -------
+    Mapping[str, str]
+        Groups without a family (the reporter classes) are absent.
+    """
+    return _stamped(path)[2]
+
+
+def load_substituents(path: Path | str | None = None) -> Substituents:
+    """Phosphorus ligands split into their three substituents (Tolman's additivity), read-only.
+
+    C. A. Tolman, *Chem. Rev.* 77 (1977) 313: the A1 band of Ni(CO)3(PX1X2X3)
+    is 2056.1 + Σ χ_i, one contribution per substituent.  The band model uses
+    the same additivity for the effect of a phosphorus ligand.
+
+    Parameters
+    ----------
+    path : Path or str, optional
+        A groups file (default: the built-in ``rules/bandgroups.toml``).
+
+    Returns
+    -------
+    Mapping[str, tuple[tuple[str, int], ...]]
+        Ligand -> ((substituent, count), ...), the counts adding up to 3.
+    """
+    return _stamped(path)[3]
 
 
 def load_groups(path: Path | str | None = None) -> tuple[Mapping[str, str], Mapping[str, str]]:
@@ -135,9 +216,8 @@ def load_groups(path: Path | str | None = None) -> tuple[Mapping[str, str], Mapp
     RuleError
         A missing key, a ligand in two groups, a malformed list.
     """
-    p = Path(path) if path is not None else GROUPS_FILE
-    st = p.stat() if p.exists() else None
-    return _load_groups(p, (st.st_size, st.st_mtime_ns) if st else (0, 0))
+    groups, labels, _, _ = _stamped(path)
+    return groups, labels
 
 
 def _floats(table: Any, where: str, positive: bool = False) -> dict[str, float]:
@@ -180,7 +260,7 @@ def _read_bandmodel(path: Path, groups_path: Path) -> BandModelRules:
     for key in ("group", "generic"):
         if widen.get(key, 0.0) < 1.0:
             raise rule_error(f"{path} [widen]", f"'{key}' must be a factor >= 1", "regenerate the file")
-    groups, labels = load_groups(groups_path)
+    groups, labels, families, subs = _stamped(groups_path)
     hdr = dict(header)
     hdr["reference_k"] = MappingProxyType(refk)
     return BandModelRules(
@@ -191,6 +271,8 @@ def _read_bandmodel(path: Path, groups_path: Path) -> BandModelRules:
         cv=MappingProxyType(dict(doc["cv"])),
         groups=groups,
         group_labels=labels,
+        families=families,
+        substituents=subs,
         path=str(path),
     )
 

@@ -10,23 +10,34 @@ extended to every reporter class (terminal CN, linear and bent NO, CS, CNR,
 N2), each with parameters of its own, and written for one oscillator a of
 class c on a centre of charge z and d count d:
 
-    k_a = k0[c] + d[c, d] + q[c]·z + q2[c]·z² + row[c, 4|5] + phase[c, medium]
-          + Σ_{b ≠ a} ( ea[c, G_b] + eb[c, G_b]·cos θ_ab + la[c, L_b] + lb[c, L_b]·cos θ_ab )
+    k_a = k0[c] + d[c, d] + q[c]·z + q2[c]·z² + qd[c, d]·z + ox[c]·(oxidation state) + row[c, 4|5]
+          + phase[c, medium] + (1 + sd[c, d]) · Σ_{b ≠ a} ε_b(θ_ab)
 
-    F_ab = ia[c] + ib[c]·cos θ_ab + ig[c]·(k_ref[c] − (k_a + k_b)/2)
+    ε_b(θ) = fa[c, F_b] + fb[c, F_b]·cos θ + ea[c, G_b] + eb[c, G_b]·cos θ + la[c, L_b] + lb[c, L_b]·cos θ
 
-where the sum runs over every other occupied site b (a chelate counts once
-per donor site, an η-ring once), L_b is the ligand there and G_b its group
-(``rules/bandgroups.toml``; a reporter ligand's group is its own class).  The
-linear-in-cos θ form of ε_L(θ) takes Timney's cis and trans effects as its
-values at 90° and 180° and interpolates between them (120° of a trigonal
-bipyramid, 109.5° of a tetrahedron).  ``row`` is an offset for 4d and 5d
-metals, ``phase`` one for gas-phase and matrix spectra (the model predicts
-condensed-phase, solution values).  The ligand terms la, lb are fitted with
-ridge regularisation toward zero, i.e. toward the ligand's group: a ligand
-without fitted terms of its own falls back to its group, and a group never
-fitted for a class falls back to no effect (the generic value).  The
-parameters are data: ``rules/bandmodel.toml``, fitted by
+    F_ab = ia[c] + ib[c]·cos θ_ab + ir[c, 4|5] + iq[c]·z + ig[c]·(k_ref[c] − (k_a + k_b)/2)
+
+where the sum runs over every other occupied site b (a chelate counts once per
+donor site, an η-ring once), L_b is the ligand there, G_b its group and F_b
+the group's family (``rules/bandgroups.toml``; a reporter ligand's group is
+its own class, and it has no family). The linear-in-cos θ form of ε_L(θ) takes
+Timney's cis and trans effects as its values at 90° and 180° and interpolates
+between them (120° of a trigonal bipyramid, 109.5° of a tetrahedron). ``row``
+is an offset for 4d and 5d metals (``ir`` its counterpart in the
+interactions), ``qd`` lets the charge act differently on each d count (the d10
+and d6 isoelectronic series are not spaced alike), ``ox`` is a term in the
+metal's oxidation state (a neutral Au(I) carbonyl behaves like the cationic
+Cu(I) one, not like Ni(0)), ``phase`` an offset for gas-phase and matrix
+spectra (the model predicts condensed-phase, solution values); ``sd`` is the
+sensitivity of a d count to the ligands, relative to d6 (:data:`REFERENCE_D`,
+sd = 0 by definition; a d6 metal passes a ligand's donor/acceptor character on
+to its carbonyls more strongly than a d10 one: the fac-Mo(CO)3L3 series spans
+220 cm-1 where the Ni(CO)3L series spans 55). The ligand terms la, lb are
+fitted with ridge regularisation toward zero, i.e. toward the ligand's group,
+the group terms ea, eb toward the family: a ligand without fitted terms of its
+own falls back to its group, a group never fitted for a class to its family,
+and a family never fitted to no effect (the generic value). The parameters are
+data: ``rules/bandmodel.toml``, fitted by
 :mod:`enumerator.vibrations.calibrate` on the measured set ``rules/measured``.
 
 :func:`build_design` turns an isomer into the linear description of its
@@ -57,7 +68,7 @@ from enumerator.errors import IsosieveError
 from enumerator.isomers.enumeration import Isomer
 from enumerator.model.composition import Composition
 from enumerator.model.elements import atomic_number
-from enumerator.rules.bandmodel import BandModelRules, load_groups
+from enumerator.rules.bandmodel import BandModelRules, load_families, load_groups, load_substituents
 
 __all__ = [
     "Centre",
@@ -89,6 +100,7 @@ class Centre:
     charge: int
     d: int | None
     row: int
+    oxidation_state: int | None = None
 
 
 def centre_of(comp: Composition) -> Centre | None:
@@ -114,11 +126,12 @@ def _centre(comp: Composition) -> Centre | None:
     except IsosieveError:
         return None
     try:
-        d = count_electrons(comp).d_electrons
+        ec = count_electrons(comp)
+        d, ox = ec.d_electrons, ec.oxidation_state
     except IsosieveError:
-        d = None
+        d, ox = None, None
     row = 3 if z <= 30 else (4 if z <= 48 else 5)
-    return Centre(comp.metal, comp.charge, d, row)
+    return Centre(comp.metal, comp.charge, d, row, ox)
 
 
 def parameter_class(reporter_class: str, ligand: str, nitrosyl: str | None = None) -> str:
@@ -185,6 +198,10 @@ class Design:
     terms: tuple[tuple[tuple[str, float], ...], ...]
     pairs: tuple[tuple[int, int, float], ...]
     neighbours: tuple[tuple[str, str | None], ...]
+    #: (parameter name, coefficient) terms added to every pair's interaction (row and charge terms)
+    pair_terms: tuple[tuple[str, float], ...] = ()
+    #: the parameter s whose (1 + s) multiplies every ligand effect (one per class and d count), or None
+    scale: str | None = None
 
     @property
     def names(self) -> tuple[str, ...]:
@@ -192,8 +209,23 @@ class Design:
         out = {n for t in self.terms for n, _ in t}
         c = self.pclass
         if self.pairs:
-            out |= {f"ia:{c}", f"ib:{c}", f"ig:{c}"}
+            out |= {f"ia:{c}", f"ib:{c}", f"ig:{c}"} | {n for n, _ in self.pair_terms}
+        if self.scale:
+            out.add(self.scale)
         return tuple(sorted(out))
+
+
+#: The d count whose sensitivity to the ligands is 1 by definition (the octahedral d6 carbonyls and cyanides, the
+#: best-covered); the ligand effects are in its units, and a d count without a fitted sensitivity falls back to it.
+REFERENCE_D = 6
+
+#: Parameter kinds of the ligand effects, the part of k_a that the sensitivity (1 + s[c, d]) multiplies.
+LIGAND_KINDS = frozenset({"ea", "eb", "la", "lb", "fa", "fb", "sa", "sb"})
+
+
+def is_ligand_term(name: str) -> bool:
+    """Whether a parameter name is a ligand effect (scaled by the sensitivity of the class and d count)."""
+    return name.split(":", 1)[0] in LIGAND_KINDS
 
 
 def _site_pclass(site: object, nitrosyls: Mapping[str, str]) -> str | None:
@@ -212,6 +244,8 @@ def build_design(
     nitrosyl: str | None = None,
     phase: str = CONDENSED,
     groups: Mapping[str, str] | None = None,
+    families: Mapping[str, str] | None = None,
+    substituents: Mapping[str, tuple[tuple[str, int], ...]] | None = None,
 ) -> Design:
     """The additive description of one reporter class's stretching constants on one isomer.
 
@@ -229,6 +263,10 @@ def build_design(
         'gas', 'matrix' or :data:`CONDENSED` (default).
     groups : Mapping[str, str], optional
         Ligand -> group (default: ``rules/bandgroups.toml``).
+    families : Mapping[str, str], optional
+        Group -> family (default: ``rules/bandgroups.toml``).
+    substituents : Mapping, optional
+        Phosphorus ligand -> ((substituent, count), ...) (default: ``rules/bandgroups.toml``).
 
     Returns
     -------
@@ -236,7 +274,18 @@ def build_design(
         Cached by value.
     """
     g = groups if groups is not None else load_groups()[0]
-    return _design(isomer, centre, reporter_class, nitrosyl, phase, tuple(sorted(g.items())))
+    f = families if families is not None else load_families()
+    sub = substituents if substituents is not None else load_substituents()
+    return _design(
+        isomer,
+        centre,
+        reporter_class,
+        nitrosyl,
+        phase,
+        tuple(sorted(g.items())),
+        tuple(sorted(f.items())),
+        tuple(sorted(sub.items())),
+    )
 
 
 def _oscillator_terms(centre: Centre, c: str, phase: str) -> list[tuple[str, float]]:
@@ -246,6 +295,10 @@ def _oscillator_terms(centre: Centre, c: str, phase: str) -> list[tuple[str, flo
     z = float(centre.charge)
     if z:
         t += [(f"q:{c}", z), (f"q2:{c}", z * z)]
+        if centre.d is not None:
+            t.append((f"qd:{c}:{centre.d}", z))
+    if centre.oxidation_state:
+        t.append((f"ox:{c}", float(centre.oxidation_state)))
     if centre.row > 3:
         t.append((f"row:{c}:{centre.row}", 1.0))
     if phase in _PHASES:
@@ -261,8 +314,12 @@ def _design(
     nitrosyl: str | None,
     phase: str,
     group_items: tuple[tuple[str, str], ...],
+    family_items: tuple[tuple[str, str], ...] = (),
+    substituent_items: tuple[tuple[str, tuple[tuple[str, int], ...]], ...] = (),
 ) -> Design:
     groups = dict(group_items)
+    families = dict(family_items)
+    subs = dict(substituent_items)
     nitro = {s.ligand: nitrosyl for s in isomer.sites if nitrosyl and s.reporter in ("NO", "NObent")}
     want = reporter_class.lower()
     osc = sorted((s for s in isomer.sites if s.reporter and s.reporter.lower() == want), key=lambda s: s.index)
@@ -277,12 +334,7 @@ def _design(
                 continue
             cos = float(np.dot(vec[s.index], vec[o.index]))
             cos = round(cos, 12) + 0.0
-            other = _site_pclass(o, nitro)
-            grp = other if other is not None else groups.get(o.ligand)
-            if grp is not None:
-                t += [(f"ea:{c}:{grp}", 1.0), (f"eb:{c}:{grp}", cos)]
-            if other is None:
-                t += [(f"la:{c}:{o.ligand}", 1.0), (f"lb:{c}:{o.ligand}", cos)]
+            t += _neighbour_terms(c, o.ligand, _site_pclass(o, nitro), cos, groups, families, subs)
         terms.append(tuple(_merge(t)))
     pairs = tuple(
         (a, b, round(float(np.dot(vec[osc[a].index], vec[osc[b].index])), 12) + 0.0)
@@ -290,7 +342,51 @@ def _design(
         for b in range(a + 1, len(osc))
     )
     neighbours = tuple(sorted({(s.ligand, groups.get(s.ligand)) for s in isomer.sites if not s.reporter}, key=str))
-    return Design(reporter_class, c, centre.charge, tuple(s.index for s in osc), tuple(terms), pairs, neighbours)
+    pair_terms = _pair_terms(centre, c) if pairs else []
+    return Design(
+        reporter_class,
+        c,
+        centre.charge,
+        tuple(s.index for s in osc),
+        tuple(terms),
+        pairs,
+        neighbours,
+        tuple(pair_terms),
+        f"sd:{c}:{centre.d}" if centre.d is not None and centre.d != REFERENCE_D else None,
+    )
+
+
+def _neighbour_terms(
+    c: str,
+    ligand: str,
+    other: str | None,
+    cos: float,
+    groups: Mapping[str, str],
+    families: Mapping[str, str],
+    subs: Mapping[str, tuple[tuple[str, int], ...]],
+) -> list[tuple[str, float]]:
+    """ε of one neighbour at cos θ: its group's (a reporter's class) terms, its family's, its own, its substituents'."""
+    t: list[tuple[str, float]] = []
+    grp = other if other is not None else groups.get(ligand)
+    if grp is not None:
+        t += [(f"ea:{c}:{grp}", 1.0), (f"eb:{c}:{grp}", cos)]
+        if other is None and grp in families:
+            t += [(f"fa:{c}:{families[grp]}", 1.0), (f"fb:{c}:{families[grp]}", cos)]
+    if other is None:
+        t += [(f"la:{c}:{ligand}", 1.0), (f"lb:{c}:{ligand}", cos)]
+        for x, n in subs.get(ligand, ()):
+            t += [(f"sa:{c}:{x}", n / 3.0), (f"sb:{c}:{x}", n / 3.0 * cos)]
+    return t
+
+
+def _pair_terms(centre: Centre, c: str) -> list[tuple[str, float]]:
+    """The terms every interaction constant of class ``c`` shares: a 4d/5d row offset and one linear in charge."""
+    out: list[tuple[str, float]] = []
+    if centre.row > 3:
+        out.append((f"ir:{c}:{centre.row}", 1.0))
+    if centre.charge:
+        out.append((f"iq:{c}", float(centre.charge)))
+    return out
 
 
 def _merge(terms: list[tuple[str, float]]) -> list[tuple[str, float]]:
@@ -314,7 +410,10 @@ def stretching_constants(design: Design, values: Mapping[str, float]) -> np.ndar
     -------
     numpy.ndarray
     """
-    return np.array([sum(v * float(values.get(n, 0.0)) for n, v in t) for t in design.terms])
+    g = 1.0 + float(values.get(design.scale, 0.0)) if design.scale else 1.0
+    return np.array(
+        [sum(v * float(values.get(n, 0.0)) * (g if is_ligand_term(n) else 1.0) for n, v in t) for t in design.terms]
+    )
 
 
 def f_matrix(design: Design, values: Mapping[str, float], k_ref: float) -> np.ndarray:
@@ -336,8 +435,9 @@ def f_matrix(design: Design, values: Mapping[str, float], k_ref: float) -> np.nd
     f = np.diag(k)
     c = design.pclass
     ia, ib, ig = (float(values.get(f"{x}:{c}", 0.0)) for x in ("ia", "ib", "ig"))
+    extra = sum(v * float(values.get(n, 0.0)) for n, v in design.pair_terms)
     for a, b, cos in design.pairs:
-        f[a, b] = f[b, a] = ia + ib * cos + ig * (k_ref - 0.5 * (k[a] + k[b]))
+        f[a, b] = f[b, a] = ia + ib * cos + extra + ig * (k_ref - 0.5 * (k[a] + k[b]))
     return f
 
 
@@ -356,6 +456,26 @@ class Coverage:
     generic: tuple[str, ...]
     notes: tuple[str, ...]
     widen: float
+
+
+def _neighbour_levels(design: Design, rules: BandModelRules) -> tuple[list[str], list[str], list[str]]:
+    """The neighbour ligands that fall back to their group, to their family, or to no effect at all."""
+    p, c = rules.parameters, design.pclass
+    group, family, generic = [], [], []
+    for lig, grp in design.neighbours:
+        if f"la:{c}:{lig}" in p:
+            continue
+        if grp is not None and f"ea:{c}:{grp}" in p:
+            group.append(lig)
+        elif grp is not None and f"fa:{c}:{rules.families.get(grp)}" in p:
+            family.append(lig)
+        else:
+            generic.append(lig)
+    neighbour_groups = {grp for _, grp in design.neighbours}
+    for n in design.names:
+        if n.startswith("ea:") and n not in p and n.split(":")[2] not in neighbour_groups:
+            generic.append(n.split(":")[2])  # another reporter class next to this one
+    return group, family, generic
 
 
 def coverage(design: Design, rules: BandModelRules) -> Coverage:
@@ -382,28 +502,25 @@ def coverage(design: Design, rules: BandModelRules) -> Coverage:
             False, (), (), (f"only {n_cv} cross-validated {cat} band(s), too few to use the band model",), 1.0
         )
     names = set(design.names)
-    group, generic, notes = [], [], []
-    for lig, grp in design.neighbours:
-        if f"la:{c}:{lig}" in p:
-            continue
-        if grp is not None and f"ea:{c}:{grp}" in p:
-            group.append(lig)
-        else:
-            generic.append(lig)
-    neighbour_groups = {grp for _, grp in design.neighbours}
-    for n in sorted(names):
-        if n.startswith("ea:") and n not in p and n.split(":")[2] not in neighbour_groups:
-            generic.append(n.split(":")[2])  # another reporter class next to this one
+    group, family, generic = _neighbour_levels(design, rules)
+    notes = []
     if group:
         notes.append(
             f"{', '.join(group)}: no {c} parameters of its own in the band model; "
-            f"its group's values are used (sigma widened x{rules.widen['group']:.2g})"
+            f"its group's values (and its substituents', where fitted) are used "
+            f"(sigma widened x{rules.widen['group']:.2g})"
+        )
+    if family:
+        notes.append(
+            f"{', '.join(family)}: neither it nor its group has fitted {c} parameters; its ligand family's "
+            f"values are used (sigma widened x{rules.widen['generic']:.2g})"
         )
     if generic:
         notes.append(
             f"{', '.join(sorted(set(generic)))}: neither it nor its group has fitted {c} parameters; "
             f"no ligand effect is added (generic value, sigma widened x{rules.widen['generic']:.2g})"
         )
+    generic += family
     for kind, what in (("d", "d count"), ("row", "metal row")):
         missing = [n for n in names if n.startswith(f"{kind}:") and n not in p]
         if missing:

@@ -23,11 +23,13 @@ arguments give the same bytes.
   the parameters that only it touches are reset to their prior centre (no leakage), the rest refitted to
   convergence from the full fit, and the held-out bands predicted.  Per category the number of bands, MAE and
   maximum error are reported for this model and for the generic constants of ``rules/forcefields.toml``.
-* **Uncertainty.**  sigma of a category is the RMS of its cross-validated residuals over complexes all of whose
+* **Uncertainty.** sigma of a category is the RMS of its cross-validated residuals over complexes all of whose
   parameters were seen elsewhere (categories with fewer than :data:`MIN_SIGMA_BANDS` such bands take the pooled
-  value).  The widening factors are measured in the same validation: the RMS of the complexes that needed a
-  ligand's group (their own ligand terms were reset) or the generic value (a group, d count, row or class term
-  was reset), over the pooled RMS; with too few such bands an assumed factor is written and marked so.
+  value, or the RMS of all their cross-validated residuals where that is larger, so a class the model predicts badly
+  never borrows the carbonyls' sigma). The widening factors are measured in the same validation: the RMS of the
+  complexes that needed a ligand's group (their own ligand terms were reset) or the generic value (a group, d count,
+  row or class term was reset), over the pooled RMS; with too few such bands an assumed factor is written and marked
+  so.
 """
 
 from __future__ import annotations
@@ -50,10 +52,10 @@ from enumerator.errors import IsosieveError
 from enumerator.isomers.enumeration import Isomer, enumerate_isomers
 from enumerator.model.composition import Composition
 from enumerator.parse.formula import parse_formula
-from enumerator.rules.bandmodel import BANDMODEL_FILE, load_groups
+from enumerator.rules.bandmodel import BANDMODEL_FILE, load_families, load_groups, load_substituents
 from enumerator.rules.measured import MEASURED_FOLDER, MeasuredComplex, load_measured
 from enumerator.rules.ruleset import RuleSet, load_rules
-from enumerator.vibrations.additive import Centre, Design, build_design, category, centre_of
+from enumerator.vibrations.additive import Centre, Design, build_design, category, centre_of, is_ligand_term
 from enumerator.vibrations.model import Model, build_model, reporter_classes
 from enumerator.vibrations.solver import WAVENUMBER_FACTOR, Band, SymmetryBlocks, solve_modes, symmetry_blocks
 
@@ -86,15 +88,24 @@ PRIORS: Mapping[str, tuple[float, float | None]] = {
     "d": (0.0, 1.0),
     "q": (0.0, 3.0),
     "q2": (0.0, 1.0),
+    "qd": (0.0, 1.0),
+    "ox": (0.0, 1.0),
     "row": (0.0, 0.5),
     "phase": (0.0, 0.5),
-    "ea": (0.0, 1.0),
-    "eb": (0.0, 1.0),
+    "sd": (0.0, 0.5),
+    "sa": (0.0, 0.3),
+    "sb": (0.0, 0.3),
+    "fa": (0.0, 1.0),
+    "fb": (0.0, 1.0),
+    "ea": (0.0, 0.5),
+    "eb": (0.0, 0.5),
     "la": (0.0, 0.15),
     "lb": (0.0, 0.15),
     "ia": (0.3, 0.5),
     "ib": (0.0, 0.5),
     "ig": (0.0, 0.2),
+    "ir": (0.0, 0.3),
+    "iq": (0.0, 0.2),
 }
 #: Widening factors written when the validation has too few bands to measure them.
 ASSUMED_WIDEN = {"group": 1.5, "generic": 2.0}
@@ -222,13 +233,22 @@ def resolve_row(row: MeasuredComplex, rules: RuleSet | None = None) -> Sample | 
     centre = centre_of(comp)
     if centre is None:
         return f"{row.formula}: no metal centre the band model can read"
-    groups = load_groups()[0]
+    groups, families, subs = load_groups()[0], load_families(), load_substituents()
     out = []
     for bc in sorted({b.reporter for b in row.bands}):
         cls = _solver_class(isomer, bc)
         if cls is None:
             return f"{row.formula}: bands of class {bc} but no {bc} ligand"
-        design = build_design(isomer, centre, cls, nitrosyl=row.nitrosyl, phase=_phase(row.phase), groups=groups)
+        design = build_design(
+            isomer,
+            centre,
+            cls,
+            nitrosyl=row.nitrosyl,
+            phase=_phase(row.phase),
+            groups=groups,
+            families=families,
+            substituents=subs,
+        )
         model = build_model(isomer, cls, rules)
         meas = tuple(
             (t, tuple(sorted((b.cm1 for b in row.bands if b.reporter == bc and b.technique == t), reverse=True)))
@@ -323,6 +343,10 @@ class _Block:
     pairs: tuple[tuple[int, int, float], ...]
     iabg: tuple[int, int, int]
     k_ref: float
+    extra: tuple[tuple[int, float], ...] = ()
+    #: the ligand-effect part of ``d`` (scaled by 1 + p[scale]) and the index of the scale (-1: none)
+    lig: np.ndarray | None = field(default=None, compare=False)
+    scale: int = -1
 
 
 class Problem:
@@ -330,6 +354,7 @@ class Problem:
 
     def __init__(self, samples: Sequence[Sample]) -> None:
         names = sorted({n for s in samples for c in s.classes for n in c.design.names})
+        families = load_families()
         self.names: tuple[str, ...] = tuple(names)
         self.index = {n: k for k, n in enumerate(names)}
         mu, width = [], []
@@ -338,6 +363,8 @@ class Problem:
             m, w = PRIORS[kind]
             if kind == "k0":
                 m = REFERENCE_K[rest]
+            elif kind in ("ea", "eb") and rest.split(":")[1] not in families:
+                w = PRIORS["fa"][1]  # a group without a family is regularised as a family is
             mu.append(m)
             width.append(np.inf if w is None else w)
         self.mu = np.array(mu)
@@ -347,36 +374,59 @@ class Problem:
 
     def _block(self, s: Sample, c: ClassData) -> _Block:
         d = np.zeros((len(c.design.terms), len(self.names)))
+        lig = np.zeros_like(d)
         for a, t in enumerate(c.design.terms):
             for n, v in t:
-                d[a, self.index[n]] += v
+                (lig if is_ligand_term(n) else d)[a, self.index[n]] += v
         p = c.design.pclass
         iabg = tuple(self.index.get(f"{x}:{p}", -1) for x in ("ia", "ib", "ig"))
-        return _Block(c, s.row.weight, d, c.design.pairs, (iabg[0], iabg[1], iabg[2]), REFERENCE_K[p])
+        extra = tuple((self.index[n], v) for n, v in c.design.pair_terms)
+        scale = self.index[c.design.scale] if c.design.scale else -1
+        return _Block(
+            c, s.row.weight, d, c.design.pairs, (iabg[0], iabg[1], iabg[2]), REFERENCE_K[p], extra, lig, scale
+        )
 
     def touched(self, k: int) -> set[int]:
         """Parameter indices sample ``k`` depends on."""
         out: set[int] = set()
         for b in self.blocks[k]:
             out |= set(np.nonzero(np.any(b.d != 0, axis=0))[0].tolist())
+            if b.lig is not None:
+                out |= set(np.nonzero(np.any(b.lig != 0, axis=0))[0].tolist())
+            if b.scale >= 0:
+                out.add(b.scale)
             if b.pairs:
-                out |= {i for i in b.iabg if i >= 0}
+                out |= {i for i in b.iabg if i >= 0} | {i for i, _ in b.extra}
         return out
 
 
-def _f(b: _Block, p: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
-    k = b.d @ p
+def _k(b: _Block, p: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+    """The stretching constants k (n) and their derivatives ∂k/∂p (n x parameters)."""
+    if b.lig is None:
+        return b.d @ p, b.d
+    g = 1.0 + (p[b.scale] if b.scale >= 0 else 0.0)
+    e = b.lig @ p
+    dk = b.d + g * b.lig
+    if b.scale >= 0:
+        dk = dk.copy()
+        dk[:, b.scale] += e
+    return b.d @ p + g * e, dk
+
+
+def _f(b: _Block, p: np.ndarray) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    k, dk = _k(b, p)
     f = np.diag(k)
     ia, ib, ig = (p[i] if i >= 0 else 0.0 for i in b.iabg)
+    extra = sum(p[i] * v for i, v in b.extra)
     for a, c, cos in b.pairs:
-        f[a, c] = f[c, a] = ia + ib * cos + ig * (b.k_ref - 0.5 * (k[a] + k[c]))
-    return f, k
+        f[a, c] = f[c, a] = ia + ib * cos + extra + ig * (b.k_ref - 0.5 * (k[a] + k[c]))
+    return f, k, dk
 
 
-def _dlam(b: _Block, p: np.ndarray, k: np.ndarray, gy: np.ndarray) -> np.ndarray:
-    """∂λ/∂p of one mode, gy = G^½ y (n x d)."""
+def _dlam(b: _Block, p: np.ndarray, k: np.ndarray, dk: np.ndarray, gy: np.ndarray) -> np.ndarray:
+    """∂λ/∂p of one mode, gy = G^½ y (n x d); dk = ∂k/∂p."""
     m = gy @ gy.T / gy.shape[1]
-    out = np.diag(m) @ b.d
+    out = np.diag(m) @ dk
     ia, ib, ig = b.iabg
     pig = p[ig] if ig >= 0 else 0.0
     for a, c, cos in b.pairs:
@@ -385,13 +435,15 @@ def _dlam(b: _Block, p: np.ndarray, k: np.ndarray, gy: np.ndarray) -> np.ndarray
             out[ia] += w
             out[ib] += w * cos
             out[ig] += w * (b.k_ref - 0.5 * (k[a] + k[c]))
-        out -= w * 0.5 * pig * (b.d[a] + b.d[c])
+            for i, v in b.extra:
+                out[i] += w * v
+        out -= w * 0.5 * pig * (dk[a] + dk[c])
     return out
 
 
 def _block_residuals(b: _Block, p: np.ndarray, jac: bool) -> list[tuple[float, float, np.ndarray | None]]:
     """(measured, predicted, ∂ν̃/∂p or None) of every assigned band of one block."""
-    f, k = _f(b, p)
+    f, k, dk = _f(b, p)
     try:
         modes = solve_modes(b.data.model, b.data.isomer, f=f, blocks=b.data.blocks)
     except IsosieveError:
@@ -406,7 +458,7 @@ def _block_residuals(b: _Block, p: np.ndarray, jac: bool) -> list[tuple[float, f
             der = None
             if jac:
                 lam = md.band.eigenvalue
-                der = WAVENUMBER_FACTOR / (2.0 * math.sqrt(lam)) * _dlam(b, p, k, gh[:, None] * md.vectors)
+                der = WAVENUMBER_FACTOR / (2.0 * math.sqrt(lam)) * _dlam(b, p, k, dk, gh[:, None] * md.vectors)
             out.append((meas[i], md.band.wavenumber, der))
     return out
 
@@ -523,9 +575,10 @@ class Validation:
 
 def _fallback(problem: Problem, reset: set[int]) -> str:
     kinds = {problem.names[i].split(":", 1)[0] for i in reset}
-    if kinds - {"la", "lb", "phase"}:
+    own = {"la", "lb", "sa", "sb"}  # a ligand's own terms and its substituents': the group is what remains
+    if kinds - own - {"phase"}:
         return "generic"
-    return "group" if kinds & {"la", "lb"} else "none"
+    return "group" if kinds & own else "none"
 
 
 def cross_validate(problem: Problem, p_full: np.ndarray, *, log=None) -> Validation:
@@ -623,8 +676,11 @@ def uncertainty(v: Validation) -> tuple[dict[str, float], dict[str, float], dict
     sigma = {"pooled": round(pooled, 1)}
     for cat in CATEGORIES:
         e = [x for c, x in clean if c == cat]
+        every = [pr - m for c, m, pr, _, _ in v.additive if c == cat]
         if len(e) >= MIN_SIGMA_BANDS:
             sigma[cat] = round(_rms(e), 1)
+        elif every and _rms(every) > pooled:
+            sigma[cat] = round(_rms(every), 1)  # too few clean bands, but those there are say: worse than pooled
     widen, how = {}, {}
     for level in ("group", "generic"):
         e = [pr - m for _, m, pr, lvl, _ in v.additive if lvl == level]
@@ -773,6 +829,7 @@ def calibrate(date: str = "not recorded", cv: bool = True, log=None) -> str:
         "fitted": date,
         "command": "python -m enumerator.vibrations.calibrate" + (f" --date {date}" if date != "not recorded" else ""),
         "ridge": ", ".join(f"{k} {w}" for k, (_, w) in PRIORS.items())
+        + f" (ea, eb of a group without a family: {PRIORS['fa'][1]})"
         + f" (prior widths; residual scale {SCALE} cm-1)",
     }
     return render_toml(problem, p, meta, figs, sigma, widen, how)

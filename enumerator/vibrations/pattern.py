@@ -174,7 +174,9 @@ def _additive(isomer: Isomer, base: Model, composition: Composition) -> _Additiv
     if centre is None:
         return _GENERIC_NOTE["abstract"]
     bm = load_bandmodel()
-    design = build_design(isomer, centre, base.reporter_class, groups=bm.groups)
+    design = build_design(
+        isomer, centre, base.reporter_class, groups=bm.groups, families=bm.families, substituents=bm.substituents
+    )
     cov = coverage(design, bm)
     if not cov.usable:
         return f"{cov.notes[0]}: positions from the generic constants of forcefields.toml"
