@@ -76,3 +76,25 @@ def test_batch_result_reads_counts_from_the_result():
         (i["id"], cls, m["ir"]) for i in doc["isomers"] for cls, m in sorted(i["modes"].items())
     )
     assert result.to_dict() == {"rows": [r.to_dict() for r in result.rows]}
+
+
+def test_rows_built_field_by_field_cover_every_field():
+    # the screen builds rows positionally for speed: the field order it relies on must hold
+    from dataclasses import fields
+
+    from enumerator.workflow.batch import BatchRow
+
+    names = [f.name for f in fields(BatchRow)]
+    assert names == [
+        "index", "formula", "label", "error", "metal", "charge", "oxidation_state", "d_electrons",
+        "valence_electrons", "geometry", "geometry_reason", "geometric_isomers", "stereoisomers", "complete",
+        "point_groups", "ir_bands", "safety", "cached",
+    ]  # fmt: skip
+
+
+def test_a_repeated_formula_gives_the_first_rows_answer_with_its_own_place_and_label():
+    from enumerator.workflow.batch import screen
+
+    rows = list(screen([("Ma4b2", "one"), ("Ma5b", "two"), ("Ma4b2", "three")]))
+    assert [(r.index, r.label, r.cached) for r in rows] == [(0, "one", False), (1, "two", False), (2, "three", True)]
+    assert rows[2].point_groups == rows[0].point_groups and rows[2].geometry == rows[0].geometry

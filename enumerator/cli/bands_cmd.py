@@ -96,7 +96,6 @@ def bands(
     from enumerator.cli.match_cmd import parse_window
     from enumerator.render.bands import bands_plot, bands_text
     from enumerator.render.jsonout import dumps
-    from enumerator.render.plots import format_for
     from enumerator.vibrations.fitting import parse_bands
     from enumerator.vibrations.pattern import parse_constants
     from enumerator.workflow.bands import predict_spectra
@@ -123,6 +122,8 @@ def bands(
             progress=progress,
         )
     if plot:
+        from enumerator.render.plots import format_for  # only a plot needs it (and matplotlib)
+
         write_atomic_bytes(plot, bands_plot(result, format_for(plot), width, dpi))
     emit(dumps(result.to_dict()) if as_json else bands_text(result), out)
 

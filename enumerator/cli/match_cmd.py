@@ -92,7 +92,6 @@ def match(ctx, formula, bands_text, tolerance, weak, window, geometry, reporters
     """
     from enumerator.render.bands import match_plot, match_text
     from enumerator.render.jsonout import dumps
-    from enumerator.render.plots import format_for
     from enumerator.vibrations.matching import parse_measured
     from enumerator.workflow.bands import match_spectrum
     from enumerator.workflow.pipeline import Request
@@ -116,5 +115,7 @@ def match(ctx, formula, bands_text, tolerance, weak, window, geometry, reporters
         window=parse_window(window),
     )
     if plot:
+        from enumerator.render.plots import format_for  # only a plot needs it (and matplotlib)
+
         write_atomic_bytes(plot, match_plot(report, format_for(plot), dpi))
     emit(dumps(report.to_dict()) if as_json else match_text(report), out)

@@ -483,6 +483,12 @@ def _leaves(levels, geometry: Geometry) -> Iterator[tuple[tuple[Piece, ...], tup
     yield from rec(0, 0, [], all_ops)
 
 
+def _level_orders(levels, composition: Composition) -> tuple[int, ...]:
+    """Each level's ligand kind's place in the formula (kinds compare by value: hashing one is not free)."""
+    formula_order = {k: i for i, (k, _) in enumerate(composition.parts)}
+    return tuple(formula_order[lv[0]] for lv in levels)
+
+
 def _build(
     levels,
     pieces: tuple[Piece, ...],
@@ -493,25 +499,35 @@ def _build(
     number: int,
     chiral: bool,
     enantiomer: str | None,
+    memo: dict[tuple[int, int, int, int], Site] | None = None,
+    orders: tuple[int, ...] | None = None,
 ) -> Isomer:
-    formula_order = {k: i for i, (k, _) in enumerate(composition.parts)}
+    """One isomer; ``memo`` shares equal Site objects between the isomers of one enumeration (a Site is
+    immutable, and most isomers repeat the sites of others: making each anew dominated the listing);
+    ``orders`` is :func:`_level_orders`, worked out once per enumeration."""
+    memo = {} if memo is None else memo
+    orders = _level_orders(levels, composition) if orders is None else orders
     placed = sorted(
-        ((formula_order[levels[lv][0]], t, levels[lv][0]) for lv, piece in enumerate(pieces) for t in piece),
+        ((orders[lv], t, levels[lv][0]) for lv, piece in enumerate(pieces) for t in piece),
         key=lambda x: (x[0], x[1]),
     )
     sites: list[Site | None] = [None] * geometry.coordination_number
-    for unit, (_, t, kind) in enumerate(placed, start=1):
+    for unit, (order, t, kind) in enumerate(placed, start=1):
         for di, s in enumerate(t):
-            sites[s] = Site(
-                index=s,
-                position=geometry.vectors[s],
-                ligand=kind.name,
-                donor=kind.donors[di],
-                unit=unit,
-                donor_index=di,
-                ring=kind.ring,
-                reporter=kind.reporter,
-            )
+            key = (s, order, di, unit)
+            site = memo.get(key)
+            if site is None:
+                site = memo[key] = Site(
+                    index=s,
+                    position=geometry.vectors[s],
+                    ligand=kind.name,
+                    donor=kind.donors[di],
+                    unit=unit,
+                    donor_index=di,
+                    ring=kind.ring,
+                    reporter=kind.reporter,
+                )
+            sites[s] = site
     point_group = _point_group(geometry.vectors, geometry.linear, tuple(sorted(stab)))
     return Isomer(
         id=iid,
@@ -555,14 +571,16 @@ def _generate(levels, composition: Composition, geometry: Geometry, limit: int |
     tab = group_tables(geometry)
     mirror = next((k for k in range(len(tab.perms)) if not tab.proper[k]), None)
     emitted = 0
+    memo: dict[tuple[int, int, int, int], Site] = {}
+    orders = _level_orders(levels, composition)
     for number, (pieces, stab) in enumerate(_leaves(levels, geometry), start=1):
         chiral = mirror is not None and all(tab.proper[h] for h in stab)
         if not chiral:
-            yield _build(levels, pieces, stab, geometry, composition, str(number), number, False, None)
+            yield _build(levels, pieces, stab, geometry, composition, str(number), number, False, None, memo, orders)
             emitted += 1
         else:
             a, b = f"{number}a", f"{number}b"
-            yield _build(levels, pieces, stab, geometry, composition, a, number, True, b)
+            yield _build(levels, pieces, stab, geometry, composition, a, number, True, b, memo, orders)
             emitted += 1
             if limit is not None and emitted >= limit:
                 return
@@ -570,7 +588,7 @@ def _generate(levels, composition: Composition, geometry: Geometry, limit: int |
             mpieces = tuple(_image(levels[lv][0], p, m) for lv, p in enumerate(pieces))
             inv = tab.inverse[mirror]
             mstab = tuple(int(tab.mult[tab.mult[mirror, h], inv]) for h in stab)
-            yield _build(levels, mpieces, mstab, geometry, composition, b, number, True, a)
+            yield _build(levels, mpieces, mstab, geometry, composition, b, number, True, a, memo, orders)
             emitted += 1
         if limit is not None and emitted >= limit:
             return

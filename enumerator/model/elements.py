@@ -1,9 +1,9 @@
 """Element data: one periodic-table helper for the whole package.
 
-Everything comes from RDKit's periodic table (symbols, atomic numbers,
-weights, isotope masses, covalent radii); the IUPAC group and block follow
-from the atomic number by the shape of the periodic table.  RDKit is imported
-on first use.
+The symbols and atomic numbers are held here (:data:`SYMBOLS`, the same as
+RDKit's periodic table); weights, isotope masses and radii come from RDKit's
+periodic table, imported on first use; the IUPAC group and block follow from
+the atomic number by the shape of the periodic table.
 
 >>> atomic_number("Ru"), atomic_number("M"), atomic_number("ru")
 (44, 0, 0)
@@ -49,6 +49,19 @@ def _table():
     return Chem.GetPeriodicTable()
 
 
+#: The element symbols by atomic number 1-118 (IUPAC periodic table, 2016 names for 113-118; the same as
+#: RDKit's periodic table, checked in tests/test_lazy_rules.py).  Held here so that reading a formula or a
+#: ligand entry does not import RDKit; masses and radii still come from RDKit's table.
+SYMBOLS = tuple(
+    (  # noqa: SIM905 - one line per period reads better than a list of 118 strings
+        "H He Li Be B C N O F Ne Na Mg Al Si P S Cl Ar K Ca Sc Ti V Cr Mn Fe Co Ni Cu Zn Ga Ge As Se Br Kr "
+        "Rb Sr Y Zr Nb Mo Tc Ru Rh Pd Ag Cd In Sn Sb Te I Xe Cs Ba La Ce Pr Nd Pm Sm Eu Gd Tb Dy Ho Er Tm Yb Lu "
+        "Hf Ta W Re Os Ir Pt Au Hg Tl Pb Bi Po At Rn Fr Ra Ac Th Pa U Np Pu Am Cm Bk Cf Es Fm Md No Lr "
+        "Rf Db Sg Bh Hs Mt Ds Rg Cn Nh Fl Mc Lv Ts Og"
+    ).split()
+)
+
+
 @cached(maxsize=None)
 def element_symbols() -> Mapping[str, int]:
     """Every element symbol and its atomic number.
@@ -58,8 +71,7 @@ def element_symbols() -> Mapping[str, int]:
     Mapping[str, int]
         Symbol -> atomic number for elements 1-118 (read-only).
     """
-    pt = _table()
-    return MappingProxyType({pt.GetElementSymbol(z): z for z in range(1, 119)})
+    return MappingProxyType({sym: z for z, sym in enumerate(SYMBOLS, start=1)})
 
 
 def atomic_number(symbol: str) -> int:

@@ -11,7 +11,6 @@ from __future__ import annotations
 
 from collections.abc import Sequence
 
-from enumerator.render.plots import picture, spectra_figure
 from enumerator.render.text import table
 from enumerator.vibrations.fitting import FitResult
 from enumerator.vibrations.matching import MatchResult
@@ -211,6 +210,8 @@ def bands_plot(result: BandsResult, fmt: str = "svg", width_cm1: float = 10.0, d
         The picture (SVG byte-deterministic).
     """
     measured = list(result.measured) if result.measured else None
+    from enumerator.render.plots import picture, spectra_figure  # only a plot needs matplotlib's helpers
+
     return picture(spectra_figure(bands_panels(result), measured=measured, width_cm1=width_cm1), fmt, dpi)
 
 
@@ -231,4 +232,6 @@ def match_plot(report: MatchReport, fmt: str = "svg", dpi: int = 150) -> bytes:
         The picture (SVG byte-deterministic).
     """
     res = report.match
+    from enumerator.render.plots import picture, spectra_figure  # only a plot needs matplotlib's helpers
+
     return picture(spectra_figure(match_panels(report), measured=list(res.measured), width_cm1=10.0), fmt, dpi)

@@ -16,13 +16,17 @@ this module only writes it out.  Keys are only ever added, never renamed.
 
 from __future__ import annotations
 
+import itertools
 import json
+import math
 import re
+from collections.abc import Callable, Iterable
 from typing import Any
 
+from enumerator.caches import cached
 from enumerator.workflow.result import Result, isomer_to_dict
 
-__all__ = ["dumps", "result_to_dict", "isomer_to_dict"]
+__all__ = ["dumps", "dumps_reference", "result_to_dict", "isomer_to_dict"]
 
 
 def result_to_dict(res: Result) -> dict[str, Any]:
@@ -41,11 +45,255 @@ def result_to_dict(res: Result) -> dict[str, Any]:
 
 
 _FLAT = re.compile(r"\[\s*(-?[\d.e+-]+(?:,\s*-?[\d.e+-]+)*)\s*\]")
+_encode_str = json.encoder.encode_basestring
+_INF = float("inf")
+_C_ENCODER: Callable[..., Callable[[Any, int], Any]] | None = getattr(json.encoder, "c_make_encoder", None)
+
+
+def _flat(m: re.Match[str]) -> str:
+    return "[" + ", ".join(x.strip() for x in m.group(1).split(",")) + "]"
+
+
+def dumps_reference(doc: Any) -> str:
+    """:func:`dumps` written with the standard library's (pure-Python, indenting) encoder.
+
+    The slower route :func:`dumps` replaces, kept as the reference it must
+    match byte for byte (tests/test_jsonout.py) and as the benchmarks'
+    same-run baseline.
+
+    Parameters
+    ----------
+    doc : object
+        A JSON-serialisable document.
+
+    Returns
+    -------
+    str
+    """
+    text = json.dumps(doc, indent=2, ensure_ascii=False)
+    return _FLAT.sub(_flat, text) + "\n"
+
+
+def _float(x: float) -> str:
+    if x != x:
+        return "NaN"
+    if x == _INF:
+        return "Infinity"
+    if x == -_INF:
+        return "-Infinity"
+    return float.__repr__(x)
+
+
+def _key(k: Any) -> str:
+    """A dict key as :func:`json.dumps` writes it (str, or a number, bool or None turned to text)."""
+    if isinstance(k, str):
+        return _string(k)
+    if k is True:
+        return '"true"'
+    if k is False:
+        return '"false"'
+    if k is None:
+        return '"null"'
+    if isinstance(k, int):
+        return '"' + int.__repr__(k) + '"'
+    if isinstance(k, float):
+        return '"' + _float(k) + '"'
+    raise TypeError(f"keys must be str, int, float, bool or None, not {type(k).__name__}")
+
+
+def _string(o: str) -> str:
+    text = _encode_str(o)
+    # the reference writer's flattening pass also rewrites "[1,  2]" inside strings
+    return _FLAT.sub(_flat, text) if "[" in text else text
+
+
+def _scalar(o: Any) -> str | None:
+    """The text of a JSON scalar, or None for a container or an unknown type."""
+    t = type(o)
+    if t is str:
+        return _string(o)
+    if t is float:
+        return _float(o)
+    if t is int:
+        return int.__repr__(o)
+    if o is None:
+        return "null"
+    if o is True:
+        return "true"
+    if o is False:
+        return "false"
+    if isinstance(o, str):
+        return _string(o)
+    if isinstance(o, int):
+        return int.__repr__(o)
+    if isinstance(o, float):
+        return _float(o)
+    return None
+
+
+def _numeric_line(items: list[Any] | tuple[Any, ...]) -> str | None:
+    """A non-empty list of finite numbers on one line, as the reference flattening writes it; else None."""
+    parts = []
+    for x in items:
+        t = type(x)
+        if t is float:
+            if x != x or x == _INF or x == -_INF:
+                return None
+            parts.append(float.__repr__(x))
+        elif t is int:
+            parts.append(int.__repr__(x))
+        elif isinstance(x, float):
+            if x != x or x == _INF or x == -_INF:
+                return None
+            parts.append(float.__repr__(x))
+        elif isinstance(x, int) and not isinstance(x, bool):
+            parts.append(int.__repr__(x))
+        else:
+            return None
+    return "[" + ", ".join(parts) + "]"
+
+
+def _unknown(o: Any) -> Any:
+    raise TypeError(f"Object of type {type(o).__name__} is not JSON serializable")
+
+
+@cached(maxsize=64)
+def _flat_encoder(level: int) -> Callable[[Any, int], Any]:
+    """The standard library's C encoder writing items one a line at nesting ``level + 1``."""
+    sep = ",\n" + "  " * (level + 1)
+    assert _C_ENCODER is not None
+    return _C_ENCODER(None, _unknown, _encode_str, None, ": ", sep, False, False, True)
+
+
+def _sign(v: Any) -> Any:
+    """Tell 0.0 from -0.0 (equal as keys, written differently)."""
+    return tuple(math.copysign(1.0, x) if type(x) is float else 0.0 for x in v)
+
+
+def _flat_key(items: Iterable[tuple[Any, Any]]) -> tuple[Any, ...] | None:
+    """A key that fixes the text of a container of scalars and number lists, or None for any other container.
+
+    Each value enters with its type (1, 1.0 and True are equal keys but
+    different text) and the sign of a zero (0.0 and -0.0 likewise)."""
+    parts: list[Any] = []
+    add = parts.append
+    for k, v in items:
+        if k is not None and type(k) is not str:
+            return None
+        t = type(v)
+        if t is str or t is int or t is bool or v is None:
+            add((k, t, v))
+        elif t is float:
+            add((k, t, v, math.copysign(1.0, v)) if not v else (k, t, v))
+        elif t is list or t is tuple:
+            for x in v:
+                tx = type(x)
+                if tx is not float and tx is not int:
+                    return None
+            tv = tuple(v)
+            add((k, t, tv, tuple(map(type, v)), _sign(v)) if 0 in tv else (k, t, tv, tuple(map(type, v))))
+        else:
+            return None
+    return tuple(parts)
+
+
+def _flat_text(o: dict[Any, Any] | list[Any] | tuple[Any, ...], level: int) -> str | None:
+    """The indented text of a container of scalars and number lists, written by the C encoder; None where
+    the C encoder's text would differ (a number that is not finite: the reference leaves its list multi-line)."""
+    if _C_ENCODER is None:
+        return None  # an interpreter without the C accelerator: the general writer does it all
+    text = "".join(_flat_encoder(level)(o, 0))
+    if "NaN" in text or "Infinity" in text:
+        return None
+    pad = "\n" + "  " * level
+    text = text[0] + pad + "  " + text[1:-1] + pad + text[-1]
+    # the same flattening as the reference pass: number lists onto one line, and
+    # "[1,  2]" inside strings as it rewrites them too
+    return _FLAT.sub(_flat, text) if "[" in text[1:] else text
+
+
+class _Writer:
+    """One document's indented text; containers of scalars with the same content are written once."""
+
+    def __init__(self) -> None:
+        self.out: list[str] = []
+        self.memo: dict[Any, str | None] = {}
+
+    def flat(self, o: Any, level: int, key: tuple[Any, ...]) -> bool:
+        """Append the text of a flat container (cached by content); False where the C encoder cannot write it."""
+        k = (level, type(o), key)
+        text = self.memo.get(k, "")
+        if text == "":
+            text = self.memo[k] = _flat_text(o, level)
+        if text is None:
+            return False
+        self.out.append(text)
+        return True
+
+    def write(self, o: Any, level: int) -> None:
+        """Append the indented text of ``o`` at nesting ``level`` (two spaces a level)."""
+        append = self.out.append
+        if isinstance(o, dict):
+            if not o:
+                append("{}")
+                return
+            if type(o) is dict:
+                key = _flat_key(o.items())
+                if key is not None and self.flat(o, level, key):
+                    return
+            inner = ",\n" + "  " * (level + 1)
+            sep = "{\n" + "  " * (level + 1)
+            for k, v in o.items():
+                append(sep)
+                sep = inner
+                append(_key(k))
+                append(": ")
+                leaf = _scalar(v)
+                if leaf is not None:
+                    append(leaf)
+                else:
+                    self.write(v, level + 1)
+            append("\n" + "  " * level + "}")
+            return
+        if isinstance(o, (list, tuple)):
+            if not o:
+                append("[]")
+                return
+            line = _numeric_line(o)
+            if line is not None:
+                append(line)
+                return
+            if type(o) is list or type(o) is tuple:
+                key = _flat_key(zip(itertools.repeat(None), o))
+                if key is not None and self.flat(o, level, key):
+                    return
+            inner = ",\n" + "  " * (level + 1)
+            sep = "[\n" + "  " * (level + 1)
+            for v in o:
+                append(sep)
+                sep = inner
+                leaf = _scalar(v)
+                if leaf is not None:
+                    append(leaf)
+                else:
+                    self.write(v, level + 1)
+            append("\n" + "  " * level + "]")
+            return
+        leaf = _scalar(o)
+        if leaf is None:
+            raise TypeError(f"Object of type {type(o).__name__} is not JSON serializable")
+        append(leaf)
 
 
 def dumps(doc: Any) -> str:
     """Deterministic JSON text in the document's key order; short numeric
     arrays (positions, characters) stay on one line.
+
+    The text is that of ``json.dumps(doc, indent=2, ensure_ascii=False)``
+    with every array of numbers joined onto one line
+    (:func:`dumps_reference`), written in one pass: the standard library
+    indents through its pure-Python encoder, whose cost dominated large
+    listings.
 
     Parameters
     ----------
@@ -57,6 +305,7 @@ def dumps(doc: Any) -> str:
     str
         Two-space indented JSON, non-ASCII kept, ending in a newline.
     """
-    text = json.dumps(doc, indent=2, ensure_ascii=False)
-    text = _FLAT.sub(lambda m: "[" + ", ".join(x.strip() for x in m.group(1).split(",")) + "]", text)
-    return text + "\n"
+    w = _Writer()
+    w.write(doc, 0)
+    w.out.append("\n")
+    return "".join(w.out)

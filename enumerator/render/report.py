@@ -486,15 +486,23 @@ def _fields(iso: Isomer, res: Result) -> list[tuple[str, str]]:
     return []
 
 
-def _spectra(c: ReportComplex, k: int, iso: Isomer, descriptor: str) -> list[dict[str, Any]]:
+def _spectra(
+    c: ReportComplex, k: int, iso: Isomer, descriptor: str, drawn: dict[Any, str] | None = None
+) -> list[dict[str, Any]]:
+    """The spectra of one card; ``drawn`` keeps each distinct spectrum's picture, so that isomers with the
+    same predicted bands (enantiomers always) share one figure instead of drawing it again."""
+    drawn = {} if drawn is None else drawn
     out: list[dict[str, Any]] = []
     for spec in c.spectra[k].classes:
         cls = spec.reporter_class
         if spec.pattern is None:
             out.append({"image": "", "alt": f"{cls} bands not predicted: {spec.error}", "bands": []})
             continue
-        title = f"{c.result.composition.formula} isomer {iso.id}" + (f" ({descriptor})" if descriptor else "")
-        fig = stick_spectrum(spec.pattern.bands, title=f"{title}, {cls} stretches")
+        # the figure names the complex and the class; the card around it names the isomer
+        title = f"{c.result.composition.formula}, {cls} stretches"
+        key = (title, tuple(spec.pattern.bands))
+        if key not in drawn:
+            drawn[key] = _data_uri(picture(stick_spectrum(spec.pattern.bands, title=title)), "image/svg+xml")
         bands = [
             (
                 f"{b.wavenumber:.0f}",
@@ -505,8 +513,8 @@ def _spectra(c: ReportComplex, k: int, iso: Isomer, descriptor: str) -> list[dic
             )
             for b in spec.pattern.bands
         ]
-        alt = f"predicted {cls} stick spectrum of isomer {iso.id}"
-        out.append({"image": _data_uri(picture(fig), "image/svg+xml"), "alt": alt, "bands": bands})
+        alt = f"predicted {cls} stick spectrum of isomer {iso.id}" + (f" ({descriptor})" if descriptor else "")
+        out.append({"image": drawn[key], "alt": alt, "bands": bands})
     return out
 
 
@@ -514,6 +522,7 @@ def _cards(c: ReportComplex) -> list[dict[str, Any]]:
     res = c.result
     desc = res.analysis(DescriptorAnalysis)
     cards = []
+    drawn: dict[Any, str] = {}
     for k, iso in enumerate(res.isomers):
         d = desc.get(iso.id) if desc is not None else None
         drawing, caption = _drawing(c, iso, k)
@@ -525,7 +534,7 @@ def _cards(c: ReportComplex) -> list[dict[str, Any]]:
                 "drawing": drawing,
                 "caption": caption,
                 "fields": _fields(iso, res),
-                "spectra": _spectra(c, k, iso, d.text if d else ""),
+                "spectra": _spectra(c, k, iso, d.text if d else "", drawn),
             }
         )
     return cards

@@ -24,7 +24,7 @@ from functools import singledispatch
 from enumerator.analyses.centre import CentreAnalysis
 from enumerator.analyses.descriptors import DescriptorAnalysis
 from enumerator.analyses.safety import SafetyAnalysis
-from enumerator.analyses.stretch import StretchAnalysis
+from enumerator.analyses.stretch import MAX_LISTED_PAIRS, StretchAnalysis
 from enumerator.workflow.result import Result
 
 __all__ = [
@@ -264,9 +264,8 @@ def pair_tally_text(a: StretchAnalysis) -> str:
     n = len(a.ids)
     tally = a.pair_tally()
     total = n * (n - 1) // 2
-    body = f"{n} isomers, {total} pairs (list in --json 'pairs'): " + ", ".join(
-        f"{k} {v}" for k, v in sorted(tally.items())
-    )
+    where = "list in --json 'pairs'" if total <= MAX_LISTED_PAIRS else "per-isomer numbers in --json 'pair_signatures'"
+    body = f"{n} isomers, {total} pairs ({where}): " + ", ".join(f"{k} {v}" for k, v in sorted(tally.items()))
     legend = "first verdict that tells the pair apart (cost order IR < IR (pattern) < Raman < NMR); " + _LEGEND_TAIL
     return "\n".join([body, legend, a.pattern_status()])
 

@@ -67,10 +67,33 @@ def isomer_rows(res: Result, wide: bool = True) -> tuple[list[str], list[list[st
     (list of str, list of list of str)
         The header and one row of cells per isomer.
     """
+    plain = _plain_rows(res, wide)
+    if plain is not None:
+        return plain
     df = res.to_dataframe(wide)
     cols = [c for c in df.columns if c not in ("formula", "geometry")]
     rows = [["-" if v in ("", None) else str(v) for v in r] for r in df[cols].itertuples(index=False, name=None)]
     return cols, rows
+
+
+def _plain_rows(res: Result, wide: bool) -> tuple[list[str], list[list[str]]] | None:
+    """:func:`isomer_rows` without pandas, where the DataFrame would hand back the values unchanged.
+
+    A column of text and whole numbers (and of text with gaps) keeps its values in a DataFrame; only a
+    column where numbers meet gaps (turned into floats and NaN) or other types would read differently, and
+    such a table goes through the DataFrame.  Importing pandas was most of a small command's start-up."""
+    from enumerator.workflow.table import table_columns
+
+    ids = [i.id for i in res.isomers]
+    cols = [c for c in table_columns(res, wide) if c.header not in ("formula", "geometry")]
+    columns = []
+    for c in cols:
+        vals = [c.values.get(i, None) for i in ids]
+        kinds = {type(v) for v in vals}
+        if not kinds <= {str, int, type(None)} or (int in kinds and type(None) in kinds):
+            return None
+        columns.append(["-" if v in ("", None) else str(v) for v in vals])
+    return [c.header for c in cols], [list(r) for r in zip(*columns)] if columns else [[] for _ in ids]
 
 
 def isomer_table(res: Result) -> str:

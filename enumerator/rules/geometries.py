@@ -6,8 +6,11 @@ and the site directions (normalised here); optionally the coordination
 number (checked against the sites, as is the number that ends the symbol),
 the span a chelate link takes by default, whether the shape is
 fluxional, a note, and whether it is the default for abstract formulas of
-its coordination number.  The symmetry operations are derived from the
-vectors at load, so a degenerate site set fails here, naming the file.
+its coordination number.  The symmetry operations of a user's geometry are
+derived from the vectors at load, so a degenerate site set fails here,
+naming the file; those of the built-in geometries (checked by the test
+suite) are derived on first use, so a command pays only for the geometries
+it touches.
 
 >>> from enumerator.rules.ruleset import load_rules
 >>> geos = load_geometries(load_rules().files("geometries/*.toml"))
@@ -84,7 +87,7 @@ def _site_vectors(sites: Any, where: str) -> tuple[Vec, ...]:
     return tuple(vecs)
 
 
-def parse_geometry(path: str | Path, data: Mapping[str, Any], snap: bool = False) -> Geometry:
+def parse_geometry(path: str | Path, data: Mapping[str, Any], snap: bool = False, derive: bool = True) -> Geometry:
     """One validated geometry from the parsed TOML of a geometry file.
 
     Parameters
@@ -96,11 +99,14 @@ def parse_geometry(path: str | Path, data: Mapping[str, Any], snap: bool = False
     snap : bool
         Symmetrise vectors typed with few figures (:mod:`enumerator.rules.snapping`); done for user files,
         whose ``Geometry.adjusted`` then says which group was found and how far each site moved.
+    derive : bool, optional
+        Derive the symmetry operations now, so that a degenerate site set
+        fails here (default); False leaves them to the first use.
 
     Returns
     -------
     Geometry
-        With unit site vectors; its symmetry operations are derived once here.
+        With unit site vectors.
 
     Raises
     ------
@@ -156,7 +162,7 @@ def parse_geometry(path: str | Path, data: Mapping[str, Any], snap: bool = False
         default_for_abstract=data.get("default_for_abstract", False),
         source=where,
     )
-    if not geo.linear and len(vecs) >= 2:
+    if derive and not geo.linear and len(vecs) >= 2:
         try:  # derive once now so that a degenerate set fails at load (and, for a user file, name its group)
             _ = (geo.operations, geo.point_group) if snap else geo.operations
         except GroupIdentificationError as exc:
@@ -202,7 +208,8 @@ def load_geometries(paths: Iterable[Path], builtin: Path | None = None) -> Mappi
         Geometry files, built-in first (``RuleSet.files("geometries/*.toml")``).
     builtin : Path, optional
         The built-in rules folder: its files are read as they are, every other file is a user file, whose
-        vectors are symmetrised (:func:`parse_geometry` with ``snap``).
+        vectors are symmetrised (:func:`parse_geometry` with ``snap``) and their operations derived at
+        load; the built-in geometries' operations are derived on first use.
 
     Returns
     -------
@@ -221,7 +228,7 @@ def load_geometries(paths: Iterable[Path], builtin: Path | None = None) -> Mappi
     users: dict[str, Geometry] = {}
     for path in paths:
         user = builtin is None or not Path(path).resolve().is_relative_to(builtin)
-        g = parse_geometry(path, read_toml(path), snap=user and builtin is not None)
+        g = parse_geometry(path, read_toml(path), snap=user and builtin is not None, derive=user)
         key = g.symbol.lower()
         if not user:
             builtins[key] = g

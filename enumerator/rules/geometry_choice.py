@@ -25,6 +25,7 @@ from __future__ import annotations
 
 import re
 from collections.abc import Mapping
+from functools import cached_property
 from dataclasses import dataclass
 from pathlib import Path
 from types import MappingProxyType
@@ -145,7 +146,27 @@ class GeometryChoice:
         -------
         GeometryRule or None
         """
-        return next((r for r in self.rules if r.matches(facts)), None)
+        index, others = self._by_sites
+        rules = index.get((facts.abstract, facts.sites), others[facts.abstract])
+        return next((r for r in rules if r.matches(facts)), None)
+
+    @cached_property
+    def _by_sites(
+        self,
+    ) -> tuple[dict[tuple[bool, int], tuple[GeometryRule, ...]], dict[bool, tuple[GeometryRule, ...]]]:
+        """The rules that can match a centre of each kind (abstract or not) and site count, in order.
+
+        A rule that names site counts can match only those; an abstract
+        centre only rules marked abstract.  Every other condition is still
+        tested by :meth:`GeometryRule.matches`."""
+        counts = sorted({n for r in self.rules if r.sites is not None for n in r.sites})
+
+        def can(r: GeometryRule, abstract: bool, n: int | None) -> bool:
+            return (r.abstract or not abstract) and (r.sites is None or (n is not None and n in r.sites))
+
+        index = {(a, n): tuple(r for r in self.rules if can(r, a, n)) for a in (False, True) for n in counts}
+        others = {a: tuple(r for r in self.rules if can(r, a, None)) for a in (False, True)}
+        return index, others
 
 
 def parse_centre(text: Any, where: str) -> tuple[str, int]:

@@ -46,6 +46,7 @@ from __future__ import annotations
 import re
 from collections.abc import Mapping
 from dataclasses import dataclass, replace
+from functools import cached_property
 from pathlib import Path
 from types import MappingProxyType
 from typing import Any
@@ -57,7 +58,7 @@ from enumerator.model.composition import ARRANGEMENTS, TOPOLOGIES, LigandKind
 from enumerator.model.elements import element_symbols
 from enumerator.model.geometry import SPANS
 from enumerator.rules.checks import check_keys, closest_names, quiet_rdkit, read_toml, rule_error
-from enumerator.rules.ruleset import RuleSet
+from enumerator.rules.ruleset import BUILTIN_RULES, RuleSet
 
 __all__ = [
     "LigandEntry",
@@ -167,8 +168,13 @@ class LigandEntry:
         Returns
         -------
         LigandKind
-            With the entry's topology: an η-ring on one site, a tripod on a face, else a chain.
+            With the entry's topology: an η-ring on one site, a tripod on a face, else a chain; made once
+            per entry (every formula that names the ligand shares it: it is immutable).
         """
+        return self._kind
+
+    @cached_property
+    def _kind(self) -> LigandKind:
         return LigandKind(
             name=self.name,
             donors=self.donors,
@@ -397,7 +403,7 @@ def _smiles(data: Mapping[str, Any], where: str) -> str:
     return smiles.strip()
 
 
-def parse_entry(data: Mapping[str, Any], where: str) -> LigandEntry:
+def parse_entry(data: Mapping[str, Any], where: str, smiles_now: bool = True) -> LigandEntry:
     """One validated catalogue entry from a ``[[ligand]]`` table.
 
     The keys are checked in the order of the catalogue schema (name, label
@@ -411,6 +417,9 @@ def parse_entry(data: Mapping[str, Any], where: str) -> LigandEntry:
         The table as parsed from TOML.
     where : str
         The file and entry number, for messages (the ligand's name is added).
+    smiles_now : bool, optional
+        Check the SMILES against the other keys now (default); False for the
+        built-in catalogue, whose SMILES the test suite checks.
 
     Returns
     -------
@@ -455,7 +464,8 @@ def parse_entry(data: Mapping[str, Any], where: str) -> LigandEntry:
         enclose=enclose,
         hapto_default=_flag(data, where, "hapto_default"),
     )
-    check_smiles(entry, where)
+    if smiles_now:
+        check_smiles(entry, where)
     return entry
 
 
@@ -708,7 +718,12 @@ class _Catalogue:
 
 
 def _file_entries(path: Path) -> list[LigandEntry]:
-    """The entries of one ligands.toml, each checked, in file order."""
+    """The entries of one ligands.toml, each checked, in file order.
+
+    A user's file is checked in full, its SMILES parsed by RDKit, so that a
+    bad entry fails at load; the built-in catalogue's SMILES are checked by
+    the test suite (tests/test_lazy_rules.py), which spares every command
+    the RDKit import and 200-odd SMILES parses."""
     data = read_toml(path)
     check_keys(data, str(path), required=("ligand",), optional=())
     table = data["ligand"]
@@ -716,11 +731,12 @@ def _file_entries(path: Path) -> list[LigandEntry]:
         raise rule_error(path, "'ligand' must be an array of tables", "write each entry under [[ligand]]")
     seen: set[str] = set()
     out = []
+    builtin = BUILTIN_RULES in Path(path).resolve().parents
     for k, raw in enumerate(table):
         where = f"{path} [[ligand]] #{k + 1}"
         if not isinstance(raw, dict):
             raise rule_error(where, "not a table", "write each entry under [[ligand]]")
-        e = parse_entry(raw, where)
+        e = parse_entry(raw, where, smiles_now=not builtin)
         if e.name in seen:
             raise rule_error(where, f"ligand '{e.name}' is defined twice in this file", "keep one entry")
         seen.add(e.name)
@@ -753,11 +769,21 @@ def _readings(entries: Mapping[str, LigandEntry]) -> dict[str, dict[str, Reading
     return out
 
 
+def _builtin(entry: LigandEntry) -> bool:
+    """Whether an entry comes from the built-in catalogue (whose SMILES the test suite checks)."""
+    return BUILTIN_RULES in Path(entry.source).resolve().parents
+
+
 def _shared(base: str, found: Mapping[str, Reading], entries: Mapping[str, LigandEntry]) -> str | None:
-    """Check a spelling that several entries share; the entry it means without a prefix (None: none or one)."""
+    """Check a spelling that several entries share; the entry it means without a prefix (None: none or one).
+
+    That the entries are one molecule (equal SMILES formulas, by RDKit) is
+    checked at load when a user's entry takes part; among built-in entries
+    the test suite checks it (tests/test_lazy_rules.py)."""
     by_atoms: dict[int, str] = {}
     first = next(iter(found))
-    molecule = _hill_formula(entries[first].smiles)
+    same_molecule = all(_builtin(entries[r.name]) for r in found.values())
+    molecule = "" if same_molecule else _hill_formula(entries[first].smiles)
     for r in found.values():
         where = f"{entries[r.name].source} ({r.name})"
         if r.bound_atoms in by_atoms:
@@ -768,7 +794,7 @@ def _shared(base: str, found: Mapping[str, Reading], entries: Mapping[str, Ligan
                 "remove or rename the spelling (entries share a spelling only at different hapticities)",
             )
         by_atoms[r.bound_atoms] = r.name
-        if _hill_formula(entries[r.name].smiles) != molecule:
+        if not same_molecule and _hill_formula(entries[r.name].smiles) != molecule:
             raise rule_error(
                 where,
                 f"spelling '{base}' is shared with '{first}', a different molecule (SMILES formulas differ)",

@@ -266,7 +266,10 @@ def _geometry_table(
 ) -> CharacterTable:
     ops = derive_operations(vectors)
     mats = [ops[k].array for k in op_indices]
-    return _build(mats, op_indices, np.array(vectors, dtype=float), ranks)
+    pts = np.array(vectors, dtype=float)
+    # sites that span space fix each operation by its permutation: compose those
+    perms = [ops[k].perm for k in op_indices] if np.linalg.matrix_rank(pts) == 3 else None
+    return _build(mats, op_indices, pts, ranks, perms)
 
 
 def table_from_matrices(matrices: Sequence[np.ndarray], points: Sequence[Sequence[float]] = ()) -> CharacterTable:
@@ -293,7 +296,7 @@ def table_from_matrices(matrices: Sequence[np.ndarray], points: Sequence[Sequenc
 @cached(maxsize=512)
 def _matrices_table(keys: tuple[tuple[float, ...], ...], pts: tuple[tuple[float, ...], ...]) -> CharacterTable:
     mats = [np.array(k).reshape(3, 3) for k in keys]
-    return _build(mats, tuple(range(len(mats))), np.array(pts, dtype=float).reshape(-1, 3), None)
+    return _build(mats, tuple(range(len(mats))), np.array(pts, dtype=float).reshape(-1, 3), None, None)
 
 
 @cached(maxsize=128)
@@ -324,10 +327,14 @@ def named_table(name: str) -> CharacterTable:
 
 
 def _build(
-    mats: list[np.ndarray], op_indices: tuple[int, ...], pts: np.ndarray, ranks: tuple[int, ...] | None
+    mats: list[np.ndarray],
+    op_indices: tuple[int, ...],
+    pts: np.ndarray,
+    ranks: tuple[int, ...] | None,
+    perms: list[tuple[int, ...]] | None,
 ) -> CharacterTable:
     name = schoenflies(mats)
-    mult, inv, ident = multiplication_table(mats)
+    mult, inv, ident = multiplication_table(mats, perms)
     classes = conjugacy_classes(mult, inv, ident)
     species = real_species(burnside_dixon(mult, inv, classes))
     frame = choose_frame(describe_exact(mats), pts, ranks)

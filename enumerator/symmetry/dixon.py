@@ -48,13 +48,20 @@ def _mkey(m: np.ndarray) -> bytes:
     return np.round(np.asarray(m, dtype=float) * _KEY_SCALE).astype(np.int64).tobytes()
 
 
-def multiplication_table(mats: Sequence[np.ndarray]) -> tuple[np.ndarray, np.ndarray, int]:
+def multiplication_table(
+    mats: Sequence[np.ndarray], perms: Sequence[tuple[int, ...]] | None = None
+) -> tuple[np.ndarray, np.ndarray, int]:
     """The group's multiplication table, inverses and identity.
 
     Parameters
     ----------
     mats : sequence of array_like, shape (3, 3)
         Every operation of the group, once each.
+    perms : sequence of tuple of int, optional
+        The site permutation of each operation (``mats[k]`` sends site ``i``
+        to site ``perms[k][i]``), when the sites span space so that an
+        operation is fixed by its permutation: the product is then found by
+        composing permutations instead of multiplying and matching matrices.
 
     Returns
     -------
@@ -71,6 +78,8 @@ def multiplication_table(mats: Sequence[np.ndarray]) -> tuple[np.ndarray, np.nda
         If a product is not among the matrices (they are not a group).
     """
     g = len(mats)
+    if perms is not None:
+        return _permutation_table(mats, perms)
     index = {_mkey(m): k for k, m in enumerate(mats)}
     arr = np.array(mats)
     prod = np.einsum("aij,bjk->abik", arr, arr)
@@ -81,6 +90,27 @@ def multiplication_table(mats: Sequence[np.ndarray]) -> tuple[np.ndarray, np.nda
             if k is None:
                 raise GroupIdentificationError("the operations given are not closed under multiplication")
             mult[a, b] = k
+    ident = next(k for k, m in enumerate(mats) if np.allclose(m, np.eye(3)))
+    inv = np.array([int(np.nonzero(mult[a] == ident)[0][0]) for a in range(g)])
+    return mult, inv, ident
+
+
+def _permutation_table(
+    mats: Sequence[np.ndarray], perms: Sequence[tuple[int, ...]]
+) -> tuple[np.ndarray, np.ndarray, int]:
+    """:func:`multiplication_table` by composing site permutations: (a b) sends i to a[b[i]]."""
+    g = len(perms)
+    index = {p: k for k, p in enumerate(perms)}
+    if len(index) != g:
+        raise GroupIdentificationError("two operations permute the sites alike: give the matrices alone")
+    mult = np.empty((g, g), dtype=np.int64)
+    for a, pa in enumerate(perms):
+        row = mult[a]
+        for b, pb in enumerate(perms):
+            k = index.get(tuple([pa[i] for i in pb]))
+            if k is None:
+                raise GroupIdentificationError("the operations given are not closed under multiplication")
+            row[b] = k
     ident = next(k for k, m in enumerate(mats) if np.allclose(m, np.eye(3)))
     inv = np.array([int(np.nonzero(mult[a] == ident)[0][0]) for a in range(g)])
     return mult, inv, ident

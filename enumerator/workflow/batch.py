@@ -28,18 +28,21 @@ from __future__ import annotations
 
 from collections.abc import Callable, Iterable, Iterator, Sequence
 from concurrent.futures import Future
-from dataclasses import dataclass, field, replace
+from dataclasses import dataclass, field, fields, replace
+from operator import attrgetter
 from typing import Any
 
-from enumerator.analyses.centre import count_electrons
+from enumerator.analyses.centre import choose_geometry, count_electrons
 from enumerator.analyses.safety import cautions
 from enumerator.analyses.stretch import StretchAnalysis
 from enumerator.errors import IsosieveError, shorten
 from enumerator.limits import ECHO_CHARS
 from enumerator.model.composition import Composition
 from enumerator.parse.batch import read_formulas
+from enumerator.parse.formula import parse_formula
 from enumerator.parse.text import check_label_text
-from enumerator.workflow.pipeline import Request, prepare, run
+from enumerator.rules.ruleset import RuleSet, load_rules
+from enumerator.workflow.pipeline import Request, run
 from enumerator.workflow.result import Result
 
 __all__ = ["BatchRow", "BatchResult", "PatternSummary", "screen", "run_batch", "screen_file", "pattern_key"]
@@ -183,42 +186,121 @@ def _summarise(formula: str, geometry: str, rules: tuple[str, ...], limit: int |
     )
 
 
-def _prepare(
-    index: int, formula: str, label: str, geometry: str | None, rules: tuple[str, ...], limit: int | None
-) -> tuple[BatchRow, tuple]:
-    """The row's centre data (no enumeration yet) and its pattern key."""
-    if label:
-        check_label_text(label, "label")
-    comp, geo, reason = prepare(Request(formula=formula, geometry=geometry, rules=rules, limit=limit))
+def _centre(comp: Composition, symbol: str, reason: str, limit: int | None) -> tuple[BatchRow, tuple]:
+    """The row fields that follow from a centre (formula text aside) and its pattern key."""
     real = comp.metal != "M"
     ec = count_electrons(comp) if real else None
     row = BatchRow(
-        index=index,
-        formula=formula,
-        label=label,
+        index=0,
+        formula="",
         metal=comp.metal if real else None,
         charge=comp.charge,
         oxidation_state=ec.oxidation_state if ec else None,
         d_electrons=ec.d_electrons if ec else None,
         valence_electrons=ec.valence_electrons if ec else None,
-        geometry=geo.symbol,
+        geometry=symbol,
         geometry_reason=reason,
         safety=bool(cautions(comp)),
     )
-    return row, pattern_key(comp, geo.symbol, limit)
+    return row, pattern_key(comp, symbol, limit)
+
+
+class _Reader:
+    """Rows of one screen before enumeration: each formula read once, each centre worked out once.
+
+    What :func:`enumerator.workflow.pipeline.prepare` does for one request,
+    with the request's options checked and the rules loaded once for the
+    whole screen.  A centre is keyed by its ligands, metal and charge (the
+    formula text aside: two spellings of one complex share it); only a
+    geometry refusal names the formula, and refusals are not kept."""
+
+    def __init__(self, geometry: str | None, rules: tuple[str, ...], limit: int | None) -> None:
+        self.geometry, self.limit = geometry, limit
+        self.rules: RuleSet | None = None
+        self.setup_error: str | None = None
+        try:
+            Request("", geometry=geometry, rules=rules, limit=limit)  # the options, checked once
+            self.rules = load_rules(rules)
+        except IsosieveError as exc:
+            self.setup_error = exc.line()
+        self.formulas: dict[str, tuple[BatchRow, tuple | None]] = {}
+        self.centres: dict[tuple, tuple[BatchRow, tuple]] = {}
+
+    def row(self, formula: str) -> tuple[BatchRow, tuple | None]:
+        """The row of one formula, index and label left out (its pattern key None for an error): a repeat
+        costs one look-up."""
+        hit = self.formulas.get(formula)
+        if hit is None:
+            hit = self.formulas[formula] = self._read(formula)
+        return hit
+
+    def _read(self, formula: str) -> tuple[BatchRow, tuple | None]:
+        if self.setup_error is not None:
+            return BatchRow(0, _shown(formula), error=self.setup_error), None
+        rules = self.rules
+        assert rules is not None
+        try:
+            comp = parse_formula(formula, rules)
+            ident = (comp.parts, comp.metal, comp.charge)
+            done = self.centres.get(ident)
+            if done is None:
+                symbol, reason = choose_geometry(comp, rules, self.geometry)
+                symbol = rules.geometry(symbol).symbol
+                done = _centre(comp, symbol, reason, self.limit)
+                if comp.formula not in reason:  # a reason that quotes the formula stays with it
+                    self.centres[ident] = done
+        except IsosieveError as exc:
+            return BatchRow(0, _shown(formula), error=exc.line()), None
+        except Exception as exc:  # an internal error (memory too) stays in its row; the screen goes on
+            return BatchRow(
+                0, _shown(formula), error=f"internal error: {type(exc).__name__}: {shorten(str(exc), 200)}"
+            ), None
+        row = done[0]
+        return BatchRow(0, formula, "", *_REST(row)), done[1]
+
+
+def _read_row(reader: _Reader, formula: str, label: str) -> tuple[BatchRow, tuple | None]:
+    """One input row through the reader, its label checked first (a refused label is that row's error)."""
+    if label:
+        try:
+            check_label_text(label, "label")
+        except IsosieveError as exc:
+            return BatchRow(0, _shown(formula), error=exc.line()), None
+    return reader.row(formula)
+
+
+#: The fields of a row after index, formula and label, in order.
+_REST = attrgetter(*(f.name for f in fields(BatchRow)[3:]))
+
+
+def _relabel(row: BatchRow, index: int, label: str) -> BatchRow:
+    """The row at another place in the input, with its label (one constructor call, no field-by-field copy)."""
+    return BatchRow(index, row.formula, label, *_REST(row))
 
 
 def _with(row: BatchRow, summary: PatternSummary, cached: bool) -> BatchRow:
     if summary.error is not None:
         return replace(row, error=summary.error, cached=cached)
-    return replace(
-        row,
-        geometric_isomers=summary.geometric_isomers,
-        stereoisomers=summary.stereoisomers,
-        complete=summary.complete,
-        point_groups=summary.point_groups,
-        ir_bands=summary.ir_bands,
-        cached=cached,
+    r = row
+    return BatchRow(
+        r.index,
+        r.formula,
+        r.label,
+        r.error,
+        r.metal,
+        r.charge,
+        r.oxidation_state,
+        r.d_electrons,
+        r.valence_electrons,
+        r.geometry,
+        r.geometry_reason,
+        summary.geometric_isomers,
+        summary.stereoisomers,
+        summary.complete,
+        summary.point_groups,
+        summary.ir_bands,
+        r.safety,
+        cached,
     )
 
 
@@ -262,17 +344,10 @@ def screen(
         control characters escaped and shortened to :data:`enumerator.limits.ECHO_CHARS` characters.
     """
     rules = tuple(rules)
-    prepared: list[tuple[BatchRow, tuple | None]] = []
-    for k, formula, label in _items(formulas):
-        try:
-            prepared.append(_prepare(k, formula, label, geometry, rules, limit))
-        except IsosieveError as exc:
-            prepared.append((BatchRow(k, _shown(formula), _shown(label), error=exc.line()), None))
-        except Exception as exc:  # an internal error (memory too) stays in its row; the screen goes on
-            error = f"internal error: {type(exc).__name__}: {shorten(str(exc), 200)}"
-            prepared.append((BatchRow(k, _shown(formula), _shown(label), error=error), None))
+    reader = _Reader(geometry, rules, limit)
+    prepared = [(k, label, *_read_row(reader, formula, label)) for k, formula, label in _items(formulas)]
     first: dict[tuple, str] = {}
-    for row, key in prepared:
+    for _, _, row, key in prepared:
         if key is not None and key not in first:
             first[key] = row.formula
     done: dict[tuple, PatternSummary | Future[PatternSummary]] = {}
@@ -285,14 +360,20 @@ def screen(
             done[key] = pool.submit(_summarise, formula, key[1], rules, limit)
     try:
         seen: set[tuple] = set()
-        for row, key in prepared:
+        # a formula's finished row, by whether its pattern was seen before: a repeat is relabelled
+        finished: dict[tuple[str, bool], BatchRow] = {}
+        for k, label, row, key in prepared:
             if key is None:
-                yield row
+                yield _relabel(row, k, _shown(label))  # a refused row: its text escaped and shortened
                 continue
-            value = done[key] if key in done else _summarise(first[key], key[1], rules, limit)
-            summary = _collect(value) if isinstance(value, Future) else value
-            done[key] = summary
-            yield _with(row, summary, key in seen)
+            cached = key in seen
+            out = finished.get((row.formula, cached))
+            if out is None:
+                value = done[key] if key in done else _summarise(first[key], key[1], rules, limit)
+                summary = _collect(value) if isinstance(value, Future) else value
+                done[key] = summary
+                out = finished[(row.formula, cached)] = _with(row, summary, cached)
+            yield _relabel(out, k, label)
             seen.add(key)
     finally:
         if pool is not None:

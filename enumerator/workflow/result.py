@@ -23,6 +23,7 @@ from collections.abc import Mapping
 from dataclasses import dataclass, field
 from typing import TYPE_CHECKING, Any, Protocol, runtime_checkable
 
+from enumerator.caches import cached
 from enumerator.isomers.enumeration import Isomer, IsomerSet
 from enumerator.model.composition import Composition
 from enumerator.model.geometry import Geometry
@@ -55,6 +56,12 @@ def _rounded(x: float) -> float:
     return 0.0 if v == 0 else v
 
 
+@cached(maxsize=4096)
+def _rounded_position(position: tuple[float, ...]) -> tuple[float, ...]:
+    """A site position rounded as written (sites of one geometry share a few positions)."""
+    return tuple(_rounded(c) for c in position)
+
+
 def isomer_to_dict(iso: Isomer) -> dict[str, Any]:
     """The JSON object of one isomer before the analyses add their keys.
 
@@ -73,7 +80,7 @@ def isomer_to_dict(iso: Isomer) -> dict[str, Any]:
     sites = []
     for s in iso.sites:
         d: dict[str, Any] = {
-            "position": [_rounded(c) for c in s.position],
+            "position": list(_rounded_position(tuple(s.position))),
             "ligand": s.ligand,
             "donor": s.donor,
             "unit": s.unit,

@@ -33,6 +33,7 @@ from __future__ import annotations
 from dataclasses import dataclass
 from typing import NamedTuple
 
+from enumerator.caches import cached
 from enumerator.errors import InputError
 from enumerator.model.composition import Composition
 from enumerator.model.elements import atomic_number, group_of
@@ -162,6 +163,7 @@ def _ligand_counts(comp: Composition) -> tuple[tuple[LigandCount, ...], tuple[Ni
     return tuple(rows), tuple(nitrosyls), known
 
 
+@cached(maxsize=1024)
 def count_electrons(comp: Composition) -> ElectronCount:
     """Oxidation state, d-count and valence electrons of a real composition.
 

@@ -22,6 +22,7 @@ from __future__ import annotations
 
 from collections.abc import Mapping
 from dataclasses import dataclass, replace
+from functools import cached_property
 from typing import Any, TypeVar
 
 from enumerator.analyses.cip import uses_letters
@@ -57,12 +58,25 @@ class DescriptorAnalysis:
     names: tuple[tuple[str, str], ...] = ()
     name_note: str | None = None
 
+    @cached_property
+    def _by_id(self) -> Mapping[str, Descriptor]:
+        # the first descriptor listed under each id, as the scan it replaces found it
+        out: dict[str, Descriptor] = {}
+        for k, d in self.descriptors:
+            out.setdefault(k, d)
+        return out
+
+    @cached_property
+    def _shared_by_key(self) -> Mapping[str, tuple[tuple[str, ...], frozenset[str]]]:
+        return {k: (ids, frozenset(ids)) for k, ids in self.shared}
+
+    @cached_property
+    def _names_by_id(self) -> Mapping[str, str]:
+        return dict(self.names)
+
     def get(self, isomer_id: str) -> Descriptor | None:
         """The descriptor of one isomer, or None."""
-        for k, d in self.descriptors:
-            if k == isomer_id:
-                return d
-        return None
+        return self._by_id.get(isomer_id)
 
     def _detail(self, isomer_id: str, d: Descriptor) -> dict[str, Any]:
         detail: dict[str, Any] = {
@@ -76,15 +90,18 @@ class DescriptorAnalysis:
             "primed": d.primed,
             "rule": d.rule,
         }
-        shared = dict(self.shared).get(d.stereo_free)
-        if shared:
-            others = [i for i in shared if i != isomer_id]
-            detail["shared_count"] = len(others)
-            # the list is linear per isomer (quadratic overall): give it only
-            # where it is informative, not when every isomer shares a bare
+        group = self._shared_by_key.get(d.stereo_free)
+        if group and group[0]:
+            shared, members = group
+            # ids are distinct within a group (they are isomer ids), so the
+            # others number one fewer when this isomer is among them
+            count = len(shared) - (1 if isomer_id in members else 0)
+            detail["shared_count"] = count
+            # the list is linear per isomer (quadratic overall): build it only
+            # where it is written, not when every isomer shares a bare
             # polyhedral symbol
-            if d.configuration_index is not None or len(others) <= SHARED_LIST_MAX:
-                detail["shared_with"] = others
+            if d.configuration_index is not None or count <= SHARED_LIST_MAX:
+                detail["shared_with"] = [i for i in shared if i != isomer_id]
         return detail
 
     def isomer_json(self, isomer_id: str) -> Mapping[str, Any]:
@@ -96,7 +113,7 @@ class DescriptorAnalysis:
             "descriptor": d.text,
             "priorities": {str(i + 1): p for i, p in d.priority_pairs},
             "descriptor_detail": self._detail(isomer_id, d),
-            "name": dict(self.names).get(isomer_id),
+            "name": self._names_by_id.get(isomer_id),
         }
 
     def top_json(self) -> Mapping[str, Any]:

@@ -27,6 +27,7 @@ from __future__ import annotations
 
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass, replace
+from functools import cached_property
 from typing import Any
 
 from enumerator.analyses.stretch.likelihood import PredictedBand, own_and_cross
@@ -62,9 +63,11 @@ __all__ = [
     "ENANTIOMER_NOTE",
 ]
 
-#: Above this many isomer pairs the JSON gives the tally, not the list
-#: (2,000,000 pairs is about 2,000 isomers and a 400 MB document).
-MAX_LISTED_PAIRS = 2_000_000
+#: Above this many isomer pairs the JSON gives the tally and each isomer's
+#: signature numbers (``pair_signatures``, linear in the isomers), not the
+#: list: 20,000 pairs is 200 isomers and about 4 MB of JSON; the list grows
+#: with the square of the isomers (1,680 isomers: 1.4 million pairs, 230 MB).
+MAX_LISTED_PAIRS = 20_000
 #: The NMR caution for geometries marked fluxional (``{geo}``: the polyhedral symbol).
 FLUXIONAL_NOTE = (
     "{geo} centres are often fluxional (e.g. Berry pseudorotation): NMR may show averaged signals, "
@@ -119,6 +122,14 @@ class StretchAnalysis:
     patterns: tuple[tuple[tuple[PredictedBand, ...], ...] | None, ...] | None = None
     #: why the pattern tier was not judged, when it was not
     pattern_note: str | None = None
+
+    @cached_property
+    def _position(self) -> Mapping[str, int]:
+        # the first position of each id, as tuple.index finds it
+        out: dict[str, int] = {}
+        for k, i in enumerate(self.ids):
+            out.setdefault(i, k)
+        return out
 
     def signatures(self) -> Signatures:
         """Each isomer's IR, bond-dipole IR, Raman and NMR count signature, numbered."""
@@ -183,7 +194,7 @@ class StretchAnalysis:
 
     def isomer_json(self, isomer_id: str) -> Mapping[str, Any]:
         """``modes`` (per reporter class), ``nmr_environments`` (per ligand) and ``axes``."""
-        k = self.ids.index(isomer_id)
+        k = self._position[isomer_id]
         return {
             "modes": {m.reporter: m.to_dict() for m in self.modes[k]},
             "nmr_environments": {
@@ -221,12 +232,26 @@ class StretchAnalysis:
         total = n * (n - 1) // 2
         doc: dict[str, Any] = {"pair_tally": self.pair_tally()}
         if total > MAX_LISTED_PAIRS:
+            ir, dipole, raman, nmr = self.signatures()
             doc["pairs"] = []
             doc["pairs_listed"] = False
             doc["pairs_note"] = (
                 f"{total} pairs are too many to list (more than {MAX_LISTED_PAIRS}); "
-                "'pair_tally' counts them; use --limit or --pick to list the pairs of fewer isomers"
+                "'pair_tally' counts them and 'pair_signatures' decides any pair; "
+                "use --limit or --pick to list the pairs of fewer isomers"
             )
+            doc["pair_signatures"] = {
+                "about": (
+                    "one number per listed isomer, in listing order, for each technique: two isomers are told "
+                    "apart by a technique when their numbers differ, and by IR counts only when both their 'ir' "
+                    "and their 'ir_bond_dipole' numbers differ (a difference resting on bands predicted weak does "
+                    "not count); enantiomers never are; the IR pattern tier is not judged at this size"
+                ),
+                "ir": list(ir),
+                "ir_bond_dipole": list(dipole),
+                "raman": list(raman),
+                "nmr": list(nmr),
+            }
         else:
             doc["pairs"] = [p.to_dict() for p in self.pairs()]
             doc["pairs_listed"] = True
