@@ -240,8 +240,8 @@ class MatchReport:
 
     def to_dataframe(self) -> pd.DataFrame:
         """One row per candidate, best first: rank, isomers, point group, descriptor, species, IR band count,
-        common shift (mdyn/Å), RMS and largest residual (cm-1), problems (strong bands unseen plus measured
-        bands unassigned).
+        probability (equal priors), common shift (cm-1 at the mean band, and mdyn/Å), RMS and largest residual
+        (cm-1), problems (strong bands unseen plus measured bands unassigned).
 
         Returns
         -------
@@ -257,6 +257,8 @@ class MatchReport:
                 "descriptor": c.descriptor,
                 "species": c.species,
                 "IR bands": len(c.ir_bands),
+                "probability": round(c.probability, 4),
+                "shift (cm-1)": round(c.shift_cm1, 1),
                 "shift": round(c.shift, 3),
                 "RMS": round(c.rms, 2),
                 "max residual": round(c.max_residual, 2),
@@ -277,7 +279,10 @@ class MatchReport:
     def _repr_html_(self) -> str:
         """The ranking (:meth:`to_dataframe`) under a heading naming the measured bands, the cautions below."""
         bands = ", ".join(f"{v:g}" for v in self.match.measured)
-        head = f"{self.formula}: candidates for {self.match.reporter_class} bands at {bands} cm-1"
+        head = (
+            f"{self.formula}: candidates for {self.match.reporter_class} bands at {bands} cm-1 "
+            f"(decision: {self.match.decision})"
+        )
         return _html(head, self.to_dataframe(), self.safety)
 
 
@@ -301,6 +306,8 @@ _MATCH_COLUMNS = (
     "descriptor",
     "species",
     "IR bands",
+    "probability",
+    "shift (cm-1)",
     "shift",
     "RMS",
     "max residual",

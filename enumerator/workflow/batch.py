@@ -30,7 +30,7 @@ from collections.abc import Callable, Iterable, Iterator, Sequence
 from concurrent.futures import Future
 from dataclasses import dataclass, field, fields, replace
 from operator import attrgetter
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 from enumerator.analyses.centre import choose_geometry, count_electrons
 from enumerator.analyses.safety import cautions
@@ -44,6 +44,9 @@ from enumerator.parse.text import check_label_text
 from enumerator.rules.ruleset import RuleSet, load_rules
 from enumerator.workflow.pipeline import Request, run
 from enumerator.workflow.result import Result
+
+if TYPE_CHECKING:
+    import pandas as pd
 
 __all__ = ["BatchRow", "BatchResult", "PatternSummary", "screen", "run_batch", "screen_file", "pattern_key"]
 
@@ -128,6 +131,32 @@ class BatchResult:
     def to_dict(self) -> dict[str, Any]:
         """The JSON document of ``isosieve batch --format json``: ``{"rows": [...]}``."""
         return {"rows": [r.to_dict() for r in self.rows]}
+
+    def to_dataframe(self) -> pd.DataFrame:
+        """One row per input row, the columns of :meth:`BatchRow.to_dict` (lists joined as text).
+
+        Returns
+        -------
+        pandas.DataFrame
+        """
+        import pandas as pd
+
+        docs = [r.to_dict() for r in self.rows]
+        cols = list(docs[0]) if docs else []
+        rows = [{k: ", ".join(map(str, v)) if isinstance(v, list) else v for k, v in d.items()} for d in docs]
+        return pd.DataFrame(rows, columns=cols)
+
+    def __repr__(self) -> str:
+        return f"<BatchResult {len(self.rows)} row(s), {len(self.failed)} failed>"
+
+    def _repr_html_(self) -> str:
+        """The first 50 rows (:meth:`to_dataframe`) under a line with the counts."""
+        import html
+
+        df = self.to_dataframe()
+        more = f" (first 50 of {len(df)} shown)" if len(df) > 50 else ""
+        head = f"<p><b>{len(self.rows)} row(s), {len(self.failed)} could not be analysed{html.escape(more)}</b></p>"
+        return head + df.head(50).to_html(index=False, escape=True, na_rep="")
 
 
 def pattern_key(comp: Composition, geometry: str, limit: int | None = None) -> tuple:
