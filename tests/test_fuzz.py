@@ -47,8 +47,11 @@ RULES = load_rules()
 #: ISOSIEVE_FUZZ_SCALE=20 runs twenty times the examples (a deep run, not for the suite)
 SCALE = max(1, int(os.environ.get("ISOSIEVE_FUZZ_SCALE", "1") or 1))
 _LENIENT = [HealthCheck.too_slow, HealthCheck.filter_too_much]
-FAST = settings(max_examples=150 * SCALE, deadline=None, suppress_health_check=_LENIENT)
-SLOW = settings(max_examples=50 * SCALE, deadline=None, suppress_health_check=_LENIENT)
+#: the suite draws the same examples every run (a failure in CI is reproducible, never a coin toss); a deep run
+#: (ISOSIEVE_FUZZ_SCALE > 1) draws fresh ones
+_FIXED = SCALE == 1
+FAST = settings(max_examples=150 * SCALE, deadline=None, suppress_health_check=_LENIENT, derandomize=_FIXED)
+SLOW = settings(max_examples=50 * SCALE, deadline=None, suppress_health_check=_LENIENT, derandomize=_FIXED)
 
 # characters a chemist (or a bad paste) may type into a formula
 FORMULA_CHARS = "Mabcdefxyz ABCR()[]{}0123456789+-−·.,;η⁵'\"\\/\t_*#=@CNOPHClBrFeRuMonrig"
@@ -218,6 +221,9 @@ def check_reading(text: str) -> bool:
     t = reading.text
     covered: set[int] = set()
     _claim(covered, *reading.metal_span)
+    m_end = reading.metal_span[1]
+    if t[m_end : m_end + 1] == "1" and not t[m_end + 1 : m_end + 2].isdigit():
+        _claim(covered, m_end, m_end + 1)  # 'Fe1(CO)5': a count of one metal atom, read as written (common practice)
     spelled: set[int] = set()
     for span in reading.ligands:
         spelling = t[span.start : span.end]
