@@ -79,7 +79,8 @@ def test_phosphorus_ligands_split_into_substituents(tmp_path):
     # C. A. Tolman, Chem. Rev. 77 (1977) 313: substituent contributions are additive
     subs = load_substituents()
     assert subs["PClPh2"] == (("Cl", 1), ("Ph", 2))
-    assert all(sum(n for _, n in v) == 3 for v in subs.values())
+    assert all(sum(n for _, n in v) == 3 for v in subs.values() if v[0][0] != "ring-alkyl")
+    assert subs["Cp*"] == (("ring-alkyl", 5),)  # rules/bandgroups.toml [ring_alkyls]: Cp* = Cp + five methyls
     bad = GROUPS_FILE.read_text().replace('"PClPh2" = { Cl = 1, Ph = 2 }', '"PClPh2" = { Cl = 1, Ph = 1 }')
     (tmp_path / "g.toml").write_text(bad)
     with pytest.raises(RuleError, match="PClPh2"):

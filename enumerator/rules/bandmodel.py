@@ -31,7 +31,7 @@ from enumerator.caches import cached
 from enumerator.rules.checks import check_keys, read_toml, rule_error
 from enumerator.rules.ruleset import BUILTIN_RULES
 
-__all__ = ["BandModelRules", "load_bandmodel", "load_groups", "load_families", "load_substituents", "PARAMETER_KINDS", "BANDMODEL_FILE", "GROUPS_FILE"]
+__all__ = ["BandModelRules", "load_bandmodel", "load_groups", "load_families", "load_substituents", "RING_ALKYL", "PARAMETER_KINDS", "BANDMODEL_FILE", "GROUPS_FILE"]
 
 BANDMODEL_FILE = BUILTIN_RULES / "bandmodel.toml"
 GROUPS_FILE = BUILTIN_RULES / "bandgroups.toml"
@@ -104,6 +104,8 @@ def _number(v: object) -> bool:
 
 
 Substituents = Mapping[str, tuple[tuple[str, int], ...]]
+#: The substituent name of an alkyl group on an eta-bound ring ([ring_alkyls] of rules/bandgroups.toml).
+RING_ALKYL = "ring-alkyl"
 
 
 def _read_substituents(table: Any, where: str, groups: Mapping[str, str]) -> dict[str, tuple[tuple[str, int], ...]]:
@@ -120,11 +122,24 @@ def _read_substituents(table: Any, where: str, groups: Mapping[str, str]) -> dic
     return out
 
 
+def _read_ring_alkyls(table: Any, where: str, groups: Mapping[str, str]) -> dict[str, tuple[tuple[str, int], ...]]:
+    if not isinstance(table, Mapping):
+        raise rule_error(where, "not a table", 'write "Cp*" = 5')
+    out: dict[str, tuple[tuple[str, int], ...]] = {}
+    for lig, n in table.items():
+        if groups.get(lig) != "eta-ring":
+            raise rule_error(where, f"'{lig}' is not in group eta-ring", "list ring ligands only")
+        if not isinstance(n, int) or isinstance(n, bool) or n <= 0:
+            raise rule_error(where, f"'{lig}' = {n!r} is not a positive count", f'write "{lig}" = 5')
+        out[str(lig)] = ((RING_ALKYL, n),)
+    return out
+
+
 def _read_groups(
     path: Path,
 ) -> tuple[dict[str, str], dict[str, str], dict[str, str], dict[str, tuple[tuple[str, int], ...]]]:
     doc = read_toml(path)
-    check_keys(doc, str(path), ("group",), ("substituents",))
+    check_keys(doc, str(path), ("group",), ("substituents", "ring_alkyls"))
     groups: dict[str, str] = {}
     labels: dict[str, str] = {}
     families: dict[str, str] = {}
@@ -146,6 +161,7 @@ def _read_groups(
                 raise rule_error(where, f"ligand '{lig}' is also in group '{groups[lig]}'", "put it in one group only")
             groups[lig] = name
     subs = _read_substituents(doc.get("substituents", {}), f"{path} [substituents]", groups)
+    subs.update(_read_ring_alkyls(doc.get("ring_alkyls", {}), f"{path} [ring_alkyls]", groups))
     return groups, labels, families, subs
 
 
@@ -191,10 +207,13 @@ def load_substituents(path: Path | str | None = None) -> Substituents:
     path : Path or str, optional
         A groups file (default: the built-in ``rules/bandgroups.toml``).
 
+    Alkylated η-rings are listed too, as ((:data:`RING_ALKYL`, number of
+    alkyl groups),): Cp* is Cp with five alkyl donors.
+
     Returns
     -------
     Mapping[str, tuple[tuple[str, int], ...]]
-        Ligand -> ((substituent, count), ...), the counts adding up to 3.
+        Ligand -> ((substituent, count), ...); a phosphorus ligand's counts add up to 3.
     """
     return _stamped(path)[3]
 

@@ -68,7 +68,7 @@ from enumerator.errors import IsosieveError
 from enumerator.isomers.enumeration import Isomer
 from enumerator.model.composition import Composition
 from enumerator.model.elements import atomic_number
-from enumerator.rules.bandmodel import BandModelRules, load_families, load_groups, load_substituents
+from enumerator.rules.bandmodel import RING_ALKYL, BandModelRules, load_families, load_groups, load_substituents
 
 __all__ = [
     "Centre",
@@ -365,7 +365,11 @@ def _neighbour_terms(
     families: Mapping[str, str],
     subs: Mapping[str, tuple[tuple[str, int], ...]],
 ) -> list[tuple[str, float]]:
-    """ε of one neighbour at cos θ: its group's (a reporter's class) terms, its family's, its own, its substituents'."""
+    """ε of one neighbour at cos θ: its group's (a reporter's class) terms, its family's, its own, its substituents'.
+
+    A phosphorus ligand's substituents enter with weight count/3 (Tolman's additivity); the alkyl groups of an
+    η-ring with weight count (Cp* = Cp + 5 alkyls).
+    """
     t: list[tuple[str, float]] = []
     grp = other if other is not None else groups.get(ligand)
     if grp is not None:
@@ -375,7 +379,8 @@ def _neighbour_terms(
     if other is None:
         t += [(f"la:{c}:{ligand}", 1.0), (f"lb:{c}:{ligand}", cos)]
         for x, n in subs.get(ligand, ()):
-            t += [(f"sa:{c}:{x}", n / 3.0), (f"sb:{c}:{x}", n / 3.0 * cos)]
+            w = float(n) if x == RING_ALKYL else n / 3.0  # a ring's alkyls each count once; P's three share
+            t += [(f"sa:{c}:{x}", w), (f"sb:{c}:{x}", w * cos)]
     return t
 
 
