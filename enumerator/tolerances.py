@@ -9,7 +9,9 @@ name.  Each constant says what it decides; change one only with the tests of
 
 Geometry files should give their vectors to 10 or more significant figures:
 the loosest tolerance that decides whether an operation exists is
-:data:`OPERATION_MATCH_TOL` (1e-5).
+:data:`OPERATION_MATCH_TOL` (1e-5).  Vectors typed with fewer figures are
+symmetrised when a user file is read (:data:`SITE_SNAP_TOL`,
+:mod:`enumerator.rules.snapping`).
 
 >>> OPERATION_MATCH_TOL > VECTOR_TOL
 True
@@ -39,6 +41,8 @@ __all__ = [
     "EIGENVALUE_GAP_TOL",
     "DIXON_RESIDUAL_TOL",
     "PROJECTION_TOL",
+    "SITE_SNAP_TOL",
+    "SITE_AMBIGUITY_TOL",
 ]
 
 # --- vectors and operations -------------------------------------------------
@@ -140,3 +144,17 @@ DIXON_RESIDUAL_TOL = 1e-6
 #: species' projector, a set of functions is linearly independent (matrix rank),
 #: and a set of partner functions spans an invariant subspace.
 PROJECTION_TOL = 1e-7
+
+# --- typed-in geometries ------------------------------------------------------
+
+#: Distance, in site-vector lengths (dimensionless; 0.01 is about 0.57 degrees), within which a user
+#: geometry's sites are taken to have a symmetry they nearly have: an orthogonal map that sends every tip
+#: this close to a tip is a symmetry operation, and the vectors are moved (snapped) onto the exactly
+#: symmetric set.  Vectors typed to three significant figures ([-0.5, 0.866, 0]) are off by about 1e-3,
+#: two figures by up to about 9e-3.
+SITE_SNAP_TOL = 1e-2
+
+#: A looser distance (about 1.7 degrees) at which more symmetry must NOT appear: sites that are within
+#: :data:`SITE_SNAP_TOL` of one group but within this of a larger one are ambiguous (neither clearly that
+#: symmetric nor clearly distorted) and the geometry file is refused.
+SITE_AMBIGUITY_TOL = 3e-2

@@ -21,7 +21,7 @@ def test_bands_cli_is_the_result_rendered():
     code, out, err = cli(["bands", "[Cr(CO)5(PPh3)]", "--json"])
     assert code == 0, err
     assert out == dumps(result.to_dict())
-    assert list(json.loads(out)) == ["formula", "geometry", "geometry_reason", "isomers", "safety"]
+    assert list(json.loads(out)) == ["formula", "geometry", "geometry_reason", "isomers", "notes", "safety"]
     code, out, _ = cli(["bands", "[Cr(CO)5(PPh3)]"])
     assert out == bands_text(result)
 
@@ -87,3 +87,41 @@ def test_plots_leave_pyplot_alone():
     )
     out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True).stdout
     assert out.split() == ["False"]
+
+
+def test_bands_say_how_sure_and_how_idealised():
+    # the bands answer states the position uncertainty it used (the band model's sigma, or the class default
+    # when the model gives none: 30 cm-1 for CO, a tool convention) and that the intensities are the
+    # bond-dipole model's on the ideal polyhedron
+    result = predict_spectra(Request("[Cr(CO)5(PPh3)]"))
+    doc = result.to_dict()
+    pat = doc["isomers"][0]["patterns"][0]
+    given = [b["sigma"] for b in pat["bands"] if "sigma" in b]
+    if pat["position_sigma_default"]:
+        assert not given and pat["position_sigma_cm1"] == 30.0
+        assert any("class default" in n for n in doc["notes"])
+    else:
+        assert pat["position_sigma_cm1"] == max(given)
+        assert not any("class default" in n for n in doc["notes"])
+    assert pat["ir_count"] == 3 and pat["ir_predicted_weak"] == 0  # 2A1 + E (Cotton 10.2)
+    assert any("idealised" in n for n in doc["notes"])
+    text = bands_text(result)
+    assert "± cm-1" in text and f"IR: 3; position uncertainty ± {pat['position_sigma_cm1']:.0f} cm-1" in text
+
+
+def test_match_text_says_the_ranking_and_its_decision():
+    report = match_spectrum(MA4B2, [2030.0, 1940.0, 1915.0, 1890.0])
+    text = match_text(report)
+    assert text.splitlines()[2].startswith("ranking: 1 1.00") and "strong evidence" in text.splitlines()[2]
+    assert "measurement term ± 5 cm-1" in text
+
+
+def test_fit_bands_may_lie_where_the_band_model_predicts_them():
+    # [Ti(CO)6]2- T1u near 1748 cm-1 (from memory), below the usual CO window 1850-2125 (rules/reporters.toml):
+    # the additive model predicts it there, so --fit takes it; the same band typed for [Cr(CO)6] (T1u near
+    # 1985-2000, from memory) is still refused in one line
+    fix = ["--fix", "kc=0.5", "--fix", "kt=0.7"]
+    code, out, err = cli(["bands", "[Ti(CO)6]2-", "--fit", "1748", *fix])
+    assert code == 0 and "1748.0 -> T1u(1)" in out, err
+    code, out, err = cli(["bands", "[Cr(CO)6]", "--fit", "1748", *fix])
+    assert code == 2 and out == "" and "--fit: 1748 cm-1 is outside the CO window" in err and err.count("\n") == 1

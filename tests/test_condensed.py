@@ -110,9 +110,9 @@ def test_unknown_suggests():
 UNKNOWN_GROUPS = [
     ("[W(CO)5(NPr3)]", "NPr3", 9, None),
     ("[W(CO)4(ClEt)2]", "ClEt", 9, "Cl2Et2 for 2 Cl and 2 Et"),
-    ("[Mo(CO)5(PCl2Ph)]", "PCl2Ph", 10, None),
+    ("[Mo(CO)5(PBr2Ph)]", "PBr2Ph", 10, None),
     ("[Cr(CO)5(SMeEt)]", "SMeEt", 10, None),
-    ("[Ni(CO)3(PPhH2)]", "PPhH2", 10, None),
+    ("[Ni(CO)3(PPhMeH)]", "PPhMeH", 10, None),
     ("[W(CO)4(ClMe)2]", "ClMe", 9, "Cl2Me2 for 2 Cl and 2 Me"),
     ("[Cr(CO)5(OMe2)]", "OMe2", 10, "(OMe)2 for 2 OMe"),
     ("[W(CO)5(NEt2Me)]", "NEt2Me", 9, "(NEt2)Me for NEt2 and Me"),
@@ -281,10 +281,10 @@ def _with_atom_ligands(tmp_path):
 
 def test_heads_from_a_user_catalogue(tmp_path):
     rs = _with_atom_ligands(tmp_path)
-    # PCl2Ph: P then a halide and an organyl; SMeEt: S then two organyls: each one molecule as readily
-    line = refusal("Mo(CO)5PCl2Ph", rs)
-    assert "'PCl2Ph' at position 8 reads as one ligand PCl2Ph or as P (phosphido) followed by Cl2Ph" in line
-    assert "(P)Cl2Ph for P and Cl2Ph as separate ligands" in line
+    # PBr2Ph: P then a halide and an organyl; SMeEt: S then two organyls: each one molecule as readily
+    line = refusal("Mo(CO)5PBr2Ph", rs)
+    assert "'PBr2Ph' at position 8 reads as one ligand PBr2Ph or as P (phosphido) followed by Br2Ph" in line
+    assert "(P)Br2Ph for P and Br2Ph as separate ligands" in line
     assert "'SMeEt'" in refusal("Cr(CO)5SMeEt", rs)
     # a head followed by halides only stays a head plus halides; parenthesised, P is explicit
     assert parts("[MoSCl4]", rs)[2] == [("S", 1), ("Cl", 4)]

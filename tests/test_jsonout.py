@@ -38,7 +38,7 @@ DOCS = st.recursive(
 )
 
 
-@settings(max_examples=400, deadline=None)
+@settings(max_examples=400, deadline=None, derandomize=True)  # the same draws every run (reproducible CI)
 @given(DOCS)
 def test_any_document_is_written_as_the_reference_writes_it(doc):
     assert dumps(doc) == dumps_reference(doc)

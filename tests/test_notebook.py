@@ -8,6 +8,7 @@ import pytest
 from enumerator import analyse
 from enumerator.routes.planner import RoutePlan, plan_routes
 from enumerator.workflow.bands import BandsResult, MatchReport, match_spectrum, predict_spectra
+from enumerator.workflow.batch import BatchResult, run_batch
 from enumerator.workflow.job import JobResult, run_job
 from enumerator.workflow.pipeline import Request
 from enumerator.workflow.result import Result
@@ -24,16 +25,17 @@ def results():
         "match": match_spectrum(Request("Ma4b2", reporters=(("a", "CO"),)), [1950.0]),
         "route": plan_routes("[PtCl4]2-", "cis-[PtCl2(NH3)2]"),
         "job": run_job(job),
+        "batch": run_batch(["Ma5b", "[RuCl2(CO)2(PPh3)2]", "Mzz("]),
     }
 
 
-@pytest.mark.parametrize("cls", [Result, BandsResult, MatchReport, RoutePlan, JobResult])
+@pytest.mark.parametrize("cls", [Result, BandsResult, MatchReport, RoutePlan, JobResult, BatchResult])
 def test_one_naming_across_results(cls):
     for method in ("to_dict", "to_dataframe", "_repr_html_", "__repr__"):
         assert callable(getattr(cls, method)), (cls.__name__, method)
 
 
-@pytest.mark.parametrize("name", ["result", "bands", "match", "route", "job"])
+@pytest.mark.parametrize("name", ["result", "bands", "match", "route", "job", "batch"])
 def test_short_repr_and_compact_html(results, name):
     r = results[name]
     assert len(repr(r)) < 120, repr(r)
@@ -51,6 +53,7 @@ def test_tables_from_one_call(results):
     match = results["match"].to_dataframe()
     # one band at 1950: trans-Ma4b2 (D4h, one IR band, Eu) ranks first (Cotton, ch. 10; from memory)
     assert match.loc[0, "point group"] == "D4h" and list(match["rank"]) == [1, 2]
+    assert match["probability"].sum() == pytest.approx(1.0, abs=1e-3)  # equal priors, shares of the evidence
     route = results["route"].to_dataframe()
     # cis-[PtCl2(NH3)2] from [PtCl4]2- and two NH3 by the trans effect (Housecroft & Sharpe, 4th ed., ch. 26)
     assert route.loc[0, "reaches target"] and route.loc[0, "steps"] == 2
@@ -69,3 +72,10 @@ def test_result_frame_is_what_the_csv_writes(results, tmp_path):
     back = pd.read_csv(p, dtype=str, keep_default_na=False)
     df = res.to_dataframe().astype(str).replace({"None": ""})
     assert back.values.tolist() == df.values.tolist()
+
+
+def test_batch_frame_has_a_row_per_input_row(results):
+    df = results["batch"].to_dataframe()
+    # Ma5b: one isomer on OC-6; [RuCl2(CO)2(PPh3)2]: 5 geometric isomers (from memory); 'Mzz(' is refused in its row
+    assert list(df["formula"]) == ["Ma5b", "[RuCl2(CO)2(PPh3)2]", "Mzz("]
+    assert list(df["geometric_isomers"][:2]) == [1, 5] and bool(df["error"][2])

@@ -19,8 +19,10 @@ from pathlib import Path
 
 import pytest
 
-from enumerator.cli.isomers_cmd import PROGRESS_MIN, SIZE_CAP, check_size, want_progress
+from enumerator.cli.isomers_cmd import PROGRESS_MIN, want_progress
 from enumerator.errors import CapacityError, RuleError
+from enumerator.isomers.counting import check_size
+from enumerator.parse.abstract import parse_abstract
 from enumerator.rules.ruleset import load_rules
 from enumerator.workflow.pipeline import Request, run
 
@@ -28,6 +30,7 @@ CMD = [sys.executable, "-m", "enumerator"]
 
 
 from _cli import cli  # noqa: E402  (tests/ is on sys.path under pytest)
+from support.bad_inputs import make_fixtures, matches, table_rows  # noqa: E402
 
 # --------------------------------------------------------------------------- determinism
 
@@ -81,10 +84,14 @@ def test_size_guard_refuses_huge_requests_without_limit():
 
 
 def test_size_guard_and_progress_rules():
+    ic = load_rules().geometry("IC-12")
+    big = parse_abstract("Mabcdefghijkl")  # 12!/60 = 7,983,360 stereoisomers (Burnside's lemma by hand)
     with pytest.raises(CapacityError):
-        check_size(SIZE_CAP + 1, None, "Mx", "OC-6")
-    check_size(SIZE_CAP + 1, 10, "Mx", "OC-6")  # a limit lifts the guard
-    check_size(None, None, "Mx", "OC-6")  # unknown count: the enumerator decides
+        check_size(big, ic)
+    assert check_size(big, ic, limit=10) is None  # a limit lifts the guard
+    with pytest.raises(CapacityError):
+        check_size(parse_abstract("Ma6"), load_rules().geometry("OC-6"), cap=0)
+    assert check_size(parse_abstract("Ma6"), load_rules().geometry("TPR-6")) is None  # small: decided by the bound
 
     class Tty(io.StringIO):
         def isatty(self):
@@ -167,20 +174,29 @@ LONG = ["isomers", "Ma2b2c2d2e2f2", "--geometry", "IC-12", "--json"]  # 124,920 
 # The analysis stages run on the isomers found before the interruption; their
 # cost (the pair table is quadratic in the isomer count) is not what is under
 # test here, so the child runs the command with no stages.
+# The child touches the file named by ISOSIEVE_TEST_READY once it is about to run the command, so that on a
+# loaded machine the interrupt never lands while Python is still importing (that would end it by the signal).
 NO_STAGES = [
     sys.executable,
     "-c",
-    "import sys, enumerator.workflow.pipeline as p; p.STAGES = (); from enumerator.cli import main; main(sys.argv[1:])",
+    "import os, sys, enumerator.workflow.pipeline as p; p.STAGES = (); from enumerator.cli import main; "
+    "import enumerator.cli.isomers_cmd; open(os.environ['ISOSIEVE_TEST_READY'], 'w').close(); main(sys.argv[1:])",
 ]
 
 
 def _interrupt(args, wait: float = 2.0):
+    ready = Path(os.environ.get("TMPDIR", "/tmp")) / f"isosieve-ready-{os.getpid()}-{time.monotonic_ns()}"
     p = subprocess.Popen(
         NO_STAGES + args,
         stdout=subprocess.PIPE,
         stderr=subprocess.PIPE,
+        env=dict(os.environ, ISOSIEVE_TEST_READY=str(ready)),
         preexec_fn=lambda: signal.signal(signal.SIGINT, signal.SIG_DFL),
     )
+    deadline = time.monotonic() + 120
+    while not ready.exists() and p.poll() is None and time.monotonic() < deadline:
+        time.sleep(0.05)
+    ready.unlink(missing_ok=True)
     time.sleep(wait)
     assert p.poll() is None, "the enumeration finished before it could be interrupted"
     p.send_signal(signal.SIGINT)
@@ -211,3 +227,33 @@ def test_ctrl_c_with_partial_writes_what_was_found(tmp_path):
     assert doc["complete"] is False and 0 < doc["stereoisomers"] < 124920
     assert len(doc["isomers"]) == doc["stereoisomers"]
     assert any("interrupted" in n for n in doc["notes"])
+
+
+# --------------------------------------------------------------------------- the bad-input table
+
+
+DEVELOPERS = Path(__file__).resolve().parent.parent / "DEVELOPERS.md"
+_ROWS = table_rows(DEVELOPERS.read_text(encoding="utf-8"))
+
+
+@pytest.fixture(scope="module")
+def fixtures(tmp_path_factory):
+    return make_fixtures(tmp_path_factory.mktemp("bad-inputs"))
+
+
+def test_the_table_has_its_rows():
+    # every class of the robustness section has rows; a table cut short by an edit would pass silently otherwise
+    assert len(_ROWS) >= 60
+    assert {code for _a, _e, code in _ROWS} == {2}
+
+
+@pytest.mark.parametrize(("args", "expected", "status"), _ROWS, ids=[" ".join(r[0])[:60] for r in _ROWS])
+def test_bad_input_table(fixtures, monkeypatch, args, expected, status):
+    # DEVELOPERS.md, "Robustness": each row is the one line and the status the command gives (common practice
+    # for command-line tools: 2 for a usage or input error, one line on stderr)
+    monkeypatch.chdir(fixtures)
+    code, _out, err = cli(args)
+    lines = err.strip().splitlines()
+    assert code == status, (args, code, err)
+    assert len(lines) == 1, (args, err)
+    assert matches(expected, lines[0]), (args, lines[0])

@@ -180,7 +180,7 @@ def test_readable_output_has_pair_matrix():
     from enumerator.render.text import render
 
     text = render(analyse("Ma3b3", geometry="OC-6", reporters=(("a", "CO"),)))
-    assert "CO species" in text and "IR < Raman < NMR" in text and "sigma_v(xz)" in text
+    assert "CO species" in text and "IR < IRp < Raman < NMR" in text and "sigma_v(xz)" in text
 
 
 def test_pairs_stay_fast_for_hundreds_of_isomers():
@@ -209,7 +209,7 @@ def test_pair_tally_equals_counting_every_pair():
         ("M(AB)2b2", "OC-6", "b", None),
     ]:
         a = analyse(formula, geometry=geo, reporters=((rep, "CO"),), limit=limit).analysis(StretchAnalysis)
-        brute = Counter("en" if p.note else (p.cheapest or "--") for p in a.pairs())
+        brute = Counter(p.tally_key for p in a.pairs())
         assert a.pair_tally() == dict(brute), formula
 
 
@@ -235,3 +235,119 @@ def test_user_reporter_file_replaces_and_is_checked(tmp_path):
     with pytest.raises(RuleError) as exc:
         load_reporters(load_rules([bad]))
     assert "reporters.toml" in exc.value.line() and "ir_window_cm1" in exc.value.line()
+
+
+# ---------------------------------------------------------------- bands predicted weak: one meaning everywhere
+
+WEAK_CASES = [
+    ("Ma6", "OC-6"),
+    ("Ma5b", "OC-6"),
+    ("Ma4b2", "OC-6"),
+    ("Ma3b3", "OC-6"),
+    ("Ma2b4", "OC-6"),
+    ("Ma4bc", "OC-6"),
+    ("Ma2b2c2", "OC-6"),
+    ("Ma2b2cd", "OC-6"),
+    ("Ma2bc", "SP-4"),
+    ("Ma2b2", "SP-4"),
+    ("Ma4b", "TBPY-5"),
+    ("Ma3b2", "TBPY-5"),
+    ("Ma4b", "SPY-5"),
+    ("Ma4b2", "TPR-6"),
+    ("Ma2", "L-2"),
+    ("Mab", "L-2"),
+]
+
+
+@pytest.mark.parametrize("formula,geometry", WEAK_CASES)
+def test_predicted_weak_species_are_the_bond_dipole_zeros(formula, geometry):
+    # bond-dipole model (Braterman, Metal Carbonyl Spectra, 1975, from memory): a species whose oscillator
+    # combinations move only trans pairs in phase has zero intensity whatever the force constants; the
+    # symmetry-only count agrees with the GF solution for two different sets of constants
+    from enumerator.vibrations.pattern import band_pattern
+
+    for iso in analyse(formula, geometry=geometry, reporters=(("a", "CO"),)).isomers:
+        m = stretch_modes(iso, "CO")
+        for consts in ({"k": 16.0, "kc": 0.3, "kt": 0.6}, {"k": 15.2, "kc": 0.45, "kt": 0.2}):
+            bands = band_pattern(iso, "CO", consts).bands
+            zero = [b for b in bands if b.dipole_forbidden]
+            assert {b.species for b in zero} == set(m.weak_species), (formula, iso.id)
+            assert len(zero) == m.ir_weak and m.ir_dipole == sum(1 for b in bands if b.ir_active)
+
+
+def test_trans_dicarbonyl_counts_agree_in_every_output():
+    # [RuCl2(CO)2(PPh3)2] with trans CO groups (C2v): A1 + B2 are IR-allowed (Cotton 10.2), the A1 moves the
+    # trans pair in phase and has zero bond-dipole intensity (Braterman, from memory): counted as 2 IR bands,
+    # 1 of them predicted weak, in isomers (table and JSON), bands, match and the pair verdicts
+    from enumerator.render.text import render
+    from enumerator.workflow.bands import match_spectrum, predict_spectra
+    from enumerator.workflow.pipeline import Request
+
+    r = analyse("[RuCl2(CO)2(PPh3)2]")
+    trans = next(i for i in r.isomers if i.id == "2")
+    m = stretch_modes(trans, "CO")
+    assert (m.ir, m.ir_weak, m.weak_species, m.ir_text()) == (2, 1, ("A1",), "2 (1 predicted weak)")
+    doc = r.to_dict()
+    modes = next(x for x in doc["isomers"] if x["id"] == "2")["modes"]["CO"]
+    assert (modes["ir"], modes["ir_predicted_weak"], modes["ir_bond_dipole"]) == (2, 1, 1)
+    # the isomer table (text, CSV, LaTeX, Markdown and the DataFrame share one model) keeps integer counts and
+    # gives the predicted-weak bands a column of their own right after the IR count
+    df = r.to_dataframe().set_index("isomer")
+    assert (df.loc["2", "CO IR"], df.loc["2", "CO IR predicted weak"]) == (2, 1)
+    assert "CO IR predicted weak" in render(r)
+    bands = predict_spectra(Request("[RuCl2(CO)2(PPh3)2]"), isomer_id="2").to_dict()
+    pat = bands["isomers"][0]["patterns"][0]
+    assert (pat["ir_count"], pat["ir_predicted_weak"]) == (2, 1)
+    assert [b["predicted_weak"] for b in pat["bands"]] == [True, False]
+    match = match_spectrum(Request("[RuCl2(CO)2(PPh3)2]"), [2000.0]).to_dict()
+    cand = next(c for c in match["candidates"] if c["isomers"] == ["2"])
+    assert cand["ir_count"] == 2 and cand["ir_predicted_weak"] == 1
+    assert [p["predicted_weak"] for p in cand["predicted"]] == [True, False]
+    assert "1 with bond-dipole intensity, 1 predicted weak" in cand["explanation"]
+
+
+def test_pair_verdicts_read_the_ir_pattern():
+    # [RuCl2(CO)2(PPh3)2]: the trans-CO isomer shows one strong band, the cis-CO isomers two (bond-dipole
+    # model; Braterman, from memory), so IR tells them apart by the pattern although both count 2 allowed
+    # bands; against all-trans (one IR band, B2u) the count differs only by the predicted-weak A1, so IR
+    # does not decide and Raman does (A1 + B2 vs Ag: 2 vs 1 Raman bands, Cotton 10.2)
+    a = analyse("[RuCl2(CO)2(PPh3)2]").analysis(StretchAnalysis)
+    by = {(p.a, p.b): p for p in a.pairs()}
+    p23 = by[("2", "3")]
+    assert (p23.ir, p23.ir_pattern, p23.cheapest, p23.code) == (False, True, "IR", "IRp")
+    assert p23.to_dict()["cheapest_qualifier"] == "pattern" and p23.to_dict()["ir_pattern_distinct"] is True
+    p25 = by[("2", "5")]
+    assert p25.ir and not p25.ir_dipole and p25.code == "Ra"
+    p35 = by[("3", "5")]
+    assert p35.code == "IR" and p35.to_dict()["cheapest_qualifier"] == "counts"
+    assert p35.to_dict()["ir_pattern_distinct"] is None  # not judged: the counts decide
+    assert by[("3", "4")].code == "--"  # same generic pattern, same counts
+    assert a.pair_tally()["IR (pattern)"] == 4
+
+
+def test_fac_and_mer_bromide_tricarbonyl_are_told_apart_by_ir_pattern():
+    # fac- and mer-[MnBr(CO)3(bpy)] both have three IR bands (2A' + A'', Cs; Cotton 10.2), yet IR tells them
+    # apart every day: mer shows one weak band high above two strong ones, fac three of similar strength
+    # (common practice; from memory)
+    r = analyse("[MnBr(CO)3(bpy)]")
+    # judged on the additive band model's predictions, each band with the model's own sigma
+    assert all(not b.sigma_default for p in r.analysis(StretchAnalysis).patterns for ps in p for b in ps)
+    (pair,) = r.analysis(StretchAnalysis).pairs()
+    assert not pair.ir and pair.ir_pattern is True and pair.code == "IRp"
+    d = r.to_dict()["pairs"][0]
+    assert d["cheapest"] == "IR" and d["cheapest_qualifier"] == "pattern" and d["ir_distinct"] is False
+    from enumerator.render.text import render
+
+    assert " IRp" in render(r) and "IRp = IR told apart by the band pattern" in render(r)
+
+
+def test_pattern_tier_has_a_size_limit_and_says_so():
+    # the pattern tier compares pairs (quadratic; common practice to bound it): above the limit it is not
+    # judged, the pairs say null and the status says why
+    from enumerator.analyses.stretch.analysis import PATTERN_MAX_ISOMERS
+
+    r = analyse("Ma2b2c2d2e2f2", geometry="IC-12", reporters=(("a", "CO"),), limit=PATTERN_MAX_ISOMERS + 10)
+    a = r.analysis(StretchAnalysis)
+    assert a.patterns is None and "not judged" in a.pattern_status()
+    assert all(p.ir_pattern is None for p in a.pairs()[:50])
+    assert "not judged" in r.to_dict()["pair_pattern_status"]

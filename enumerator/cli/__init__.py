@@ -99,18 +99,20 @@ def cli(ctx: click.Context, rules: tuple[str, ...], debug: bool) -> None:
 
 
 def main(argv: list[str] | None = None) -> None:
-    """Console entry point: 0 on success, 2 for the user's input (one line), 1 for an internal error,
-    130 when interrupted; ``--debug`` (or ISOSIEVE_DEBUG=1) shows the traceback instead.
+    """Console entry point: 0 on success, 2 for the user's input (one line) or for running out of memory,
+    1 for an internal error, 130 when interrupted, 143 on SIGTERM (after cleaning up files being written);
+    ``--debug`` (or ISOSIEVE_DEBUG=1) shows the traceback instead.
 
     Parameters
     ----------
     argv : list of str, optional
         The arguments (default: ``sys.argv[1:]``).
     """
-    from enumerator.errors import IsosieveError
+    from enumerator.errors import IsosieveError, shorten
 
     args = list(sys.argv[1:] if argv is None else argv)
     debug = "--debug" in args or os.environ.get("ISOSIEVE_DEBUG") == "1"
+    previous = _terminate_cleanly()
     try:
         cli.main(args=args, prog_name="isosieve", standalone_mode=False)
     except click.exceptions.Exit as exc:
@@ -137,13 +139,52 @@ def main(argv: list[str] | None = None) -> None:
         sys.exit(exc.exit_status)
     except BrokenPipeError:
         sys.exit(0)
+    except MemoryError:
+        if debug:
+            raise
+        click.echo("isosieve: error: out of memory; give --limit N, a smaller formula, or fewer rows at once", err=True)
+        sys.exit(2)
     except Exception as exc:  # internal error
         if debug:
             raise
         msg = str(exc).splitlines()[0] if str(exc) else ""
         click.echo(
-            f"isosieve: internal error: {type(exc).__name__}: {msg} "
+            f"isosieve: internal error: {type(exc).__name__}: {shorten(msg, 300)} "
             "(rerun with --debug for the traceback, and please report it)",
             err=True,
         )
         sys.exit(1)
+    finally:
+        _restore(previous)
+
+
+def _terminate_cleanly() -> object:
+    """Turn SIGTERM into an exit through Python (status 143), so that files being written are cleaned up.
+
+    Returns
+    -------
+    object
+        What :func:`_restore` needs: None when nothing was installed (not the main thread, or no SIGTERM),
+        else a one-element tuple holding the handler before.
+    """
+    import signal
+    import threading
+
+    if not hasattr(signal, "SIGTERM") or threading.current_thread() is not threading.main_thread():
+        return None
+
+    def terminated(signum: int, frame: object) -> None:
+        click.echo("isosieve: terminated", err=True)
+        sys.exit(143)
+
+    before = signal.getsignal(signal.SIGTERM)
+    signal.signal(signal.SIGTERM, terminated)
+    return (before,)
+
+
+def _restore(previous: object) -> None:
+    import signal
+
+    if isinstance(previous, tuple):
+        handler = previous[0] if previous[0] is not None else signal.SIG_DFL
+        signal.signal(signal.SIGTERM, handler)

@@ -42,11 +42,16 @@ from enumerator.errors import InputError
 )
 @click.option("--ck", is_flag=True, help="During --fit tie kt = 2 kc (the Cotton-Kraihanzel approximation).")
 @click.option(
+    "--window",
+    metavar="LOW:HIGH",
+    help="Accept --fit bands in this window (cm-1) instead of the class's usual one; widen it on purpose only.",
+)
+@click.option(
     "--plot", type=click.Path(dir_okay=False), help="Write stick spectra (one panel per isomer) to this .svg or .png."
 )
 @click.option(
     "--width",
-    type=click.FloatRange(min=0.1),
+    type=click.FloatRange(min=0.1, max=500.0),
     default=10.0,
     show_default=True,
     help="Lorentzian full width at half maximum for --plot, cm-1.",
@@ -58,11 +63,27 @@ from enumerator.errors import InputError
 )
 @click.pass_context
 def bands(
-    ctx, formula, geometry, reporters, klass, isomer_id, constants, fit, fixes, ck, plot, width, dpi, as_json, out
+    ctx,
+    formula,
+    geometry,
+    reporters,
+    klass,
+    isomer_id,
+    constants,
+    fit,
+    fixes,
+    ck,
+    window,
+    plot,
+    width,
+    dpi,
+    as_json,
+    out,
 ):
     """Predict the stretching bands of every isomer of FORMULA from an
     energy-factored (Cotton-Kraihanzel) force field, with relative IR
-    intensities and symmetry species; optionally fit the constants.
+    intensities (bond-dipole model, ideal angles), symmetry species and
+    position uncertainties; optionally fit the constants.
 
     \b
     Examples:
@@ -72,6 +93,7 @@ def bands(
       isosieve bands Ma4b2 --reporter a=CO --isomer 1 --fit 2030,1940,1915,1890 --ck
       isosieve bands "[Cr(CO)5(13CO)]" --plot spectra.svg
     """
+    from enumerator.cli.match_cmd import parse_window
     from enumerator.render.bands import bands_plot, bands_text
     from enumerator.render.jsonout import dumps
     from enumerator.vibrations.fitting import parse_bands
@@ -96,6 +118,7 @@ def bands(
             measured=parse_bands(fit, "--fit") if fit else None,
             fixed=_fixed(fixes) if fit else None,
             tie_ck=ck,
+            window=parse_window(window),
             progress=progress,
         )
     if plot:

@@ -4,7 +4,11 @@ from __future__ import annotations
 
 import click
 
-from enumerator.cli.common import emit, rules_of
+from enumerator.cli.common import rules_of
+from enumerator.cli.output import emit, register_inputs
+
+#: The most bad row numbers the closing message lists; the rest are counted.
+MAX_LISTED_ROWS = 20
 
 
 @click.command("batch")
@@ -41,13 +45,39 @@ def batch(
     from enumerator.render.batch import render_batch
     from enumerator.workflow.batch import screen_file
 
+    register_inputs(ctx, file)
     with bar("batch") as progress:
         result = screen_file(
             file, rules=rules_of(ctx), workers=workers, geometry=geometry, limit=limit, progress=progress
         )
     emit(render_batch(result, fmt), out)
     if result.failed:
-        bad = ", ".join(str(r.index + 1) for r in result.failed)
         raise InputError(
-            f"{len(result.failed)} of {len(result.rows)} rows could not be analysed (row {bad})", "see the error column"
+            failed_rows(len(result.failed), len(result.rows), [r.index + 1 for r in result.failed]),
+            "see the error column",
         )
+
+
+def failed_rows(failed: int, total: int, numbers: list[int], listed: int = MAX_LISTED_ROWS) -> str:
+    """'3 of 10 rows could not be analysed (rows 2, 5, 9)', listing at most ``listed`` row numbers.
+
+    >>> failed_rows(30, 100, list(range(1, 31)), listed=3)
+    '30 of 100 rows could not be analysed (rows 1, 2, 3 and 27 more)'
+
+    Parameters
+    ----------
+    failed, total : int
+        Rows that failed, rows in all.
+    numbers : list of int
+        The failed rows' numbers (from 1).
+    listed : int
+        The most numbers to list.
+
+    Returns
+    -------
+    str
+    """
+    shown = ", ".join(str(n) for n in numbers[:listed])
+    more = f" and {len(numbers) - listed:,} more" if len(numbers) > listed else ""
+    word = "row" if len(numbers) == 1 else "rows"
+    return f"{failed:,} of {total:,} rows could not be analysed ({word} {shown}{more})"

@@ -1,17 +1,24 @@
-"""Options and helpers shared by several commands."""
+"""Options and helpers shared by several commands.
+
+Writing files lives in :mod:`enumerator.cli.output`; ``emit``, ``write_atomic``
+and ``write_atomic_bytes`` are kept here under their old names for the
+commands that import them from this module.
+"""
 
 from __future__ import annotations
 
 import contextlib
 import os
-import tempfile
-from pathlib import Path
+import sys
+import time
+from collections.abc import Callable, Iterator
 
 import click
 
+from enumerator.cli.output import emit, write_bytes, write_text
 from enumerator.errors import InputError
 
-__all__ = ["parse_pairs", "emit", "write_atomic", "write_atomic_bytes", "rules_of"]
+__all__ = ["parse_pairs", "emit", "write_atomic", "write_atomic_bytes", "rules_of", "progress_callback"]
 
 
 def parse_pairs(values: tuple[str, ...], option: str, example: str) -> tuple[tuple[str, str], ...]:
@@ -60,7 +67,7 @@ def rules_of(ctx: click.Context) -> tuple[str, ...]:
 
 
 def write_atomic(path: str | os.PathLike[str], text: str) -> None:
-    """Write a whole text file or nothing (UTF-8, newline '\\n').
+    """Write a whole text file or nothing (UTF-8): :func:`enumerator.cli.output.write_text`.
 
     Parameters
     ----------
@@ -70,13 +77,13 @@ def write_atomic(path: str | os.PathLike[str], text: str) -> None:
     Raises
     ------
     InputError
-        The folder does not exist.
+        The file cannot be written (one line: which file, why, and the fix).
     """
-    write_atomic_bytes(path, text.encode("utf-8"))
+    write_text(path, text)
 
 
 def write_atomic_bytes(path: str | os.PathLike[str], data: bytes) -> None:
-    """Write a whole file or nothing: a temporary file beside it, then a rename.
+    """Write a whole file or nothing: :func:`enumerator.cli.output.write_bytes`.
 
     Parameters
     ----------
@@ -86,32 +93,44 @@ def write_atomic_bytes(path: str | os.PathLike[str], data: bytes) -> None:
     Raises
     ------
     InputError
-        The folder does not exist.
+        The file cannot be written (one line: which file, why, and the fix).
     """
-    p = Path(path)
-    if p.parent and not p.parent.exists():
-        raise InputError(f"folder '{p.parent}' does not exist", "create it first or choose another --out")
-    fd, tmp = tempfile.mkstemp(prefix=f".{p.name}.", dir=p.parent or ".")
-    try:
-        with os.fdopen(fd, "wb") as fh:
-            fh.write(data)
-        os.replace(tmp, p)
-    except BaseException:
-        with contextlib.suppress(OSError):
-            os.unlink(tmp)
-        raise
+    write_bytes(path, data)
 
 
-def emit(text: str, out: str | None) -> None:
-    """Print to standard output, or write atomically to --out.
+@contextlib.contextmanager
+def progress_callback(label: str, delay: float = 1.0) -> Iterator[Callable[[int, int], None]]:
+    """A ``progress(done, total)`` callback that shows a bar on a terminal once the work has taken ``delay`` s.
+
+    Quick work shows nothing, and nothing is shown when standard error is not a terminal.
 
     Parameters
     ----------
-    text : str
-    out : str, optional
-        The file of ``--out``; standard output when None.
+    label : str
+        The bar's label ('counting').
+    delay : float
+        Seconds before a bar appears.
+
+    Yields
+    ------
+    callable
+        To be called with (done, total) as the work goes on.
     """
-    if out:
-        write_atomic(out, text)
-    else:
-        click.echo(text, nl=False)
+    start = time.monotonic()
+    bars: list = []
+    tty = bool(getattr(sys.stderr, "isatty", None) and sys.stderr.isatty())
+
+    def update(done: int, total: int) -> None:
+        if not bars:
+            if not tty or time.monotonic() - start < delay:
+                return
+            bar = click.progressbar(length=total, label=label, file=sys.stderr)
+            bar.__enter__()
+            bars.append(bar)
+        bars[0].update(done - bars[0].pos)
+
+    try:
+        yield update
+    finally:
+        if bars:
+            bars[0].__exit__(None, None, None)

@@ -10,7 +10,7 @@ from __future__ import annotations
 
 import click
 
-from enumerator.cli.common import emit, parse_pairs, rules_of
+from enumerator.cli.common import emit, parse_pairs, progress_callback, rules_of
 
 
 @click.command("count")
@@ -40,6 +40,7 @@ def count(ctx, formula, geometry, every, spans, arrangements, as_json, out):
 
     Monodentate letters, chelates (AA)/(AB)/(ABA)/(ABC), tripods {AAA},
     fac/mer limits, span settings and (ring) ligands are all counted exactly.
+    A count that takes more than a second shows a progress bar on a terminal.
 
     \b
     Examples:
@@ -51,12 +52,14 @@ def count(ctx, formula, geometry, every, spans, arrangements, as_json, out):
     from enumerator.render.count import render_count
     from enumerator.workflow.queries import count_formula
 
-    result = count_formula(
-        formula,
-        geometry=geometry,
-        every=every,
-        spans=parse_pairs(spans, "--span", "AA=trans"),
-        arrangements=parse_pairs(arrangements, "--arrangement", "AAA=fac"),
-        rules=rules_of(ctx),
-    )
+    with progress_callback("counting") as progress:
+        result = count_formula(
+            formula,
+            geometry=geometry,
+            every=every,
+            spans=parse_pairs(spans, "--span", "AA=trans"),
+            arrangements=parse_pairs(arrangements, "--arrangement", "AAA=fac"),
+            rules=rules_of(ctx),
+            progress=progress,
+        )
     emit(render_count(result, as_json), out)

@@ -2,49 +2,26 @@
 
 from __future__ import annotations
 
+import sys
 from typing import TYPE_CHECKING
 
 import click
 
-from enumerator.cli.common import parse_pairs, rules_of
+from enumerator.cli.common import parse_pairs, progress_callback, rules_of
+from enumerator.limits import SIZE_CAP
 
 if TYPE_CHECKING:
+    from collections.abc import Callable
+
+    from enumerator.cli.progress import Progress
+    from enumerator.isomers.enumeration import Isomer
     from enumerator.parse.request import Request
     from enumerator.workflow.result import Result
 
-#: Refuse to list more stereoisomers than this at once unless --limit is given.
-SIZE_CAP = 200_000
+__all__ = ["isomers", "SIZE_CAP", "PROGRESS_MIN", "want_progress"]
+
 #: Show a progress bar on a terminal when more stereoisomers than this are expected.
 PROGRESS_MIN = 2_000
-
-
-def check_size(total: int | None, limit: int | None, formula: str, symbol: str, cap: int = SIZE_CAP) -> None:
-    """Refuse a listing whose up-front count is over ``cap`` when no --limit is given.
-
-    Parameters
-    ----------
-    total : int, optional
-        The Burnside count of stereoisomers (None when unknown).
-    limit : int, optional
-        The --limit given.
-    formula, symbol : str
-        The formula and geometry, for the message.
-    cap : int
-        The largest listing allowed at once.
-
-    Raises
-    ------
-    CapacityError
-        Over the cap without a limit.
-    """
-    if total is None or limit is not None or total <= cap:
-        return
-    from enumerator.errors import CapacityError
-
-    raise CapacityError(
-        f"{formula} on {symbol} has {total:,} stereoisomers (Burnside count), more than the {cap:,} listed at once",
-        "give --limit N to list the first N, or run 'isosieve count' for the numbers alone",
-    )
 
 
 def want_progress(expected: int | None, stream: object) -> bool:
@@ -66,40 +43,52 @@ def want_progress(expected: int | None, stream: object) -> bool:
     return expected is not None and expected > PROGRESS_MIN and bool(isatty and isatty())
 
 
-def _run(req: Request, partial: bool) -> tuple[Result, bool]:
-    """(result, interrupted).  Counts up front, guards the size, shows
-    progress; on Ctrl-C returns the part found so far when ``partial``."""
-    import sys
-
+def _run(req: Request, partial: bool) -> tuple[Result, str | None]:
+    """(result, what was kept when interrupted).  The size guard counts first (a progress bar on a terminal
+    when that is slow); the enumeration shows progress; with ``partial`` Ctrl-C keeps what was done."""
     from enumerator.isomers.counting import burnside_counts
-    from enumerator.isomers.enumeration import Isomer, IsomerSet
-    from enumerator.workflow.pipeline import prepare, run
+    from enumerator.workflow.pipeline import prepare, run, run_partial
 
-    comp, geo, _ = prepare(req)
-    counts = burnside_counts(comp, geo)
-    total = counts[1] if counts else None
-    check_size(total, req.limit, comp.formula, geo.symbol)
-    expected = None if total is None else (total if req.limit is None else min(total, req.limit))
-    found: list[Isomer] = []
+    with progress_callback("counting") as counted:
+        comp, geo, _ = prepare(req, progress=counted)
+    expected = None
+    if sys.stderr.isatty():
+        counts = burnside_counts(comp, geo)
+        total = counts[1] if counts else None
+        expected = None if total is None else (total if req.limit is None else min(total, req.limit))
+
+    def go(on_isomer: Callable[[Isomer], None] | None, progress: Progress | None) -> tuple[Result, str | None]:
+        if partial:
+            return run_partial(req, on_isomer=on_isomer, progress=progress)
+        return run(req, on_isomer=on_isomer, progress=progress), None
+
+    if expected is not None and want_progress(expected, sys.stderr):
+        with click.progressbar(length=expected, label="enumerating", file=sys.stderr) as bar:
+
+            def step(iso: Isomer) -> None:
+                bar.update(1)
+
+            def stage(name: str, done: int, total: int) -> None:
+                bar.label = f"analysing ({name}, {done}/{total})"
+                bar.render_progress()
+
+            return go(step, stage)
+    return go(None, None)
+
+
+def _render(res: Result, fmt: str, partial: bool, stopped: str | None) -> tuple[str, str | None]:
+    """The text to write; with ``partial``, Ctrl-C while formatting falls back to the result without analyses."""
+    from enumerator.render.result import render_result
+    from enumerator.workflow.pipeline import without_analyses
+
     try:
-        if expected is not None and want_progress(expected, sys.stderr):
-            with click.progressbar(length=expected, label="enumerating", file=sys.stderr) as bar:
-
-                def step(iso: Isomer) -> None:
-                    found.append(iso)
-                    bar.update(1)
-
-                def stage(name: str, done: int, total: int) -> None:
-                    bar.label = f"analysing ({name}, {done}/{total})"
-                    bar.render_progress()
-
-                res = run(req, on_isomer=step, progress=stage)
-            return res, False
-        return run(req, on_isomer=found.append), False
+        return render_result(res, fmt), stopped
     except KeyboardInterrupt:
-        if not partial or not found:
+        if not partial:
             raise
-    return run(req, isomers=IsomerSet(comp, geo, tuple(found), complete=False)), True
+    why = "interrupted while formatting the output: the analyses are left out"
+    text = render_result(without_analyses(res, why), fmt)
+    return text, "; ".join(n for n in (stopped, why) if n)
 
 
 @click.command("isomers")
@@ -176,10 +165,10 @@ def isomers(ctx, formula, geometry, as_json, fmt, out, spans, arrangements, repo
 
     The size is counted first (Burnside's lemma, as 'isosieve count' does);
     more than 200,000 stereoisomers need --limit.  Ctrl-C stops with exit
-    status 130 and writes nothing, unless --partial is given.
+    status 130 and writes nothing, unless --partial is given: then what was
+    done is written -- the isomers found so far, the analyses finished
+    before the interruption -- and stderr says what was kept.
     """
-    import sys
-
     from enumerator.workflow.pipeline import Request
 
     req = Request(
@@ -192,17 +181,21 @@ def isomers(ctx, formula, geometry, as_json, fmt, out, spans, arrangements, repo
         rules=rules_of(ctx),
         pick=pick or None,
     )
+    step = "before anything was found"
     try:
-        res, interrupted = _run(req, partial)
+        res, stopped = _run(req, partial)
+        step = "while formatting the output"
+        text, stopped = _render(res, "json" if as_json else fmt, partial, stopped)
+        step = "while writing the output (any --out file is unchanged)"
         from enumerator.cli.table_output import emit_result
 
-        emit_result(res, "json" if as_json else fmt, out)
+        emit_result(res, "json" if as_json else fmt, out, text=text)
     except KeyboardInterrupt:
-        click.echo("isosieve: interrupted; nothing written (give --partial to keep what was found)", err=True)
+        hint = f"interrupted {step}; nothing written" if partial else "interrupted; nothing written"
+        click.echo(f"isosieve: {hint}" + ("" if partial else " (give --partial to keep what was found)"), err=True)
         sys.exit(130)
-    if interrupted:
+    if stopped:
         n = len(res.isomer_set.isomers)
-        click.echo(
-            f'isosieve: interrupted; wrote the {n} stereoisomers found so far, marked "complete": false', err=True
-        )
+        mark = ', marked "complete": false' if not res.isomer_set.complete else ""
+        click.echo(f"isosieve: {stopped}; wrote the {n} stereoisomers kept{mark}", err=True)
         sys.exit(130)

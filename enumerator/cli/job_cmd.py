@@ -4,7 +4,8 @@ from __future__ import annotations
 
 import click
 
-from enumerator.cli.common import rules_of, write_atomic
+from enumerator.cli.common import rules_of
+from enumerator.cli.output import register_inputs, write_files
 from enumerator.parse.job import FORMATS
 
 
@@ -32,6 +33,7 @@ def job(ctx: click.Context, file: str, fmt: str, out: str | None, write_outputs:
     from enumerator.render.job import job_files, render_job
     from enumerator.workflow.job import run_job_file
 
+    register_inputs(ctx, file)
     with bar("job") as progress:
         result = run_job_file(file, rules_of(ctx), progress)
     if not write_outputs:
@@ -45,6 +47,7 @@ def job(ctx: click.Context, file: str, fmt: str, out: str | None, write_outputs:
         raise InputError(
             f"job file '{file}' lists no [[output]]", 'add [[output]] with format = "markdown" and file = "..."'
         )
-    for path, text in job_files(result):
-        write_atomic(path, text)
+    files = job_files(result)
+    write_files(files, option="[[output]] file")
+    for path, _ in files:
         click.echo(f"wrote {path}", err=True)

@@ -8,6 +8,20 @@ from enumerator.cli.common import emit, parse_pairs, rules_of, write_atomic_byte
 from enumerator.errors import InputError
 
 
+def parse_window(text: str | None) -> tuple[float, float] | None:
+    """--window LO:HI (cm-1) as a pair of numbers; the library checks the range."""
+    if text is None:
+        return None
+    lo, sep, hi = text.partition(":")
+    try:
+        pair = (float(lo), float(hi))
+    except ValueError:
+        pair = None
+    if not sep or pair is None:
+        raise InputError(f"--window '{text}' is not LOW:HIGH in cm-1", "write e.g. --window 1500:2300")
+    return pair
+
+
 @click.command("match")
 @click.argument("formula")
 @click.option(
@@ -20,17 +34,22 @@ from enumerator.errors import InputError
 )
 @click.option(
     "--tolerance",
-    type=click.FloatRange(min=0.1),
-    default=10.0,
+    type=click.FloatRange(min=0.1, max=50.0),
+    default=5.0,
     show_default=True,
-    help="Bands closer than this (cm-1) count as coincident; a match within it as good.",
+    help="Measurement term: one standard uncertainty of a measured band position, cm-1 (added to the model's).",
 )
 @click.option(
     "--weak",
     type=click.FloatRange(min=0.0, max=0.99),
     default=0.05,
     show_default=True,
-    help="Predicted bands below this relative intensity may go unseen.",
+    help="Weak scale: a predicted band of this relative intensity goes unseen with probability 1/e.",
+)
+@click.option(
+    "--window",
+    metavar="LOW:HIGH",
+    help="Accept measured bands in this window (cm-1) instead of the class's usual one; widen it on purpose only.",
 )
 @click.option(
     "-g", "--geometry", metavar="SYMBOL", help="Polyhedral symbol, e.g. OC-6 (default: chosen from the formula)."
@@ -56,18 +75,20 @@ from enumerator.errors import InputError
     "--dpi", type=click.IntRange(10, 2400), default=150, show_default=True, help="Resolution of a .png --plot."
 )
 @click.pass_context
-def match(ctx, formula, bands_text, tolerance, weak, geometry, reporters, klass, plot, dpi, as_json, out):
-    """Rank the isomers of FORMULA by how well they explain measured
-    stretching bands: band count (allowing weak or coincident bands) and
-    pattern fit after one common shift of the stretching constants, and,
-    when the bands carry intensities, how well the relative intensities agree.
+def match(ctx, formula, bands_text, tolerance, weak, window, geometry, reporters, klass, plot, dpi, as_json, out):
+    """Rank the isomers of FORMULA by how probable the measured stretching
+    bands are under each one's predicted pattern: positions within the band
+    model's uncertainty after one bounded common shift, band counts (weak and
+    coincident bands may go unseen) and, when the bands carry intensities,
+    the intensity pattern.  Gives each isomer's probability (equal priors)
+    and says when the data cannot decide.
 
     \b
     Examples:
-      isosieve match "[Mo(CO)3(PPh3)3]" --bands 1950,1860,1840
+      isosieve match "[Mo(CO)3(PMe3)3]" --bands "1945 (s), 1854 (vs)"
       isosieve match Ma3b3 --reporter a=CO --bands 2050,1975,1947 --json
-      isosieve match Ma4b2 --reporter a=CO --bands 2030,1940,1915 --tolerance 15 --plot match.svg
-      isosieve match "[Mo(CO)3(PPh3)3]" --bands "1950 (m), 1860 (vs), 1840 (s)"
+      isosieve match "[Re(CO)3(bpy)Cl]" --bands "2022 (vs), 1917 (s), 1899 (s)" --plot match.svg
+      isosieve match "[V(CO)6]-" --bands 1860 --window 1800:2125
     """
     from enumerator.render.bands import match_plot, match_text
     from enumerator.render.jsonout import dumps
@@ -91,6 +112,7 @@ def match(ctx, formula, bands_text, tolerance, weak, geometry, reporters, klass,
         reporter_class=klass,
         tolerance=tolerance,
         weak=weak,
+        window=parse_window(window),
     )
     if plot:
         from enumerator.render.plots import format_for  # only a plot needs it (and matplotlib)

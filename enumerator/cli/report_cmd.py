@@ -6,7 +6,8 @@ from pathlib import Path
 
 import click
 
-from enumerator.cli.common import rules_of, write_atomic
+from enumerator.cli.common import rules_of
+from enumerator.cli.output import register_inputs, write_files
 
 
 @click.command("report")
@@ -26,6 +27,9 @@ def report(ctx: click.Context, job: str, out_dir: str, title: str | None) -> Non
     sidecar holding the cautions and column meanings), one set per complex,
     and a README.txt saying what each file is.
 
+    The files are written all or nothing: each is staged beside its place
+    and only when every one is written are they renamed into place.
+
     The page needs no network (inline CSS and SVG, no scripts).  JOB is a
     job file as for 'isosieve job'; a minimal one:
 
@@ -43,16 +47,18 @@ def report(ctx: click.Context, job: str, out_dir: str, title: str | None) -> Non
       isosieve --rules mylib report job.toml --out si --title "SI tables"
     """
     from enumerator.cli.progress import bar
+    from enumerator.parse.text import check_label_text
     from enumerator.render.report import report_files
     from enumerator.workflow.report import report_from_job
 
+    if title is not None:
+        check_label_text(title, "--title")
+    register_inputs(ctx, job)
     with bar("report") as progress:
         built = report_from_job(job, rules_of(ctx), title, progress)
         progress("writing the page", 0, 1)
         files = report_files(built)
         progress("writing the page", 1, 1)
     folder = Path(out_dir)
-    folder.mkdir(parents=True, exist_ok=True)
-    for name, text in files:
-        write_atomic(folder / name, text)
+    write_files([(folder / name, text) for name, text in files], folder=folder)
     click.echo(f"{folder / 'report.html'}  ({len(built.complexes)} complex(es)); tables: {', '.join(built.files)}")

@@ -6,7 +6,8 @@ from pathlib import Path
 
 import click
 
-from enumerator.cli.common import parse_pairs, rules_of, write_atomic
+from enumerator.cli.common import parse_pairs, rules_of
+from enumerator.cli.output import write_files
 
 
 @click.command("structures")
@@ -58,6 +59,7 @@ def structures(
     ligands are built by RDKit with the donor positions fixed; otherwise
     only the donor atoms are written and the title line starts with
     DONOR-ONLY CORE.  These are starting geometries for an optimisation.
+    The files are written all or nothing.
 
     \b
     Examples:
@@ -80,7 +82,5 @@ def structures(
             progress=progress,
         )
     folder = Path(out_dir)
-    folder.mkdir(parents=True, exist_ok=True)
-    for name, text in structure_files(built, fmt):
-        write_atomic(folder / name, text)
+    write_files([(folder / name, text) for name, text in structure_files(built, fmt)], folder=folder)
     click.echo(structure_listing(built, fmt, folder))

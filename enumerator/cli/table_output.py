@@ -15,7 +15,7 @@ from typing import TYPE_CHECKING
 
 import click
 
-from enumerator.cli.common import emit, write_atomic
+from enumerator.cli.output import STDOUT, emit, write_files
 
 if TYPE_CHECKING:
     import pandas as pd
@@ -50,23 +50,26 @@ def emit_table(
     title, cautions, notes
         What the sidecar (or standard error) says besides the table.
     """
-    emit(text, out)
     if fmt != "csv":
+        emit(text, out)
         return
-    if out:
-        from enumerator.render.tables import csv_metadata
-        from enumerator.workflow.report import version
-
-        name = Path(out).name
+    if out and out != STDOUT:
+        files: list[tuple[str | Path, str]] = [(out, text)]
         if frame is not None:
+            from enumerator.render.tables import csv_metadata
+            from enumerator.workflow.report import version
+
+            name = Path(out).name
             meta = csv_metadata(frame, name, title=title or name, cautions=cautions, notes=notes, version=version())
-            write_atomic(Path(out).with_name(name + "-metadata.json"), meta)
-    else:
-        for line in cautions:
-            click.echo(f"isosieve: safety: {line}", err=True)
+            files.append((Path(out).with_name(name + "-metadata.json"), meta))
+        write_files(files)  # the table and its sidecar together, or neither
+        return
+    emit(text, out)
+    for line in cautions:
+        click.echo(f"isosieve: safety: {line}", err=True)
 
 
-def emit_result(res: Result, fmt: str, out: str | None) -> None:
+def emit_result(res: Result, fmt: str, out: str | None, *, text: str | None = None) -> None:
     """One result in one format (:func:`enumerator.render.result.render_result`), with its CSV sidecar.
 
     Parameters
@@ -74,11 +77,14 @@ def emit_result(res: Result, fmt: str, out: str | None) -> None:
     res : Result
     fmt : str
     out : str, optional
+    text : str, optional
+        The rendered text when the caller has it already (e.g. a partial result's fallback).
     """
     from enumerator.render.result import render_result
     from enumerator.render.sections import safety_lines
 
-    text = render_result(res, fmt)
+    if text is None:
+        text = render_result(res, fmt)
     frame = res.to_dataframe() if fmt == "csv" else None
     emit_table(
         text,

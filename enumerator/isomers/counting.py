@@ -35,16 +35,32 @@ the counts as a :class:`CountResult` (what ``isosieve count`` prints):
 
 from __future__ import annotations
 
-from collections.abc import Iterable
+from collections.abc import Callable, Iterable, Mapping
 from dataclasses import dataclass
+from types import MappingProxyType
 from typing import Any
 
 from enumerator.caches import cached
+from enumerator.errors import CapacityError
 from enumerator.isomers.enumeration import canonical_placement, generate, placements_for
+from enumerator.limits import SIZE_CAP
 from enumerator.model.composition import Composition, LigandKind
 from enumerator.model.geometry import Geometry
 
-__all__ = ["burnside_counts", "cycle_type", "fixed_decorations", "count_isomers", "CountResult", "GeometryCount"]
+__all__ = [
+    "burnside_counts",
+    "cycle_type",
+    "fixed_decorations",
+    "count_isomers",
+    "check_size",
+    "size_bounds",
+    "CountResult",
+    "GeometryCount",
+    "SIZE_CAP",
+]
+
+#: Called as ``progress(done, total)`` after each symmetry operation's term of a Burnside sum.
+Progress = Callable[[int, int], None]
 
 #: How the counts are found, as the JSON document names it.
 METHOD = "Burnside's lemma"
@@ -106,7 +122,10 @@ class CountResult:
 
 
 def count_isomers(
-    composition: Composition, geometries: Iterable[Geometry], geometry_reason: str | None = None
+    composition: Composition,
+    geometries: Iterable[Geometry],
+    geometry_reason: str | None = None,
+    progress: Progress | None = None,
 ) -> CountResult:
     """Count the isomers of a composition on each geometry, without enumerating.
 
@@ -118,6 +137,8 @@ def count_isomers(
         The geometries to count on, in the order to report them.
     geometry_reason : str, optional
         Why the geometry was chosen, when there is one (reported as given).
+    progress : callable, optional
+        Called as ``progress(done, total)`` after each operation's term of each geometry's sum.
 
     Returns
     -------
@@ -134,7 +155,7 @@ def count_isomers(
     rows = []
     for g in geometries:
         generate(composition, g)  # the enumerator's own checks; nothing is listed
-        n_geo, n_stereo = burnside_counts(composition, g) or (0, 0)
+        n_geo, n_stereo = burnside_counts(composition, g, progress) or (0, 0)
         rows.append(GeometryCount(g.symbol, g.name, n_geo, n_stereo))
     return CountResult(composition.formula, tuple(rows), geometry_reason)
 
@@ -180,7 +201,9 @@ def _fixed(cycles: tuple[int, ...], counts: tuple[int, ...]) -> int:
     return total
 
 
-def burnside_counts(composition: Composition, geometry: Geometry) -> tuple[int, int] | None:
+def burnside_counts(
+    composition: Composition, geometry: Geometry, progress: Progress | None = None
+) -> tuple[int, int] | None:
     """(geometric isomers, stereoisomers) by Burnside's lemma, without
     enumerating: orbits under the full group and under the proper rotations.
 
@@ -194,6 +217,8 @@ def burnside_counts(composition: Composition, geometry: Geometry) -> tuple[int, 
     ----------
     composition : Composition
     geometry : Geometry
+    progress : callable, optional
+        Called as ``progress(done, total)`` after each operation's term (for a progress bar on a long count).
 
     Returns
     -------
@@ -203,23 +228,134 @@ def burnside_counts(composition: Composition, geometry: Geometry) -> tuple[int, 
     """
     if composition.donor_count != geometry.coordination_number:
         return None
-    return _counts(composition.parts, geometry)
+    if progress is None:
+        return _counts(composition.parts, geometry)
+    ops = geometry.operations
+    terms = []
+    for k, op in enumerate(ops):
+        terms.append(_term(composition.parts, geometry, op.perm))
+        progress(k + 1, len(ops))
+    return _average(terms, [op.proper for op in ops], composition.parts, geometry)
 
 
 @cached(maxsize=256)
 def _counts(parts: tuple[tuple[LigandKind, int], ...], geometry: Geometry) -> tuple[int, int]:
     ops = geometry.operations
-    if all(k.denticity == 1 and not k.ring for k, _ in parts):
-        counts = tuple(sorted(n for _, n in parts))
-        full = [_fixed(cycle_type(op.perm), counts) for op in ops]
-    else:
-        full = [fixed_decorations(parts, geometry, op.perm) for op in ops]
-    proper = [f for f, op in zip(full, ops) if op.proper]
-    geo, rem_g = divmod(sum(full), len(full))
-    stereo, rem_s = divmod(sum(proper), len(proper))
+    terms = [_term(parts, geometry, op.perm) for op in ops]
+    return _average(terms, [op.proper for op in ops], parts, geometry)
+
+
+def _average(
+    terms: list[int], proper: list[bool], parts: tuple[tuple[LigandKind, int], ...], geometry: Geometry
+) -> tuple[int, int]:
+    """Burnside's averages over the full group and over its rotations."""
+    rotations = [t for t, p in zip(terms, proper) if p]
+    geo, rem_g = divmod(sum(terms), len(terms))
+    stereo, rem_s = divmod(sum(rotations), len(rotations))
     if rem_g or rem_s:  # pragma: no cover - Burnside's average is always whole
         raise ArithmeticError(f"Burnside average is not whole for {parts} on {geometry.symbol}")
     return geo, stereo
+
+
+def _monodentate(parts: tuple[tuple[LigandKind, int], ...]) -> bool:
+    return all(k.denticity == 1 and not k.ring for k, _ in parts)
+
+
+@cached(maxsize=4096)
+def _term(parts: tuple[tuple[LigandKind, int], ...], geometry: Geometry, perm: tuple[int, ...]) -> int:
+    """The decorations one site permutation fixes (one term of Burnside's sum), cached."""
+    if _monodentate(parts):
+        return _fixed(cycle_type(perm), tuple(sorted(n for _, n in parts)))
+    return fixed_decorations(parts, geometry, perm)
+
+
+def size_bounds(composition: Composition, geometry: Geometry) -> tuple[int, int]:
+    """Cheap bounds (low, high) on the number of stereoisomers, from the identity's term alone.
+
+    Every stereoisomer is an orbit of the decorations under the rotations, so
+    there are at most as many as there are decorations (the identity's term of
+    Burnside's sum) and at least that number over the number of rotations.
+    The identity's term is one of the group's terms, so these bounds never
+    cost more than the exact count; they decide the size guard
+    (:func:`check_size`) without the other terms whenever the count is far
+    from the cap.
+
+    Parameters
+    ----------
+    composition : Composition
+    geometry : Geometry
+
+    Returns
+    -------
+    (int, int)
+        (0, 0) when the donor count does not match the geometry.
+
+    Examples
+    --------
+    >>> from enumerator.rules.ruleset import load_rules
+    >>> from enumerator.parse.abstract import parse_abstract
+    >>> size_bounds(parse_abstract("Mabcdef"), load_rules().geometry("OC-6"))
+    (30, 720)
+    """
+    if composition.donor_count != geometry.coordination_number:
+        return 0, 0
+    identity = geometry.operations[0].perm
+    decorations = _term(composition.parts, geometry, identity)
+    rotations = len(geometry.proper_operations)
+    return -(-decorations // rotations), decorations
+
+
+def check_size(
+    composition: Composition,
+    geometry: Geometry,
+    limit: int | None = None,
+    cap: int = SIZE_CAP,
+    progress: Progress | None = None,
+) -> int | None:
+    """Refuse an enumeration of more than ``cap`` stereoisomers when no limit is given.
+
+    The cheap bounds of :func:`size_bounds` decide first; the exact Burnside
+    count is computed only when the cap lies between them.
+
+    Parameters
+    ----------
+    composition : Composition
+    geometry : Geometry
+    limit : int, optional
+        The stereoisomer limit asked for (``--limit``): with one, nothing is checked.
+    cap : int
+        The most stereoisomers listed at once (default :data:`~enumerator.limits.SIZE_CAP`).
+    progress : callable, optional
+        Passed to :func:`burnside_counts` when the exact count is needed.
+
+    Returns
+    -------
+    int or None
+        The exact number of stereoisomers when it had to be computed, else None.
+
+    Raises
+    ------
+    CapacityError
+        Over the cap without a limit; the message gives the count (or the least it can be) and how to go on.
+    """
+    if limit is not None or composition.donor_count != geometry.coordination_number:
+        return None
+    low, high = size_bounds(composition, geometry)
+    if high <= cap:
+        return None
+    total = None
+    if low <= cap or _monodentate(composition.parts):  # the exact count of monodentates costs no more
+        counts = burnside_counts(composition, geometry, progress)
+        total = counts[1] if counts else 0
+        if total <= cap:
+            return total
+    many = f"{total:,}" if total is not None else f"at least {low:,}"
+    raise CapacityError(
+        f"{composition.formula} on {geometry.symbol} has {many} stereoisomers (Burnside count), "
+        f"more than the {cap:,} listed at once",
+        "list the first N with 'isosieve isomers ... --limit N' (limit = N in a job file, --limit in batch and "
+        "structures), or run 'isosieve count' for the numbers alone",
+    )
 
 
 def fixed_decorations(parts: tuple[tuple[LigandKind, int], ...], geometry: Geometry, perm: tuple[int, ...]) -> int:
@@ -272,8 +408,7 @@ def _cycle_items(
     cycle of ``perm`` whose lowest site it is (members pairwise disjoint)."""
     items: list[list[tuple[int, int, int]]] = [[] for _ in range(geometry.coordination_number)]
     for kk, (kind, _) in enumerate(parts):
-        cands = placements_for(kind, geometry)
-        index = {t: k for k, t in enumerate(cands)}
+        cands, index = _placements(kind, geometry)
         image = [index[canonical_placement(kind, tuple(perm[x] for x in t))] for t in cands]
         seen = [False] * len(cands)
         for start in range(len(cands)):
@@ -295,6 +430,20 @@ def _cycle_items(
                 low = (mask & -mask).bit_length() - 1
                 items[low].append((kk, mask, size))
     return items
+
+
+@cached(maxsize=64)
+def _placements(
+    kind: LigandKind, geometry: Geometry
+) -> tuple[tuple[tuple[int, ...], ...], Mapping[tuple[int, ...], int]]:
+    """Every placement of one ligand kind (as :func:`placements_for` lists them) and each one's index.
+
+    Computed once per kind and geometry rather than once per symmetry operation: listing the placements
+    of a long chain (every ordered site tuple tried against the span rules) costs far more than
+    permuting them.
+    """
+    cands = tuple(placements_for(kind, geometry))
+    return cands, MappingProxyType({t: k for k, t in enumerate(cands)})
 
 
 def _mask(t: tuple[int, ...]) -> int:

@@ -196,8 +196,11 @@ def isotope_mass(symbol: str, isotope: int = 0) -> float | None:
     z = atomic_number(symbol)
     if z <= 0:
         return None
+    from rdkit import rdBase
+
     pt = _table()
-    m = pt.GetMassForIsotope(z, isotope) if isotope else pt.GetMostCommonIsotopeMass(z)
+    with rdBase.BlockLogs():  # an unknown isotope is an answer here (None), not a line of RDKit's log
+        m = pt.GetMassForIsotope(z, isotope) if isotope else pt.GetMostCommonIsotopeMass(z)
     return float(m) if m and m > 0 else None
 
 

@@ -43,6 +43,8 @@ class Geometry:
 
     ``vectors`` are unit site directions from the metal, in the order of the
     rule file; sites are numbered 0..n-1 in the API and 1..n in tables.
+    ``adjusted`` says how the rule file's vectors were symmetrised when they
+    were read (empty when they were used as given).
     """
 
     symbol: str
@@ -53,6 +55,7 @@ class Geometry:
     note: str = ""
     default_for_abstract: bool = False
     source: str = ""
+    adjusted: str = ""
 
     @property
     def coordination_number(self) -> int:

@@ -24,11 +24,14 @@ from __future__ import annotations
 import re
 
 from enumerator.errors import InputError
+from enumerator.limits import MAX_CHARGE, MAX_SITES
 from enumerator.model.composition import Composition, LigandKind
+from enumerator.parse.text import check_formula_text, check_sites, describe_char, echo, read_number
 
 __all__ = ["parse_abstract", "looks_abstract", "parse_charge"]
 
-_CHARGE = re.compile(r"(\d*)([+-])$")
+_CHARGE = re.compile(r"([0-9]*)([+-])$")
+_COUNT = re.compile(r"[0-9]+")
 
 
 def looks_abstract(text: str) -> bool:
@@ -44,6 +47,8 @@ def looks_abstract(text: str) -> bool:
         Also True for some real formulas ('Mo(CO)6'); :func:`enumerator.parse.formula.parse_formula` settles those.
     """
     t = text.strip().lstrip("[")
+    if len(t) > 1 and t[0] == "M" and not t[1].isascii() and (t[1].isalpha() or t[1].isdigit()):
+        return True  # 'M' and a look-alike letter ('Mаb5' with a Cyrillic а): refused as the letter notation
     return bool(re.match(r"^M(?:[a-z({]|$)", t))
 
 
@@ -78,15 +83,16 @@ def parse_charge(text: str) -> tuple[str, int]:
         m = _CHARGE.fullmatch(tail)
         if not m:
             raise InputError(
-                f"cannot read the charge '{tail}' after ']' in '{text}'", "write it like 2- or + after the bracket"
+                f"cannot read the charge '{echo(tail)}' after ']' in '{echo(text)}'",
+                "write it like 2- or + after the bracket",
             )
-        n = int(m.group(1) or 1)
+        n = read_number(m.group(1) or "1", text, text.rfind(tail), "charge", MAX_CHARGE)
         return head + "]", n if m.group(2) == "+" else -n
     return t, 0
 
 
 def _error(text: str, pos: int, what: str, fix: str) -> InputError:
-    return InputError(f"formula '{text}': {what} at position {pos + 1}", fix)
+    return InputError(f"formula '{echo(text)}': {what} at position {pos + 1}", fix)
 
 
 def _chelate(original: str, body: str, offset: int, i: int) -> tuple[LigandKind, int]:
@@ -143,6 +149,7 @@ def parse_abstract(text: str) -> Composition:
         The text does not follow the notation; the message gives the position (1-based).
     """
     original = text
+    check_formula_text(text)
     body, charge = parse_charge(text)
     body = body.strip()
     offset = len(original) - len(original.lstrip())
@@ -158,6 +165,13 @@ def parse_abstract(text: str) -> Composition:
     counts: dict[LigandKind, int] = {}
     while i < len(body):
         ch = body[i]
+        if not ch.isascii():
+            raise _error(
+                original,
+                offset + i,
+                f"{describe_char(ch)} is not an ASCII character",
+                "the letter notation takes the ASCII letters a-z and A-Z, digits 0-9 and ( ) { } [ ] only; retype it",
+            )
         if ch.islower():
             kind = LigandKind(name=ch, donors=(ch,))
             i += 1
@@ -173,10 +187,10 @@ def parse_abstract(text: str) -> Composition:
                 "use lowercase letters for monodentate ligands, (AA)/(AB)/(ABA) for chelates, {AAA} for a tripod "
                 "and a number for a count",
             )
-        m = re.match(r"\d+", body[i:])
+        m = _COUNT.match(body, i)
         n = 1
         if m:
-            n = int(m.group(0))
+            n = read_number(m.group(0), original, offset + i, "count", MAX_SITES)
             if n == 0:
                 raise _error(original, offset + i, "a count of 0", "leave the ligand out instead")
             i += len(m.group(0))
@@ -186,4 +200,6 @@ def parse_abstract(text: str) -> Composition:
         counts[kind] += n
     if not order:
         raise _error(original, offset + len(body), "no ligands after 'M'", "write e.g. Ma4b2")
-    return Composition(formula=original.strip(), parts=tuple((k, counts[k]) for k in order), charge=charge)
+    comp = Composition(formula=original.strip(), parts=tuple((k, counts[k]) for k in order), charge=charge)
+    check_sites(comp)
+    return comp

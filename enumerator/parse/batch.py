@@ -41,7 +41,10 @@ def parse_formulas(text: str, where: str) -> list[tuple[str, str]]:
     InputError
         The text holds no formulas.
     """
-    lines = [ln for ln in text.splitlines() if ln.strip() and not ln.lstrip().startswith("#")]
+    # lines end at '\n' (and '\r\n') only: str.splitlines would also split at form feeds, separators and
+    # U+2028, so a control character in a formula would quietly cut it into two rows instead of being refused
+    lines = [ln.removesuffix("\r") for ln in text.split("\n")]
+    lines = [ln for ln in lines if ln.strip() and not ln.lstrip().startswith("#")]
     if not lines:
         raise InputError(f"'{where}' holds no formulas", "write one formula a line, or a CSV with a 'formula' column")
     head = [h.strip().lower() for h in next(csv.reader([lines[0]]))]
@@ -71,11 +74,18 @@ def read_formulas(path: str) -> list[tuple[str, str]]:
     Raises
     ------
     InputError
-        The file cannot be read or holds no formulas.
+        The file cannot be read, is not UTF-8 or holds no formulas.
     """
     try:
-        with open(path, encoding="utf-8-sig", newline="") as fh:
-            text = fh.read()
+        with open(path, "rb") as fh:
+            raw = fh.read()
     except OSError as exc:
         raise InputError(f"cannot read '{path}' ({exc.strerror})", "check the path") from None
-    return parse_formulas(text, path)
+    try:
+        text = raw.decode("utf-8-sig")
+    except UnicodeDecodeError as exc:
+        line = raw[: exc.start].count(b"\n") + 1
+        raise InputError(
+            f"'{path}' is not UTF-8 text (byte 0x{raw[exc.start]:02x} on line {line})", "save the file as UTF-8"
+        ) from None
+    return parse_formulas(text.replace("\r\n", "\n"), path)

@@ -80,8 +80,10 @@ from types import MappingProxyType
 
 from enumerator.caches import cached
 from enumerator.errors import InputError
+from enumerator.limits import MAX_CHARGE, MAX_SITES
 from enumerator.model.composition import Composition, LigandKind
 from enumerator.model.elements import element_symbols, is_metal
+from enumerator.parse.text import check_formula_text, check_sites, echo, non_ascii, read_number
 from enumerator.rules.ligands import LigandEntry, all_spellings, load_ligands, spelling_index, split_hapto
 from enumerator.rules.ruleset import RuleSet, closest_names
 
@@ -100,10 +102,10 @@ _HALOGENS = frozenset({"F", "Cl", "Br", "I"})
 #: How to add a ligand, for the end of a message.
 _ADD = "in a ligands.toml under --rules DIR (isosieve ligands lists the catalogue; README: Ligand catalogue)"
 
-_CHARGE = re.compile(r"(\d*)([+-])")
+_CHARGE = re.compile(r"([0-9]*)([+-])")
 _ELEMENT = re.compile(r"[A-Z][a-z]?")
 _WORD = re.compile(r"[A-Za-z0-9*'+-]+")
-_DIGITS = re.compile(r"\d+")
+_DIGITS = re.compile(r"[0-9]+")
 _ALNUM = re.compile(r"[A-Za-z0-9]*")
 #: characters that end a bare run of ligands
 _BREAKS = frozenset("()[] \t")
@@ -211,7 +213,7 @@ def _classes(rules: RuleSet) -> _Classes:
 
 
 def _err(text: str, pos: int, what: str, fix: str, after: str = "") -> InputError:
-    return InputError(f"formula '{text}': {what} at position {pos + 1}{after}", fix)
+    return InputError(f"formula '{echo(text)}': {what} at position {pos + 1}{after}", fix)
 
 
 @dataclass(frozen=True)
@@ -239,7 +241,7 @@ class _Reader:
         m = _DIGITS.match(self.text, i, end)
         if not m:
             return 1, i
-        n = int(m.group(0))
+        n = read_number(m.group(0), self.text, i, "count", MAX_SITES)
         if n == 0:
             raise _err(self.text, i, "a count of 0", "leave the ligand out instead")
         return n, m.end()
@@ -297,7 +299,7 @@ class _Reader:
             return _err(self.text, first, what, fix)
         hint = self.nearest(spelling)
         split = self.separate(spelling, n)
-        tail = f"; or write {split}" if split else ""
+        tail = (f"; or write {split}" if split else "") + non_ascii(spelling)
         return _err(
             self.text,
             j,
@@ -380,7 +382,7 @@ class _Reader:
             self.text,
             j,
             f"unknown ligand '{word}'",
-            self.nearest(word) + " (add your own in a ligands.toml under --rules DIR)" + greedy,
+            self.nearest(word) + " (add your own in a ligands.toml under --rules DIR)" + greedy + non_ascii(word),
         )
 
     # -- rule 2: a head that reads as one molecule -------------------------
@@ -538,8 +540,10 @@ def _split_charge(text: str) -> tuple[int, int, int]:
     if tail:
         m = _CHARGE.fullmatch(tail)
         if not m:
-            raise _err(text, close + 1, f"cannot read the charge '{tail}'", "write it like 2-, + or 3+ right after ']'")
-        n = int(m.group(1) or 1)
+            raise _err(
+                text, close + 1, f"cannot read the charge '{echo(tail)}'", "write it like 2-, + or 3+ right after ']'"
+            )
+        n = read_number(m.group(1) or "1", text, close + 1, "charge", MAX_CHARGE)
         charge = n if m.group(2) == "+" else -n
     return start + 1, close, charge
 
@@ -568,6 +572,7 @@ def read_condensed(text: str, rules: RuleSet, suggest: bool = True) -> Condensed
     """
     if not text or not text.strip():
         raise InputError("empty formula", "give a formula such as [RuCl2(CO)2(PPh3)2]")
+    check_formula_text(text)
     start, stop, charge = _split_charge(text)
     plain = text.replace("−", "-")
     ligands, metals = _Reader(plain, rules, suggest).sequence(start, stop)
@@ -612,4 +617,6 @@ def parse_condensed(text: str, rules: RuleSet, suggest: bool = True) -> Composit
     reading = read_condensed(text, rules, suggest)
     entries = load_ligands(rules)
     parts: tuple[tuple[LigandKind, int], ...] = tuple((entries[n].kind(), c) for n, c in reading.counts())
-    return Composition(formula=text.strip(), parts=parts, metal=reading.metal, charge=reading.charge)
+    comp = Composition(formula=text.strip(), parts=parts, metal=reading.metal, charge=reading.charge)
+    check_sites(comp)
+    return comp

@@ -16,6 +16,7 @@ from enumerator.errors import InputError
 from enumerator.model.composition import Composition
 from enumerator.parse.abstract import looks_abstract, parse_abstract
 from enumerator.parse.condensed import parse_condensed
+from enumerator.parse.text import check_formula_text
 from enumerator.rules.ligands import spelling_index, split_hapto
 from enumerator.rules.ruleset import RuleSet
 
@@ -64,10 +65,13 @@ def parse_formula(text: str, rules: RuleSet) -> Composition:
     Raises
     ------
     InputError
-        Neither reading works; the error of the more likely reading is raised.
+        Neither reading works (the error of the more likely reading is raised); or, before either is tried,
+        the text is too long, holds an unprintable character or nests brackets too deep
+        (:func:`enumerator.parse.text.check_formula_text`).
     """
     if not text or not text.strip():
         raise InputError("empty formula", "give a formula such as Ma4b2 or [RuCl2(CO)2(PPh3)2]")
+    check_formula_text(text)
     if looks_abstract(text):
         # 'Mn', 'Mo', 'Mg', ... also start like the abstract notation
         # ("Mo(CO)6" reads as M + o + a chelate (CO)): a text that the ligand

@@ -45,6 +45,8 @@ from typing import Any
 
 from enumerator.errors import InputError
 from enumerator.parse.request import Request, check_option, option_names, unknown_option
+from enumerator.parse.text import check_label_text
+from enumerator.rules.checks import read_toml
 from enumerator.rules.ruleset import closest_names
 
 __all__ = ["FORMATS", "Job", "JobEntry", "JobOutput", "load_job", "parse_job", "ENTRY_KEYS"]
@@ -124,6 +126,7 @@ def _entry(raw: Any, defaults: Mapping[str, Any], where: str, rules: tuple[str, 
     _keys(e, where, ENTRY_KEYS, ("formula",))
     formula = _text(e, "formula", where, '"[RuCl2(CO)2(PPh3)2]"')
     label = _text(e, "label", where, '"1"') if "label" in e else formula
+    check_label_text(label, f"{where}: label")
     options = {name: check_option(name, e.get(name), where) for name in option_names("entry")}
     options.update(
         (name, check_option(name, value, where)) for name, value in _stage_options(e.get("options", {}), where).items()
@@ -140,6 +143,11 @@ def _output(raw: Any, where: str) -> JobOutput:
     f = raw["file"]
     if not isinstance(f, str) or not f.strip() or Path(f).is_absolute() or ".." in Path(f).parts:
         raise _bad(where, f"file {f!r} must be a relative path inside the job's folder", 'write file = "table.md"')
+    last = f.replace("\\", "/").split("/")[-1]  # as written: pathlib would drop a trailing '/.'
+    if "\0" in f:
+        raise _bad(where, f"file {f!r} holds a NUL character (U+0000), which no file name may", "retype the name")
+    if last.strip() in ("", ".", ".."):
+        raise _bad(where, f"file {f!r} does not name a file", 'write file = "table.md"')
     return JobOutput(raw["format"], f)
 
 
@@ -183,17 +191,27 @@ def parse_job(data: Mapping[str, Any], where: str, rules: Sequence[str] = (), fo
     ------
     InputError
         A missing or unknown key or option (with the nearest names), a value of the wrong kind, a label used
-        twice, an output format not in :data:`FORMATS`, an output path outside the folder.
+        twice, an output format not in :data:`FORMATS`, an output path outside the folder, one that names no
+        file ('.', 'sub/'), or two outputs naming one file.
     """
     _keys(data, where, ("title", "defaults", "complex", "output"), ("complex",))
     title = data.get("title", "")
     if not isinstance(title, str):
         raise _bad(where, "'title' must be a string", 'write title = "..."')
+    check_label_text(title, f"{where}: title")
     entries = _entries(data, where, tuple(rules))
     raw_out = data.get("output", [])
     if not isinstance(raw_out, list):
         raise _bad(where, "'output' must be a list of [[output]] tables", "write [[output]] with format and file")
     outputs = tuple(_output(o, f"{where} [[output]] #{k}") for k, o in enumerate(raw_out, start=1))
+    for k, o in enumerate(outputs):
+        for j in range(k):
+            if Path(outputs[j].file) == Path(o.file):
+                raise _bad(
+                    f"{where} [[output]] #{k + 1}",
+                    f"file {o.file!r} is the file of [[output]] #{j + 1} ({outputs[j].file!r})",
+                    "give each output its own file",
+                )
     return Job(title, entries, outputs, folder)
 
 
@@ -214,15 +232,13 @@ def load_job(path: str, rules: Sequence[str] = ()) -> Job:
     Raises
     ------
     InputError
-        The file cannot be read, is not TOML, or does not check (:func:`parse_job`).
+        The file cannot be read, is not UTF-8 TOML, nests too deeply, or does not check (:func:`parse_job`).
     """
-    import tomllib
-
-    try:
-        with open(path, "rb") as fh:
-            data = tomllib.load(fh)
-    except OSError as exc:
-        raise InputError(f"cannot read job file '{path}' ({exc.strerror})", "check the path") from None
-    except tomllib.TOMLDecodeError as exc:
-        raise InputError(f"job file '{path}': TOML syntax error ({exc})", "fix the file at that line") from None
+    data = read_toml(path, _job_error)
     return parse_job(data, str(path), rules, str(Path(path).parent))
+
+
+def _job_error(where: Any, what: str, fix: str) -> InputError:
+    if what.startswith("cannot read"):
+        return InputError(f"cannot read job file '{where}'{what[len('cannot read') :]}", "check the path")
+    return InputError(f"job file '{where}': {what}", fix)

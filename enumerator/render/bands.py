@@ -14,18 +14,27 @@ from collections.abc import Sequence
 from enumerator.render.text import table
 from enumerator.vibrations.fitting import FitResult
 from enumerator.vibrations.matching import MatchResult
+from enumerator.vibrations.pattern import BandPattern
 from enumerator.vibrations.solver import Band
 from enumerator.workflow.bands import BandsResult, ClassBands, IsomerBands, MatchReport
 
 __all__ = ["bands_text", "match_text", "bands_plot", "match_plot", "bands_panels", "match_panels"]
 
-_HEADER = ["cm-1", "species", "deg", "rel. int.", "IR", "Raman"]
+_HEADER = ["cm-1", "± cm-1", "species", "deg", "rel. int.", "IR", "Raman"]
 
 
-def _ir_cell(b: Band) -> str:
+def _ir_cell(cb: ClassBands, b: Band) -> str:
+    if cb.predicted_weak(b):
+        return "IR (predicted weak: bond dipoles cancel)"
     if b.ir_active:
         return "IR"
-    return "IR (weak: bond dipoles cancel)" if b.dipole_forbidden else "-"
+    return "IR (zero with these constants)" if b.ir_allowed else "-"
+
+
+def _sigma_cell(cb: ClassBands, b: Band) -> str:
+    if b.sigma is not None:
+        return f"{b.sigma:.0f}"
+    return f"{cb.sigma[0]:.0f}*"
 
 
 def _fit_lines(fr: FitResult) -> list[str]:
@@ -50,20 +59,33 @@ def _class_lines(entry: IsomerBands, cb: ClassBands) -> list[str]:
     rows = [
         [
             f"{b.wavenumber:.1f}",
+            _sigma_cell(cb, b),
             b.species or "-",
             str(b.degeneracy),
             f"{b.intensity:.3f}",
-            _ir_cell(b),
+            _ir_cell(cb, b),
             "R" if b.raman_allowed else "-",
         ]
         for b in pat.bands
     ]
     lines.append(table(_HEADER, rows, indent="  "))
+    ir = cb.modes.ir_text() if cb.modes is not None else str(cb.ir_allowed)
+    sigma, default = cb.sigma
+    lines.append(
+        f"  IR: {ir}; position uncertainty ± {sigma:.0f} cm-1"
+        + (f" (* the {pat.reporter_class} default: the band model gives none)" if default else _model_tag(pat))
+    )
     lines += [f"  note: {n}" for n in pat.notes]
     if cb.fit is not None:
         lines += _fit_lines(cb.fit)
     lines.append("")
     return lines
+
+
+def _model_tag(pat: BandPattern) -> str:
+    """Which model gave the sigma shown, and the ligands it widened it for."""
+    name = "additive band model" if pat.model_name == "additive" else "band model"
+    return f" ({name}" + (f"; widened for {', '.join(pat.fallbacks)}" if pat.fallbacks else "") + ")"
 
 
 def _safety_lines(safety: Sequence[str]) -> list[str]:
@@ -86,6 +108,9 @@ def bands_text(result: BandsResult) -> str:
     for entry in result.isomers:
         for cb in entry.patterns:
             lines += _class_lines(entry, cb)
+    lines += [f"note: {n}" for n in result.notes]
+    if result.notes:
+        lines.append("")
     lines += _safety_lines(result.safety)
     return "\n".join(lines).rstrip() + "\n"
 
@@ -95,6 +120,14 @@ def _measured_text(res: MatchResult) -> str:
     for v, x in zip(res.measured, res.measured_intensity or [None] * len(res.measured)):
         out.append(f"{v:g}" + (f" ({x:g})" if x is not None else ""))
     return ", ".join(out)
+
+
+_DECISION = {
+    "strong": "strong evidence",
+    "favoured": "favoured, not decisive",
+    "undecided": "the data cannot decide",
+    "single": "one candidate",
+}
 
 
 def match_text(report: MatchReport) -> str:
@@ -112,9 +145,20 @@ def match_text(report: MatchReport) -> str:
     res = report.match
     lines = [
         f"{report.formula} on {report.geometry}: {len(res.candidates)} candidate(s) for "
-        f"{res.reporter_class} bands at {_measured_text(res)} cm-1 (tolerance {res.tolerance:g} cm-1)",
+        f"{res.reporter_class} bands at {_measured_text(res)} cm-1 (measurement term ± {res.tolerance:g} cm-1; "
+        f"window {res.window[0]:g}-{res.window[1]:g} cm-1)",
         "",
     ]
+    if "widened" in res.window_source:
+        lines[-1:-1] = [f"window: {res.window_source}"]
+    if not res.reliable:
+        lines += ["UNRELIABLE: " + res.notes[0], ""]
+    lines.append(
+        "ranking: "
+        + ", ".join(f"{'/'.join(c.isomers)} {c.probability:.2f}" for c in res.candidates)
+        + f" ({_DECISION[res.decision]})"
+    )
+    lines.append("")
     for c in res.candidates:
         lines += [c.explanation, ""]
     lines += [f"note: {n}" for n in res.notes]
@@ -141,7 +185,8 @@ def match_panels(report: MatchReport) -> list[tuple[str, tuple[Band, ...]]]:
     return [
         (
             f"{report.formula} #{c.rank} isomer {'/'.join(c.isomers)} "
-            f"({', '.join(x for x in (c.point_group, c.descriptor) if x)}), shift {c.shift:+.2f} mdyn/Å",
+            f"({', '.join(x for x in (c.point_group, c.descriptor) if x)}), p = {c.probability:.2f}, "
+            f"shift {c.shift_cm1:+.0f} cm-1",
             c.shifted,
         )
         for c in report.match.candidates
@@ -173,7 +218,7 @@ def bands_plot(result: BandsResult, fmt: str = "svg", width_cm1: float = 10.0, d
 def match_plot(report: MatchReport, fmt: str = "svg", dpi: int = 150) -> bytes:
     """Each candidate's shifted prediction over the measured bands.
 
-    The Lorentzian width is the match tolerance.
+    The Lorentzian width is 10 cm-1 (a typical solution IR band, common practice).
 
     Parameters
     ----------
@@ -189,4 +234,4 @@ def match_plot(report: MatchReport, fmt: str = "svg", dpi: int = 150) -> bytes:
     res = report.match
     from enumerator.render.plots import picture, spectra_figure  # only a plot needs matplotlib's helpers
 
-    return picture(spectra_figure(match_panels(report), measured=list(res.measured), width_cm1=res.tolerance), fmt, dpi)
+    return picture(spectra_figure(match_panels(report), measured=list(res.measured), width_cm1=10.0), fmt, dpi)

@@ -43,4 +43,5 @@ def render_geometries(catalogue: GeometryCatalogue, as_json: bool = False) -> st
     text = table(_HEADER, rows)
     if any(g.linear for g in catalogue.geometries):
         text += "\n" + _LINEAR_NOTE
+    text += "".join(f"\nnote: {g.adjusted}" for g in catalogue.geometries if g.adjusted)
     return text + "\n"

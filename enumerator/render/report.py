@@ -196,7 +196,7 @@ def _label(x: float, y: float, text: str, size: int, italic: bool = False, grey:
 
 
 # ---------------------------------------------------------------- pair grid
-_TECH_ORDER = ("ir", "raman", "nmr")
+_TECH_ORDER = ("ir", "ir (pattern)", "raman", "nmr")
 
 
 def _pair_ids(entry: Mapping[str, Any]) -> tuple[str, str] | None:
@@ -210,8 +210,13 @@ def _pair_ids(entry: Mapping[str, Any]) -> tuple[str, str] | None:
     return None
 
 
+#: Pair keys that qualify a verdict rather than name a technique.
+_QUALIFIER_KEYS = ("ir_bond_dipole_distinct", "ir_pattern_distinct", "cheapest_qualifier", "cheapest")
+
+
 def _distinguishers(entry: Mapping[str, Any]) -> list[str]:
-    """Which techniques tell a pair apart, as short labels."""
+    """Which techniques tell a pair apart, as short labels ('IR (pattern)' for the IR pattern tier; IR counts
+    that differ only by bands predicted weak are left out, as the pair verdicts leave them out)."""
     for key in ("distinguished_by", "by", "techniques", "methods"):
         v = entry.get(key)
         if isinstance(v, (list, tuple)):
@@ -220,12 +225,18 @@ def _distinguishers(entry: Mapping[str, Any]) -> list[str]:
     for k, v in entry.items():
         if k in ("a", "b", "pair", "isomers", "ids", "first", "second", "isomer_a", "isomer_b", "i", "j"):
             continue
+        if k in _QUALIFIER_KEYS:
+            continue
         if isinstance(v, bool) and v:
             out.append(k[: -len("_distinct")] if k.endswith("_distinct") else k)
         elif isinstance(v, Mapping):
             flag = v.get("distinguishable", v.get("distinct", v.get("differs")))
             if flag is True:
                 out.append(k)
+    if "ir" in out and entry.get("ir_bond_dipole_distinct") is False:
+        out.remove("ir")
+    if entry.get("ir_pattern_distinct") is True and "ir" not in out:
+        out.append("IR (pattern)")
     return out
 
 
@@ -296,7 +307,8 @@ def pair_grid_html(ids: Sequence[str], pairs: Any) -> str:
         The isomer ids, in table order.
     pairs : list or mapping
         The top-level ``pairs`` of a result: entries ``{"a", "b", "ir_distinct", "raman_distinct",
-        "nmr_distinct", "note"}``; ``distinguished_by`` lists and mappings keyed "a|b" are read too.
+        "nmr_distinct", "note", "ir_bond_dipole_distinct", "ir_pattern_distinct"}``; ``distinguished_by``
+        lists and mappings keyed "a|b" are read too.
 
     Returns
     -------
@@ -313,7 +325,10 @@ def pair_grid_html(ids: Sequence[str], pairs: Any) -> str:
         'style="background:repeating-linear-gradient(45deg,#fff 0 4px,#bbb 4px 6px)">none (hatched): '
         'not distinguishable</span><span style="background:#fde0c5">one technique</span>'
         '<span style="background:#f59e5a">two</span>'
-        '<span style="background:#a4471a;color:#fff">three or more</span></p>'
+        '<span style="background:#a4471a;color:#fff">three or more</span>'
+        "<span>IR = IR band counts differ; IR (pattern) = the predicted IR band patterns differ beyond the band "
+        "model's uncertainty (idealised bond-dipole intensities); IR counts that differ only by bands predicted "
+        "weak are not counted</span></p>"
     )
     return (
         '<table class="grid"><thead><tr><th>isomer</th>'
@@ -371,7 +386,12 @@ def _pairs_text(pairs: Sequence[tuple[str, str]]) -> str:
     return shown + (f" and {len(pairs) - _MAX_LISTED} more" if len(pairs) > _MAX_LISTED else "")
 
 
-_TECH = {"IR": "IR band counts", "Raman": "Raman band counts (not IR)", "NMR": "NMR signal counts (not IR or Raman)"}
+_TECH = {
+    "IR": "IR band counts",
+    "IRp": "IR band patterns (equal counts; positions or intensities predicted apart beyond the model's uncertainty)",
+    "Ra": "Raman band counts (not IR)",
+    "NMR": "NMR signal counts (not IR or Raman)",
+}
 
 
 def _telling(a: StretchAnalysis | None) -> list[str]:
@@ -384,11 +404,11 @@ def _telling(a: StretchAnalysis | None) -> list[str]:
         return [f"{k}: {v} pair(s)" for k, v in sorted(tally.items())]
     by: dict[str, list[tuple[str, str]]] = {}
     for p in a.pairs():
-        key = "en" if p.note == "enantiomers" else (p.cheapest or "--")
+        key = p.code
         by.setdefault(key, []).append((p.a, p.b))
     out = [f"{_TECH[k]} tell apart {len(by[k])} pair(s): {_pairs_text(by[k])}" for k in _TECH if k in by]
     if "--" in by:
-        out.append(f"no count tells apart {len(by['--'])} pair(s): {_pairs_text(by['--'])}")
+        out.append(f"neither counts nor IR patterns tell apart {len(by['--'])} pair(s): {_pairs_text(by['--'])}")
     if "en" in by:
         out.append(
             f"enantiomers ({_pairs_text(by['en'])}): the same by IR, Raman and NMR in achiral media (use CD or X-ray)"

@@ -199,14 +199,25 @@ def descriptor_sections(a: DescriptorAnalysis) -> tuple[Section, ...]:
 MATRIX_MAX = 24
 #: At most this many isomers are listed in the axes section.
 AXES_MAX = 40
+_LEGEND_CODES = (
+    "IR = IR band counts differ; IRp = IR told apart by the band pattern (positions and intensities predicted "
+    "by the band model differ beyond its uncertainty; idealised bond-dipole intensities), not by counts; "
+    "Ra = Raman counts; NMR = NMR signal counts; cost order IR < IRp < Raman < NMR"
+)
 _LEGEND_TAIL = (
-    "-- = same counts by all three; en = enantiomers (same by IR, Raman and NMR in achiral media: use CD or X-ray)"
+    "-- = told apart by none of these; en = enantiomers (same by IR, Raman and NMR in achiral media: use CD or X-ray)"
+)
+_WEAK_NOTE = (
+    "IR counts bands symmetry allows; '(n predicted weak)': n of them have zero bond-dipole intensity (trans "
+    "oscillators in phase), expect them weak or absent; IR counts that differ only by such bands are not used "
+    "to tell a pair apart"
 )
 
 
 @sections.register(StretchAnalysis)
 def stretch_sections(a: StretchAnalysis) -> tuple[Section, ...]:
-    """The axes behind the Mulliken labels, the pair matrix (or tally), and the spectroscopy notes.
+    """The axes behind the Mulliken labels, the pair matrix (or tally) with its IR pattern tier, and the
+    spectroscopy notes.
 
     Parameters
     ----------
@@ -221,12 +232,17 @@ def stretch_sections(a: StretchAnalysis) -> tuple[Section, ...]:
         lines.append(f"... {len(a.ids) - AXES_MAX} more in --json ('axes')")
     out = [
         Section("Axes behind the Mulliken labels (rule in the README)", "\n".join(lines)),
-        Section("Which isomer pairs IR, Raman or NMR tell apart (band / signal counts)", pair_matrix_text(a)),
+        Section(
+            "Which isomer pairs IR, Raman or NMR tell apart (band / signal counts, IR band patterns)",
+            pair_matrix_text(a),
+        ),
     ]
     notes = []
     flux = a.fluxional_note()
     if flux:
         notes.append(flux)
+    if any(m.ir_weak for ms in a.modes for m in ms):
+        notes.append(_WEAK_NOTE)
     for c in a.info:
         notes.append(f"{c.key}: typical {c.bond} stretch {c.window[0]:g}-{c.window[1]:g} cm-1 ({c.source})")
     if notes:
@@ -250,8 +266,8 @@ def pair_tally_text(a: StretchAnalysis) -> str:
     total = n * (n - 1) // 2
     where = "list in --json 'pairs'" if total <= MAX_LISTED_PAIRS else "per-isomer numbers in --json 'pair_signatures'"
     body = f"{n} isomers, {total} pairs ({where}): " + ", ".join(f"{k} {v}" for k, v in sorted(tally.items()))
-    legend = "first technique whose counts differ (cost order IR < Raman < NMR); " + _LEGEND_TAIL
-    return "\n".join([body, legend])
+    legend = "first verdict that tells the pair apart (cost order IR < IR (pattern) < Raman < NMR); " + _LEGEND_TAIL
+    return "\n".join([body, legend, a.pattern_status()])
 
 
 def pair_matrix_text(a: StretchAnalysis) -> str:
@@ -272,22 +288,22 @@ def pair_matrix_text(a: StretchAnalysis) -> str:
     if n < 2:
         return "only one isomer: nothing to tell apart"
     pairs = a.pairs()
-    code = {"IR": "IR", "Raman": "Ra", "NMR": "NMR"}
     cell: dict[tuple[str, str], str] = {}
     for p in pairs:
-        c = "en" if p.note == "enantiomers" else (code[p.cheapest] if p.cheapest else "--")
-        cell[(p.a, p.b)] = cell[(p.b, p.a)] = c
-    legend = (
-        "cell = cheapest technique whose counts differ: IR, Ra (Raman) or NMR, in cost order IR < Raman < NMR; "
-        + _LEGEND_TAIL
-    )
+        cell[(p.a, p.b)] = cell[(p.b, p.a)] = p.code
+    legend = "cell = cheapest verdict: " + _LEGEND_CODES + "; " + _LEGEND_TAIL
     w = max(3, max(len(i) for i in a.ids))
     rows = [" " * w + " " + " ".join(i.rjust(w) for i in a.ids)]
     for x in a.ids:
         rows.append(x.rjust(w) + " " + " ".join(("." if x == y else cell[(x, y)]).rjust(w) for y in a.ids))
-    same = [(p.a, p.b) for p in pairs if p.cheapest is None and p.note != "enantiomers"]
     tail = []
+    same = [(p.a, p.b) for p in pairs if p.cheapest is None and p.note != "enantiomers"]
     if same:
         shown = ", ".join(f"{x}/{y}" for x, y in same[:12]) + (" ..." if len(same) > 12 else "")
-        tail.append(f"not told apart by counts: {shown}")
+        tail.append(f"told apart by none of these: {shown}")
+    weak_only = [(p.a, p.b) for p in pairs if p.ir and not p.ir_dipole and p.note != "enantiomers"]
+    if weak_only:
+        shown = ", ".join(f"{x}/{y}" for x, y in weak_only[:12]) + (" ..." if len(weak_only) > 12 else "")
+        tail.append(f"IR counts differ only by bands predicted weak: {shown}")
+    tail.append(a.pattern_status())
     return "\n".join(["\n".join(rows), legend] + tail)

@@ -332,7 +332,7 @@ def _texcell_text(kind: str, value: str) -> str:
     if kind == "symbol":
         return latex_symbol(value)
     if kind == "species":
-        return " + ".join(latex_species(t.strip()) for t in value.split("+"))
+        return " + ".join(latex_species(t.strip()) for t in re.split(r"\s\+\s", value))
     if kind == "formula":
         return formula_tex(value)
     if kind in ("descriptor", "id", "count"):

@@ -139,7 +139,7 @@ def latex_species(text: str) -> str:
     -------
     str
     """
-    terms = [t.strip() for t in text.split("+")] if text.strip() else []
+    terms = [t.strip() for t in re.split(r"\s\+\s", text)] if text.strip() else []
     out = []
     for t in terms:
         m = re.match(r"^(\d*)\s*(\S+)$", t)
@@ -237,7 +237,7 @@ def html_species(text: str) -> str:
     import html
 
     out = []
-    for t in (t.strip() for t in text.split("+")) if text.strip() else ():
+    for t in (t.strip() for t in re.split(r"\s\+\s", text)) if text.strip() else ():
         m = re.match(r"^(\d*)\s*(\S+)$", t)
         if not m or not _IRREP.match(m.group(2)):
             return html.escape(text)

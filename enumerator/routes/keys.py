@@ -31,6 +31,7 @@ from collections.abc import Mapping, Sequence
 from types import MappingProxyType
 
 from enumerator.caches import cached
+from enumerator.isomers.counting import check_size
 from enumerator.isomers.enumeration import Isomer, IsomerSet, canonical_placement, enumerate_isomers, group_tables
 from enumerator.model.composition import Composition, LigandKind
 from enumerator.model.geometry import Geometry
@@ -157,7 +158,13 @@ def enumerate_isomers_cached(comp: Composition, geometry: Geometry) -> IsomerSet
     Returns
     -------
     IsomerSet
+
+    Raises
+    ------
+    CapacityError
+        More stereoisomers than :data:`enumerator.limits.SIZE_CAP` (checked by their Burnside count first).
     """
+    check_size(comp, geometry)
     return enumerate_isomers(comp, geometry)
 
 

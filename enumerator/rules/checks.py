@@ -21,15 +21,21 @@ enumerator.errors.RuleError: user.toml: unknown key 'nmae'; did you mean 'name'?
 
 from __future__ import annotations
 
+import contextlib
 import difflib
+import sys
 import tomllib
-from collections.abc import Iterable, Mapping
+from collections.abc import Callable, Iterable, Iterator, Mapping
 from pathlib import Path
 from typing import Any
 
-from enumerator.errors import RuleError
+from enumerator.errors import IsosieveError, RuleError
+from enumerator.limits import MAX_TOML_DEPTH
 
-__all__ = ["rule_error", "read_toml", "check_keys", "closest_names"]
+__all__ = ["rule_error", "read_toml", "check_keys", "closest_names", "quiet_rdkit"]
+
+#: Builds the error for one problem in a file: (where, what, fix) -> an error to raise.
+ErrorFactory = Callable[[Any, str, str], IsosieveError]
 
 
 def rule_error(where: str | Path, what: str, fix: str) -> RuleError:
@@ -53,13 +59,18 @@ def rule_error(where: str | Path, what: str, fix: str) -> RuleError:
     return RuleError(f"{where}: {what}", fix)
 
 
-def read_toml(path: Path) -> dict[str, Any]:
-    """Parse one TOML file.
+def read_toml(path: Path | str, error: ErrorFactory = rule_error) -> dict[str, Any]:
+    """Parse one TOML file (a rule file, or a job file with another ``error``).
+
+    The file must be UTF-8 (a byte-order mark is allowed) and may nest tables
+    and arrays at most :data:`~enumerator.limits.MAX_TOML_DEPTH` deep.
 
     Parameters
     ----------
-    path : Path
-        The rule file.
+    path : Path or str
+        The file.
+    error : callable, optional
+        Builds the error raised, from (where, what, fix); :func:`rule_error` by default.
 
     Returns
     -------
@@ -69,15 +80,75 @@ def read_toml(path: Path) -> dict[str, Any]:
     Raises
     ------
     RuleError
-        The file is not valid TOML (with the line and column) or cannot be read.
+        (or what ``error`` builds) The file cannot be read, is not UTF-8, is not valid TOML (with the line
+        and column), or nests too deeply.
     """
     try:
         with open(path, "rb") as fh:
-            return tomllib.load(fh)
-    except tomllib.TOMLDecodeError as exc:
-        raise rule_error(path, f"TOML syntax error ({exc})", "fix the file at that line and column") from None
+            raw = fh.read()
     except OSError as exc:
-        raise rule_error(path, f"cannot read ({exc.strerror})", "check the path and permissions") from None
+        raise error(path, f"cannot read ({exc.strerror})", "check the path and permissions") from None
+    try:
+        text = raw.decode("utf-8-sig")
+    except UnicodeDecodeError as exc:
+        line = raw[: exc.start].count(b"\n") + 1
+        raise error(
+            path,
+            f"the file is not UTF-8 text (byte 0x{raw[exc.start]:02x} on line {line})",
+            "save the file as UTF-8",
+        ) from None
+    try:
+        data = tomllib.loads(text)
+    except tomllib.TOMLDecodeError as exc:
+        raise error(path, f"TOML syntax error ({exc})", "fix the file at that line and column") from None
+    except RecursionError:
+        data = None
+    if data is None or _depth(data) > MAX_TOML_DEPTH:
+        raise error(
+            path,
+            f"tables and arrays nested more than {MAX_TOML_DEPTH} deep",
+            "check the brackets (these files nest a few levels at most)",
+        )
+    return data
+
+
+def _depth(value: Any) -> int:
+    """How deep tables and arrays nest in parsed TOML (without recursion)."""
+    deepest = 0
+    stack: list[tuple[Any, int]] = [(value, 0)]
+    while stack:
+        v, d = stack.pop()
+        if isinstance(v, dict):
+            children: Iterable[Any] = v.values()
+        elif isinstance(v, list):
+            children = v
+        else:
+            continue
+        deepest = max(deepest, d + 1)
+        if deepest > MAX_TOML_DEPTH:
+            return deepest
+        stack.extend((c, d + 1) for c in children)
+    return deepest
+
+
+@contextlib.contextmanager
+def quiet_rdkit() -> Iterator[None]:
+    """Silence RDKit's C++ log while a rule file is checked: its findings become one RuleError line instead.
+
+    Yields
+    ------
+    None
+    """
+    if "rdkit" not in sys.modules:
+        # nothing has loaded RDKit, so nothing before this block can log through it, and checking the built-in
+        # rules must not import it (an abstract formula never needs it); the readers that load it inside the
+        # block hold its messages back themselves (the SMILES reader, enumerator.model.elements)
+        yield
+        return
+    from rdkit import rdBase
+
+    with rdBase.BlockLogs():
+        yield
 
 
 def check_keys(table: Mapping[str, Any], where: str, required: Iterable[str], optional: Iterable[str] = ()) -> None:

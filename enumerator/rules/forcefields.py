@@ -32,7 +32,7 @@ from typing import Any
 from enumerator.caches import cached
 from enumerator.errors import InputError
 from enumerator.model.elements import is_element, isotope_mass
-from enumerator.rules.checks import check_keys, closest_names, read_toml, rule_error
+from enumerator.rules.checks import check_keys, closest_names, quiet_rdkit, read_toml, rule_error
 from enumerator.rules.ruleset import RuleSet, load_rules
 
 __all__ = ["ClassField", "load_forcefields", "class_field", "atom_mass", "element_mass"]
@@ -218,14 +218,15 @@ def load_forcefields(rules: RuleSet) -> Mapping[str, ClassField]:
         For any malformed file, table or key.
     """
     out: dict[str, ClassField] = {}
-    for path in rules.files("forcefields.toml"):
-        data = read_toml(path)
-        check_keys(data, str(path), (), ("class",))
-        classes = data.get("class", {})
-        if not isinstance(classes, dict):
-            raise rule_error(path, "'class' is not a table of tables", "write [class.CO], [class.CN], ...")
-        for name in sorted(classes):
-            out[name] = _parse_class(path, name, classes[name])
+    with quiet_rdkit():  # element and isotope look-ups go through RDKit's periodic table
+        for path in rules.files("forcefields.toml"):
+            data = read_toml(path)
+            check_keys(data, str(path), (), ("class",))
+            classes = data.get("class", {})
+            if not isinstance(classes, dict):
+                raise rule_error(path, "'class' is not a table of tables", "write [class.CO], [class.CN], ...")
+            for name in sorted(classes):
+                out[name] = _parse_class(path, name, classes[name])
     return MappingProxyType(out)
 
 

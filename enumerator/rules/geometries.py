@@ -27,20 +27,25 @@ from __future__ import annotations
 import math
 import re
 from collections.abc import Iterable, Mapping
+from dataclasses import replace
 from pathlib import Path
 from types import MappingProxyType
 from typing import Any
 
+from enumerator.limits import MAX_SITES
 from enumerator.model.geometry import SPANS, Geometry
 from enumerator.rules.checks import check_keys, read_toml, rule_error
+from enumerator.rules.snapping import Ambiguous, Snap, snap_sites
 from enumerator.symmetry.derive import Vec
+from enumerator.symmetry.operations import GroupIdentificationError
+from enumerator.tolerances import SITE_AMBIGUITY_TOL, SITE_SNAP_TOL
 
 __all__ = ["parse_geometry", "load_geometries"]
 
 #: An IUPAC polyhedral symbol (IR-9.3.2.1: capitals, hyphen, coordination number), or a name of the
 #: tool's own for a shape IUPAC does not list: a lower-case word, hyphen, coordination number
 #: ('hexplane-6'), which cannot pass for an IUPAC symbol.
-_SYMBOL = re.compile(r"^(?:[A-Z]{1,5}|[a-z]{3,12})-(\d{1,2})$")
+_SYMBOL = re.compile(r"^(?:[A-Z]{1,5}|[a-z]{3,12})-([0-9]{1,2})$")
 _OPTIONAL = ("coordination_number", "default_span", "fluxional", "note", "default_for_abstract", "source")
 #: Two site directions closer than this (unit vectors, Euclidean distance) are the same site.
 _SAME_SITE = 1e-3
@@ -61,6 +66,12 @@ def _site_vectors(sites: Any, where: str) -> tuple[Vec, ...]:
         "sites must be a list of [x, y, z] directions",
         "give sites = [[0, 0, 1], ...]",
     )
+    _expect(
+        len(sites) <= MAX_SITES,
+        where,
+        f"{len(sites)} sites are listed, more than the {MAX_SITES} a geometry may have",
+        f"give at most {MAX_SITES} sites",
+    )
     vecs: list[Vec] = []
     for k, s in enumerate(sites):
         ok = isinstance(s, list) and len(s) == 3
@@ -76,7 +87,7 @@ def _site_vectors(sites: Any, where: str) -> tuple[Vec, ...]:
     return tuple(vecs)
 
 
-def parse_geometry(path: str | Path, data: Mapping[str, Any], derive: bool = True) -> Geometry:
+def parse_geometry(path: str | Path, data: Mapping[str, Any], snap: bool = False, derive: bool = True) -> Geometry:
     """One validated geometry from the parsed TOML of a geometry file.
 
     Parameters
@@ -85,6 +96,9 @@ def parse_geometry(path: str | Path, data: Mapping[str, Any], derive: bool = Tru
         The file (named in errors and kept as ``Geometry.source``).
     data : Mapping[str, Any]
         Its parsed TOML.
+    snap : bool
+        Symmetrise vectors typed with few figures (:mod:`enumerator.rules.snapping`); done for user files,
+        whose ``Geometry.adjusted`` then says which group was found and how far each site moved.
     derive : bool, optional
         Derive the symmetry operations now, so that a degenerate site set
         fails here (default); False leaves them to the first use.
@@ -97,7 +111,8 @@ def parse_geometry(path: str | Path, data: Mapping[str, Any], derive: bool = Tru
     Raises
     ------
     RuleError
-        A key is missing, unknown or malformed, or the sites are degenerate.
+        A key is missing, unknown or malformed, there are more than :data:`~enumerator.limits.MAX_SITES`
+        sites, the sites are degenerate, their near-symmetry is ambiguous, or their group cannot be named.
     """
     where = str(path)
     check_keys(data, where, required=("symbol", "name", "sites"), optional=_OPTIONAL)
@@ -136,10 +151,11 @@ def parse_geometry(path: str | Path, data: Mapping[str, Any], derive: bool = Tru
         _expect(isinstance(data.get(key, False), bool), where, f"{key} must be true or false", f"write {key} = true")
     note = data.get("note", "")
     _expect(isinstance(note, str), where, "note must be a string", "quote it")
+    snapped = _snap(vecs, where) if snap else None
     geo = Geometry(
         symbol=sym,
         name=data["name"],
-        vectors=vecs,
+        vectors=snapped.vectors if snapped is not None and snapped.moved else vecs,
         default_span=span,
         fluxional=data.get("fluxional", False),
         note=note,
@@ -147,20 +163,53 @@ def parse_geometry(path: str | Path, data: Mapping[str, Any], derive: bool = Tru
         source=where,
     )
     if derive and not geo.linear and len(vecs) >= 2:
-        _ = geo.operations  # derive once now so that a degenerate set fails at load
+        try:  # derive once now so that a degenerate set fails at load (and, for a user file, name its group)
+            _ = (geo.operations, geo.point_group) if snap else geo.operations
+        except GroupIdentificationError as exc:
+            raise rule_error(where, f"the symmetry group of these sites cannot be named ({exc})", _GROUP_FIX) from None
+    if snapped is not None and snapped.moved:
+        geo = replace(geo, adjusted=_adjusted(geo, snapped))
     return geo
 
 
-def load_geometries(paths: Iterable[Path], trusted: Path | None = None) -> Mapping[str, Geometry]:
-    """Every geometry of the given files; a later file with the same symbol replaces an earlier one.
+_GROUP_FIX = (
+    "the tool names point groups with rotation axes of order up to 60; use fewer sites or a less symmetric shape"
+)
+
+
+def _snap(vecs: tuple[Vec, ...], where: str) -> Snap:
+    try:
+        return snap_sites(vecs)
+    except Ambiguous as exc:
+        raise rule_error(
+            where,
+            f"the sites are near more than one symmetry: {exc}",
+            f"give the vectors to 6 or more significant figures if the shape is meant to be symmetric, or make a "
+            f"distortion clear (more than {SITE_AMBIGUITY_TOL:g} from the symmetric shape, about 1.7 degrees)",
+        ) from None
+
+
+def _adjusted(geo: Geometry, snapped: Snap) -> str:
+    """The note of a snapped geometry: the group found and how far each site moved."""
+    moves = ", ".join(f"{k + 1}: {m:.1e}" for k, m in enumerate(snapped.moves) if m > 1e-12)
+    return (
+        f"{geo.symbol} ({geo.source}): the sites as typed are within {SITE_SNAP_TOL:g} of {geo.point_group} "
+        f"symmetry ({snapped.order} operations; {snapped.exact_order} as typed) and were symmetrised to it; "
+        f"sites moved (unit-vector lengths) {moves}"
+    )
+
+
+def load_geometries(paths: Iterable[Path], builtin: Path | None = None) -> Mapping[str, Geometry]:
+    """Every geometry of the given files; a user file may replace a built-in geometry of the same shape.
 
     Parameters
     ----------
     paths : iterable of Path
         Geometry files, built-in first (``RuleSet.files("geometries/*.toml")``).
-    trusted : Path, optional
-        The built-in folder: its geometries' operations are derived on first
-        use instead of at load (every other file is checked in full at load).
+    builtin : Path, optional
+        The built-in rules folder: its files are read as they are, every other file is a user file, whose
+        vectors are symmetrised (:func:`parse_geometry` with ``snap``) and their operations derived at
+        load; the built-in geometries' operations are derived on first use.
 
     Returns
     -------
@@ -170,12 +219,30 @@ def load_geometries(paths: Iterable[Path], trusted: Path | None = None) -> Mappi
     Raises
     ------
     RuleError
-        A file is malformed, or two geometries of one coordination number are
-        both marked ``default_for_abstract``.
+        A file is malformed; two user files share a symbol (in any case); a user file gives a built-in
+        symbol to another shape (other site count or point group), which the naming rules of that symbol
+        would misread; two geometries of one coordination number are both marked ``default_for_abstract``.
     """
     geos: dict[str, Geometry] = {}
+    builtins: dict[str, Geometry] = {}
+    users: dict[str, Geometry] = {}
     for path in paths:
-        g = parse_geometry(path, read_toml(path), derive=trusted is None or trusted not in Path(path).parents)
+        user = builtin is None or not Path(path).resolve().is_relative_to(builtin)
+        g = parse_geometry(path, read_toml(path), snap=user and builtin is not None, derive=user)
+        key = g.symbol.lower()
+        if not user:
+            builtins[key] = g
+        elif key in users:
+            raise rule_error(
+                g.source,
+                f"symbol '{g.symbol}' is also given by {users[key].source}",
+                "give each geometry file its own symbol, or remove one of the files",
+            )
+        else:
+            _same_shape(g, builtins.get(key))
+            users[key] = g
+        for old in [s for s in geos if s.lower() == key]:
+            del geos[old]
         geos[g.symbol] = g
     for cn in sorted({g.coordination_number for g in geos.values()}):
         marked = [g for g in geos.values() if g.coordination_number == cn and g.default_for_abstract]
@@ -186,3 +253,18 @@ def load_geometries(paths: Iterable[Path], trusted: Path | None = None) -> Mappi
                 "mark only one",
             )
     return MappingProxyType(geos)
+
+
+def _same_shape(user: Geometry, builtin: Geometry | None) -> None:
+    """Refuse a user file that gives a built-in symbol to another shape."""
+    if builtin is None:
+        return
+    if user.coordination_number != builtin.coordination_number or user.point_group != builtin.point_group:
+        raise rule_error(
+            user.source,
+            f"symbol '{user.symbol}' names the built-in {builtin.name} ({builtin.point_group}, "
+            f"{builtin.coordination_number} sites), but these {user.coordination_number} sites have "
+            f"{user.point_group} symmetry",
+            "give your shape a symbol of its own (a lower-case name such as 'mytet-4' cannot pass for an "
+            "IUPAC symbol), or give the built-in shape's sites",
+        )

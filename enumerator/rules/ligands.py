@@ -53,10 +53,11 @@ from typing import Any
 
 from enumerator.caches import cached
 from enumerator.errors import InputError
+from enumerator.limits import MAX_SMILES_ATOMS, MAX_SMILES_CHARS
 from enumerator.model.composition import ARRANGEMENTS, TOPOLOGIES, LigandKind
 from enumerator.model.elements import element_symbols
 from enumerator.model.geometry import SPANS
-from enumerator.rules.checks import check_keys, closest_names, read_toml, rule_error
+from enumerator.rules.checks import check_keys, closest_names, quiet_rdkit, read_toml, rule_error
 from enumerator.rules.ruleset import BUILTIN_RULES, RuleSet
 
 __all__ = [
@@ -393,6 +394,12 @@ def _smiles(data: Mapping[str, Any], where: str) -> str:
     smiles = data["smiles"]
     if not isinstance(smiles, str) or not smiles.strip():
         raise rule_error(where, "'smiles' must be a non-empty string", 'write e.g. smiles = "[C-:1]#[O+]"')
+    if len(smiles.strip()) > MAX_SMILES_CHARS:
+        raise rule_error(
+            where,
+            f"the SMILES has {len(smiles.strip()):,} characters, more than the {MAX_SMILES_CHARS} read",
+            "a catalogue ligand is one small molecule; check the SMILES",
+        )
     return smiles.strip()
 
 
@@ -515,6 +522,13 @@ def check_smiles(entry: LigandEntry, where: str) -> None:
         raise rule_error(
             where, f"RDKit cannot parse the SMILES {entry.smiles!r}", "check brackets, ring closures and aromaticity"
         )
+    atoms = mol.GetNumAtoms() + sum(a.GetTotalNumHs() for a in mol.GetAtoms())
+    if atoms > MAX_SMILES_ATOMS:
+        raise rule_error(
+            where,
+            f"the SMILES gives {atoms:,} atoms (hydrogens included), more than the {MAX_SMILES_ATOMS} allowed",
+            "a catalogue ligand is one small molecule; check the SMILES",
+        )
     maps = _atom_maps(mol, where)
     want = entry.bound_atoms
     if sorted(maps) != list(range(1, want + 1)):
@@ -549,7 +563,7 @@ def check_smiles(entry: LigandEntry, where: str) -> None:
 
 
 #: A hapticity prefix as formulas write it: ``η5-``, ``η^5-``, ``eta5-``, ``h5-`` (superscript digits too).
-HAPTO_PREFIX = re.compile(r"(?:η\^?|eta\^?|h)([0-9⁰¹²³⁴⁵⁶⁷⁸⁹]+)-")
+HAPTO_PREFIX = re.compile(r"(?:η\^?|eta\^?|h)([0-9⁰¹²³⁴⁵⁶⁷⁸⁹]{1,2})-")
 _SUPERSCRIPT = str.maketrans("⁰¹²³⁴⁵⁶⁷⁸⁹", "0123456789")
 
 
@@ -837,10 +851,11 @@ def _spelling_index(entries: Mapping[str, LigandEntry]) -> tuple[dict[str, str],
 @cached(maxsize=16)
 def _catalogue(rules: RuleSet) -> _Catalogue:
     entries: dict[str, LigandEntry] = {}
-    for path in rules.files("ligands.toml"):
-        for e in _file_entries(path):
-            entries[e.name] = e
-    spellings, index = _spelling_index(entries)
+    with quiet_rdkit():  # RDKit's findings become one RuleError line, not pages of its own log
+        for path in rules.files("ligands.toml"):
+            for e in _file_entries(path):
+                entries[e.name] = e
+        spellings, index = _spelling_index(entries)
     folded: dict[str, set[str]] = {}
     for s, n in spellings.items():
         folded.setdefault(s.lower(), set()).add(n)

@@ -140,6 +140,8 @@ def _reporter_class(key: str, entry: Any, where: str) -> ReporterClass:
             where, "not a table", "write [class.NAME] with name, bond, nucleus, ir_window_cm1, window_source"
         )
     check_keys(entry, where, _REQUIRED, ("caution",))
+    if not isinstance(entry.get("caution", ""), str):
+        raise rule_error(where, f"caution = {entry['caution']!r} is not a string", 'write caution = "..."')
     window = _window(where, entry["ir_window_cm1"])
     for k in ("name", "bond", "nucleus", "window_source"):
         if not isinstance(entry[k], str) or not entry[k].strip():
@@ -169,7 +171,14 @@ def _load_reporters(ruleset: RuleSet) -> Reporters:
     for path in ruleset.files("reporters.toml"):
         data = read_toml(path)
         check_keys(data, str(path), (), ("class", "nuclei"))
-        for key, entry in (data.get("class") or {}).items():
+        for table in ("class", "nuclei"):
+            if not isinstance(data.get(table, {}), dict):
+                raise rule_error(
+                    path,
+                    f"'{table}' is {data[table]!r}, not a table",
+                    "write [class.CO] with its keys below it" if table == "class" else 'write [nuclei] with P = "31P"',
+                )
+        for key, entry in data.get("class", {}).items():
             classes[key] = _reporter_class(key, entry, f"{path}: [class.{key}]")
-        nuclei.update(_nuclei(path, data.get("nuclei") or {}))
+        nuclei.update(_nuclei(path, data.get("nuclei", {})))
     return Reporters(tuple(classes[k] for k in sorted(classes)), tuple(sorted(nuclei.items())))

@@ -126,7 +126,7 @@ class RuleSet:
     @cached_property
     def geometries(self) -> Mapping[str, Geometry]:
         """Every geometry in force by polyhedral symbol (read-only); see :mod:`enumerator.rules.geometries`."""
-        return load_geometries(self.files("geometries/*.toml"), trusted=BUILTIN_RULES)
+        return load_geometries(self.files("geometries/*.toml"), builtin=BUILTIN_RULES)
 
     def geometry(self, symbol: str) -> Geometry:
         """A geometry by its polyhedral symbol.

@@ -304,6 +304,23 @@ def _series(raw: Any, where: str) -> tuple[tuple[str, ...], ...]:
     return tuple(series)
 
 
+def _one_spelling_each(rules: SubstitutionRules, path: Path) -> None:
+    """Refuse a series that lists one catalogued ligand twice under two spellings (Cl and chlorido)."""
+    spell = dict(rules.aliases)
+    first: dict[str, tuple[str, int]] = {}
+    for k, rank in enumerate(rules.series):
+        for x in rank:
+            ligand = spell.get(x, x)
+            if ligand in first and first[ligand][0] != x:
+                y, j = first[ligand]
+                raise rule_error(
+                    path,
+                    f"series: '{y}' (series[{j}]) and '{x}' (series[{k}]) are the same ligand, {ligand}",
+                    "list each ligand once, under one spelling",
+                )
+            first.setdefault(ligand, (x, k))
+
+
 def _check_series_fits(labilises: str, series: tuple[tuple[str, ...], ...], where: str) -> None:
     if labilises == "none" and series:
         raise rule_error(
@@ -397,6 +414,7 @@ def load_substitution_rules(ruleset: RuleSet) -> Mapping[str, SubstitutionRules]
     aliases = tuple(sorted(all_spellings(ruleset).items()))
     for path in ruleset.files("substitution/*.toml"):
         r = replace(_parse_rule_file(path, read_toml(path), geos), aliases=aliases)
+        _one_spelling_each(r, path)
         if r.name in origin and origin[r.name].parent == path.parent:
             raise rule_error(
                 path, f"rule set name '{r.name}' is also used by {origin[r.name]}", "give each file its own name"

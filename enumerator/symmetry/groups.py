@@ -22,7 +22,7 @@ import numpy as np
 
 from enumerator.errors import InputError
 from enumerator.symmetry.operations import GroupIdentificationError, schoenflies
-from enumerator.tolerances import KEY_DECIMALS
+from enumerator.tolerances import KEY_DECIMALS, MAX_ROTATION_ORDER
 
 __all__ = ["GROUP_NAME", "INFINITE_GROUP_NAMES", "group_generators", "close_group", "group_matrices"]
 
@@ -77,6 +77,12 @@ def _axial_generators(name: str) -> list[np.ndarray]:
     if n < 1 or (fam == "S" and (n % 2 or n < 2)) or (fam == "D" and n < 2) or (fam == "S" and suf):
         raise InputError(
             f"'{name}' is not a point group", "S groups have even order (S4, S6, S8); D groups need n >= 2"
+        )
+    axis = 2 * n if (fam, suf) == ("D", "d") else n  # D_nd holds S_2n
+    if axis > MAX_ROTATION_ORDER:
+        raise InputError(
+            f"'{name}' has a {axis}-fold axis; operations are identified up to {MAX_ROTATION_ORDER}-fold",
+            f"ask for a group with n up to {MAX_ROTATION_ORDER} ({MAX_ROTATION_ORDER // 2} for Dnd)",
         )
     sh, sxz, c2x = _mirror([0, 0, 1]), _mirror([0, 1, 0]), _rot([1, 0, 0], math.pi)
     if fam == "S":

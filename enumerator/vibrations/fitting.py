@@ -47,6 +47,7 @@ import math
 import re
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass, field
+from types import MappingProxyType
 from typing import Any
 
 import numpy as np
@@ -63,6 +64,9 @@ __all__ = [
     "fit_constants",
     "parse_bands",
     "fit_linear_model",
+    "check_constants",
+    "dicarbonyl_angle",
+    "CONSTANT_RANGES",
     "MAX_ASSIGNMENTS",
     "SCREEN_KEEP",
 ]
@@ -78,6 +82,81 @@ _LABEL = re.compile(r"^([A-Za-z][A-Za-z0-9'\"_+-]*?)(?:\((\d+)\))?$")
 
 #: A band's identity while the constants move: (species, rank within the species).
 BandKey = tuple[str | None, int]
+
+#: The physical range (mdyn/Å, inclusive) of a force constant typed in (``--constants``, ``--fix``, fit
+#: starts): stretching constants of the reporter bonds lie between about 8 (M-CS) and 23 (free N2, the
+#: stiffest; from memory), so 2-30 leaves room without admitting nonsense; interaction constants are a few
+#: tenths (Cotton & Kraihanzel, J. Am. Chem. Soc. 84 (1962) 4432), 1.0 for nitrosyls here, so -2-3.
+CONSTANT_RANGES = MappingProxyType({"stretch": (2.0, 30.0), "interaction": (-2.0, 3.0)})
+
+
+def check_constants(values: Mapping[str, float], option: str = "--constants") -> None:
+    """Refuse a typed-in force constant outside its physical range (:data:`CONSTANT_RANGES`).
+
+    Parameters
+    ----------
+    values : Mapping[str, float]
+        Constant name -> value in mdyn/Å (``k``, ``k1``, ..., ``kc``, ``kt``).
+    option : str
+        The option the values came from, for the message.
+
+    Raises
+    ------
+    InputError
+        One line naming the constant, its value and the physical range.
+
+    >>> check_constants({"k": 16.2, "kc": 0.3})
+    >>> try:
+    ...     check_constants({"k": 1e308})
+    ... except InputError as exc:
+    ...     print(exc.what)
+    --constants: k = 1e+308 mdyn/Å is outside the physical range of a stretching constant, from 2 to 30 mdyn/Å
+    """
+    example = {"interaction": "kc=0.3", "stretch": "k=16.2"}
+    for name, v in values.items():
+        kind = "interaction" if name in ("kc", "kt") else "stretch"
+        lo, hi = CONSTANT_RANGES[kind]
+        if not (math.isfinite(v) and lo <= v <= hi):
+            what = "an interaction constant" if kind == "interaction" else "a stretching constant"
+            raise InputError(
+                f"{option}: {name} = {v:g} mdyn/Å is outside the physical range of {what}, "
+                f"from {lo:g} to {hi:g} mdyn/Å",
+                f"give a value in that range, e.g. {option} {example[kind]}",
+            )
+
+
+def dicarbonyl_angle(i_sym: float, i_asym: float) -> float:
+    """The angle between two cis oscillators from the intensities of their in-phase and out-of-phase bands.
+
+    In the bond-dipole model (P. S. Braterman, *Metal Carbonyl Spectra*, Academic Press 1975) a cis-M(CO)2
+    unit with OC-M-CO angle 2θ gives I_sym / I_asym = cot²θ, so 2θ = 2 arctan √(I_asym / I_sym).  The
+    in-phase band is the higher one when the interaction constant is positive (Cotton & Kraihanzel).  The
+    model's assumptions (one dipole derivative along each M-C-O axis, no other oscillators coupling) make
+    the angle an estimate.
+
+    Parameters
+    ----------
+    i_sym, i_asym : float
+        Measured intensities of the in-phase (higher) and out-of-phase (lower) bands, any common scale.
+
+    Returns
+    -------
+    float
+        The angle 2θ in degrees.
+
+    Raises
+    ------
+    InputError
+        For an intensity that is not a positive number.
+
+    >>> round(dicarbonyl_angle(1.0, 1.0), 6)
+    90.0
+    >>> round(dicarbonyl_angle(1.0, 3.0), 6)
+    120.0
+    """
+    if not (math.isfinite(i_sym) and math.isfinite(i_asym) and i_sym > 0 and i_asym > 0):
+        raise InputError("the two band intensities must be positive numbers", "give e.g. 2045 (s), 1980 (vs)")
+    return math.degrees(2.0 * math.atan(math.sqrt(i_asym / i_sym)))
 
 
 @dataclass(frozen=True)
@@ -425,6 +504,7 @@ def _observations(measured: Sequence[float | Observation]) -> tuple[Observation,
 
 def _held(model: Model, fixed: Mapping[str, float], tie_ck: bool) -> dict[str, float]:
     """The constants held at given values (``k`` holds every stretching constant)."""
+    check_constants(fixed, "--fix")
     for name in fixed:
         if name not in ("k",) + model.parameter_names:
             raise InputError(
@@ -591,6 +671,8 @@ def fit_constants(
     obs = _observations(measured)
     if not obs:
         raise InputError("no measured bands to fit", "give e.g. --fit 2045,1980,1932")
+    if start:
+        check_constants(start, "--constants")
     values = model.resolve(start)
     held = _held(model, fixed or {}, tie_ck)
     free = _free(model, values, held, tie_ck)

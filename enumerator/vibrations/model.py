@@ -118,6 +118,11 @@ class Model:
     relations: tuple[tuple[int, int, str], ...]
     defaults: tuple[tuple[str, float], ...]
     field: ClassField
+    #: optional per-pair scale of the interaction constants, (i, j, w) for i < j in oscillator order: F_ij is
+    #: kc·w (cis) or kt·w (trans).  Empty (the Cotton–Kraihanzel model) means w = 1 for every pair; the
+    #: additive band model (:mod:`enumerator.vibrations.additive`) sets them so that one kc and one kt
+    #: (the means) carry its angle- and constant-dependent interactions.
+    pair_weights: tuple[tuple[int, int, float], ...] = ()
 
     @property
     def parameter_names(self) -> tuple[str, ...]:
@@ -156,9 +161,10 @@ class Model:
         d = np.zeros((n, n))
         if name in ("kc", "kt"):
             want = "cis" if name == "kc" else "trans"
+            w = {(i, j): v for i, j, v in self.pair_weights}
             for i, j, rel in self.relations:
                 if rel == want:
-                    d[i, j] = d[j, i] = 1.0
+                    d[i, j] = d[j, i] = w.get((i, j), 1.0)
             return d
         for s in self.sets:
             if s.name == name:

@@ -1,5 +1,5 @@
 """From a formula to predicted or matched stretching bands: the library side of
-``isosieve bands`` and ``isosieve match``.
+``isosieve bands`` and ``isosieve match``, and the pipeline's stretch stage.
 
 :func:`predict_spectra` enumerates the isomers of a request, predicts the
 bands of each reporter class on each (one of every enantiomer pair) and, when
@@ -8,9 +8,20 @@ measured bands are given, fits the force constants of one isomer to them;
 one frozen result whose ``to_dict()`` is the command's JSON document; the
 renderers in :mod:`enumerator.render.bands` draw the text and the plots.
 
+:func:`stretch_stage` is the stretch stage of the pipeline
+(:data:`enumerator.workflow.pipeline.STAGES`): the counts of
+:func:`enumerator.analyses.stretch.analysis.stage` plus every isomer's
+predicted IR bands, so the pair verdicts get their IR pattern tier.  It sits
+here because the band model is a layer above the analyses.
+
+An IR band means one thing in every output: a band symmetry allows, counted
+in the IR count, and flagged "predicted weak" when the bond-dipole model
+gives its species zero intensity
+(:attr:`enumerator.analyses.stretch.modes.ModeSet.weak_species`).
+
 >>> r = predict_spectra(Request("[Cr(CO)6]"))
 >>> [(b.species, round(b.wavenumber)) for b in r.isomers[0].patterns[0].pattern.ir_bands]
-[('T1u', 1978)]
+[('T1u', 1985)]
 >>> m = match_spectrum(Request("Ma4b2", reporters=(("a", "CO"),)), [1950.0])
 >>> m.match.candidates[0].point_group
 'D4h'
@@ -25,12 +36,27 @@ from typing import TYPE_CHECKING, Any
 
 from enumerator.analyses.descriptors import describe_isomer
 from enumerator.analyses.safety import cautions
+from enumerator.analyses.stretch.analysis import PATTERN_MAX_ISOMERS, StretchAnalysis, with_patterns
+from enumerator.analyses.stretch.analysis import stage as count_stage
+from enumerator.analyses.stretch.likelihood import PredictedBand, default_sigma
+from enumerator.analyses.stretch.modes import ModeSet, stretch_modes
+from enumerator.analyses.views import RequestView, ResultView
 from enumerator.errors import InputError, IsosieveError
 from enumerator.isomers.enumeration import Isomer, IsomerSet, enumerate_isomers
 from enumerator.model.composition import Composition
 from enumerator.rules.ruleset import RuleSet, load_rules
-from enumerator.vibrations.fitting import FitResult, Observation, fit_constants
-from enumerator.vibrations.matching import DEFAULT_TOLERANCE, DEFAULT_WEAK, MatchResult, match_bands
+from enumerator.vibrations.fitting import FitResult, Observation, check_constants, fit_constants
+from enumerator.vibrations.matching import (
+    DEFAULT_TOLERANCE,
+    DEFAULT_WEAK,
+    IDEALISED_NOTE,
+    MatchResult,
+    check_window,
+    match_bands,
+    pattern_for,
+    predicted_bands,
+    predicted_window,
+)
 from enumerator.vibrations.model import build_model, reporter_classes
 from enumerator.vibrations.pattern import BandPattern, band_pattern
 from enumerator.workflow.pipeline import Request, prepare
@@ -45,6 +71,7 @@ __all__ = [
     "MatchReport",
     "predict_spectra",
     "match_spectrum",
+    "stretch_stage",
 ]
 
 
@@ -53,16 +80,47 @@ class ClassBands:
     """The bands of one reporter class on one isomer, with the fit when one was asked for.
 
     ``reporter_class`` is the class as it was asked for (``--class``), the
-    pattern carries the rule file's spelling.
+    pattern carries the rule file's spelling; ``modes`` are the class's stretch
+    species (which bands are predicted weak).
     """
 
     reporter_class: str
     pattern: BandPattern
     fit: FitResult | None = None
+    modes: ModeSet | None = None
+
+    def predicted_weak(self, band: Any) -> bool:
+        """Whether a band's species is predicted weak (bond-dipole intensity zero by symmetry)."""
+        return self.modes is not None and band.species in self.modes.weak_species
+
+    @property
+    def ir_allowed(self) -> int:
+        """The number of IR bands symmetry allows (the ``isomers`` count)."""
+        if self.modes is not None:
+            return self.modes.ir
+        return len(self.pattern.ir_bands)
+
+    @property
+    def sigma(self) -> tuple[float, bool]:
+        """(the position uncertainty shown, cm-1; whether it is the class default)."""
+        given = [b.sigma for b in self.pattern.bands if b.sigma is not None]
+        if given:
+            return max(given), False
+        return default_sigma(self.pattern.reporter_class), True
 
     def to_dict(self) -> dict[str, Any]:
-        """The pattern's JSON object, with a ``fit`` key when there is a fit."""
+        """The pattern's JSON object, with the IR count as ``isomers`` counts it (symmetry-allowed bands;
+        ``ir_predicted_weak`` of them with bond-dipole intensity ~0, flagged ``predicted_weak`` per band),
+        the position uncertainty, and a ``fit`` key when there is a fit."""
         doc = self.pattern.to_dict()
+        for entry, b in zip(doc.get("bands", []), self.pattern.bands):
+            entry["predicted_weak"] = self.predicted_weak(b)
+        doc["ir_count"] = self.ir_allowed
+        doc["ir_predicted_weak"] = self.modes.ir_weak if self.modes is not None else 0
+        doc["ir_bond_dipole"] = self.ir_allowed - doc["ir_predicted_weak"]
+        sigma, default = self.sigma
+        doc["position_sigma_cm1"] = round(sigma, 1)
+        doc["position_sigma_default"] = default
         if self.fit is not None:
             doc["fit"] = self.fit.to_dict()
         return doc
@@ -106,6 +164,7 @@ class BandsResult:
     isomers: tuple[IsomerBands, ...]
     safety: tuple[str, ...] = ()
     measured: tuple[float, ...] = ()
+    notes: tuple[str, ...] = ()
 
     def to_dict(self) -> dict[str, Any]:
         """The JSON document of ``isosieve bands --json``."""
@@ -114,6 +173,7 @@ class BandsResult:
             "geometry": self.geometry,
             "geometry_reason": self.geometry_reason,
             "isomers": [i.to_dict() for i in self.isomers],
+            "notes": list(self.notes),
             "safety": list(self.safety),
         }
 
@@ -180,8 +240,8 @@ class MatchReport:
 
     def to_dataframe(self) -> pd.DataFrame:
         """One row per candidate, best first: rank, isomers, point group, descriptor, species, IR band count,
-        common shift (mdyn/Å), RMS and largest residual (cm-1), problems (strong bands unseen plus measured
-        bands unassigned).
+        probability (equal priors), common shift (cm-1 at the mean band, and mdyn/Å), RMS and largest residual
+        (cm-1), problems (strong bands unseen plus measured bands unassigned).
 
         Returns
         -------
@@ -197,6 +257,8 @@ class MatchReport:
                 "descriptor": c.descriptor,
                 "species": c.species,
                 "IR bands": len(c.ir_bands),
+                "probability": round(c.probability, 4),
+                "shift (cm-1)": round(c.shift_cm1, 1),
                 "shift": round(c.shift, 3),
                 "RMS": round(c.rms, 2),
                 "max residual": round(c.max_residual, 2),
@@ -217,7 +279,10 @@ class MatchReport:
     def _repr_html_(self) -> str:
         """The ranking (:meth:`to_dataframe`) under a heading naming the measured bands, the cautions below."""
         bands = ", ".join(f"{v:g}" for v in self.match.measured)
-        head = f"{self.formula}: candidates for {self.match.reporter_class} bands at {bands} cm-1"
+        head = (
+            f"{self.formula}: candidates for {self.match.reporter_class} bands at {bands} cm-1 "
+            f"(decision: {self.match.decision})"
+        )
         return _html(head, self.to_dataframe(), self.safety)
 
 
@@ -241,6 +306,8 @@ _MATCH_COLUMNS = (
     "descriptor",
     "species",
     "IR bands",
+    "probability",
+    "shift (cm-1)",
     "shift",
     "RMS",
     "max residual",
@@ -290,16 +357,67 @@ def _class_bands(
     tie_ck: bool,
     others: Sequence[str],
     rules: RuleSet,
+    composition: Composition | None = None,
 ) -> ClassBands:
     """One class on one isomer; ``others`` are the ids of every isomer shown (a fit needs exactly one)."""
     use = _constants_for(iso, cls, constants, rules) if constants and per_isomer else constants
-    pattern = band_pattern(iso, cls, use, rules=rules)
+    pattern = band_pattern(iso, cls, use, rules=rules, composition=composition)
+    modes = stretch_modes(iso, pattern.reporter_class)
     if measured is None:
-        return ClassBands(cls, pattern)
+        return ClassBands(cls, pattern, None, modes)
     if len(others) > 1:
         raise InputError("--fit needs one isomer", f"add --isomer, one of {', '.join(others)}")
     fit = fit_constants(iso, cls, measured, fixed=fixed, tie_ck=tie_ck, start=constants, rules=rules)
-    return ClassBands(cls, pattern, fit)
+    return ClassBands(cls, pattern, fit, modes)
+
+
+def _bands_notes(entries: Sequence[IsomerBands]) -> tuple[str, ...]:
+    """The notes of a ``bands`` answer: the position uncertainty used, and that intensities are idealised."""
+    notes = []
+    defaults = sorted({cb.pattern.reporter_class for e in entries for cb in e.patterns if cb.sigma[1]})
+    if defaults:
+        shown = ", ".join(f"{c} {default_sigma(c):g} cm-1" for c in defaults)
+        notes.append(
+            f"position uncertainty: the class default ({shown}; a tool convention, wider than the band model's), "
+            "where the positions come from the generic constants or typed constants and the band model gives no sigma"
+        )
+    notes.append(IDEALISED_NOTE)
+    notes.append(
+        "IR counts bands symmetry allows; 'predicted weak' marks those the bond-dipole model gives zero intensity "
+        "(trans oscillators in phase): expect them weak or absent"
+    )
+    return tuple(notes)
+
+
+def _check_fit_inputs(
+    comp: Composition,
+    chosen: Sequence[Isomer],
+    classes: Sequence[str],
+    constants: Mapping[str, float] | None,
+    measured: Sequence[Observation] | None,
+    window: tuple[float, float] | None,
+    rules: RuleSet,
+) -> None:
+    """Bound what was typed: the constants to their physical ranges, fitted bands to the class's window (reaching
+    out to the band model's predictions for the isomers shown)."""
+    if constants:
+        check_constants(constants, "--constants")
+    if not measured:
+        return
+    if len(classes) != 1:
+        raise InputError(
+            f"{comp.formula} has several reporter classes ({', '.join(classes)})",
+            f"say which the --fit bands belong to, e.g. --class {classes[0]}",
+        )
+    if window is not None:
+        win, source = window, "widened on purpose with --window"
+    else:
+        preds = [
+            predicted_bands(pattern_for(i, classes[0], rules=rules, composition=comp), stretch_modes(i, classes[0]))
+            for i in chosen
+        ]
+        win, source = predicted_window(classes[0], preds, rules)
+    check_window([o.wavenumber for o in measured], classes[0], win, source, "--fit")
 
 
 def predict_spectra(
@@ -311,6 +429,7 @@ def predict_spectra(
     measured: Sequence[Observation] | None = None,
     fixed: Mapping[str, float] | None = None,
     tie_ck: bool = False,
+    window: tuple[float, float] | None = None,
     progress: Callable[[str, int, int], None] | None = None,
 ) -> BandsResult:
     """Predict the stretching bands of every isomer of a formula, optionally fitting the constants.
@@ -333,6 +452,8 @@ def predict_spectra(
         Constants held during the fit.
     tie_ck : bool
         During the fit tie kt = 2 kc (the Cotton–Kraihanzel approximation).
+    window : (low, high), optional
+        cm-1: accept fitted bands in this window instead of the class's ``ir_window_cm1``.
     progress : callable, optional
         Called as ``progress(isomer id, done, total)`` after each isomer is predicted (and fitted).
 
@@ -344,8 +465,10 @@ def predict_spectra(
     ------
     InputError
         For a formula or isomer that cannot be read, no reporter, a fit over
-        several isomers, or anything :func:`~enumerator.vibrations.pattern.band_pattern`
-        and :func:`~enumerator.vibrations.fitting.fit_constants` refuse.
+        several isomers or classes, a constant outside its physical range, a
+        fitted band outside the class's window, or anything
+        :func:`~enumerator.vibrations.pattern.band_pattern` and
+        :func:`~enumerator.vibrations.fitting.fit_constants` refuse.
     """
     comp, iso_set, reason, rules = _load(request)
     if isomer_id:
@@ -355,6 +478,7 @@ def predict_spectra(
     classes = [reporter_class] if reporter_class else sorted({c for i in chosen for c in reporter_classes(i)})
     if not classes:
         raise InputError(f"{comp.formula} has no stretch reporter", "mark one, e.g. --reporter a=CO")
+    _check_fit_inputs(comp, chosen, classes, constants, measured, window, rules)
     desc = _descriptors(comp, iso_set)
     ids = [i.id for i in chosen]
     entries = []
@@ -370,6 +494,7 @@ def predict_spectra(
                 tie_ck=tie_ck,
                 others=ids,
                 rules=rules,
+                composition=comp,
             )
             for cls in classes
         )
@@ -384,6 +509,7 @@ def predict_spectra(
         isomers=tuple(entries),
         safety=cautions(comp),
         measured=tuple(o.wavenumber for o in measured or ()),
+        notes=_bands_notes(entries),
     )
 
 
@@ -395,6 +521,7 @@ def match_spectrum(
     reporter_class: str | None = None,
     tolerance: float = DEFAULT_TOLERANCE,
     weak: float = DEFAULT_WEAK,
+    window: tuple[float, float] | None = None,
 ) -> MatchReport:
     """Rank the isomers of a formula against measured stretching bands.
 
@@ -409,9 +536,11 @@ def match_spectrum(
     reporter_class : str, optional
         The class the bands belong to (needed when several are present).
     tolerance : float
-        cm-1: bands closer than this are coincident, a match within it is good.
+        cm-1: the measurement term (one standard uncertainty of a measured band position).
     weak : float
-        Relative intensity below which a predicted band may go unseen.
+        The weak scale: a predicted band of this relative intensity goes unseen with probability 1/e.
+    window : (low, high), optional
+        cm-1: accept measured bands in this window instead of the class's ``ir_window_cm1``.
 
     Returns
     -------
@@ -433,5 +562,59 @@ def match_spectrum(
         rules=rules,
         descriptors=_descriptors(comp, iso_set),
         intensities=intensities,
+        window=window,
     )
     return MatchReport(comp.formula, iso_set.geometry.symbol, reason, res, cautions(comp))
+
+
+def stretch_stage(res: ResultView, req: RequestView) -> StretchAnalysis:
+    """Pipeline stage: the stretch counts, with every isomer's predicted IR bands for the pattern tier.
+
+    Parameters
+    ----------
+    res : Result
+        The result so far.
+    req : Request
+        Its request (rule folders).
+
+    Returns
+    -------
+    StretchAnalysis
+        From :func:`enumerator.analyses.stretch.analysis.stage`, with the
+        patterns of :func:`enumerator.vibrations.matching.predicted_bands`
+        attached (none above :data:`~enumerator.analyses.stretch.analysis.PATTERN_MAX_ISOMERS`
+        isomers, and none for an isomer the band model cannot predict, said in
+        the analysis's pattern status).
+
+    Raises
+    ------
+    InputError
+        What :func:`~enumerator.analyses.stretch.analysis.stage` raises.
+    """
+    a = count_stage(res, req)
+    if not a.classes:
+        return a
+    if len(a.ids) > PATTERN_MAX_ISOMERS:
+        return with_patterns(
+            a,
+            None,
+            f"IR patterns not judged: more than {PATTERN_MAX_ISOMERS} isomers (use --limit or --pick to judge fewer)",
+        )
+    rules = load_rules(req.rules)
+    patterns: list[tuple[tuple[PredictedBand, ...], ...] | None] = []
+    failed: list[str] = []
+    for iso in res.isomers:
+        try:
+            patterns.append(
+                tuple(
+                    predicted_bands(
+                        pattern_for(iso, c, rules=rules, composition=res.composition), stretch_modes(iso, c)
+                    )
+                    for c in a.classes
+                )
+            )
+        except IsosieveError as exc:
+            failed.append(f"{iso.id}: {exc.what}")
+            patterns.append(None)
+    note = f"IR patterns not judged for some isomers ({'; '.join(failed[:3])})" if failed else None
+    return with_patterns(a, patterns, note)

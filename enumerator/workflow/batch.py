@@ -30,18 +30,23 @@ from collections.abc import Callable, Iterable, Iterator, Sequence
 from concurrent.futures import Future
 from dataclasses import dataclass, field, fields, replace
 from operator import attrgetter
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 from enumerator.analyses.centre import choose_geometry, count_electrons
 from enumerator.analyses.safety import cautions
 from enumerator.analyses.stretch import StretchAnalysis
-from enumerator.errors import IsosieveError
+from enumerator.errors import IsosieveError, shorten
+from enumerator.limits import ECHO_CHARS
 from enumerator.model.composition import Composition
 from enumerator.parse.batch import read_formulas
 from enumerator.parse.formula import parse_formula
+from enumerator.parse.text import check_label_text
 from enumerator.rules.ruleset import RuleSet, load_rules
 from enumerator.workflow.pipeline import Request, run
 from enumerator.workflow.result import Result
+
+if TYPE_CHECKING:
+    import pandas as pd
 
 __all__ = ["BatchRow", "BatchResult", "PatternSummary", "screen", "run_batch", "screen_file", "pattern_key"]
 
@@ -127,6 +132,32 @@ class BatchResult:
         """The JSON document of ``isosieve batch --format json``: ``{"rows": [...]}``."""
         return {"rows": [r.to_dict() for r in self.rows]}
 
+    def to_dataframe(self) -> pd.DataFrame:
+        """One row per input row, the columns of :meth:`BatchRow.to_dict` (lists joined as text).
+
+        Returns
+        -------
+        pandas.DataFrame
+        """
+        import pandas as pd
+
+        docs = [r.to_dict() for r in self.rows]
+        cols = list(docs[0]) if docs else []
+        rows = [{k: ", ".join(map(str, v)) if isinstance(v, list) else v for k, v in d.items()} for d in docs]
+        return pd.DataFrame(rows, columns=cols)
+
+    def __repr__(self) -> str:
+        return f"<BatchResult {len(self.rows)} row(s), {len(self.failed)} failed>"
+
+    def _repr_html_(self) -> str:
+        """The first 50 rows (:meth:`to_dataframe`) under a line with the counts."""
+        import html
+
+        df = self.to_dataframe()
+        more = f" (first 50 of {len(df)} shown)" if len(df) > 50 else ""
+        head = f"<p><b>{len(self.rows)} row(s), {len(self.failed)} could not be analysed{html.escape(more)}</b></p>"
+        return head + df.head(50).to_html(index=False, escape=True, na_rep="")
+
 
 def pattern_key(comp: Composition, geometry: str, limit: int | None = None) -> tuple:
     """Cache key: what decides the isomers and their band counts.
@@ -172,8 +203,8 @@ def _summarise(formula: str, geometry: str, rules: tuple[str, ...], limit: int |
         res = run(Request(formula=formula, geometry=geometry, rules=rules, limit=limit))
     except IsosieveError as exc:
         return PatternSummary(error=exc.line())
-    except Exception as exc:  # an internal error stays in its row
-        return PatternSummary(error=f"internal error: {type(exc).__name__}: {exc}")
+    except Exception as exc:  # an internal error (memory too) stays in its row
+        return PatternSummary(error=f"internal error: {type(exc).__name__}: {shorten(str(exc), 200)}")
     iso = res.isomer_set
     return PatternSummary(
         geometric_isomers=iso.geometric_isomers,
@@ -234,7 +265,7 @@ class _Reader:
 
     def _read(self, formula: str) -> tuple[BatchRow, tuple | None]:
         if self.setup_error is not None:
-            return BatchRow(0, formula, error=self.setup_error), None
+            return BatchRow(0, _shown(formula), error=self.setup_error), None
         rules = self.rules
         assert rules is not None
         try:
@@ -248,9 +279,23 @@ class _Reader:
                 if comp.formula not in reason:  # a reason that quotes the formula stays with it
                     self.centres[ident] = done
         except IsosieveError as exc:
-            return BatchRow(0, formula, error=exc.line()), None
+            return BatchRow(0, _shown(formula), error=exc.line()), None
+        except Exception as exc:  # an internal error (memory too) stays in its row; the screen goes on
+            return BatchRow(
+                0, _shown(formula), error=f"internal error: {type(exc).__name__}: {shorten(str(exc), 200)}"
+            ), None
         row = done[0]
         return BatchRow(0, formula, "", *_REST(row)), done[1]
+
+
+def _read_row(reader: _Reader, formula: str, label: str) -> tuple[BatchRow, tuple | None]:
+    """One input row through the reader, its label checked first (a refused label is that row's error)."""
+    if label:
+        try:
+            check_label_text(label, "label")
+        except IsosieveError as exc:
+            return BatchRow(0, _shown(formula), error=exc.line()), None
+    return reader.row(formula)
 
 
 #: The fields of a row after index, formula and label, in order.
@@ -322,12 +367,14 @@ def screen(
     Yields
     ------
     BatchRow
-        ``error`` set for a formula that cannot be read or analysed; ``cached`` when an earlier row had the
-        same pattern.
+        ``error`` set for a formula that cannot be read or analysed, or whose enumeration would exceed the
+        size cap (:data:`enumerator.limits.SIZE_CAP`, unless ``limit``): the row says so and the screen goes
+        on; ``cached`` when an earlier row had the same pattern.  A refused row shows its formula with
+        control characters escaped and shortened to :data:`enumerator.limits.ECHO_CHARS` characters.
     """
     rules = tuple(rules)
     reader = _Reader(geometry, rules, limit)
-    prepared = [(k, label, *reader.row(formula)) for k, formula, label in _items(formulas)]
+    prepared = [(k, label, *_read_row(reader, formula, label)) for k, formula, label in _items(formulas)]
     first: dict[tuple, str] = {}
     for _, _, row, key in prepared:
         if key is not None and key not in first:
@@ -346,13 +393,13 @@ def screen(
         finished: dict[tuple[str, bool], BatchRow] = {}
         for k, label, row, key in prepared:
             if key is None:
-                yield _relabel(row, k, label)
+                yield _relabel(row, k, _shown(label))  # a refused row: its text escaped and shortened
                 continue
             cached = key in seen
             out = finished.get((row.formula, cached))
             if out is None:
                 value = done[key] if key in done else _summarise(first[key], key[1], rules, limit)
-                summary = value.result() if isinstance(value, Future) else value
+                summary = _collect(value) if isinstance(value, Future) else value
                 done[key] = summary
                 out = finished[(row.formula, cached)] = _with(row, summary, cached)
             yield _relabel(out, k, label)
@@ -360,6 +407,20 @@ def screen(
     finally:
         if pool is not None:
             pool.shutdown(cancel_futures=True)
+
+
+def _collect(future: Future[PatternSummary]) -> PatternSummary:
+    """A worker's summary, or the row error when the worker died (killed for memory, a broken pool)."""
+    try:
+        return future.result()
+    except Exception as exc:  # BrokenProcessPool and the like: this pattern's rows fail, the rest go on
+        return PatternSummary(error=f"the worker process failed ({type(exc).__name__}); run this row alone")
+
+
+def _shown(text: str) -> str:
+    """A refused row's text as the table shows it: control characters escaped, long text shortened."""
+    escaped = "".join(ch if ch.isprintable() else repr(ch)[1:-1] for ch in text)
+    return shorten(escaped, ECHO_CHARS)
 
 
 def run_batch(

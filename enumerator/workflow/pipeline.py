@@ -30,6 +30,7 @@ from typing import Any
 from enumerator.analyses.centre import choose_geometry
 from enumerator.analyses.descriptors import describe_isomer, select_isomers
 from enumerator.analyses.descriptors.select import matches, picked_ids
+from enumerator.isomers.counting import check_size
 from enumerator.isomers.enumeration import Isomer, IsomerSet, enumerate_isomers, generate
 from enumerator.model.composition import Composition
 from enumerator.model.geometry import Geometry
@@ -44,6 +45,9 @@ __all__ = [
     "analyse",
     "iter_isomers",
     "run",
+    "run_partial",
+    "stage_name",
+    "without_analyses",
     "prepare",
     "parse_formula",
     "apply_settings",
@@ -61,7 +65,7 @@ STAGES: tuple[str, ...] = (
     "enumerator.analyses.centre.analysis:stage",
     "enumerator.analyses.safety:stage",
     "enumerator.analyses.descriptors.analysis:descriptor_stage",
-    "enumerator.analyses.stretch.analysis:stage",
+    "enumerator.workflow.bands:stretch_stage",
 )
 
 
@@ -102,14 +106,27 @@ def apply_settings(
     return comp
 
 
-def prepare(req: Request) -> tuple[Composition, Geometry, str]:
-    """Everything :func:`run` decides before enumerating.
+def prepare(
+    req: Request, *, size_check: bool = True, progress: Callable[[int, int], None] | None = None
+) -> tuple[Composition, Geometry, str]:
+    """Everything :func:`run` decides before enumerating, and the size guard.
 
-    Callers use it to count up front (:mod:`enumerator.isomers.counting`) before a long run.
+    Unless ``req.limit`` is given, a composition with more stereoisomers than
+    :data:`enumerator.limits.SIZE_CAP` is refused here, before anything is
+    enumerated (:func:`enumerator.isomers.counting.check_size`: cheap bounds
+    first, the exact Burnside count only when they do not decide).  Every
+    caller that enumerates after ``prepare`` -- the pipeline, batch rows,
+    job entries, character tables, band predictions and matches -- is guarded
+    so; a caller that only counts, or streams the isomers one by one, passes
+    ``size_check=False``.
 
     Parameters
     ----------
     req : Request
+    size_check : bool
+        Refuse an oversized composition (default); False for a caller that does not enumerate all at once.
+    progress : callable, optional
+        Called as ``progress(done, total)`` while the exact count is summed, when the guard needs it.
 
     Returns
     -------
@@ -122,12 +139,17 @@ def prepare(req: Request) -> tuple[Composition, Geometry, str]:
         A formula that cannot be read, a setting that does not apply, an unknown geometry.
     RuleError
         A rule folder that cannot be read.
+    CapacityError
+        More stereoisomers than the cap and no ``req.limit``.
     """
     rules = load_rules(req.rules)
     comp = parse_formula(req.formula, rules)
     comp = apply_settings(comp, req.spans, req.arrangements, req.reporters)
     symbol, reason = choose_geometry(comp, rules, req.geometry)
-    return comp, rules.geometry(symbol), reason
+    geo = rules.geometry(symbol)
+    if size_check:
+        check_size(comp, geo, req.limit, progress=progress)
+    return comp, geo, reason
 
 
 def _enumerate(comp: Composition, geo: Geometry, limit: int | None, on_isomer: Callable[[Isomer], None]) -> IsomerSet:
@@ -182,28 +204,139 @@ def run(
     ------
     InputError
         As :func:`prepare`; a composition that cannot be placed on the geometry; ``pick`` matching nothing.
+    CapacityError
+        More stereoisomers than :data:`enumerator.limits.SIZE_CAP` and no ``req.limit``.
     """
-    comp, geo, reason = prepare(req)
+    comp, geo, reason = prepare(req, size_check=isomers is None)
     if isomers is not None:
         iso = isomers
     elif on_isomer is not None:
         iso = _enumerate(comp, geo, req.limit, on_isomer)
     else:
         iso = enumerate_isomers(comp, geo, limit=req.limit)
-    pointer = load_rules(req.rules).geometry_note(req.geometry)  # an old spelling of a geometry symbol
-    notes = ((pointer,) if pointer else ()) + _notes(req, iso)
-    res = Result(composition=comp, geometry=geo, geometry_reason=reason, isomer_set=iso, notes=notes)
-    for k, stage in enumerate(STAGES, 1):
+    res, _ = _analyse(req, _result(req, comp, geo, reason, iso), partial=False, progress=progress)
+    return _pick(req, res)
+
+
+def _result(req: Request, comp: Composition, geo: Geometry, reason: str, iso: IsomerSet) -> Result:
+    rules = load_rules(req.rules)
+    pointer = rules.geometry_note(req.geometry)  # an old spelling of a geometry symbol
+    notes = ((pointer,) if pointer else ()) + ((geo.adjusted,) if geo.adjusted else ()) + _notes(req, iso)
+    return Result(composition=comp, geometry=geo, geometry_reason=reason, isomer_set=iso, notes=notes)
+
+
+def stage_name(stage: str) -> str:
+    """A stage of :data:`STAGES` as messages name it: 'enumerator.analyses.centre.analysis:stage' -> 'centre'.
+
+    Parameters
+    ----------
+    stage : str
+
+    Returns
+    -------
+    str
+    """
+    module = stage.partition(":")[0]
+    parts = module.split(".")
+    return parts[2] if len(parts) > 2 and parts[1] == "analyses" else parts[-1]
+
+
+def _analyse(
+    req: Request, res: Result, partial: bool, progress: Callable[[str, int, int], None] | None = None
+) -> tuple[Result, str | None]:
+    """Every stage in order; with ``partial``, Ctrl-C in a stage keeps the stages before it (and says so).
+
+    ``progress(stage, done, total)`` is called after each stage ('centre', 'stretch', ...)."""
+    for k, stage in enumerate(STAGES):
         module, _, func = stage.partition(":")
         step = getattr(importlib.import_module(module), func)
-        added = step(res, req)
+        try:
+            added = step(res, req)
+        except KeyboardInterrupt:
+            if not partial:
+                raise
+            left = [stage_name(s) for s in STAGES[k:]]
+            done = [stage_name(s) for s in STAGES[:k]]
+            note = (
+                f"interrupted during the {left[0]} analysis: its results"
+                + (f" and those of {', '.join(left[1:])}" if left[1:] else "")
+                + " are left out"
+                + (f" (kept: {', '.join(done)})" if done else "")
+            )
+            return replace(res, notes=res.notes + (note,)), note
         if added is not None:
             res = replace(res, analyses=res.analyses + (added,))
         if progress is not None:
-            progress((module.split(".") + ["", "", module])[2], k, len(STAGES))  # 'centre', 'stretch' ...
-    if req.pick:
-        res = select_isomers(res, req.pick)
-    return res
+            progress(stage_name(stage), k + 1, len(STAGES))
+    return res, None
+
+
+def _pick(req: Request, res: Result) -> Result:
+    return select_isomers(res, req.pick) if req.pick else res
+
+
+def run_partial(
+    req: Request,
+    *,
+    on_isomer: Callable[[Isomer], None] | None = None,
+    progress: Callable[[str, int, int], None] | None = None,
+) -> tuple[Result, str | None]:
+    """:func:`run`, keeping what was done when it is interrupted (Ctrl-C) in any stage.
+
+    Interrupted while enumerating, the stereoisomers found so far are kept
+    (the set marked incomplete, with a note) and every analysis stage runs on
+    them; interrupted in an analysis stage (the first interruption, or a
+    second one after an interrupted enumeration), the stages before it are
+    kept and the result says which were left out.  An interruption before the
+    first isomer is found, or while ``pick`` selects, still raises
+    :class:`KeyboardInterrupt` (there is nothing sound to keep).
+
+    Parameters
+    ----------
+    req : Request
+    on_isomer, progress : callable, optional
+        As for :func:`run`.
+
+    Returns
+    -------
+    (Result, str or None)
+        The result and, when it was interrupted, the note saying what was kept (also in ``Result.notes``).
+    """
+    comp, geo, reason = prepare(req)
+    found: list[Isomer] = []
+
+    def keep(iso: Isomer) -> None:
+        found.append(iso)
+        if on_isomer is not None:
+            on_isomer(iso)
+
+    stopped: str | None = None
+    try:
+        iso = _enumerate(comp, geo, req.limit, keep)
+    except KeyboardInterrupt:
+        if not found:
+            raise
+        iso = IsomerSet(comp, geo, tuple(found), complete=False)
+        stopped = f"interrupted during the enumeration: the first {len(found)} stereoisomers are kept"
+    res, in_stage = _analyse(req, _result(req, comp, geo, reason, iso), partial=True, progress=progress)
+    res = _pick(req, res)
+    return res, "; ".join(n for n in (stopped, in_stage) if n) or None
+
+
+def without_analyses(res: Result, why: str) -> Result:
+    """The result with its analyses dropped and a note saying why (a cheap fallback to write).
+
+    Parameters
+    ----------
+    res : Result
+    why : str
+        The note to add.
+
+    Returns
+    -------
+    Result
+    """
+    return replace(res, analyses=(), notes=res.notes + (why,))
 
 
 def _request(formula: str, unknown: Mapping[str, Any], **options: Any) -> Request:
@@ -352,7 +485,7 @@ def iter_isomers(
         rules=rules,
         pick=pick,
     )
-    comp, geo, _ = prepare(req)
+    comp, geo, _ = prepare(req, size_check=False)  # one at a time: nothing is held, so no size cap
     found = generate(comp, geo, limit=req.limit)
     if req.pick:
         yield from _picked(req, comp, found)

@@ -110,6 +110,7 @@ class GeometryCatalogue:
                 "operations": len(g.operations),
                 "polyhedron_edges": len(g.edges),
                 "fluxional": g.fluxional,
+                **({"adjusted": g.adjusted} if g.adjusted else {}),
             }
             for g in self.geometries
         ]
@@ -139,6 +140,7 @@ def count_formula(
     spans: Pairs = (),
     arrangements: Pairs = (),
     rules: Sequence[str] = (),
+    progress: Callable[[int, int], None] | None = None,
 ) -> CountResult:
     """Count a formula's isomers up front (Burnside's lemma), without listing them.
 
@@ -153,6 +155,8 @@ def count_formula(
         Chelate spans and fac/mer limits.
     rules : sequence of str
         Rule folders (``--rules DIR``) in force.
+    progress : callable, optional
+        Called as ``progress(done, total)`` while a geometry's Burnside sum is summed (a progress bar).
 
     Returns
     -------
@@ -166,16 +170,16 @@ def count_formula(
     req = Request(
         formula=formula, geometry=geometry, spans=tuple(spans), arrangements=tuple(arrangements), rules=tuple(rules)
     )
-    comp, geo, reason = prepare(req)
+    comp, geo, reason = prepare(req, size_check=False)  # counting is what the size guard itself does
     if not every:
-        return count_isomers(comp, [geo], reason)
+        return count_isomers(comp, [geo], reason, progress=progress)
     if geometry:
         raise InputError("--all and --geometry both given", "give one of them")
     geos = sorted(
         (g for g in load_rules(req.rules).geometries.values() if g.coordination_number == comp.donor_count),
         key=lambda g: g.symbol,
     )
-    return count_isomers(comp, geos)
+    return count_isomers(comp, geos, progress=progress)
 
 
 @dataclass(frozen=True)

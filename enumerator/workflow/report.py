@@ -29,6 +29,7 @@ from typing import Any
 from enumerator.analyses.safety import cautions
 from enumerator.errors import IsosieveError
 from enumerator.isomers.enumeration import Isomer
+from enumerator.model.composition import Composition
 from enumerator.rules.ruleset import RuleSet, load_rules
 from enumerator.structures.result import StructureSet, structure_set
 from enumerator.vibrations.model import reporter_classes
@@ -141,11 +142,11 @@ def _stem(number: int, formula: str) -> str:
     return f"{number:02d}_{slug}"
 
 
-def _spectra(iso: Isomer, rules: RuleSet | None) -> IsomerSpectra:
+def _spectra(iso: Isomer, rules: RuleSet | None, comp: Composition | None = None) -> IsomerSpectra:
     out = []
     for cls in reporter_classes(iso):
         try:
-            pattern = band_pattern(iso, cls, rules=rules)
+            pattern = band_pattern(iso, cls, rules=rules, composition=comp)
         except IsosieveError as exc:
             out.append(ClassSpectrum(cls, error=exc.line()))
             continue
@@ -196,7 +197,7 @@ def build_report(
             ReportComplex(
                 n,
                 res,
-                tuple(_spectra(i, rules) for i in res.isomers),
+                tuple(_spectra(i, rules, res.composition) for i in res.isomers),
                 tuple(cautions(res.composition)),
                 _stem(n, res.composition.formula),
                 label,

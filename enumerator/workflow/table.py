@@ -7,7 +7,9 @@ same columns, in the same order and under the same headers:
 ``formula``, ``geometry``, ``isomer``, ``point group``, ``chiral``,
 ``enantiomer``, ``descriptor``, ``prefix``, ``IUPAC name``, then per reporter
 class ``<class> species``, ``<class> IR``, ``<class> Raman``,
-``<class> <nucleus> NMR`` (band and signal counts as integers), then
+``<class> <nucleus> NMR`` (band and signal counts as integers; where some
+isomer has IR-allowed bands the bond-dipole model predicts at zero intensity,
+``<class> IR predicted weak`` follows ``<class> IR``, which counts them too), then
 ``NMR environments`` (the other ligands) and ``sites``.
 
 A column the analyses give no value for (no descriptor for a letter formula
@@ -101,6 +103,10 @@ def _stretch_columns(a: StretchAnalysis) -> tuple[TableColumn, ...]:
         per = [(i, a.modes[k][ci]) for k, i in enumerate(a.ids)]
         cols.append(TableColumn(f"{cls} species", "species", MappingProxyType({i: m.species for i, m in per})))
         cols.append(TableColumn(f"{cls} IR", "count", MappingProxyType({i: m.ir for i, m in per})))
+        if any(m.ir_weak for _, m in per):
+            # symmetry-allowed bands the bond-dipole model leaves at zero intensity, counted in IR as well
+            weak = MappingProxyType({i: m.ir_weak for i, m in per})
+            cols.append(TableColumn(f"{cls} IR predicted weak", "count", weak))
         cols.append(TableColumn(f"{cls} Raman", "count", MappingProxyType({i: m.raman for i, m in per})))
         cols.append(TableColumn(f"{cls} {nuc} NMR", "count", MappingProxyType({i: m.nmr for i, m in per})))
     other = {}

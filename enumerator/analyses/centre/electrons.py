@@ -38,14 +38,30 @@ from enumerator.errors import InputError
 from enumerator.model.composition import Composition
 from enumerator.model.elements import atomic_number, group_of
 
-__all__ = ["ElectronCount", "LigandCount", "NitrosylBinding", "count_electrons", "roman"]
+__all__ = ["ElectronCount", "LigandCount", "NitrosylBinding", "count_electrons", "roman", "MAX_D_ELECTRONS"]
+
+#: A d shell holds ten electrons: a d count above this means the charge or the ligands are wrong.
+MAX_D_ELECTRONS = 10
+
+
+#: Roman numerals of the digits of each decimal place, ones first (the standard subtractive forms).
+_ROMAN_PLACES = (
+    ("", "I", "II", "III", "IV", "V", "VI", "VII", "VIII", "IX"),
+    ("", "X", "XX", "XXX", "XL", "L", "LX", "LXX", "LXXX", "XC"),
+    ("", "C", "CC", "CCC", "CD", "D", "DC", "DCC", "DCCC", "CM"),
+    ("", "M", "MM", "MMM"),
+)
 
 
 def roman(n: int) -> str:
     """Oxidation state as the Stock number: 2 -> 'II', 0 -> '0', -1 -> '-I'.
 
-    >>> roman(2), roman(0), roman(-1), roman(8)
-    ('II', '0', '-I', 'VIII')
+    One table look-up per decimal place, so the time does not grow with ``n``;
+    beyond the Roman numerals (|n| > 3999) the number is written in Arabic
+    digits with its sign.
+
+    >>> roman(2), roman(0), roman(-1), roman(8), roman(1994), roman(10**12)
+    ('II', '0', '-I', 'VIII', 'MCMXCIV', '+1000000000000')
 
     Parameters
     ----------
@@ -58,12 +74,11 @@ def roman(n: int) -> str:
     """
     if n == 0:
         return "0"
-    vals = ((10, "X"), (9, "IX"), (5, "V"), (4, "IV"), (1, "I"))
-    k, out = abs(n), ""
-    for v, s in vals:
-        while k >= v:
-            out += s
-            k -= v
+    k = abs(n)
+    if k > 3999:
+        return f"{n:+d}"
+    digits = (k % 10, k // 10 % 10, k // 100 % 10, k // 1000)
+    out = "".join(_ROMAN_PLACES[p][d] for p, d in reversed(list(enumerate(digits))))
     return ("-" if n < 0 else "") + out
 
 
@@ -161,7 +176,8 @@ def count_electrons(comp: Composition) -> ElectronCount:
     -------
     ElectronCount
         Counts left as None, with a note, where a ligand has no catalogue data, the oxidation state
-        exceeds the group number, or the metal is not a d-block element.
+        exceeds the group number or would leave more than ten d electrons, or the metal is not a d-block
+        element.
 
     Raises
     ------
@@ -198,6 +214,11 @@ def count_electrons(comp: Composition) -> ElectronCount:
     elif group - os_ < 0:
         notes.append(
             f"oxidation state {os_:+d} exceeds the group number {group}: check the overall charge and the ligand choice"
+        )
+    elif group - os_ > MAX_D_ELECTRONS:
+        notes.append(
+            f"oxidation state {os_:+d} would leave d{group - os_}, more than the {MAX_D_ELECTRONS} electrons a d shell "
+            "holds: check the overall charge and the ligand choice"
         )
     else:
         d = group - os_

@@ -1,13 +1,21 @@
 """The stretch stage: modes per isomer and reporter class, NMR environments
-per ligand, and which isomer pairs the counts tell apart.
+per ligand, and which isomer pairs IR (counts or pattern), Raman or NMR tell
+apart.
 
-:func:`stage` (listed in :data:`enumerator.workflow.pipeline.STAGES`) checks
-the reporter classes the ligands name against the rule files
-(:mod:`enumerator.rules.reporters`) and returns a :class:`StretchAnalysis`.
-Every ligand's environments are counted; the nucleus is the reporter's
-(13C for CO), else the donor element's from ``[nuclei]`` (31P for a
-phosphine); a catalogue ligand with neither is listed but not counted in the
-NMR signature, and an abstract letter is counted with no nucleus named.
+:func:`stage` checks the reporter classes the ligands name against the rule
+files (:mod:`enumerator.rules.reporters`) and returns a
+:class:`StretchAnalysis` with the counts.  Every ligand's environments are
+counted; the nucleus is the reporter's (13C for CO), else the donor
+element's from ``[nuclei]`` (31P for a phosphine); a catalogue ligand with
+neither is listed but not counted in the NMR signature, and an abstract
+letter is counted with no nucleus named.
+
+The pattern tier of the pair verdicts needs the predicted band patterns,
+which the band model (a layer above this one) computes: the pipeline's stage
+(:func:`enumerator.workflow.bands.stretch_stage`) calls :func:`stage` and
+hands the patterns to :func:`with_patterns`; the verdicts themselves are
+judged here (:mod:`.pairs`, :mod:`.likelihood`), for up to
+:data:`PATTERN_MAX_ISOMERS` isomers.
 
 >>> from enumerator.workflow.pipeline import analyse
 >>> a = analyse("Ma4b2", geometry="OC-6", reporters=(("a", "CO"),)).analysis(StretchAnalysis)
@@ -17,14 +25,24 @@ NMR signature, and an abstract letter is counted with no nucleus named.
 
 from __future__ import annotations
 
-from collections.abc import Mapping
-from dataclasses import dataclass
+from collections.abc import Mapping, Sequence
+from dataclasses import dataclass, replace
 from functools import cached_property
 from typing import Any
 
+from enumerator.analyses.stretch.likelihood import PredictedBand, own_and_cross
 from enumerator.analyses.stretch.modes import ModeSet, environments, stretch_modes
-from enumerator.analyses.stretch.pairs import COST_ORDER, Pair, Signatures, list_pairs, pair_tally, signature_ids
+from enumerator.analyses.stretch.pairs import (
+    COST_ORDER,
+    Pair,
+    Signatures,
+    counts_tell_ir,
+    list_pairs,
+    pair_tally,
+    signature_ids,
+)
 from enumerator.analyses.views import RequestView, ResultView
+from enumerator.caches import cached
 from enumerator.errors import InputError
 from enumerator.isomers.enumeration import Isomer
 from enumerator.isomers.tables import table_for_isomer
@@ -36,6 +54,9 @@ __all__ = [
     "LigandNMR",
     "StretchAnalysis",
     "stage",
+    "with_patterns",
+    "PATTERN_MAX_ISOMERS",
+    "VERDICT_RULE",
     "nucleus_for",
     "MAX_LISTED_PAIRS",
     "FLUXIONAL_NOTE",
@@ -56,6 +77,15 @@ FLUXIONAL_NOTE = (
 ENANTIOMER_NOTE = (
     "enantiomers have the same IR, Raman and NMR counts in achiral media; "
     "pairs of enantiomers are never marked distinct"
+)
+#: Above this many listed isomers the IR pattern tier is not judged (the pairs grow with the square).
+PATTERN_MAX_ISOMERS = 40
+#: How the pair verdicts are reached, in words (JSON ``pair_verdict_rule``).
+VERDICT_RULE = (
+    "cheapest first: IR (counts) when the IR band counts differ and so do the numbers of bands with bond-dipole "
+    "intensity (a difference resting only on bands predicted weak is not used); IR (pattern) when the predicted "
+    "patterns differ beyond the model's uncertainty (each isomer's predicted spectrum gives it a probability of "
+    "at least 0.95 against the other); then Raman counts, then NMR counts"
 )
 #: The axes note of a linear centre (its group is infinite).
 LINEAR_AXES = "linear: z along the molecular axis; D∞h / C∞v species by correlation from the finite D2h / C2v proxy"
@@ -88,6 +118,10 @@ class StretchAnalysis:
     fluxional: bool
     geometry: str
     reporter_ligands: tuple[str, ...] = ()
+    #: per isomer, the predicted IR bands of each class (None: no prediction); None: not predicted at all
+    patterns: tuple[tuple[tuple[PredictedBand, ...], ...] | None, ...] | None = None
+    #: why the pattern tier was not judged, when it was not
+    pattern_note: str | None = None
 
     @cached_property
     def _position(self) -> Mapping[str, int]:
@@ -98,19 +132,61 @@ class StretchAnalysis:
         return out
 
     def signatures(self) -> Signatures:
-        """Each isomer's IR, Raman and NMR count signature, numbered."""
+        """Each isomer's IR, bond-dipole IR, Raman and NMR count signature, numbered."""
         ir = [tuple(m.ir for m in ms) for ms in self.modes]
+        dip = [tuple(m.ir_dipole for m in ms) for ms in self.modes]
         ra = [tuple(m.raman for m in ms) for ms in self.modes]
         nm = [tuple(x.environments for x in ls if x.observable) for ls in self.nmr]
-        return signature_ids(ir), signature_ids(ra), signature_ids(nm)
+        return signature_ids(ir), signature_ids(dip), signature_ids(ra), signature_ids(nm)
+
+    def _pattern_pairs(self, sig: Signatures) -> tuple[frozenset[tuple[int, int]], frozenset[tuple[int, int]]]:
+        """(judged, distinct): the index pairs the IR counts leave open, and those the patterns tell apart."""
+        if self.patterns is None or len(self.ids) > PATTERN_MAX_ISOMERS:
+            return frozenset(), frozenset()
+        ir, dip = sig[0], sig[1]
+        todo = []
+        for i in range(len(self.ids)):
+            for j in range(i + 1, len(self.ids)):
+                if self.enantiomer[i] == self.ids[j] or counts_tell_ir(ir[i], ir[j], dip[i], dip[j]):
+                    continue
+                if self.patterns[i] is not None and self.patterns[j] is not None:
+                    todo.append((i, j))
+        widths = tuple(c.window[1] - c.window[0] for c in self.info)
+        distinct = _distinct_patterns(self.patterns, widths, tuple(todo))
+        return frozenset(todo), distinct
 
     def pairs(self) -> list[Pair]:
         """Every unordered pair of listed isomers, in listing order."""
-        return list_pairs(self.ids, self.enantiomer, self.signatures())
+        sig = self.signatures()
+        judged, distinct = self._pattern_pairs(sig)
+        return list_pairs(self.ids, self.enantiomer, sig, judged, distinct)
 
     def pair_tally(self) -> dict[str, int]:
-        """How many pairs each technique tells apart first ('IR', 'Raman', 'NMR', '--', 'en')."""
-        return pair_tally(self.ids, self.enantiomer, self.signatures())
+        """How many pairs each verdict tells apart first ('IR', 'IR (pattern)', 'Raman', 'NMR', '--', 'en')."""
+        sig = self.signatures()
+        judged, distinct = self._pattern_pairs(sig)
+        if not judged:
+            return pair_tally(self.ids, self.enantiomer, sig)
+        tally: dict[str, int] = {}
+        for p in list_pairs(self.ids, self.enantiomer, sig, judged, distinct):
+            tally[p.tally_key] = tally.get(p.tally_key, 0) + 1
+        return dict(sorted(tally.items()))
+
+    def pattern_status(self) -> str:
+        """Whether and how the IR pattern tier was judged, in words."""
+        if self.pattern_note:
+            return self.pattern_note
+        if self.patterns is None:
+            return "IR patterns not judged: no band patterns were predicted"
+        if len(self.ids) > PATTERN_MAX_ISOMERS:
+            return f"IR patterns not judged: more than {PATTERN_MAX_ISOMERS} isomers (use --limit or --pick)"
+        sigma = {b.sigma_default for p in self.patterns if p for ps in p for b in ps}
+        where = (
+            "the class default sigma (positions from the generic constants; the band model gives no sigma)"
+            if True in sigma
+            else "the additive band model's positions and sigma"
+        )
+        return f"IR patterns judged with {where}; predicted intensities idealised (bond-dipole model, ideal angles)"
 
     def fluxional_note(self) -> str | None:
         """The NMR caution for a geometry marked fluxional, else None."""
@@ -135,6 +211,8 @@ class StretchAnalysis:
         notes = [flux, ENANTIOMER_NOTE] if flux else [ENANTIOMER_NOTE]
         return {
             **self._pairs_json(),
+            "pair_verdict_rule": VERDICT_RULE,
+            "pair_pattern_status": self.pattern_status(),
             "reporter_classes": {
                 c.key: {
                     "name": c.name,
@@ -154,7 +232,7 @@ class StretchAnalysis:
         total = n * (n - 1) // 2
         doc: dict[str, Any] = {"pair_tally": self.pair_tally()}
         if total > MAX_LISTED_PAIRS:
-            ir, raman, nmr = self.signatures()
+            ir, dipole, raman, nmr = self.signatures()
             doc["pairs"] = []
             doc["pairs_listed"] = False
             doc["pairs_note"] = (
@@ -165,9 +243,12 @@ class StretchAnalysis:
             doc["pair_signatures"] = {
                 "about": (
                     "one number per listed isomer, in listing order, for each technique: two isomers are told "
-                    "apart by a technique when their numbers differ; enantiomers never are"
+                    "apart by a technique when their numbers differ, and by IR counts only when both their 'ir' "
+                    "and their 'ir_bond_dipole' numbers differ (a difference resting on bands predicted weak does "
+                    "not count); enantiomers never are; the IR pattern tier is not judged at this size"
                 ),
                 "ir": list(ir),
+                "ir_bond_dipole": list(dipole),
                 "raman": list(raman),
                 "nmr": list(nmr),
             }
@@ -175,6 +256,49 @@ class StretchAnalysis:
             doc["pairs"] = [p.to_dict() for p in self.pairs()]
             doc["pairs_listed"] = True
         return doc
+
+
+@cached(maxsize=64)
+def _distinct_patterns(
+    patterns: tuple[tuple[tuple[PredictedBand, ...], ...] | None, ...],
+    widths: tuple[float, ...],
+    todo: tuple[tuple[int, int], ...],
+) -> frozenset[tuple[int, int]]:
+    """The index pairs of ``todo`` whose IR patterns tell them apart
+    (:func:`~enumerator.analyses.stretch.likelihood.patterns_distinct`, each isomer's own evidence computed once)."""
+    own: dict[int, float] = {}
+    out = set()
+    for i, j in todo:
+        pi, pj = patterns[i], patterns[j]
+        assert pi is not None and pj is not None
+        if pi == pj:
+            continue
+        if own_and_cross(pi, pj, widths, own, i) and own_and_cross(pj, pi, widths, own, j):
+            out.add((i, j))
+    return frozenset(out)
+
+
+def with_patterns(
+    analysis: StretchAnalysis,
+    patterns: Sequence[tuple[tuple[PredictedBand, ...], ...] | None] | None,
+    note: str | None = None,
+) -> StretchAnalysis:
+    """The analysis with the predicted IR bands of every isomer, so the pairs get their pattern tier.
+
+    Parameters
+    ----------
+    analysis : StretchAnalysis
+    patterns : sequence or None
+        Per listed isomer, one tuple of predicted IR bands per reporter class (in ``analysis.classes``
+        order), or None for an isomer without a prediction; None: no patterns.
+    note : str, optional
+        Why the patterns are missing, when they are.
+
+    Returns
+    -------
+    StretchAnalysis
+    """
+    return replace(analysis, patterns=None if patterns is None else tuple(patterns), pattern_note=note)
 
 
 def nucleus_for(kind: LigandKind, reporters: Reporters) -> tuple[str | None, bool]:

@@ -19,12 +19,29 @@ D2h (or C2v) proxy and the species of the axial stretches are correlated
 (:mod:`enumerator.symmetry.linear`): Ag -> Sigma_g+, B1u -> Sigma_u+ (D∞h),
 A1 -> Sigma+ (C∞v).
 
+**Predicted weak bands.**  In the bond-dipole model (each oscillator's dipole
+derivative along its site vector e_i, on the ideal polyhedron; P. S.
+Braterman, *Metal Carbonyl Spectra*, Academic Press 1975, ch. 3) a mode's
+dipole derivative is the image of its coordinates under the map
+c -> Σ c_i e_i, which commutes with the symmetry operations.  Its image is
+V = span{e_i} (a subspace of x, y, z), so an IR-allowed species Γ carries
+bond-dipole intensity only if Γ occurs in V; when it does not, every band
+of Γ has exactly zero bond-dipole intensity whatever the force constants
+(the mode moves trans pairs in phase, and their dipoles cancel).  Those
+bands are still counted in ``ir`` (symmetry allows them) and are counted
+again in ``ir_weak``: "IR: 2 (1 predicted weak)".  This is the one meaning of
+a predicted weak band everywhere: the isomer table, the pair verdicts,
+``bands`` and ``match``.
+
 >>> from enumerator.workflow.pipeline import analyse
 >>> r = analyse("Ma4b2", geometry="OC-6", reporters=(("a", "CO"),))
 >>> sorted((i.point_group, stretch_modes(i, "CO").species) for i in r.isomers)
 [('C2v', '2A1 + B1 + B2'), ('D4h', 'A1g + B1g + Eu')]
 >>> sorted((stretch_modes(i, "CO").ir, stretch_modes(i, "CO").raman) for i in r.isomers)
 [(1, 2), (4, 4)]
+>>> r = analyse("[RuCl2(CO)2(PPh3)2]")
+>>> [(i.id, stretch_modes(i, "CO").ir, stretch_modes(i, "CO").weak_species) for i in r.isomers[2:4]]
+[('2', 2, ('A1',)), ('3', 2, ())]
 """
 
 from __future__ import annotations
@@ -32,6 +49,8 @@ from __future__ import annotations
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
 from typing import Any
+
+import numpy as np
 
 from enumerator.caches import cached
 from enumerator.errors import InputError
@@ -53,7 +72,10 @@ class ModeSet:
     ``reducible`` has one character per class of ``table_classes``;
     ``multiplicities`` are (label, count) in table order; ``ir`` / ``raman``
     count bands (a degenerate species is one band); ``environments`` are the
-    orbits (1-based site numbers) of the stabiliser on the class's sites."""
+    orbits (1-based site numbers) of the stabiliser on the class's sites;
+    ``weak_species`` are the IR-allowed species with zero bond-dipole
+    intensity (module docstring), whose bands ``ir_weak`` counts (they are
+    included in ``ir``)."""
 
     reporter: str
     sites: tuple[int, ...]
@@ -69,11 +91,26 @@ class ModeSet:
     raman: int
     environments: tuple[tuple[int, ...], ...]
     axes: str
+    weak_species: tuple[str, ...] = ()
 
     @property
     def nmr(self) -> int:
         """The number of NMR environments (signals) of the class."""
         return len(self.environments)
+
+    @property
+    def ir_weak(self) -> int:
+        """IR bands symmetry allows but the bond-dipole model predicts at zero intensity."""
+        return sum(n for lab, n in self.multiplicities if lab in self.weak_species)
+
+    @property
+    def ir_dipole(self) -> int:
+        """IR bands with bond-dipole intensity (``ir`` less ``ir_weak``)."""
+        return self.ir - self.ir_weak
+
+    def ir_text(self) -> str:
+        """The IR count as every output writes it: '2', or '2 (1 predicted weak)'."""
+        return f"{self.ir} ({self.ir_weak} predicted weak)" if self.ir_weak else str(self.ir)
 
     def to_dict(self) -> dict[str, Any]:
         """The JSON object of the modes (an entry of an isomer's ``modes``)."""
@@ -89,6 +126,9 @@ class ModeSet:
             "group": self.group,
             "reducible": {c: _num(x) for c, x in zip(self.table_classes, self.reducible)},
             "environments": [list(e) for e in self.environments],
+            "ir_predicted_weak": self.ir_weak,
+            "ir_weak_species": list(self.weak_species),
+            "ir_bond_dipole": self.ir_dipole,
         }
 
 
@@ -157,6 +197,21 @@ def _modes(isomer: Isomer, reporter_class: str) -> ModeSet:
     return _polyhedral_modes(isomer, reporter_class, sites, chars)
 
 
+def _dipole_characters(isomer: Isomer, sites: Sequence[int]) -> dict[int, float]:
+    """Characters of the stabiliser on V = span of the sites' vectors (the image of the bond-dipole map):
+    tr(P_V R(g)), with P_V the orthogonal projector onto V."""
+    geo = isomer.geometry
+    ops = geo.operations
+    if not sites:
+        return {k: 0.0 for k in isomer.stabiliser}
+    e = np.array([geo.vectors[s] for s in sites], dtype=float)
+    _, sv, vt = np.linalg.svd(e)
+    rank = int(np.sum(sv > 1e-8 * max(1.0, float(sv[0]))))
+    basis = vt[:rank]
+    proj = basis.T @ basis
+    return {k: float(np.trace(proj @ np.asarray(ops[k].array, dtype=float))) for k in isomer.stabiliser}
+
+
 def _activity(
     labs: Sequence[tuple[str, int]], ir: frozenset[str], raman: frozenset[str]
 ) -> tuple[tuple[str, ...], tuple[str, ...], tuple[str, ...], int, int]:
@@ -177,6 +232,8 @@ def _polyhedral_modes(
     labs = tuple((i.label, mult[i.label]) for i in table.irreps if i.label in mult)
     ir = frozenset(i.label for i in table.irreps if i.ir_active)
     raman = frozenset(i.label for i in table.irreps if i.raman_active)
+    dipole = table.reduce(_dipole_characters(isomer, sites))
+    weak = tuple(lab for lab, _ in labs if lab in ir and not dipole.get(lab))
     return ModeSet(
         reporter_class,
         sites,
@@ -188,6 +245,7 @@ def _polyhedral_modes(
         *_activity(labs, ir, raman),
         environments(isomer, sites),
         table.axes_note,
+        weak,
     )
 
 
@@ -206,6 +264,9 @@ def _linear_modes(isomer: Isomer, reporter_class: str, sites: tuple[int, ...], c
             "this linear case is not supported",
         )
     labs = sorted(((corr[lab], n) for lab, n in mult.items()), key=lambda t: _LINEAR_ORDER.index(t[0]))
+    dchars = _dipole_characters(isomer, sites)
+    dipole = {corr.get(lab, lab) for lab in proxy.reduce([dchars[k] for k in isomer.stabiliser])}
+    weak = tuple(lab for lab, _ in labs if lab in LINEAR_IR and lab not in dipole)
     species = " + ".join(lab if n == 1 else f"{n}{lab}" for lab, n in labs) or "0"
     pairs = ", ".join(f"{a} -> {b}" for a, b in corr.items())
     return ModeSet(
@@ -219,4 +280,5 @@ def _linear_modes(isomer: Isomer, reporter_class: str, sites: tuple[int, ...], c
         *_activity(labs, LINEAR_IR, LINEAR_RAMAN),
         environments(isomer, sites),
         f"linear: z along the molecular axis; species by correlation from the {proxy.group} proxy ({pairs})",
+        weak,
     )
