@@ -18,7 +18,7 @@ from types import MappingProxyType
 
 from enumerator.errors import InputError
 from enumerator.render import tables
-from enumerator.render.jsonout import dumps
+from enumerator.render.jsonout import dumps, gc_paused
 from enumerator.render.text import render
 from enumerator.workflow.result import Result
 
@@ -26,7 +26,10 @@ __all__ = ["FORMATS", "render_result"]
 
 
 def _json(res: Result) -> str:
-    return dumps(res.to_dict())
+    # a document of a few million plain dicts, lists and strings, none in a cycle: reference counting frees
+    # them, and the cyclic collector's passes over them (while they are built) cost as much as building them
+    with gc_paused():
+        return dumps(res.to_dict())
 
 
 _WRITERS: Mapping[str, Callable[[Result], str]] = MappingProxyType(

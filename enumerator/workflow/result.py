@@ -62,13 +62,30 @@ def _rounded_position(position: tuple[float, ...]) -> tuple[float, ...]:
     return tuple(_rounded(c) for c in position)
 
 
-def isomer_to_dict(iso: Isomer) -> dict[str, Any]:
+def _site_dict(s: Any) -> dict[str, Any]:
+    d: dict[str, Any] = {
+        "position": list(_rounded_position(tuple(s.position))),
+        "ligand": s.ligand,
+        "donor": s.donor,
+        "unit": s.unit,
+        "donor_index": s.donor_index,
+    }
+    if s.ring:
+        d["ring"] = True
+    return d
+
+
+def isomer_to_dict(iso: Isomer, seen: dict[int, dict[str, Any]] | None = None) -> dict[str, Any]:
     """The JSON object of one isomer before the analyses add their keys.
 
     Parameters
     ----------
     iso : Isomer
         One stereoisomer.
+    seen : dict, optional
+        The site objects already written in this document (by ``id``; the
+        isomers of one listing share equal sites): each is copied, not built
+        again.  Every isomer still gets dicts and lists of its own.
 
     Returns
     -------
@@ -77,17 +94,14 @@ def isomer_to_dict(iso: Isomer) -> dict[str, Any]:
         ``sites`` (position rounded to 6 decimals, ligand, donor, unit,
         donor_index, and ``ring`` for an η-ring site).
     """
+    seen = {} if seen is None else seen
     sites = []
     for s in iso.sites:
-        d: dict[str, Any] = {
-            "position": list(_rounded_position(tuple(s.position))),
-            "ligand": s.ligand,
-            "donor": s.donor,
-            "unit": s.unit,
-            "donor_index": s.donor_index,
-        }
-        if s.ring:
-            d["ring"] = True
+        t = seen.get(id(s))
+        if t is None:
+            t = seen[id(s)] = _site_dict(s)
+        d = dict(t)
+        d["position"] = list(t["position"])
         sites.append(d)
     return {
         "id": iso.id,
@@ -134,6 +148,7 @@ class Result:
             ``top_json`` into the document.
         """
         iso = self.isomer_set
+        seen: dict[int, dict[str, Any]] = {}  # the sites' objects stay alive (the isomers hold them)
         doc: dict[str, Any] = {
             "schema_version": SCHEMA_VERSION,
             "formula": self.composition.formula,
@@ -142,7 +157,7 @@ class Result:
             "stereoisomers": iso.stereoisomers,
             "geometric_isomers": iso.geometric_isomers,
             "complete": iso.complete,
-            "isomers": [isomer_to_dict(i) for i in iso.isomers],
+            "isomers": [isomer_to_dict(i, seen) for i in iso.isomers],
             "notes": list(self.notes),
         }
         for a in self.analyses:
