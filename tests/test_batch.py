@@ -149,5 +149,5 @@ def test_a_dead_worker_fails_its_chunk_rows_only(monkeypatch):
 
     dead: Future = Future()
     dead.set_exception(RuntimeError("killed"))
-    rows = batch_mod._collect(dead, [(4, "Ma4b2", "x")])
-    assert rows[0][0].index == 4 and rows[0][0].label == "x" and "worker process failed" in (rows[0][0].error or "")
+    table, refs = batch_mod._collect(dead, [(4, "Ma4b2", "x"), (5, "Ma5b", "")])
+    assert refs == [0, 1] and all(key is None and "worker process failed" in (row.error or "") for row, key in table)

@@ -391,9 +391,16 @@ def screen(
 
 
 def _screen_rows(
-    items: Sequence[tuple[int, str, str]], rules: tuple[str, ...], geometry: str | None, limit: int | None
+    items: Sequence[tuple[int, str, str]],
+    rules: tuple[str, ...],
+    geometry: str | None,
+    limit: int | None,
+    relabel: bool = True,
 ) -> Iterator[tuple[BatchRow, tuple | None]]:
-    """The rows of ``items`` in this process, each with its pattern key (None for a refused row)."""
+    """The rows of ``items`` in this process, each with its pattern key (None for a refused row).
+
+    With ``relabel=False`` each row comes without its index and label (one object per formula and cache state,
+    shared by its repeats)."""
     reader = _Reader(geometry, rules, limit)
     prepared = [(k, label, *_read_row(reader, formula, label)) for k, formula, label in items]
     done: dict[tuple, PatternSummary] = {}
@@ -401,8 +408,8 @@ def _screen_rows(
     # a formula's finished row, by whether its pattern was seen before: a repeat is relabelled
     finished: dict[tuple[str, bool], BatchRow] = {}
     for k, label, row, key in prepared:
-        if key is None:
-            yield _relabel(row, k, _shown(label)), None  # a refused row: its text escaped and shortened
+        if key is None:  # a refused row: its text escaped and shortened
+            yield (_relabel(row, k, _shown(label)) if relabel else row), None
             continue
         cached = key in seen
         out = finished.get((row.formula, cached))
@@ -411,15 +418,29 @@ def _screen_rows(
             if summary is None:
                 summary = done[key] = _summarise(row.formula, key[1], rules, limit)
             out = finished[(row.formula, cached)] = _with(row, summary, cached)
-        yield _relabel(out, k, label), key
+        yield (_relabel(out, k, label) if relabel else out), key
         seen.add(key)
+
+
+#: What a worker sends back for a chunk: its distinct rows with their pattern keys, and per input row the
+#: place of its row in that list (a repeated formula is sent once; index and label are put back here).
+_Chunk = tuple[list[tuple[BatchRow, tuple | None]], list[int]]
 
 
 def _screen_chunk(
     items: list[tuple[int, str, str]], rules: tuple[str, ...], geometry: str | None, limit: int | None
-) -> list[tuple[BatchRow, tuple | None]]:
+) -> _Chunk:
     """Worker (top level, so a spawned process can import it): one contiguous chunk screened whole."""
-    return list(_screen_rows(items, rules, geometry, limit))
+    table: list[tuple[BatchRow, tuple | None]] = []
+    place: dict[int, int] = {}  # by the identity of a shared row object (the table keeps each alive)
+    refs = []
+    for row, key in _screen_rows(items, rules, geometry, limit, relabel=False):
+        at = place.get(id(row))
+        if at is None:
+            at = place[id(row)] = len(table)
+            table.append((row, key))
+        refs.append(at)
+    return table, refs
 
 
 def _pooled(
@@ -438,27 +459,29 @@ def _pooled(
         futures = [pool.submit(_screen_chunk, chunk, rules, geometry, limit) for chunk in chunks]
         seen: set[tuple] = set()
         for chunk, future in zip(chunks, futures, strict=True):
-            for row, key in _collect(future, chunk):
-                if key is not None:
-                    cached = key in seen
-                    yield row if row.cached == cached else replace(row, cached=cached)
-                    seen.add(key)
-                else:
-                    yield row
+            table, refs = _collect(future, chunk)
+            fixed: dict[int, BatchRow] = {}
+            for (k, _, label), at in zip(chunk, refs, strict=True):
+                row, key = table[at]
+                if key is None:
+                    yield _relabel(row, k, _shown(label))
+                    continue
+                if not row.cached and key in seen:
+                    row = fixed.get(at) or fixed.setdefault(at, replace(row, cached=True))
+                yield _relabel(row, k, label)
+                seen.add(key)
     finally:
         pool.shutdown(cancel_futures=True)
 
 
-def _collect(
-    future: Future[list[tuple[BatchRow, tuple | None]]], chunk: list[tuple[int, str, str]]
-) -> list[tuple[BatchRow, tuple | None]]:
+def _collect(future: Future[_Chunk], chunk: list[tuple[int, str, str]]) -> _Chunk:
     """A worker's rows, or a row error for each of its chunk's rows when the worker died (memory, a broken
     pool)."""
     try:
         return future.result()
     except Exception as exc:  # BrokenProcessPool and the like: this chunk's rows fail, the other chunks go on
         error = f"the worker process failed ({type(exc).__name__}); run this row alone"
-        return [(BatchRow(k, _shown(f), _shown(label), error=error), None) for k, f, label in chunk]
+        return [(BatchRow(0, _shown(f), error=error), None) for _, f, _ in chunk], list(range(len(chunk)))
 
 
 def _shown(text: str) -> str:
