@@ -98,3 +98,56 @@ def test_a_repeated_formula_gives_the_first_rows_answer_with_its_own_place_and_l
     rows = list(screen([("Ma4b2", "one"), ("Ma5b", "two"), ("Ma4b2", "three")]))
     assert [(r.index, r.label, r.cached) for r in rows] == [(0, "one", False), (1, "two", False), (2, "three", True)]
     assert rows[2].point_groups == rows[0].point_groups and rows[2].geometry == rows[0].geometry
+
+
+#: Repeats across the chunk boundaries, refused rows (an unknown metal, a broken formula, a refused label), a
+#: pattern beyond the size cap (Mabcdefghijkl: 12 different ligands) and labels.
+POOL_INPUT = [
+    "Ma4b2",
+    "[Xx(CO)6]",
+    ("[Co(NH3)4Cl2]+", "bad\x01label"),
+    ("[RuCl2(CO)2(PPh3)2]", "Ru"),
+    "Ma4b2",
+    "[OsBr2(CO)2(PMe3)2]",
+    "[Fe(CO)99",
+    "Mabcdefghijkl",
+] * 3
+
+
+def test_pooled_chunks_give_the_rows_of_one_process(monkeypatch):
+    # common practice: the pool must not change the answer; every row, its 'cached' flag across chunk
+    # boundaries included, and every rendered format are the same as with one process
+    import enumerator.workflow.batch as batch_mod
+    from enumerator.render.batch import render_batch
+
+    monkeypatch.setattr(batch_mod, "POOL_MIN_ROWS", 1)
+    one = batch_mod.run_batch(POOL_INPUT)
+    for workers in (2, 3):
+        seen: list[tuple[int, int]] = []
+        pooled = batch_mod.run_batch(POOL_INPUT, workers=workers, progress=lambda f, d, t, s=seen: s.append((d, t)))
+        assert pooled == one
+        assert all(render_batch(pooled, fmt) == render_batch(one, fmt) for fmt in ("csv", "json", "table"))
+        assert seen[-1] == (len(POOL_INPUT), len(POOL_INPUT))
+    assert one.rows[8].cached and one.rows[8].formula == "Ma4b2"  # first of its chunk, seen in an earlier one
+    assert "--limit N" in (one.rows[7].error or "")  # the size-cap refusal stays that row's error
+
+
+def test_small_inputs_stay_in_one_process(monkeypatch):
+    import enumerator.workflow.batch as batch_mod
+
+    def no_pool(*args, **kwargs):
+        raise AssertionError("a small input must not start processes")
+
+    monkeypatch.setattr(batch_mod, "_pooled", no_pool)
+    assert len(list(batch_mod.screen(FORMULAS, workers=4))) == len(FORMULAS)
+
+
+def test_a_dead_worker_fails_its_chunk_rows_only(monkeypatch):
+    from concurrent.futures import Future
+
+    import enumerator.workflow.batch as batch_mod
+
+    dead: Future = Future()
+    dead.set_exception(RuntimeError("killed"))
+    table, refs = batch_mod._collect(dead, [(4, "Ma4b2", "x"), (5, "Ma5b", "")])
+    assert refs == [0, 1] and all(key is None and "worker process failed" in (row.error or "") for row, key in table)

@@ -5,9 +5,11 @@ Each formula is parsed and its centre counted in the calling process
 pattern with donor labels normalised within each ligand kind, the reporter
 classes and the geometry -- so ``[RuCl2(CO)2(PPh3)2]`` and
 ``[OsBr2(CO)2(PMe3)2]`` share one enumeration and a repeated pattern costs
-nothing.  With ``workers > 1`` the distinct patterns run in a
-``concurrent.futures.ProcessPoolExecutor``; the rows still come out in
-input order.  A bad formula becomes a row with ``error`` set; the rest go on.
+nothing.  With ``workers > 1`` and at least :data:`POOL_MIN_ROWS` rows
+the input is cut into contiguous chunks, each screened whole (reading,
+which dominates a typical library, and enumeration) in a
+``concurrent.futures.ProcessPoolExecutor``; the rows come out in input
+order, the same as with one process.  A bad formula becomes a row with ``error`` set; the rest go on.
 
 :func:`screen` yields the rows one by one; :func:`run_batch` collects them
 into a :class:`BatchResult` (whose ``to_dict()`` is the JSON of ``isosieve
@@ -341,6 +343,11 @@ def _items(formulas: Iterable[str | tuple[str, str]]) -> list[tuple[int, str, st
     return out
 
 
+#: Fewer input rows than this are screened in one process whatever ``workers`` (starting processes would cost
+#: more than they save).
+POOL_MIN_ROWS = 2_000
+
+
 def screen(
     formulas: Iterable[str | tuple[str, str]],
     *,
@@ -358,7 +365,9 @@ def screen(
     rules : sequence of str
         Rule folders in force (``--rules DIR``).
     workers : int
-        Processes for the distinct patterns (1: all in this process).
+        Processes: with ``workers > 1`` and at least :data:`POOL_MIN_ROWS` rows the input is cut into
+        ``workers`` contiguous chunks, each screened whole (reading and enumeration) in its own process; the
+        rows are the same as with one process.
     geometry : str, optional
         One geometry for every formula (default: chosen per formula).
     limit : int, optional
@@ -373,48 +382,106 @@ def screen(
         control characters escaped and shortened to :data:`enumerator.limits.ECHO_CHARS` characters.
     """
     rules = tuple(rules)
+    items = _items(formulas)
+    if workers > 1 and len(items) >= POOL_MIN_ROWS:
+        yield from _pooled(items, rules, workers, geometry, limit)
+    else:
+        for row, _ in _screen_rows(items, rules, geometry, limit):
+            yield row
+
+
+def _screen_rows(
+    items: Sequence[tuple[int, str, str]],
+    rules: tuple[str, ...],
+    geometry: str | None,
+    limit: int | None,
+    relabel: bool = True,
+) -> Iterator[tuple[BatchRow, tuple | None]]:
+    """The rows of ``items`` in this process, each with its pattern key (None for a refused row).
+
+    With ``relabel=False`` each row comes without its index and label (one object per formula and cache state,
+    shared by its repeats)."""
     reader = _Reader(geometry, rules, limit)
-    prepared = [(k, label, *_read_row(reader, formula, label)) for k, formula, label in _items(formulas)]
-    first: dict[tuple, str] = {}
-    for _, _, row, key in prepared:
-        if key is not None and key not in first:
-            first[key] = row.formula
-    done: dict[tuple, PatternSummary | Future[PatternSummary]] = {}
-    pool = None
-    if workers > 1 and len(first) > 1:
-        from concurrent.futures import ProcessPoolExecutor
+    prepared = [(k, label, *_read_row(reader, formula, label)) for k, formula, label in items]
+    done: dict[tuple, PatternSummary] = {}
+    seen: set[tuple] = set()
+    # a formula's finished row, by whether its pattern was seen before: a repeat is relabelled
+    finished: dict[tuple[str, bool], BatchRow] = {}
+    for k, label, row, key in prepared:
+        if key is None:  # a refused row: its text escaped and shortened
+            yield (_relabel(row, k, _shown(label)) if relabel else row), None
+            continue
+        cached = key in seen
+        out = finished.get((row.formula, cached))
+        if out is None:
+            summary = done.get(key)
+            if summary is None:
+                summary = done[key] = _summarise(row.formula, key[1], rules, limit)
+            out = finished[(row.formula, cached)] = _with(row, summary, cached)
+        yield (_relabel(out, k, label) if relabel else out), key
+        seen.add(key)
 
-        pool = ProcessPoolExecutor(max_workers=workers)
-        for key, formula in first.items():
-            done[key] = pool.submit(_summarise, formula, key[1], rules, limit)
+
+#: What a worker sends back for a chunk: its distinct rows with their pattern keys, and per input row the
+#: place of its row in that list (a repeated formula is sent once; index and label are put back here).
+_Chunk = tuple[list[tuple[BatchRow, tuple | None]], list[int]]
+
+
+def _screen_chunk(
+    items: list[tuple[int, str, str]], rules: tuple[str, ...], geometry: str | None, limit: int | None
+) -> _Chunk:
+    """Worker (top level, so a spawned process can import it): one contiguous chunk screened whole."""
+    table: list[tuple[BatchRow, tuple | None]] = []
+    place: dict[int, int] = {}  # by the identity of a shared row object (the table keeps each alive)
+    refs = []
+    for row, key in _screen_rows(items, rules, geometry, limit, relabel=False):
+        at = place.get(id(row))
+        if at is None:
+            at = place[id(row)] = len(table)
+            table.append((row, key))
+        refs.append(at)
+    return table, refs
+
+
+def _pooled(
+    items: list[tuple[int, str, str]], rules: tuple[str, ...], workers: int, geometry: str | None, limit: int | None
+) -> Iterator[BatchRow]:
+    """The rows of ``items`` screened in ``workers`` contiguous chunks, one process each, in input order.
+
+    A chunk's first row of a pattern is marked ``cached`` here when an earlier chunk had the pattern, so the
+    rows equal those of one process."""
+    from concurrent.futures import ProcessPoolExecutor
+
+    size = -(-len(items) // workers)
+    chunks = [items[i : i + size] for i in range(0, len(items), size)]
+    pool = ProcessPoolExecutor(max_workers=len(chunks))
     try:
+        futures = [pool.submit(_screen_chunk, chunk, rules, geometry, limit) for chunk in chunks]
         seen: set[tuple] = set()
-        # a formula's finished row, by whether its pattern was seen before: a repeat is relabelled
-        finished: dict[tuple[str, bool], BatchRow] = {}
-        for k, label, row, key in prepared:
-            if key is None:
-                yield _relabel(row, k, _shown(label))  # a refused row: its text escaped and shortened
-                continue
-            cached = key in seen
-            out = finished.get((row.formula, cached))
-            if out is None:
-                value = done[key] if key in done else _summarise(first[key], key[1], rules, limit)
-                summary = _collect(value) if isinstance(value, Future) else value
-                done[key] = summary
-                out = finished[(row.formula, cached)] = _with(row, summary, cached)
-            yield _relabel(out, k, label)
-            seen.add(key)
+        for chunk, future in zip(chunks, futures, strict=True):
+            table, refs = _collect(future, chunk)
+            fixed: dict[int, BatchRow] = {}
+            for (k, _, label), at in zip(chunk, refs, strict=True):
+                row, key = table[at]
+                if key is None:
+                    yield _relabel(row, k, _shown(label))
+                    continue
+                if not row.cached and key in seen:
+                    row = fixed.get(at) or fixed.setdefault(at, replace(row, cached=True))
+                yield _relabel(row, k, label)
+                seen.add(key)
     finally:
-        if pool is not None:
-            pool.shutdown(cancel_futures=True)
+        pool.shutdown(cancel_futures=True)
 
 
-def _collect(future: Future[PatternSummary]) -> PatternSummary:
-    """A worker's summary, or the row error when the worker died (killed for memory, a broken pool)."""
+def _collect(future: Future[_Chunk], chunk: list[tuple[int, str, str]]) -> _Chunk:
+    """A worker's rows, or a row error for each of its chunk's rows when the worker died (memory, a broken
+    pool)."""
     try:
         return future.result()
-    except Exception as exc:  # BrokenProcessPool and the like: this pattern's rows fail, the rest go on
-        return PatternSummary(error=f"the worker process failed ({type(exc).__name__}); run this row alone")
+    except Exception as exc:  # BrokenProcessPool and the like: this chunk's rows fail, the other chunks go on
+        error = f"the worker process failed ({type(exc).__name__}); run this row alone"
+        return [(BatchRow(0, _shown(f), error=error), None) for _, f, _ in chunk], list(range(len(chunk)))
 
 
 def _shown(text: str) -> str:
