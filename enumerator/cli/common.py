@@ -9,8 +9,6 @@ from __future__ import annotations
 
 import contextlib
 import os
-import sys
-import time
 from collections.abc import Callable, Iterator
 
 import click
@@ -100,9 +98,8 @@ def write_atomic_bytes(path: str | os.PathLike[str], data: bytes) -> None:
 
 @contextlib.contextmanager
 def progress_callback(label: str, delay: float = 1.0) -> Iterator[Callable[[int, int], None]]:
-    """A ``progress(done, total)`` callback that shows a bar on a terminal once the work has taken ``delay`` s.
-
-    Quick work shows nothing, and nothing is shown when standard error is not a terminal.
+    """A ``progress(done, total)`` callback that shows a bar on a terminal once the work has taken ``delay`` s
+    (:func:`enumerator.cli.progress.bar`, for library calls that report counts without a name).
 
     Parameters
     ----------
@@ -116,21 +113,7 @@ def progress_callback(label: str, delay: float = 1.0) -> Iterator[Callable[[int,
     callable
         To be called with (done, total) as the work goes on.
     """
-    start = time.monotonic()
-    bars: list = []
-    tty = bool(getattr(sys.stderr, "isatty", None) and sys.stderr.isatty())
+    from enumerator.cli.progress import bar
 
-    def update(done: int, total: int) -> None:
-        if not bars:
-            if not tty or time.monotonic() - start < delay:
-                return
-            bar = click.progressbar(length=total, label=label, file=sys.stderr)
-            bar.__enter__()
-            bars.append(bar)
-        bars[0].update(done - bars[0].pos)
-
-    try:
-        yield update
-    finally:
-        if bars:
-            bars[0].__exit__(None, None, None)
+    with bar(label, delay=delay) as progress:
+        yield lambda done, total: progress("", done, total)

@@ -11,6 +11,7 @@ does nothing.
 from __future__ import annotations
 
 import sys
+import time
 from collections.abc import Callable, Iterator
 from contextlib import contextmanager
 from typing import Any
@@ -39,7 +40,7 @@ def on_terminal(stream: Any = None) -> bool:
 
 
 @contextmanager
-def bar(label: str, stream: Any = None) -> Iterator[Progress]:
+def bar(label: str, stream: Any = None, delay: float = 0.0) -> Iterator[Progress]:
     """A progress callback that draws one bar, started on its first call (when the total is known).
 
     Parameters
@@ -48,6 +49,8 @@ def bar(label: str, stream: Any = None) -> Iterator[Progress]:
         Shown in front of the bar, e.g. 'report'.
     stream : file-like, optional
         Where to draw (standard error by default); nothing is drawn unless it is a terminal.
+    delay : float, optional
+        Seconds of work before a bar appears (quick work shows nothing).
 
     Yields
     ------
@@ -59,8 +62,11 @@ def bar(label: str, stream: Any = None) -> Iterator[Progress]:
         yield lambda what, done, total: None
         return
     state: dict[str, Any] = {}
+    start = time.monotonic()
 
     def progress(what: str, done: int, total: int) -> None:
+        if delay and "bar" not in state and time.monotonic() - start < delay:
+            return
         b = state.get("bar")
         if b is None or state.get("total") != total or done <= state.get("done", 0):
             if b is not None:
@@ -68,7 +74,7 @@ def bar(label: str, stream: Any = None) -> Iterator[Progress]:
             b = click.progressbar(length=max(total, 1), label=label, file=out, show_pos=True)
             b.render_progress()
             state.update(bar=b, total=total, done=0)
-        b.label = f"{label}: {what}"[:60]
+        b.label = (f"{label}: {what}" if what else label)[:60]
         b.update(max(done - state["done"], 0))
         state["done"] = done
 

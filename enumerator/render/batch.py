@@ -16,7 +16,7 @@ from collections.abc import Callable, Mapping
 from types import MappingProxyType
 from typing import Any
 
-from enumerator.errors import InputError
+from enumerator.render.formats import write_in
 from enumerator.render.jsonout import dumps
 from enumerator.render.tables import write_csv
 from enumerator.render.text import table
@@ -123,6 +123,4 @@ def render_batch(res: BatchResult, fmt: str) -> str:
     InputError
         An unknown format.
     """
-    if fmt not in _WRITERS:
-        raise InputError(f"format '{fmt}' is not one of {', '.join(FORMATS)}", "use --format table")
-    return _WRITERS[fmt](res)
+    return write_in(_WRITERS, fmt, res, "use --format table")

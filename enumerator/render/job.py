@@ -20,9 +20,8 @@ from collections.abc import Callable, Mapping
 from pathlib import Path
 from types import MappingProxyType
 
-from enumerator.errors import InputError
-from enumerator.parse.job import FORMATS
 from enumerator.render import tables
+from enumerator.render.formats import write_in
 from enumerator.render.jsonout import dumps
 from enumerator.render.sections import safety_lines
 from enumerator.render.text import render
@@ -119,11 +118,11 @@ def job_csv_metadata(job: JobResult, csv_name: str) -> str:
 
 _WRITERS: Mapping[str, Callable[[JobResult], str]] = MappingProxyType(
     {
-        "json": _json,
-        "table": _table,
+        "table": _table,  # the order of enumerator.parse.job.FORMATS, as the refusal lists them
         "markdown": _markdown,
-        "latex": _latex,
         "csv": _csv,
+        "latex": _latex,
+        "json": _json,
     }
 )
 
@@ -146,9 +145,7 @@ def render_job(job: JobResult, fmt: str) -> str:
     InputError
         An unknown format.
     """
-    if fmt not in _WRITERS:
-        raise InputError(f"format '{fmt}' is not one of {', '.join(FORMATS)}", "use --format markdown")
-    return _WRITERS[fmt](job)
+    return write_in(_WRITERS, fmt, job, "use --format markdown")
 
 
 def job_files(job: JobResult) -> list[tuple[Path, str]]:

@@ -15,7 +15,7 @@ from __future__ import annotations
 from collections.abc import Callable, Mapping
 from types import MappingProxyType
 
-from enumerator.errors import InputError
+from enumerator.render.formats import write_in
 from enumerator.render.jsonout import dumps
 from enumerator.render.tables import write_csv
 from enumerator.render.text import table
@@ -103,6 +103,4 @@ def render_ligands(cat: LigandCatalogue, fmt: str) -> str:
     InputError
         An unknown format.
     """
-    if fmt not in _WRITERS:
-        raise InputError(f"format '{fmt}' is not one of {', '.join(FORMATS)}", "use --format table")
-    return _WRITERS[fmt](cat)
+    return write_in(_WRITERS, fmt, cat, "use --format table")

@@ -16,8 +16,8 @@ from __future__ import annotations
 from collections.abc import Callable, Mapping
 from types import MappingProxyType
 
-from enumerator.errors import InputError
 from enumerator.render import tables
+from enumerator.render.formats import write_in
 from enumerator.render.jsonout import dumps, gc_paused
 from enumerator.render.text import render
 from enumerator.workflow.result import Result
@@ -65,6 +65,4 @@ def render_result(res: Result, fmt: str) -> str:
     InputError
         An unknown format.
     """
-    if fmt not in _WRITERS:
-        raise InputError(f"format '{fmt}' is not one of {', '.join(FORMATS)}", "use --format table")
-    return _WRITERS[fmt](res)
+    return write_in(_WRITERS, fmt, res, "use --format table")
