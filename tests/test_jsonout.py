@@ -1,25 +1,33 @@
-"""The fast JSON writer gives the reference writer's text byte for byte.
+"""The fast JSON writers give the reference writer's text byte for byte.
 
-:func:`enumerator.render.jsonout.dumps` writes the document in one pass,
-using the standard library's C encoder for containers of scalars and
-remembering the text of repeated ones; :func:`dumps_reference` is the
-standard library's indenting encoder followed by the flattening of number
-lists, the writer every stored output was made with.  The property: any
-JSON-able document gives the same text from both (``json`` module
-semantics, Python documentation; the cases below are common practice for
-encoders: types that compare equal but print differently, signed zeros,
-non-finite floats, non-string keys, brackets inside strings).
+:func:`dumps_reference` is the standard library's indenting encoder followed
+by the flattening of number lists, the writer every stored output was made
+with.  :func:`enumerator.render.jsonout.dumps` writes through orjson where
+that gives the same text and otherwise through :func:`dumps_onepass` (one
+pass, the standard library's C encoder for containers of scalars, repeated
+ones remembered).  The property: any JSON-able document gives the same text
+from all three (``json`` module semantics, Python documentation; the cases
+below are common practice for encoders: types that compare equal but print
+differently, signed zeros, non-finite floats, non-string keys, brackets
+inside strings).  Where orjson's text differs from the standard library's
+(numbers below 1e-4, NaN and infinities, enums and UUIDs, big integers;
+orjson's README, "Serialize", checked here on orjson 3.13) the document must
+go the one-pass way; every document of a corpus of commands must go the
+orjson way and give the reference's bytes.
 """
 
 from __future__ import annotations
 
+import enum
 import math
+import uuid
 
 import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from enumerator.render.jsonout import dumps, dumps_reference
+from enumerator.render import jsonout
+from enumerator.render.jsonout import dumps, dumps_onepass, dumps_reference
 
 SCALARS = (
     st.none()
@@ -41,7 +49,9 @@ DOCS = st.recursive(
 @settings(max_examples=400, deadline=None, derandomize=True)  # the same draws every run (reproducible CI)
 @given(DOCS)
 def test_any_document_is_written_as_the_reference_writes_it(doc):
-    assert dumps(doc) == dumps_reference(doc)
+    ref = dumps_reference(doc)
+    assert dumps(doc) == ref
+    assert dumps_onepass(doc) == ref
 
 
 @pytest.mark.parametrize(
@@ -59,6 +69,7 @@ def test_any_document_is_written_as_the_reference_writes_it(doc):
 )
 def test_edge_documents(doc):
     assert dumps(doc) == dumps_reference(doc)
+    assert dumps_onepass(doc) == dumps_reference(doc)
 
 
 def test_an_unknown_type_is_refused_as_json_refuses_it():
@@ -66,3 +77,134 @@ def test_an_unknown_type_is_refused_as_json_refuses_it():
         dumps({"x": {1, 2}})
     with pytest.raises(TypeError):
         dumps_reference({"x": {1, 2}})
+
+
+class _Colour(enum.Enum):
+    RED = 1
+
+
+class _Text(str):
+    pass
+
+
+class _Number(enum.IntEnum):
+    ONE = 1
+
+
+def _nested(depth):
+    doc: list = []
+    inner = doc
+    for _ in range(depth):
+        inner.append([])
+        inner = inner[0]
+    return doc
+
+
+# Each document orjson would write otherwise than the standard library (orjson 3.13, checked by hand:
+# 1e-05 as 0.00001, 1e-07 as 1e-7, NaN and infinities as null, an Enum member as its value, a UUID as
+# its text, 2**64 refused, a non-string key refused, nesting past 255 refused): the orjson route must decline it.
+DECLINED = [
+    {"x": 1e-05},
+    {"x": [2.5e-05, 1.0]},
+    {"x": -1e-07},
+    {"x": 5e-324},
+    {"x": math.nan},
+    {"x": [1.0, -math.inf]},
+    {"x": math.inf, "y": [math.inf, math.inf]},
+    {"x": 2**64},
+    {"x": -(2**63) - 1},
+    {1: "int key"},
+    {"x": _Text("a str subclass")},
+    {"x": _Number.ONE},
+    {_Text("key"): 1},
+    _nested(300),  # orjson refuses nesting deeper than 255
+]
+
+
+@pytest.mark.parametrize("doc", DECLINED)
+def test_documents_orjson_writes_otherwise_go_the_one_pass_way(doc):
+    pytest.importorskip("orjson")
+    assert jsonout._orjson_text(doc) is None
+    assert dumps(doc) == dumps_reference(doc)
+
+
+@pytest.mark.parametrize("doc", [{"x": _Colour.RED}, {"x": uuid.UUID(int=1)}, {"x": {1, 2}}, {"x": b"1"}])
+def test_types_the_reference_refuses_are_refused(doc):
+    # orjson writes enums and UUIDs; the reference (the standard library) refuses them, and so must dumps
+    pytest.importorskip("orjson")
+    assert jsonout._orjson_text(doc) is None
+    with pytest.raises(TypeError):
+        dumps_reference(doc)
+    with pytest.raises(TypeError):
+        dumps(doc)
+
+
+@pytest.mark.parametrize(
+    "doc",
+    [
+        # numbers at the edges of float.__repr__'s fixed and exponent forms (Python documentation,
+        # "Floating Point Arithmetic"): the same text from orjson
+        {"x": [1e-04, 0.0001234, 1e15, 1e16, 1.2345678901234568e17, 1.7976931348623157e308, -0.0, 0.0]},
+        {"x": "text with e-5 and 0.00001 inside a string is not a number"},
+        {"s": 'é \u2028 \x7f \x00 \x1f " \\ \U0001f600', "t": "[1,  2] [ -0.5 ,1e+3 ]"},
+        {"big": [2**63 - 1, -(2**63), 2**64 - 1]},
+    ],
+)
+def test_orjson_route_matches_the_reference_at_the_edges(doc):
+    pytest.importorskip("orjson")
+    text = jsonout._orjson_text(doc)
+    ref = dumps_reference(doc)
+    assert text in (None, ref)  # None only where a string looks like a small number
+    if "text with" not in str(doc):
+        assert text == ref
+
+
+#: Commands whose JSON documents make the corpus (every command with --json, common practice: the
+#: documents the test suite and the README produce).
+CORPUS = [
+    ["isomers", "Ma3b3c3d3", "-g", "IC-12", "--json"],
+    ["isomers", "Ma2b2c2", "--json"],
+    ["isomers", "M(AA)2b2", "--json"],
+    ["isomers", "[Fe(CN)5(NO)]2-", "--json"],
+    ["isomers", "[RuCl2(CO)2(PPh3)2]", "--json"],
+    ["isomers", "Mabcdefgh", "-g", "CU-8", "--json"],
+    ["isomers", "[Mo(CO)3(PPh3)3]", "--json"],
+    ["bands", "[Cr(CO)6]", "--json"],
+    ["bands", "[Mo(CO)3(PPh3)3]", "--json"],
+    ["match", "[Mo(CO)3(PPh3)3]", "--bands", "1950,1860,1840", "--json"],
+    ["match", "Ma3b3", "--reporter", "a=CO", "--bands", "2050,1975,1947", "--json"],
+    ["route", "[PtCl4]2-", "--target", "cis-[PtCl2(NH3)2]", "--json"],
+    ["network", "[Cr(CO)6]", "--target", "[Cr(CO)3(PPh3)3]", "--json"],
+    ["count", "M(AA)b4", "--span", "AA=trans", "--json"],
+    ["chartable", "Ih", "--json"],
+    ["ligands", "--json"],
+    ["geometries", "--json"],
+    ["job", "examples/ruthenium/ru_dicarbonyl.toml", "--format", "json"],
+    ["batch", "examples/iron/screen.txt", "--format", "json"],
+]
+
+
+@pytest.mark.parametrize("args", CORPUS, ids=lambda a: " ".join(a[:3]))
+def test_every_command_document_goes_the_orjson_way_with_the_reference_bytes(args, monkeypatch):
+    pytest.importorskip("orjson")
+    from pathlib import Path
+
+    from _cli import cli
+
+    monkeypatch.chdir(Path(__file__).resolve().parent.parent)
+    seen = []
+    orjson_text = jsonout._orjson_text
+
+    def spy(doc):
+        text = orjson_text(doc)
+        seen.append((doc, text))
+        return text
+
+    monkeypatch.setattr(jsonout, "_orjson_text", spy)
+    code, out, err = cli(args)
+    assert code == 0, err
+    assert seen
+    for doc, text in seen:
+        assert text is not None  # the fast route was taken
+        assert text == dumps_reference(doc)
+    assert out.endswith(seen[-1][1])

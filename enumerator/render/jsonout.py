@@ -4,6 +4,20 @@ The document's shape is defined once, by each result's ``to_dict()``
 (:meth:`enumerator.workflow.result.Result.to_dict` for an isomer listing);
 this module only writes it out.  Keys are only ever added, never renamed.
 
+One text, three writers.  :func:`dumps_reference` defines it: the standard
+library's ``json.dumps(doc, indent=2, ensure_ascii=False)`` with every array
+of numbers joined onto one line.  :func:`dumps` gives the same bytes faster:
+through orjson (a compiled encoder, https://github.com/ijl/orjson) where the
+document is one orjson writes exactly as the standard library does, else
+through :func:`dumps_onepass`, a pure-Python one-pass writer.  orjson differs
+from the standard library in three places, each checked before its text is
+used: it writes types the standard library refuses (enums, UUIDs; a
+``marshal`` pass admits only the plain JSON types), it writes NaN and
+infinities as ``null`` (found in that pass's packed floats), and it writes
+numbers below 1e-4 in another form (``0.00001`` and ``1e-7`` for ``1e-05``
+and ``1e-07``; found in its text).  tests/test_jsonout.py holds all three
+writers byte-equal.
+
 >>> print(dumps({"position": [0.0, 1.0, -1.0], "ids": ["1", "2"]}), end="")
 {
   "position": [0.0, 1.0, -1.0],
@@ -20,15 +34,23 @@ import contextlib
 import gc
 import itertools
 import json
+import marshal
 import math
 import re
 from collections.abc import Callable, Iterable, Iterator
+from types import ModuleType
 from typing import Any
 
 from enumerator.caches import cached
 from enumerator.workflow.result import Result, isomer_to_dict
 
-__all__ = ["dumps", "dumps_reference", "gc_paused", "result_to_dict", "isomer_to_dict"]
+_orjson: ModuleType | None
+try:
+    import orjson as _orjson
+except ImportError:  # pragma: no cover - orjson is a dependency; without it dumps_onepass writes everything
+    _orjson = None
+
+__all__ = ["dumps", "dumps_onepass", "dumps_reference", "gc_paused", "result_to_dict", "isomer_to_dict"]
 
 
 def result_to_dict(res: Result) -> dict[str, Any]:
@@ -304,15 +326,120 @@ class _Writer:
         append(leaf)
 
 
+#: A float ``marshal`` packed whose exponent bits are all set (NaN or an infinity): the type code
+#: (``g``, or ``\xe7`` with the back-reference flag) and eight little-endian bytes, the last two
+#: holding the sign and exponent.  Valid UTF-8 never has ``\x7f``/``\xff`` after a byte >= ``\xf0``,
+#: so strings cannot match; any other chance match only sends the document to the one-pass writer.
+#: (One pattern per type code: a literal first byte lets the regex engine skip ahead.)
+_NON_FINITE = (
+    re.compile(rb"g.{6}[\xf0-\xff][\x7f\xff]", re.DOTALL),
+    re.compile(rb"\xe7.{6}[\xf0-\xff][\x7f\xff]", re.DOTALL),
+)
+#: orjson's exponent form of a number below 1e-4 (``1e-7``; found with the digit before it checked).
+_EXPONENT = re.compile(rb"e-\d")
+_DIGITS = frozenset(b"0123456789")
+
+
+def _non_finite(packed: bytes) -> bool:
+    """Whether a ``marshal`` dump may hold a NaN or an infinity (never False when it does)."""
+    return any(p.search(packed) is not None for p in _NON_FINITE)
+
+
+def _small_number(raw: bytes) -> bool:
+    """Whether orjson's text may hold a number below 1e-4 (``0.00001``, ``1e-7``), written otherwise by
+    ``float.__repr__`` (``1e-05``, ``1e-07``); never False when it does, and a match inside a string only
+    sends the document to the one-pass writer."""
+    if b"0.0000" in raw:
+        return True
+    return any(m.start() > 0 and raw[m.start() - 1] in _DIGITS for m in _EXPONENT.finditer(raw))
+
+
+def _orjson_options() -> int:
+    assert _orjson is not None
+    # everything but the exact JSON types goes to ``default`` (which refuses it)
+    return (
+        _orjson.OPT_INDENT_2
+        | _orjson.OPT_APPEND_NEWLINE
+        | _orjson.OPT_PASSTHROUGH_DATACLASS
+        | _orjson.OPT_PASSTHROUGH_DATETIME
+        | _orjson.OPT_PASSTHROUGH_SUBCLASS
+    )
+
+
+def _flattened(text: str) -> str:
+    """The reference's flattening pass, each distinct match rewritten once."""
+    memo: dict[str, str] = {}
+
+    def flat(m: re.Match[str]) -> str:
+        whole = m.group()
+        out = memo.get(whole)
+        if out is None:
+            out = memo[whole] = _flat(m)
+        return out
+
+    return _FLAT.sub(flat, text)
+
+
+def _orjson_text(doc: Any) -> str | None:
+    """The reference text written through orjson, or None where orjson's would differ or it is missing.
+
+    ``marshal`` admits the plain JSON types only (exact str, int, float, bool,
+    None, list, tuple, dict; orjson also writes enums, UUIDs and fragments) and
+    packs every float in binary, where a NaN or an infinity is found (orjson
+    writes those ``null``); orjson itself refuses non-string keys, integers
+    beyond 64 bits, lone surrogates and nesting deeper than 255; small numbers
+    are found in its text.
+    """
+    if _orjson is None:
+        return None
+    try:
+        packed = marshal.dumps(doc)
+    except (ValueError, RecursionError):
+        return None
+    if _non_finite(packed):
+        return None
+    del packed
+    try:
+        raw = _orjson.dumps(doc, default=_unknown, option=_orjson_options())
+    except TypeError:
+        return None
+    if _small_number(raw):
+        return None
+    return _flattened(raw.decode())
+
+
+def dumps_onepass(doc: Any) -> str:
+    """:func:`dumps` written by a pure-Python one-pass writer: the route for documents orjson cannot write.
+
+    Containers of scalars go through the standard library's C encoder and
+    repeated ones are written once; everything else is indented here.
+
+    Parameters
+    ----------
+    doc : object
+        A JSON-serialisable document.
+
+    Returns
+    -------
+    str
+    """
+    w = _Writer()
+    w.write(doc, 0)
+    w.out.append("\n")
+    return "".join(w.out)
+
+
 def dumps(doc: Any) -> str:
     """Deterministic JSON text in the document's key order; short numeric
     arrays (positions, characters) stay on one line.
 
     The text is that of ``json.dumps(doc, indent=2, ensure_ascii=False)``
     with every array of numbers joined onto one line
-    (:func:`dumps_reference`), written in one pass: the standard library
-    indents through its pure-Python encoder, whose cost dominated large
-    listings.
+    (:func:`dumps_reference`), byte for byte.  It is written through orjson
+    where the document lets orjson match that text (plain JSON types, finite
+    floats, none below 1e-4; see the module's guide), else by
+    :func:`dumps_onepass`; the standard library's pure-Python indenting
+    encoder, whose cost dominated large listings, is not used.
 
     Parameters
     ----------
@@ -324,7 +451,5 @@ def dumps(doc: Any) -> str:
     str
         Two-space indented JSON, non-ASCII kept, ending in a newline.
     """
-    w = _Writer()
-    w.write(doc, 0)
-    w.out.append("\n")
-    return "".join(w.out)
+    text = _orjson_text(doc)
+    return dumps_onepass(doc) if text is None else text
