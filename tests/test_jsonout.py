@@ -148,6 +148,9 @@ def test_types_the_reference_refuses_are_refused(doc):
         {"x": "text with e-5 and 0.00001 inside a string is not a number"},
         {"s": 'é \u2028 \x7f \x00 \x1f " \\ \U0001f600', "t": "[1,  2] [ -0.5 ,1e+3 ]"},
         {"big": [2**63 - 1, -(2**63), 2**64 - 1]},
+        # Unicode spaces and digits inside strings: the reference's str pattern takes them as \s and \d
+        # (Python documentation, "re": Unicode matching is the default for str patterns)
+        {"s": ["[1,\u00a02]", "[\u0663,\u20031]", "[1,\u2028 2]"], "p": [0.5, 1.0]},
     ],
 )
 def test_orjson_route_matches_the_reference_at_the_edges(doc):

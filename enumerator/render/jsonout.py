@@ -366,8 +366,11 @@ def _orjson_options() -> int:
     )
 
 
-def _flattened(text: str) -> str:
-    """The reference's flattening pass, each distinct match rewritten once."""
+_FLAT_BYTES = re.compile(_FLAT.pattern.encode("ascii"))
+
+
+def _flat_memo() -> Callable[[re.Match[str]], str]:
+    """:func:`_flat` remembering each distinct match (a listing repeats the same few positions)."""
     memo: dict[str, str] = {}
 
     def flat(m: re.Match[str]) -> str:
@@ -377,7 +380,39 @@ def _flattened(text: str) -> str:
             out = memo[whole] = _flat(m)
         return out
 
-    return _FLAT.sub(flat, text)
+    return flat
+
+
+def _flattened_ascii(raw: bytes) -> bytearray:
+    """The reference's flattening pass over ASCII text, copied piece by piece into one buffer.
+
+    Only for ASCII text, where the bytes pattern matches what the reference's
+    str pattern matches (its ``\\s`` and ``\\d`` also take Unicode spaces and
+    digits, which JSON text can hold only inside strings and only unescaped,
+    so only as non-ASCII).  One buffer the size of the text is filled in
+    place, so that a large document's peak memory stays near the one-pass
+    writer's.
+    """
+    memo: dict[bytes, bytes] = {}
+    out = bytearray(len(raw))  # flattening only shortens: written in place, cut to length at the end
+    view = memoryview(raw)
+    pos = at = 0
+    for m in _FLAT_BYTES.finditer(raw):
+        start, end = m.span()
+        out[at : at + start - pos] = view[pos:start]
+        at += start - pos
+        whole = view[start:end].tobytes()
+        flat = memo.get(whole)
+        if flat is None:
+            flat = memo[whole] = b"[" + b", ".join(x.strip() for x in m.group(1).split(b",")) + b"]"
+        out[at : at + len(flat)] = flat
+        at += len(flat)
+        pos = end
+    out[at : at + len(raw) - pos] = view[pos:]
+    at += len(raw) - pos
+    view.release()
+    del out[at:]
+    return out
 
 
 def _orjson_text(doc: Any) -> str | None:
@@ -405,7 +440,14 @@ def _orjson_text(doc: Any) -> str | None:
         return None
     if _small_number(raw):
         return None
-    return _flattened(raw.decode())
+    # each step drops the text before it, so that at most two copies of the document's text are alive
+    if raw.isascii():
+        flat = _flattened_ascii(raw)
+        del raw
+        return flat.decode("ascii")
+    text = raw.decode()
+    del raw
+    return _FLAT.sub(_flat_memo(), text)
 
 
 def dumps_onepass(doc: Any) -> str:
