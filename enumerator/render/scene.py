@@ -350,13 +350,13 @@ def _legend_key(key: Key, x: float, cy: float, size: float) -> dict[str, Any]:
         "kind": key.kind,
         "x1": _f(x),
         "x2": _f(x + 2 * size),
-        "cx": _f(x + 0.6 * size),
+        "cx": _f(x + 1.0 * size),
         "cy": _f(cy),
         "r": _f(0.42 * size),
         "colour": key.colour,
         "width": _f(key.width),
         "dash": _f(3 * key.width) + " " + _f(1.6 * key.width),
-        "text": _axis_text(x + (1.2 if key.kind == "disc" else 2.6) * size, cy + 0.35 * size, key.text, size, "start"),
+        "text": _axis_text(x + 2.2 * size if key.kind == "disc" else x + 2.6 * size, cy + 0.35 * size, key.text, size, "start"),
     }
 
 
@@ -366,7 +366,8 @@ def _svg_figure_legend(scene: Scene) -> list[dict[str, Any]]:
     rows = [scene.legend[k : k + 6] for k in range(0, len(scene.legend), 6)]
     out = []
     for r, row in enumerate(rows):
-        widths = [1.2 * size + _text_width(k.text, size) + 0.8 * size for k in row]
+        # as matplotlib lays out a legend row: a 2 em handle, 0.2 em pad, the text, 0.8 em to the next
+        widths = [3.0 * size + _text_width(k.text, size) for k in row]
         x = (scene.width - sum(widths)) / 2
         cy = scene.height - 0.9 * size - (len(rows) - 1 - r) * 1.5 * size
         for key, w in zip(row, widths):
