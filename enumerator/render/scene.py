@@ -246,13 +246,18 @@ def _svg_runs(text: Runs) -> list[tuple[str, str]]:
 
 
 def _polyline(m: _Map, pts: Sequence[tuple[float, float]]) -> str:
-    """The points of a polyline in SVG units, a point dropped where it and both neighbours lie on one
-    horizontal row (the flat tails of a spectrum)."""
-    xy = [(_f(m.x(x)), _f(m.y(y))) for x, y in pts]
-    keep = [
-        p for k, p in enumerate(xy) if k in (0, len(xy) - 1) or not (xy[k - 1][1] == p[1] == xy[k + 1][1])
-    ]
-    return " ".join(f"{x},{y}" for x, y in keep)
+    """The points of a polyline in SVG units (0.1 pt), a point dropped where it and both neighbours lie on
+    one horizontal row (the flat tails of a spectrum)."""
+    import numpy as np
+
+    xy = np.asarray(pts, dtype=float).reshape(-1, 2)
+    # round half to even at 0.1 pt, as _f does; adding 0.0 turns -0.0 into 0.0
+    x = np.round(m.x0 + (xy[:, 0] - m.xlim[0]) * m.sx, 1) + 0.0
+    y = np.round(m.y1 - (xy[:, 1] - m.ylim[0]) * m.sy, 1) + 0.0
+    keep = np.ones(len(y), dtype=bool)
+    if len(y) > 2:
+        keep[1:-1] = ~((y[1:-1] == y[:-2]) & (y[1:-1] == y[2:]))
+    return " ".join(f"{a:.1f},{b:.1f}" for a, b in zip(x[keep].tolist(), y[keep].tolist()))
 
 
 def _svg_item(m: _Map, it: Item) -> dict[str, Any]:
