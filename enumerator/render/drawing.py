@@ -1,15 +1,18 @@
 """Structure drawings for the report: a 3D starting structure in ball-and-stick, coloured by element.
 
-:func:`molecule_figure` draws one :class:`~enumerator.structures.structure.Structure`
-(the model ``isosieve structures`` writes) with matplotlib: an oblique view of
-the same frame as the polyhedron drawings (turned 32 degrees about z, tilted 20
-degrees), bonds from the model's SD record (so an eta-ring is drawn as the ring
-it is), atoms in the Jmol element colours (:data:`JMOL_COLOURS`; the common
-CPK-derived convention of Jmol, as pymatgen ships it in
-``pymatgen/vis/ElementColorSchemes.yaml``), far atoms first, hydrogen atoms
-left out, a legend of the elements drawn, and one label per ligand placed
-outward from its donor and pushed apart until no two labels overlap.
-:func:`figure_svg` turns any figure into deterministic SVG text.
+:func:`molecule_scene` lays out one :class:`~enumerator.structures.structure.Structure`
+(the model ``isosieve structures`` writes) as a :class:`~enumerator.render.scene.Scene`:
+an oblique view of the same frame as the polyhedron drawings (turned 32
+degrees about z, tilted 20 degrees), bonds from the model's SD record (so an
+eta-ring is drawn as the ring it is), atoms in the Jmol element colours
+(:data:`JMOL_COLOURS`; the common CPK-derived convention of Jmol, as pymatgen
+ships it in ``pymatgen/vis/ElementColorSchemes.yaml``), far atoms first,
+hydrogen atoms left out, a row of element keys, and one label per ligand
+(typeset: counts as subscripts) placed outward from its donor and pushed
+apart until no two labels overlap.  The report draws the scene as inline SVG
+(:func:`~enumerator.render.scene.scene_svg`); :func:`molecule_figure` draws
+the same scene with matplotlib, and :func:`figure_svg` turns any figure into
+deterministic SVG text.
 
 The figures are bare :class:`matplotlib.figure.Figure` objects (no pyplot, so
 no global backend is touched).  Every text is drawn as text with matplotlib's
@@ -272,9 +275,7 @@ _SIDE = 0.78 * _SIZE[1]
 _RECT = ((1 - _SIDE / _SIZE[0]) / 2, 0.16, _SIDE / _SIZE[0], 0.78)
 
 
-def molecule_scene(
-    s: Structure, ligand_atoms: Sequence[tuple[str, Sequence[int]]] = (), *, title: str = ""
-) -> Scene:
+def molecule_scene(s: Structure, ligand_atoms: Sequence[tuple[str, Sequence[int]]] = (), *, title: str = "") -> Scene:
     """The drawing of one structure as plain geometry: bonds, atoms, ligand labels, element keys.
 
     Parameters
@@ -315,7 +316,9 @@ def molecule_scene(
         title_left=False,
     )
     keys = tuple(Key(runs(e), "disc", element_colour(e)) for e in elements)
-    return Scene(_SIZE[0], _SIZE[1], (panel,), keys, 7.0, f"structure of {s.isomer_id}" + (f": {title}" if title else ""))
+    return Scene(
+        _SIZE[0], _SIZE[1], (panel,), keys, 7.0, f"structure of {s.isomer_id}" + (f": {title}" if title else "")
+    )
 
 
 def molecule_figure(

@@ -1,8 +1,12 @@
-"""Predicted stick spectra with Lorentzian broadening (matplotlib).
+"""Predicted stick spectra with Lorentzian broadening.
 
-:func:`stick_spectrum` draws one band list; :func:`spectra_figure` draws one
-panel per isomer.  Measured bands, when given, are drawn as dashed vertical
-lines.  Wavenumbers run from high to low, as chemists draw IR spectra.
+:func:`spectra_scene` lays the spectra out once as a
+:class:`~enumerator.render.scene.Scene` (one panel per isomer: envelope,
+sticks labelled with their species, measured bands as dashed vertical lines,
+ticks as matplotlib's ``MaxNLocator`` picks them, axis labels with units, a
+legend); the report draws it as inline SVG, and :func:`stick_spectrum` (one
+band list) and :func:`spectra_figure` (one panel per isomer) draw it with
+matplotlib.  Wavenumbers run from high to low, as chemists draw IR spectra.
 
 Both return a bare :class:`matplotlib.figure.Figure` (not through pyplot, so no
 global backend or figure list is touched; a notebook shows it inline) and draw
@@ -161,8 +165,12 @@ def spectra_scene(
     for k, (title, bands) in enumerate(panels or [("", [])]):
         last = k == n - 1
         bottom = (n - 1 - k) * _SLOT + (_LAST if last else _INNER)
-        rect = (_LEFT / _WIDTH, bottom / height, 1 - (_LEFT + _RIGHT) / _WIDTH,
-                (_SLOT - _TOP - (_LAST if last else _INNER)) / height)
+        rect = (
+            _LEFT / _WIDTH,
+            bottom / height,
+            1 - (_LEFT + _RIGHT) / _WIDTH,
+            (_SLOT - _TOP - (_LAST if last else _INNER)) / height,
+        )
         out.append(
             Panel(
                 rect,

@@ -5,7 +5,7 @@ Everything shown is computed before, by :mod:`enumerator.workflow.report`
 (results, band patterns, 3D starting structures, cautions, file names,
 version); this module only formats it, into ``templates/report.html.j2`` with
 the screen-and-print style sheet ``templates/report.css``.  The page needs no
-network: inline CSS, images as ``data:`` URIs, no scripts, no web fonts.
+network: inline CSS, drawings as inline SVG, no scripts, no web fonts.
 
 The page opens with a summary (per complex: the isomers and their point
 groups, which technique tells which pairs apart, the predicted IR-active
@@ -15,8 +15,12 @@ pair grid, one card per isomer (a drawing, every field under a human label,
 the predicted stick spectrum with axes, units and legend, and its band list),
 the metal centre, the descriptor basis and the spectroscopy notes.  Drawings
 of real formulas are the 3D starting structures in element colours
-(:mod:`enumerator.render.drawing`); a letter formula is drawn on its ideal
-polyhedron (:func:`polyhedron_svg`) with a colour legend.
+(:func:`enumerator.render.drawing.molecule_scene`) and the spectra are
+:func:`enumerator.render.plots.spectra_scene`, both drawn as inline SVG by
+:func:`enumerator.render.scene.scene_svg` (matplotlib is not imported; one
+drawing per distinct spectrum, shared by the cards that show it); a letter
+formula is drawn on its ideal polyhedron (:func:`polyhedron_svg`) with a
+colour legend.
 
 Jinja2 escapes every string that can come from a user (formulae, ligand names
 from user rule files, labels, notes); the typeset pieces are built from escaped

@@ -32,7 +32,7 @@ from __future__ import annotations
 import math
 from collections.abc import Sequence
 from dataclasses import dataclass
-from typing import TYPE_CHECKING, Any, Union
+from typing import TYPE_CHECKING, Any
 
 from enumerator.caches import cached
 
@@ -117,7 +117,7 @@ class Label:
     z: float = 3.0
 
 
-Item = Union[Line, Disc, Label]
+Item = Line | Disc | Label
 
 
 @dataclass(frozen=True)
@@ -333,7 +333,9 @@ def _svg_axes(scene: Scene, p: Panel, m: _Map) -> dict[str, Any]:
         out["legend"] = _svg_legend(p.legend, m.x0 + 5, m.y0 + 4, p.legend_size)
     if p.title:
         x = m.x0 if p.title_left else (m.x0 + m.x1) / 2
-        out["texts"].append(_axis_text(x, m.y0 - 0.45 * p.title_size, p.title, p.title_size, "start" if p.title_left else "middle"))
+        out["texts"].append(
+            _axis_text(x, m.y0 - 0.45 * p.title_size, p.title, p.title_size, "start" if p.title_left else "middle")
+        )
     return out
 
 
@@ -361,7 +363,9 @@ def _legend_key(key: Key, x: float, cy: float, size: float) -> dict[str, Any]:
         "colour": key.colour,
         "width": _f(key.width),
         "dash": _f(3 * key.width) + " " + _f(1.6 * key.width),
-        "text": _axis_text(x + 2.2 * size if key.kind == "disc" else x + 2.6 * size, cy + 0.35 * size, key.text, size, "start"),
+        "text": _axis_text(
+            x + 2.2 * size if key.kind == "disc" else x + 2.6 * size, cy + 0.35 * size, key.text, size, "start"
+        ),
     }
 
 
@@ -500,7 +504,10 @@ def _mpl_panel(ax: Axes, p: Panel) -> None:
             ax.set_ylabel(mpl_runs(p.ylabel))
         if p.legend:
             ax.legend(
-                _handles(p.legend), [mpl_runs(k.text) for k in p.legend], fontsize=p.legend_size, loc="upper left",
+                _handles(p.legend),
+                [mpl_runs(k.text) for k in p.legend],
+                fontsize=p.legend_size,
+                loc="upper left",
                 frameon=False,
             )
     if p.title:
