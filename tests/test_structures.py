@@ -261,3 +261,26 @@ def test_closest_contact_is_the_pairwise_minimum():
     tie = Chem.MolFromSmiles("[Mo](Cl)(Cl)Cl", sanitize=False)
     coords = [(0, 0, 0), (2.4, 0, 0), (0, 2.4, 0), (-2.4, 0, 0)]  # 1-2 and 2-3 equally close: 1-2 comes first
     assert closest_contact(tie, coords)[1:3] == loop(tie, coords)[1:3] == (1, 2)
+
+
+def test_an_isotopologue_embeds_as_its_parent():
+    # distance geometry reads no mass number (ETKDG: Riniker & Landrum, J. Chem. Inf. Model. 55 (2015) 2562), so
+    # the embedding is memoised without it: checked here with each embedding done cold, then warm
+    from enumerator.caches import clear
+    from enumerator.structures.build import _units
+    from enumerator.structures.embed import assemble, embed
+    from enumerator.workflow.pipeline import analyse
+
+    parent = analyse("[RuCl2(CO)2(PPh3)2]", geometry="OC-6")
+    label = analyse("[RuCl2(CO)(13CO)(PPh3)2]", geometry="OC-6")
+    mol, fixed, _, _ = assemble(_units(parent.isomers[0]), parent.composition)
+    mol13, fixed13, _, _ = assemble(_units(label.isomers[0]), label.composition)
+    assert [a.GetIsotope() for a in mol13.GetAtoms() if a.GetIsotope()] == [13] and fixed13 == fixed
+    clear()
+    cold = embed(mol, fixed)
+    clear()
+    cold13 = embed(mol13, fixed13)
+    warm13 = embed(mol13, fixed13)
+    assert np.array_equal(cold, cold13) and np.array_equal(cold13, warm13)
+    warm13[0, 0] = 99.0  # the caller's copy: the memoised answer is not changed
+    assert np.array_equal(embed(mol13, fixed13), cold13)

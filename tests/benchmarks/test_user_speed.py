@@ -197,7 +197,6 @@ def test_report_against_job(benchmark, tmp_path):
     info["report_median_s"] = median_s(runs["main"])
     info["job_median_s"] = median_s(runs["job"])
     info["report_over_job"] = info["report_median_s"] / info["job_median_s"]
-    info["calibration_s"] = calibration()
     if base is not None:
         info["baseline_report_median_s"] = median_s(runs["baseline_report"])
         info["report_over_baseline_report"] = info["report_median_s"] / info["baseline_report_median_s"]
