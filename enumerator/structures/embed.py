@@ -221,19 +221,19 @@ def embed(mol, fixed: Mapping[int, Vec]) -> np.ndarray:
     plain.RemoveAllConformers()
     for a in plain.GetAtoms():
         a.SetIsotope(0)
-    held = tuple(sorted((int(i), tuple(float(c) for c in p)) for i, p in fixed.items()))
+    held = tuple(sorted((int(i), (float(p[0]), float(p[1]), float(p[2]))) for i, p in fixed.items()))
     return np.array(_embedded(plain.ToBinary(), held))
 
 
 @cached(maxsize=256)
-def _embedded(binary: bytes, held: tuple[tuple[int, tuple[float, ...]], ...]) -> np.ndarray:
+def _embedded(binary: bytes, held: tuple[tuple[int, Vec], ...]) -> np.ndarray:
     """ETKDG with the held atoms in place, then the Kabsch fit (read-only array)."""
     from rdkit import Chem, rdBase
     from rdkit.Chem import rdDistGeom
     from rdkit.Geometry import Point3D
 
-    mol = Chem.Mol(binary)
-    fixed = {i: p for i, p in held}
+    mol = Chem.Mol(binary)  # type: ignore[call-overload]  # RDKit's stubs say str; the pickle is bytes
+    fixed = dict(held)
     with rdBase.BlockLogs():
         cmap = {i: Point3D(*p) for i, p in fixed.items()}
         try:
