@@ -305,12 +305,22 @@ def test_one_scene_two_renderers_draw_the_same_things():
     assert sorted(t.get_text() for t in fig.legends[0].get_texts()) == ["C", "Cl", "Fe", "O"]
 
 
-@pytest.mark.parametrize("lo, hi, n", [(1908.0, 2075.0, 9), (0.0, 1.25, 3), (1800.0, 2200.0, 9), (0.0, 3.7, 4)])
+@pytest.mark.parametrize(
+    "lo, hi, n", [(1908.0, 2075.0, 9), (0.0, 1.25, 3), (1800.0, 2200.0, 9), (0.0, 3.7, 4), (1870.0, 2062.0, 9)]
+)
 def test_ticks_are_matplotlibs(lo, hi, n):
-    # the tick values matplotlib's MaxNLocator picks with the same steps (reference library), inside the range
+    # the tick values matplotlib's MaxNLocator picks with the same steps, inside the range, and the labels its
+    # default ScalarFormatter writes for them (reference library)
+    from matplotlib.figure import Figure
     from matplotlib.ticker import MaxNLocator
 
     from enumerator.render.scene import nice_ticks
 
     ref = [v for v in MaxNLocator(nbins=n, steps=[1, 2, 2.5, 5, 10]).tick_values(lo, hi) if lo <= v <= hi]
-    assert [v for v, _ in nice_ticks(lo, hi, n)] == pytest.approx(ref)
+    ticks = nice_ticks(lo, hi, n)
+    assert [v for v, _ in ticks] == pytest.approx(ref)
+    ax = Figure().add_subplot()
+    ax.set_xlim(lo, hi)
+    ax.set_xticks(ref)
+    labels = ax.xaxis.get_major_formatter().format_ticks(ref)
+    assert [t for _, t in ticks] == [x.replace("\u2212", "-") for x in labels]

@@ -99,7 +99,7 @@ def lorentzian_trace(bands: Sequence[Band], x: np.ndarray, width_cm1: float) -> 
 _WIDTH, _SLOT = 6.0 * 72, 1.9 * 72
 #: Margins (points) around each panel's axes: left (tick labels and the y label), right, top (the title),
 #: bottom of an inner panel, bottom of the last one (tick labels and the x label).
-_LEFT, _RIGHT, _TOP, _INNER, _LAST = 50.0, 10.0, 16.0, 8.0, 34.0
+_LEFT, _RIGHT, _TOP, _INNER, _LAST = 50.0, 16.0, 16.0, 8.0, 34.0
 _BLUE, _RED = "#1f77b4", "#d62728"  # matplotlib's tab:blue and tab:red
 _WAVENUMBER = (("text", "wavenumber / cm"), ("sup", "-1"))
 

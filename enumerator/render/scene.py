@@ -194,7 +194,7 @@ def nice_ticks(lo: float, hi: float, target: int) -> tuple[tuple[float, str], ..
     raw = (hi - lo) / max(target, 1) or 1.0
     mag = 10.0 ** math.floor(math.log10(raw))
     step = next(m * mag for m in (1.0, 2.0, 2.5, 5.0, 10.0) if m * mag >= raw * (1 - 1e-9))
-    digits = max(0, -math.floor(math.log10(step) + 1e-9)) + (1 if round(step / mag, 6) == 2.5 else 0)
+    digits = next(d for d in range(12) if abs(round(step, d) - step) <= 1e-9 * step)  # as many as the step has
     first = math.ceil(lo / step - 1e-9)
     out = []
     k = first
