@@ -34,6 +34,7 @@ from collections.abc import Mapping, Sequence
 from types import MappingProxyType
 from typing import TYPE_CHECKING
 
+from enumerator.caches import cached
 from enumerator.render.scene import Disc, Item, Key, Label, Line, Panel, Runs, Scene, runs, scene_figure
 from enumerator.structures.structure import Structure
 
@@ -198,13 +199,19 @@ def plain_text(text: str) -> str:
     return text.replace("$", "\\$")
 
 
-def _bonds(s: Structure) -> list[tuple[int, int]]:
+def _bonds(s: Structure) -> tuple[tuple[int, int], ...]:
+    return _sd_bonds(s.molblock, len(s.symbols))
+
+
+@cached(maxsize=64)
+def _sd_bonds(molblock: str, atoms: int) -> tuple[tuple[int, int], ...]:
+    """The bonds of an SD record (read once per record: the drawing and the donor search both ask)."""
     from rdkit import Chem
 
-    mol = Chem.MolFromMolBlock(s.molblock + "\n", sanitize=False, removeHs=False)
+    mol = Chem.MolFromMolBlock(molblock + "\n", sanitize=False, removeHs=False)
     if mol is None:
-        return [(0, k) for k in range(1, len(s.symbols))]
-    return [(b.GetBeginAtomIdx(), b.GetEndAtomIdx()) for b in mol.GetBonds()]
+        return tuple((0, k) for k in range(1, atoms))
+    return tuple((b.GetBeginAtomIdx(), b.GetEndAtomIdx()) for b in mol.GetBonds())
 
 
 def _components(n: int, bonds: Sequence[tuple[int, int]]) -> dict[int, tuple[int, ...]]:
@@ -457,7 +464,8 @@ def donor_atoms(s: Structure, directions: Sequence[Sequence[float]]) -> tuple[in
     tuple of int
         One atom index per direction.
     """
-    bonded = [b for a, b in _bonds(s) if a == 0] + [a for a, b in _bonds(s) if b == 0]
+    bonds = _bonds(s)
+    bonded = [b for a, b in bonds if a == 0] + [a for a, b in bonds if b == 0]
     cands = [k for k in bonded if s.symbols[k] != "H"] or list(range(1, len(s.symbols)))
     out = []
     for d in directions:
