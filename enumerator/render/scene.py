@@ -52,6 +52,7 @@ __all__ = [
     "nice_ticks",
     "scene_svg",
     "scene_figure",
+    "mpl_runs",
     "PX_PER_PT",
 ]
 
