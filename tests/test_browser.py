@@ -205,3 +205,25 @@ def test_screenshot_is_not_blank(browser, pages, name, tmp_path):
 def test_same_page_twice_is_the_same_bytes(pages):
     rep = build_report([analyse("[CpFe(CO)2Cl]")])
     assert render_report(rep) == render_report(rep)
+
+
+@pytest.mark.parametrize("media", ["screen", "print"])
+@pytest.mark.parametrize("width", [1280, 400])
+def test_inline_drawings_render_inside_their_cards(browser, pages, media, width):
+    # every drawing is inline SVG laid out by the browser: it has a size, stays inside its card at a laptop
+    # width, on a phone-sized screen and in print, and its texts are laid out (not empty boxes)
+    page, problems = _open(browser, pages["ruthenium"], width)
+    page.emulate_media(media=media)
+    got = page.evaluate(
+        """() => [...document.querySelectorAll('.card svg')].map(s => {
+            const r = s.getBoundingClientRect(), c = s.closest('.card').getBoundingClientRect();
+            const texts = [...s.querySelectorAll('text')];
+            return {w: r.width, h: r.height, inside: r.left >= c.left - 0.5 && r.right <= c.right + 0.5,
+                    texts: texts.length, laid: texts.filter(t => t.getBBox().width > 0).length};
+        })"""
+    )
+    page.close()
+    assert problems == [] and len(got) >= 2 * 24  # 24 isomers in the example: a structure and a spectrum each
+    for g in got:
+        assert g["w"] > 50 and g["h"] > 50 and g["inside"], g
+        assert g["texts"] > 0 and g["laid"] == g["texts"], g

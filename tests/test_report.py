@@ -238,3 +238,89 @@ def test_report_command_on_the_examples(tmp_path, job, complexes):
     for f in out.glob("*.csv"):
         df = pd.read_csv(f)  # the README's recipe: no options
         assert {"formula", "geometry", "isomer", "point group"} <= set(df.columns) and len(df) >= 1
+
+
+# ---------------------------------------------------------------- drawings as scenes
+def _inline_svgs(page: str) -> list[str]:
+    return re.findall(r"<svg\b.*?</svg>", page, flags=re.S)
+
+
+def test_inline_drawings_are_valid_svg_and_the_page_needs_no_matplotlib(ru_page):
+    svgs = _inline_svgs(ru_page)
+    # [RuCl2(CO)2(PPh3)2]: six structures and six spectrum drawings; M(AA)2b2: three polyhedra (common practice)
+    assert len(svgs) == 6 + 6 + 3
+    for svg in svgs:
+        root = ET.fromstring(svg)  # well-formed XML (xml.etree)
+        assert root.tag == "{http://www.w3.org/2000/svg}svg" and "id=" not in svg  # no ids to clash on the page
+    assert 'src="data:' not in ru_page  # drawings are inline, not base64 pictures
+    import subprocess
+    import sys
+
+    code = (
+        "import sys; from enumerator.workflow.pipeline import analyse; from enumerator.workflow.report import "
+        "build_report; from enumerator.render.report import render_report; "
+        "render_report(build_report([analyse('[RuCl2(CO)2(PPh3)2]')])); print('matplotlib' in sys.modules)"
+    )
+    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True).stdout
+    assert out.strip() == "False"
+
+
+def test_one_drawing_per_distinct_spectrum(ru_page):
+    # the enantiomers 1a/1b have the same predicted bands, so their cards hold the same drawing; the six cards
+    # of [RuCl2(CO)2(PPh3)2] show five distinct spectra (five geometric isomers; common practice)
+    spectra = [s for s in _inline_svgs(ru_page) if "wavenumber / cm" in s]
+    assert len(spectra) == 6 and len(set(spectra)) == 5
+
+
+def test_scene_text_is_escaped_and_svg_deterministic():
+    from enumerator.render.scene import Label, Panel, Scene, scene_svg
+
+    hostile = (("text", '<script>&"x"'), ("sub", "<b>"))
+    scene = Scene(100.0, 60.0, (Panel((0.1, 0.1, 0.8, 0.8), (0.0, 1.0), (0.0, 1.0), (Label(0.5, 0.5, hostile),)),))
+    svg = scene_svg(scene)
+    root = ET.fromstring(svg)
+    assert "<script" not in svg and "<b>" not in svg
+    assert "".join(root.itertext()).strip() == '<script>&"x"<b>'
+    assert scene_svg(scene) == svg  # same scene, same bytes
+
+
+def test_one_scene_two_renderers_draw_the_same_things():
+    from enumerator.render.drawing import donor_atoms, molecule_scene
+    from enumerator.render.scene import Disc, Line, scene_figure, scene_svg
+    from enumerator.structures.result import structure_set
+
+    res = analyse("[CpFe(CO)2Cl]")
+    s = structure_set(res).structures[0]
+    atoms = donor_atoms(s, [site.position for site in res.isomers[0].sites])
+    scene = molecule_scene(s, [(site.ligand, (a,)) for site, a in zip(res.isomers[0].sites, atoms)])
+    items = scene.panels[0].items
+    root = ET.fromstring(scene_svg(scene))
+    ns = "{http://www.w3.org/2000/svg}"
+    fig = scene_figure(scene)
+    ax = fig.axes[0]
+    n_lines, n_discs = sum(isinstance(i, Line) for i in items), sum(isinstance(i, Disc) for i in items)
+    assert len(root.findall(f".//{ns}polyline")) == len(ax.lines) == n_lines
+    keys = len(scene.legend)  # the element keys are discs too in the SVG, a legend in matplotlib
+    assert len(root.findall(f".//{ns}circle")) == n_discs + keys and len(ax.patches) == n_discs
+    assert sorted(t.get_text() for t in fig.legends[0].get_texts()) == ["C", "Cl", "Fe", "O"]
+
+
+@pytest.mark.parametrize(
+    "lo, hi, n", [(1908.0, 2075.0, 9), (0.0, 1.25, 3), (1800.0, 2200.0, 9), (0.0, 3.7, 4), (1870.0, 2062.0, 9)]
+)
+def test_ticks_are_matplotlibs(lo, hi, n):
+    # the tick values matplotlib's MaxNLocator picks with the same steps, inside the range, and the labels its
+    # default ScalarFormatter writes for them (reference library)
+    from matplotlib.figure import Figure
+    from matplotlib.ticker import MaxNLocator
+
+    from enumerator.render.scene import nice_ticks
+
+    ref = [v for v in MaxNLocator(nbins=n, steps=[1, 2, 2.5, 5, 10]).tick_values(lo, hi) if lo <= v <= hi]
+    ticks = nice_ticks(lo, hi, n)
+    assert [v for v, _ in ticks] == pytest.approx(ref)
+    ax = Figure().add_subplot()
+    ax.set_xlim(lo, hi)
+    ax.set_xticks(ref)
+    labels = ax.xaxis.get_major_formatter().format_ticks(ref)
+    assert [t for _, t in ticks] == [x.replace("\u2212", "-") for x in labels]

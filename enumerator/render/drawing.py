@@ -1,15 +1,18 @@
 """Structure drawings for the report: a 3D starting structure in ball-and-stick, coloured by element.
 
-:func:`molecule_figure` draws one :class:`~enumerator.structures.structure.Structure`
-(the model ``isosieve structures`` writes) with matplotlib: an oblique view of
-the same frame as the polyhedron drawings (turned 32 degrees about z, tilted 20
-degrees), bonds from the model's SD record (so an eta-ring is drawn as the ring
-it is), atoms in the Jmol element colours (:data:`JMOL_COLOURS`; the common
-CPK-derived convention of Jmol, as pymatgen ships it in
-``pymatgen/vis/ElementColorSchemes.yaml``), far atoms first, hydrogen atoms
-left out, a legend of the elements drawn, and one label per ligand placed
-outward from its donor and pushed apart until no two labels overlap.
-:func:`figure_svg` turns any figure into deterministic SVG text.
+:func:`molecule_scene` lays out one :class:`~enumerator.structures.structure.Structure`
+(the model ``isosieve structures`` writes) as a :class:`~enumerator.render.scene.Scene`:
+an oblique view of the same frame as the polyhedron drawings (turned 32
+degrees about z, tilted 20 degrees), bonds from the model's SD record (so an
+eta-ring is drawn as the ring it is), atoms in the Jmol element colours
+(:data:`JMOL_COLOURS`; the common CPK-derived convention of Jmol, as pymatgen
+ships it in ``pymatgen/vis/ElementColorSchemes.yaml``), far atoms first,
+hydrogen atoms left out, a row of element keys, and one label per ligand
+(typeset: counts as subscripts) placed outward from its donor and pushed
+apart until no two labels overlap.  The report draws the scene as inline SVG
+(:func:`~enumerator.render.scene.scene_svg`); :func:`molecule_figure` draws
+the same scene with matplotlib, and :func:`figure_svg` turns any figure into
+deterministic SVG text.
 
 The figures are bare :class:`matplotlib.figure.Figure` objects (no pyplot, so
 no global backend is touched).  Every text is drawn as text with matplotlib's
@@ -31,6 +34,8 @@ from collections.abc import Mapping, Sequence
 from types import MappingProxyType
 from typing import TYPE_CHECKING
 
+from enumerator.caches import cached
+from enumerator.render.scene import Disc, Item, Key, Label, Line, Panel, Runs, Scene, runs, scene_figure
 from enumerator.structures.structure import Structure
 
 if TYPE_CHECKING:
@@ -41,6 +46,7 @@ __all__ = [
     "JMOL_COLOURS",
     "element_colour",
     "project",
+    "molecule_scene",
     "molecule_figure",
     "figure_svg",
     "plain_text",
@@ -193,13 +199,19 @@ def plain_text(text: str) -> str:
     return text.replace("$", "\\$")
 
 
-def _bonds(s: Structure) -> list[tuple[int, int]]:
+def _bonds(s: Structure) -> tuple[tuple[int, int], ...]:
+    return _sd_bonds(s.molblock, len(s.symbols))
+
+
+@cached(maxsize=64)
+def _sd_bonds(molblock: str, atoms: int) -> tuple[tuple[int, int], ...]:
+    """The bonds of an SD record (read once per record: the drawing and the donor search both ask)."""
     from rdkit import Chem
 
-    mol = Chem.MolFromMolBlock(s.molblock + "\n", sanitize=False, removeHs=False)
+    mol = Chem.MolFromMolBlock(molblock + "\n", sanitize=False, removeHs=False)
     if mol is None:
-        return [(0, k) for k in range(1, len(s.symbols))]
-    return [(b.GetBeginAtomIdx(), b.GetEndAtomIdx()) for b in mol.GetBonds()]
+        return tuple((0, k) for k in range(1, atoms))
+    return tuple((b.GetBeginAtomIdx(), b.GetEndAtomIdx()) for b in mol.GetBonds())
 
 
 def _components(n: int, bonds: Sequence[tuple[int, int]]) -> dict[int, tuple[int, ...]]:
@@ -264,6 +276,58 @@ def _place_labels(
     return [(p[0], p[1], t) for p, t in zip(xy, texts)]
 
 
+#: The picture of a structure: 3.3 x 3.5 inches (points), the drawing a square above a row of element keys.
+_SIZE = (3.3 * 72, 3.5 * 72)
+_SIDE = 0.78 * _SIZE[1]
+_RECT = ((1 - _SIDE / _SIZE[0]) / 2, 0.16, _SIDE / _SIZE[0], 0.78)
+
+
+def molecule_scene(s: Structure, ligand_atoms: Sequence[tuple[str, Sequence[int]]] = (), *, title: str = "") -> Scene:
+    """The drawing of one structure as plain geometry: bonds, atoms, ligand labels, element keys.
+
+    Parameters
+    ----------
+    s : Structure
+        A starting structure (metal first).
+    ligand_atoms : sequence of (str, sequence of int)
+        A label and the atoms (0-based) it names, per ligand; the label goes beside their centre, outward.
+    title : str
+        Drawn above the structure.
+
+    Returns
+    -------
+    Scene
+        Draw it with :func:`~enumerator.render.scene.scene_svg` or
+        :func:`~enumerator.render.scene.scene_figure`.
+    """
+    shown = [k for k, e in enumerate(s.symbols) if e != "H"]
+    pts = {k: project(s.coords[k]) for k in shown}
+    bonds = _bonds(s)
+    items: list[Item] = _bond_lines(pts, bonds, _hapto_groups(s, bonds))
+    items += _atom_discs(s, pts)
+    labels = _labels(pts, ligand_atoms, _components(len(s.symbols), bonds))
+    items += labels
+    xs = [p[0] for p in pts.values()] + [t.x + sgn * 0.14 * _chars(t.text) for t in labels for sgn in (-1, 1)]
+    ys = [p[1] for p in pts.values()] + [t.y + sgn * 0.45 for t in labels for sgn in (-1, 1)]
+    half = max(max(xs) - min(xs), max(ys) - min(ys)) / 2 + 0.6
+    mx, my = (max(xs) + min(xs)) / 2, (max(ys) + min(ys)) / 2
+    metal = s.symbols[0]
+    elements = sorted({s.symbols[k] for k in shown}, key=lambda e: (e != metal, e))
+    panel = Panel(
+        _RECT,
+        (mx - half, mx + half),
+        (my - half, my + half),
+        tuple(items),
+        title=runs(title) if title else (),
+        title_size=8.0,
+        title_left=False,
+    )
+    keys = tuple(Key(runs(e), "disc", element_colour(e)) for e in elements)
+    return Scene(
+        _SIZE[0], _SIZE[1], (panel,), keys, 7.0, f"structure of {s.isomer_id}" + (f": {title}" if title else "")
+    )
+
+
 def molecule_figure(
     s: Structure,
     ligand_atoms: Sequence[tuple[str, Sequence[int]]] = (),
@@ -273,6 +337,8 @@ def molecule_figure(
 ) -> Figure:
     """One structure in ball-and-stick, coloured by element, with an element legend and ligand labels.
 
+    The drawing of :func:`molecule_scene`, drawn with matplotlib.
+
     Parameters
     ----------
     s : Structure
@@ -280,7 +346,7 @@ def molecule_figure(
     ligand_atoms : sequence of (str, sequence of int)
         A label and the atoms (0-based) it names, per ligand; the label goes beside their centre, outward.
     ax : matplotlib Axes, optional
-        Draw into these axes (default: a new figure of its own).
+        Draw into these axes (default: a new figure of its own, with the element legend below).
     title : str
         Drawn above the structure.
 
@@ -289,80 +355,47 @@ def molecule_figure(
     matplotlib.figure.Figure
         The figure the drawing is in.
     """
-    from matplotlib.figure import Figure
-    from matplotlib.lines import Line2D
-
-    if ax is None:
-        fig = Figure(figsize=(3.3, 3.5))
-        ax = fig.add_axes((0.0, 0.16, 1.0, 0.78))
-    else:
-        fig = ax.get_figure()  # type: ignore[assignment]
-    shown = [k for k, e in enumerate(s.symbols) if e != "H"]
-    pts = {k: project(s.coords[k]) for k in shown}
-    bonds = _bonds(s)
-    _draw_bonds(ax, pts, bonds, _hapto_groups(s, bonds))
-    _draw_atoms(ax, s, pts)
-    placed = _draw_labels(ax, pts, ligand_atoms, _components(len(s.symbols), bonds))
-    xs = [p[0] for p in pts.values()] + [x + sgn * 0.14 * len(t) for x, _, t in placed for sgn in (-1, 1)]
-    ys = [p[1] for p in pts.values()] + [y + sgn * 0.45 for _, y, t in placed for sgn in (-1, 1)]
-    half = max(max(xs) - min(xs), max(ys) - min(ys)) / 2 + 0.6
-    mx, my = (max(xs) + min(xs)) / 2, (max(ys) + min(ys)) / 2
-    ax.set_xlim(mx - half, mx + half)
-    ax.set_ylim(my - half, my + half)
-    ax.set_aspect("equal")
-    ax.axis("off")
-    if title:
-        ax.set_title(plain_text(title), fontsize=8)
-    metal = s.symbols[0]
-    elements = sorted({s.symbols[k] for k in shown}, key=lambda e: (e != metal, e))
-    handles = [
-        Line2D([], [], marker="o", ls="", markersize=6, markerfacecolor=element_colour(e), markeredgecolor="#000")
-        for e in elements
-    ]
-    fig.legend(
-        handles,
-        [plain_text(e) for e in elements],
-        loc="lower center",
-        ncol=min(len(elements), 6),
-        fontsize=7,
-        frameon=False,
-        handletextpad=0.2,
-        columnspacing=0.8,
-    )
-    return fig
+    return scene_figure(molecule_scene(s, ligand_atoms, title=title), None if ax is None else [ax])
 
 
 Points = Mapping[int, tuple[float, float, float]]
 
 
-def _draw_bonds(ax: Axes, pts: Points, bonds: Sequence[tuple[int, int]], hapto: Sequence[set[int]]) -> None:
+def _bond_lines(pts: Points, bonds: Sequence[tuple[int, int]], hapto: Sequence[set[int]]) -> list[Item]:
     """Bonds as lines, far ones underneath; an eta-bound group through one dashed line to its centroid."""
     bound = set().union(*hapto)
+    out: list[Item] = []
     for a, b in bonds:
         if a not in pts or b not in pts or (0 in (a, b) and (a or b) in bound):
             continue
         (x1, y1, d1), (x2, y2, d2) = pts[a], pts[b]
-        ax.plot([x1, x2], [y1, y2], color="#444444", lw=1.6, zorder=10 - (d1 + d2) / 2, solid_capstyle="round")
+        out.append(Line(((x1, y1), (x2, y2)), "#444444", 1.6, z=10 - (d1 + d2) / 2, round_cap=True))
     for group in hapto:
         cx, cy = (sum(pts[a][i] for a in group) / len(group) for i in (0, 1))
-        ax.plot([pts[0][0], cx], [pts[0][1], cy], color="#444444", lw=1.2, ls=(0, (3, 2)), zorder=9)
+        out.append(Line(((pts[0][0], pts[0][1]), (cx, cy)), "#444444", 1.2, (3.0, 2.0), z=9))
+    return out
 
 
-def _draw_atoms(ax: Axes, s: Structure, pts: Points) -> None:
+def _atom_discs(s: Structure, pts: Points) -> list[Item]:
     """Atoms as element-coloured discs, far ones first; the metal larger, with its symbol."""
-    from matplotlib.patches import Circle
-
+    out: list[Item] = []
     for k in sorted(pts, key=lambda k: -pts[k][2]):
         x, y, d = pts[k]
-        r = 0.5 if k == 0 else 0.3
-        ax.add_patch(Circle((x, y), r, facecolor=element_colour(s.symbols[k]), edgecolor="#000", lw=0.6, zorder=20 - d))
-    ax.text(pts[0][0], pts[0][1], plain_text(s.symbols[0]), ha="center", va="center", fontsize=7, zorder=40)
+        out.append(Disc(x, y, 0.5 if k == 0 else 0.3, element_colour(s.symbols[k]), z=20 - d))
+    out.append(Label(pts[0][0], pts[0][1], runs(s.symbols[0]), 7.0, z=40))
+    return out
 
 
-def _draw_labels(
-    ax: Axes, pts: Points, ligand_atoms: Sequence[tuple[str, Sequence[int]]], parts: Mapping[int, tuple[int, ...]]
-) -> list[tuple[float, float, str]]:
+def _chars(text: Runs) -> int:
+    return sum(len(t) for _, t in text)
+
+
+def _labels(
+    pts: Points, ligand_atoms: Sequence[tuple[str, Sequence[int]]], parts: Mapping[int, tuple[int, ...]]
+) -> list[Label]:
     """One label per ligand, just beyond its atoms as seen from the metal, none overlapping another."""
+    from enumerator.render.typeset import formula_parts
+
     anchors = []
     for label, atoms in ligand_atoms:
         body = sorted({k for a in atoms for k in parts.get(a, (a,)) if k in pts})
@@ -373,10 +406,7 @@ def _draw_labels(
         reach = max(math.hypot(pts[a][0] - pts[0][0], pts[a][1] - pts[0][1]) for a in body)
         anchors.append((cx, cy, reach, label))
     placed = _place_labels(anchors, (pts[0][0], pts[0][1]))
-    box = {"boxstyle": "round,pad=0.15", "fc": "white", "ec": "#888888", "lw": 0.5, "alpha": 0.9}
-    for x, y, text in placed:
-        ax.text(x, y, mpl_formula(text), ha="center", va="center", fontsize=7.5, zorder=50, bbox=box)
-    return placed
+    return [Label(x, y, formula_parts(text), 7.5, box=True, z=50) for x, y, text in placed]
 
 
 def mpl_formula(text: str) -> str:
@@ -434,7 +464,8 @@ def donor_atoms(s: Structure, directions: Sequence[Sequence[float]]) -> tuple[in
     tuple of int
         One atom index per direction.
     """
-    bonded = [b for a, b in _bonds(s) if a == 0] + [a for a, b in _bonds(s) if b == 0]
+    bonds = _bonds(s)
+    bonded = [b for a, b in bonds if a == 0] + [a for a, b in bonds if b == 0]
     cands = [k for k in bonded if s.symbols[k] != "H"] or list(range(1, len(s.symbols)))
     out = []
     for d in directions:

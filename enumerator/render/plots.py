@@ -1,8 +1,12 @@
-"""Predicted stick spectra with Lorentzian broadening (matplotlib).
+"""Predicted stick spectra with Lorentzian broadening.
 
-:func:`stick_spectrum` draws one band list; :func:`spectra_figure` draws one
-panel per isomer.  Measured bands, when given, are drawn as dashed vertical
-lines.  Wavenumbers run from high to low, as chemists draw IR spectra.
+:func:`spectra_scene` lays the spectra out once as a
+:class:`~enumerator.render.scene.Scene` (one panel per isomer: envelope,
+sticks labelled with their species, measured bands as dashed vertical lines,
+ticks as matplotlib's ``MaxNLocator`` picks them, axis labels with units, a
+legend); the report draws it as inline SVG, and :func:`stick_spectrum` (one
+band list) and :func:`spectra_figure` (one panel per isomer) draw it with
+matplotlib.  Wavenumbers run from high to low, as chemists draw IR spectra.
 
 Both return a bare :class:`matplotlib.figure.Figure` (not through pyplot, so no
 global backend or figure list is touched; a notebook shows it inline) and draw
@@ -28,14 +32,14 @@ from typing import TYPE_CHECKING
 import numpy as np
 
 from enumerator.errors import InputError
-from enumerator.render.drawing import plain_text
+from enumerator.render.scene import Item, Key, Label, Line, Panel, Scene, nice_ticks, runs, scene_figure
 from enumerator.vibrations.solver import Band
 
 if TYPE_CHECKING:
     from matplotlib.axes import Axes
     from matplotlib.figure import Figure
 
-__all__ = ["stick_spectrum", "spectra_figure", "picture", "lorentzian_trace", "format_for"]
+__all__ = ["spectra_scene", "stick_spectrum", "spectra_figure", "picture", "lorentzian_trace", "format_for"]
 
 
 def format_for(path: str | PathLike[str], option: str = "--plot") -> str:
@@ -91,33 +95,99 @@ def lorentzian_trace(bands: Sequence[Band], x: np.ndarray, width_cm1: float) -> 
     return y
 
 
-def _panel(
-    ax: Axes, title: str, bands: Sequence[Band], x: np.ndarray, measured: Sequence[float], width_cm1: float
-) -> None:
-    ax.plot(
-        x,
-        lorentzian_trace(bands, x, width_cm1),
-        color="black",
-        lw=1.0,
-        label=f"envelope (FWHM {width_cm1:g} cm$^{{-1}}$)",
-    )
-    if bands:
-        pos, height = [b.wavenumber for b in bands], [b.intensity for b in bands]
-        ax.vlines(pos, 0, height, color="tab:blue", lw=1.5, label="predicted band")
-    for b in bands:
-        if b.intensity > 0 and b.species:
-            ax.text(b.wavenumber, b.intensity + 0.03, plain_text(b.species), ha="center", va="bottom", fontsize=7)
-    for k, m in enumerate(measured):
-        ax.axvline(m, color="tab:red", ls="--", lw=0.8, label="measured" if k == 0 else None)
-    ax.set_title(plain_text(title), fontsize=9, loc="left")
-    ax.set_ylim(0, 1.25)
-    ax.set_ylabel("rel. IR intensity")
-    ax.legend(fontsize=6.5, loc="upper left", frameon=False)
+#: Picture width and the height of each panel's slot (points): 6 x 1.9 inches.
+_WIDTH, _SLOT = 6.0 * 72, 1.9 * 72
+#: Margins (points) around each panel's axes: left (tick labels and the y label), right, top (the title),
+#: bottom of an inner panel, bottom of the last one (tick labels and the x label).
+_LEFT, _RIGHT, _TOP, _INNER, _LAST = 50.0, 16.0, 16.0, 8.0, 34.0
+_BLUE, _RED = "#1f77b4", "#d62728"  # matplotlib's tab:blue and tab:red
+_WAVENUMBER = (("text", "wavenumber / cm"), ("sup", "-1"))
+
+
+def _panel_items(bands: Sequence[Band], x: np.ndarray, measured: Sequence[float], width_cm1: float) -> list[Item]:
+    trace = lorentzian_trace(bands, x, width_cm1)
+    items: list[Item] = [Line(tuple(zip(x.tolist(), trace.tolist())), "#000000", 1.0)]
+    items += [Line(((b.wavenumber, 0.0), (b.wavenumber, b.intensity)), _BLUE, 1.5) for b in bands]
+    items += [
+        Label(b.wavenumber, b.intensity + 0.03, runs(b.species), 7.0, valign="bottom")
+        for b in bands
+        if b.intensity > 0 and b.species
+    ]
+    items += [Line(((m, 0.0), (m, 1.25)), _RED, 0.8, (3.7, 1.6)) for m in measured]
+    return items
+
+
+def _legend(measured: Sequence[float], width_cm1: float) -> tuple[Key, ...]:
+    keys = [
+        Key((("text", f"envelope (FWHM {width_cm1:g} cm"), ("sup", "-1"), ("text", ")")), "line", "#000000", 1.0),
+        Key(runs("predicted band"), "line", _BLUE, 1.5),
+    ]
+    if measured:
+        keys.append(Key(runs("measured"), "dashed", _RED, 0.8))
+    return tuple(keys)
 
 
 def _range(panels: Sequence[tuple[str, Sequence[Band]]], measured: Sequence[float]) -> tuple[float, float]:
     pos = [b.wavenumber for _, bands in panels for b in bands] + list(measured)
     return (min(pos) - 60, max(pos) + 60) if pos else (1800.0, 2200.0)
+
+
+def spectra_scene(
+    panels: Sequence[tuple[str, Sequence[Band]]], *, measured: Sequence[float] | None = None, width_cm1: float = 10.0
+) -> Scene:
+    """Stick spectra as plain geometry: one panel per (title, bands), one wavenumber axis (high to low, cm-1).
+
+    Each panel: the Lorentzian envelope, the predicted bands as sticks labelled with their species, the
+    measured bands as red dashed lines, axes with ticks, units and a legend; the wavenumber labels under the
+    last panel only.
+
+    Parameters
+    ----------
+    panels : Sequence[tuple[str, Sequence[Band]]]
+        A title and the bands of each panel, top to bottom.
+    measured : Sequence[float], optional
+        Measured wavenumbers (cm-1), drawn in every panel.
+    width_cm1 : float
+        Lorentzian full width at half maximum, cm-1.
+
+    Returns
+    -------
+    Scene
+    """
+    measured = list(measured or [])
+    lo, hi = _range(panels, measured)
+    x = np.linspace(lo, hi, 2000)
+    n = max(1, len(panels))
+    height = _SLOT * n
+    xticks = nice_ticks(lo, hi, 9)
+    yticks = nice_ticks(0.0, 1.25, 3)
+    out = []
+    for k, (title, bands) in enumerate(panels or [("", [])]):
+        last = k == n - 1
+        bottom = (n - 1 - k) * _SLOT + (_LAST if last else _INNER)
+        rect = (
+            _LEFT / _WIDTH,
+            bottom / height,
+            1 - (_LEFT + _RIGHT) / _WIDTH,
+            (_SLOT - _TOP - (_LAST if last else _INNER)) / height,
+        )
+        out.append(
+            Panel(
+                rect,
+                (hi, lo),
+                (0.0, 1.25),
+                tuple(_panel_items(bands, x, measured, width_cm1)),
+                frame=True,
+                xticks=xticks if last else tuple((v, "") for v, _ in xticks),
+                yticks=yticks,
+                xlabel=_WAVENUMBER if last else (),
+                ylabel=runs("rel. IR intensity"),
+                title=runs(title) if title else (),
+                legend=_legend(measured, width_cm1),
+            )
+        )
+    titles = "; ".join(t for t, _ in panels if t)
+    return Scene(_WIDTH, height, tuple(out), description="predicted stick spectrum" + (f": {titles}" if titles else ""))
 
 
 def spectra_figure(
@@ -128,6 +198,8 @@ def spectra_figure(
     axes: Sequence[Axes] | None = None,
 ) -> Figure:
     """Stick spectra, one panel per (title, bands), on a shared wavenumber axis (high to low, cm-1).
+
+    The drawing of :func:`spectra_scene`, drawn with matplotlib.
 
     Parameters
     ----------
@@ -145,22 +217,7 @@ def spectra_figure(
     matplotlib.figure.Figure
         A bare Figure (no pyplot): show it in a notebook, or write it with :func:`picture`.
     """
-    from matplotlib.figure import Figure
-
-    lo, hi = _range(panels, measured or [])
-    x = np.linspace(lo, hi, 2000)
-    if axes is None:
-        fig = Figure(figsize=(6.0, 1.9 * max(1, len(panels))), layout="tight")
-        grid = fig.subplots(len(panels) or 1, 1, squeeze=False, sharex=True)
-        axes = list(grid[:, 0])
-    else:
-        fig = axes[0].get_figure()  # type: ignore[assignment]
-    for ax, (title, bands) in zip(axes, panels):
-        _panel(ax, title, bands, x, measured or [], width_cm1)
-    for ax in axes:
-        ax.set_xlim(hi, lo)
-    axes[-1].set_xlabel("wavenumber / cm$^{-1}$")
-    return fig
+    return scene_figure(spectra_scene(panels, measured=measured, width_cm1=width_cm1), axes)
 
 
 def stick_spectrum(

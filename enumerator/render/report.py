@@ -5,7 +5,7 @@ Everything shown is computed before, by :mod:`enumerator.workflow.report`
 (results, band patterns, 3D starting structures, cautions, file names,
 version); this module only formats it, into ``templates/report.html.j2`` with
 the screen-and-print style sheet ``templates/report.css``.  The page needs no
-network: inline CSS, images as ``data:`` URIs, no scripts, no web fonts.
+network: inline CSS, drawings as inline SVG, no scripts, no web fonts.
 
 The page opens with a summary (per complex: the isomers and their point
 groups, which technique tells which pairs apart, the predicted IR-active
@@ -15,8 +15,12 @@ pair grid, one card per isomer (a drawing, every field under a human label,
 the predicted stick spectrum with axes, units and legend, and its band list),
 the metal centre, the descriptor basis and the spectroscopy notes.  Drawings
 of real formulas are the 3D starting structures in element colours
-(:mod:`enumerator.render.drawing`); a letter formula is drawn on its ideal
-polyhedron (:func:`polyhedron_svg`) with a colour legend.
+(:func:`enumerator.render.drawing.molecule_scene`) and the spectra are
+:func:`enumerator.render.plots.spectra_scene`, both drawn as inline SVG by
+:func:`enumerator.render.scene.scene_svg` (matplotlib is not imported; one
+drawing per distinct spectrum, shared by the cards that show it); a letter
+formula is drawn on its ideal polyhedron (:func:`polyhedron_svg`) with a
+colour legend.
 
 Jinja2 escapes every string that can come from a user (formulae, ligand names
 from user rule files, labels, notes); the typeset pieces are built from escaped
@@ -31,7 +35,7 @@ True
 
 from __future__ import annotations
 
-import base64
+import dataclasses
 import html
 import math
 from collections.abc import Mapping, Sequence
@@ -45,8 +49,9 @@ from enumerator.analyses.safety import SafetyAnalysis
 from enumerator.analyses.stretch import StretchAnalysis
 from enumerator.isomers.enumeration import Isomer
 from enumerator.render import tables
-from enumerator.render.drawing import donor_atoms, figure_svg, molecule_figure
-from enumerator.render.plots import picture, stick_spectrum
+from enumerator.render.drawing import donor_atoms, molecule_scene
+from enumerator.render.plots import spectra_scene
+from enumerator.render.scene import scene_svg
 from enumerator.render.sections import sections
 from enumerator.render.typeset import formula_html, html_species, html_symbol, nucleus_html
 from enumerator.structures.structure import Structure
@@ -445,29 +450,25 @@ def _band_rows(c: ReportComplex) -> tuple[list[str], list[list[Markup]]]:
 
 
 # ---------------------------------------------------------------- cards
-def _data_uri(data: bytes, mime: str) -> str:
-    return f"data:{mime};base64,{base64.b64encode(data).decode('ascii')}"
-
-
-def _structure_drawing(iso: Isomer, s: Structure) -> str:
+def _structure_drawing(iso: Isomer, s: Structure, alt: str) -> Markup:
+    """The structure as inline SVG (labelled for screen readers with ``alt``)."""
     atoms = donor_atoms(s, [site.position for site in iso.sites])
     units: dict[int, tuple[str, list[int]]] = {}
     for site, a in zip(iso.sites, atoms):
         units.setdefault(site.unit, (site.ligand, []))[1].append(a)
-    fig = molecule_figure(s, list(units.values()))
-    return _data_uri(figure_svg(fig), "image/svg+xml")
+    scene = dataclasses.replace(molecule_scene(s, list(units.values())), description=alt)
+    return Markup(scene_svg(scene))
 
 
 def _drawing(c: ReportComplex, iso: Isomer, k: int) -> tuple[Markup, str]:
     comp = c.result.composition
     s = c.structures.structures[k] if c.structures is not None and k < len(c.structures.structures) else None
     if s is not None and s.kind == "full":
-        uri = _structure_drawing(iso, s)
         alt = f"starting structure of isomer {iso.id} of {comp.formula}"
         caption = "Starting structure (RDKit, donors on the ideal polyhedron); hydrogen atoms left out."
         if s.note:
             caption += f" Warning: {s.note}."
-        return Markup(f'<img alt="{html.escape(alt)}" src="{uri}">'), caption
+        return _structure_drawing(iso, s, alt), caption
     kinds = [k.name for k in comp.kinds]
     legend = "".join(
         f'<span><i class="swatch" style="background:{_PALETTE[i % len(_PALETTE)]}"></i>{html.escape(n)}</span>'
@@ -487,22 +488,22 @@ def _fields(iso: Isomer, res: Result) -> list[tuple[str, str]]:
 
 
 def _spectra(
-    c: ReportComplex, k: int, iso: Isomer, descriptor: str, drawn: dict[Any, str] | None = None
+    c: ReportComplex, k: int, iso: Isomer, descriptor: str, drawn: dict[Any, Markup] | None = None
 ) -> list[dict[str, Any]]:
-    """The spectra of one card; ``drawn`` keeps each distinct spectrum's picture, so that isomers with the
-    same predicted bands (enantiomers always) share one figure instead of drawing it again."""
+    """The spectra of one card; ``drawn`` keeps each distinct spectrum's inline SVG, so that isomers with the
+    same predicted bands (enantiomers always) share one drawing instead of laying it out again."""
     drawn = {} if drawn is None else drawn
     out: list[dict[str, Any]] = []
     for spec in c.spectra[k].classes:
         cls = spec.reporter_class
         if spec.pattern is None:
-            out.append({"image": "", "alt": f"{cls} bands not predicted: {spec.error}", "bands": []})
+            out.append({"svg": "", "alt": f"{cls} bands not predicted: {spec.error}", "bands": []})
             continue
         # the figure names the complex and the class; the card around it names the isomer
         title = f"{c.result.composition.formula}, {cls} stretches"
         key = (title, tuple(spec.pattern.bands))
         if key not in drawn:
-            drawn[key] = _data_uri(picture(stick_spectrum(spec.pattern.bands, title=title)), "image/svg+xml")
+            drawn[key] = Markup(scene_svg(spectra_scene([(title, spec.pattern.bands)])))
         bands = [
             (
                 f"{b.wavenumber:.0f}",
@@ -514,7 +515,7 @@ def _spectra(
             for b in spec.pattern.bands
         ]
         alt = f"predicted {cls} stick spectrum of isomer {iso.id}" + (f" ({descriptor})" if descriptor else "")
-        out.append({"image": drawn[key], "alt": alt, "bands": bands})
+        out.append({"svg": drawn[key], "alt": alt, "bands": bands})
     return out
 
 
@@ -522,7 +523,7 @@ def _cards(c: ReportComplex) -> list[dict[str, Any]]:
     res = c.result
     desc = res.analysis(DescriptorAnalysis)
     cards = []
-    drawn: dict[Any, str] = {}
+    drawn: dict[Any, Markup] = {}
     for k, iso in enumerate(res.isomers):
         d = desc.get(iso.id) if desc is not None else None
         drawing, caption = _drawing(c, iso, k)

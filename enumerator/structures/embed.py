@@ -15,7 +15,10 @@ file is the same on every run; then aligns the result onto the fixed atoms
 by a proper-rotation Kabsch fit (W. Kabsch, *Acta Cryst.* A32 (1976) 922;
 a proper rotation keeps the chirality of enantiomers) and rejects a fit
 worse than :data:`FIT_TOL`.  Any failure is an :class:`EmbedFailed` whose
-message says why; the caller then writes the donor-only core.
+message says why; the caller then writes the donor-only core.  The embedding
+is memoised by value (the molecule without mass numbers and the held
+positions), so an isotopologue in the same run (a report of a complex and its
+``13CO`` label) is not embedded twice.
 """
 
 from __future__ import annotations
@@ -25,6 +28,7 @@ from typing import TYPE_CHECKING
 
 import numpy as np
 
+from enumerator.caches import cached
 from enumerator.isomers.enumeration import Site
 from enumerator.model.composition import Composition, LigandKind
 from enumerator.structures.placement import Vec, bond_length, ring_positions
@@ -188,27 +192,48 @@ def assemble(
 def embed(mol, fixed: Mapping[int, Vec]) -> np.ndarray:
     """Embedded coordinates, aligned onto the fixed atoms.
 
+    The answer is memoised by value (:func:`_embedded`): the molecule exactly as RDKit stores it (its binary
+    form: atoms and bonds in index order, charges, hydrogens, aromaticity, stereo flags) with mass numbers
+    cleared, and the fixed positions.  Distance geometry reads no mass number, so an isotopologue (a
+    ``13CO`` complex beside its ``CO`` parent) gets the same coordinates without a second embedding
+    (tests/test_structures.py holds both).
+
     Parameters
     ----------
     mol : rdkit.Chem.Mol
-        The assembled complex (its conformer is replaced).
+        The assembled complex (not changed).
     fixed : Mapping[int, Vec]
         Atom index -> position held (metal, donors, ring atoms).
 
     Returns
     -------
     numpy.ndarray
-        n x 3 positions in angstrom.
+        n x 3 positions in angstrom (a fresh array the caller may change).
 
     Raises
     ------
     EmbedFailed
         RDKit finds no embedding, or the fit to the fixed atoms is worse than :data:`FIT_TOL`.
     """
-    from rdkit import rdBase
+    from rdkit import Chem
+
+    plain = Chem.Mol(mol)
+    plain.RemoveAllConformers()
+    for a in plain.GetAtoms():
+        a.SetIsotope(0)
+    held = tuple(sorted((int(i), (float(p[0]), float(p[1]), float(p[2]))) for i, p in fixed.items()))
+    return np.array(_embedded(plain.ToBinary(), held))
+
+
+@cached(maxsize=256)
+def _embedded(binary: bytes, held: tuple[tuple[int, Vec], ...]) -> np.ndarray:
+    """ETKDG with the held atoms in place, then the Kabsch fit (read-only array)."""
+    from rdkit import Chem, rdBase
     from rdkit.Chem import rdDistGeom
     from rdkit.Geometry import Point3D
 
+    mol = Chem.Mol(binary)  # type: ignore[call-overload]  # RDKit's stubs say str; the pickle is bytes
+    fixed = dict(held)
     with rdBase.BlockLogs():
         cmap = {i: Point3D(*p) for i, p in fixed.items()}
         try:
@@ -223,6 +248,7 @@ def embed(mol, fixed: Mapping[int, Vec]) -> np.ndarray:
     dev = max(float(np.linalg.norm(pos[i] - np.array(p))) for i, p in fixed.items())
     if dev > FIT_TOL:
         raise EmbedFailed(f"the embedded donors sit {dev:.2f} A off their sites")
+    pos.setflags(write=False)
     return pos
 
 

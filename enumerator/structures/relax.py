@@ -195,19 +195,17 @@ def closest_contact(mol, coords: Sequence[Vec] | np.ndarray) -> tuple[float, int
     n = mol.GetNumAtoms()
     if n < 3:
         return None
-    frag = _fragments(mol)
+    frag = np.array(_fragments(mol))
     xyz = np.array(coords, dtype=float)
     rv = _vdw(mol)
-    best = None
-    for i in range(1, n):
-        for j in range(i + 1, n):
-            if frag[i] == frag[j]:
-                continue
-            d = float(np.linalg.norm(xyz[i] - xyz[j]))
-            limit = CLASH_FRACTION * float(rv[i] + rv[j])
-            key = d / limit
-            if best is None or key < best[0]:
-                best = (key, d, i, j, limit)
-    if best is None:
+    # every pair i < j of ligand atoms at once; the first smallest distance / limit in (i, j) order
+    i, j = np.triu_indices(n, 1)
+    keep = (i > 0) & (frag[i] != frag[j])
+    i, j = i[keep], j[keep]
+    if not len(i):
         return None
-    return best[1], best[2], best[3], best[4]
+    diff = xyz[i] - xyz[j]
+    d = np.sqrt((diff * diff).sum(axis=1))
+    limit = CLASH_FRACTION * (rv[i] + rv[j])
+    k = int(np.argmin(d / limit))
+    return float(d[k]), int(i[k]), int(j[k]), float(limit[k])
