@@ -88,6 +88,11 @@ def read_toml(path: Path | str, error: ErrorFactory = rule_error) -> dict[str, A
             raw = fh.read()
     except OSError as exc:
         raise error(path, f"cannot read ({exc.strerror})", "check the path and permissions") from None
+    from enumerator.rules.parsed import lookup
+
+    twin = lookup(raw)  # a built-in file's bytes, already parsed and checked (enumerator.rules.parsed)
+    if twin is not None:
+        return twin
     try:
         text = raw.decode("utf-8-sig")
     except UnicodeDecodeError as exc:
