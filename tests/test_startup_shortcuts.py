@@ -67,3 +67,117 @@ def test_shortcut_keeps_the_missing_smiles_error():
     cl = LigandKind("Cl", ("Cl",), meta=(("smiles", "[Cl-:1]"),))
     with pytest.raises(InputError, match="no SMILES"):
         donor_priorities(Composition("t", ((bare, 1), (cl, 1)), "Pt"))
+
+
+# --------------------------------------------------------------------------
+# masses and the small SMILES reader, against RDKit (the reference library)
+
+
+def test_every_mass_in_the_builtin_table_is_rdkits():
+    from rdkit import Chem
+
+    from enumerator.rules.masses import table
+
+    pt = Chem.GetPeriodicTable()
+    rows = table()
+    assert len(rows) == 118
+    for symbol, (weight, common, common_mass, isotopes) in rows.items():
+        z = pt.GetAtomicNumber(symbol)
+        assert weight == pt.GetAtomicWeight(z), symbol
+        assert common == pt.GetMostCommonIsotope(z), symbol
+        assert common_mass == pt.GetMostCommonIsotopeMass(z), symbol
+        for a, m in isotopes.items():
+            assert m == pt.GetMassForIsotope(z, a), (symbol, a)
+
+
+@pytest.mark.parametrize(("symbol", "isotope"), [("C", 0), ("C", 13), ("O", 18), ("N", 15), ("H", 2), ("Tc", 99)])
+def test_mass_of_is_what_the_rdkit_path_gives(symbol, isotope):
+    from enumerator.model.elements import isotope_mass
+    from enumerator.rules.masses import mass_of
+
+    assert mass_of(symbol, isotope) == isotope_mass(symbol, isotope)
+
+
+def _rdkit_graph(smiles: str):
+    from rdkit import Chem
+
+    mol = Chem.MolFromSmiles(smiles, sanitize=False)
+    atoms = [(a.GetSymbol(), a.GetIsotope(), a.GetAtomMapNum(), a.GetIsAromatic()) for a in mol.GetAtoms()]
+    bonds = sorted(
+        (
+            min(b.GetBeginAtomIdx(), b.GetEndAtomIdx()),
+            max(b.GetBeginAtomIdx(), b.GetEndAtomIdx()),
+            b.GetBondTypeAsDouble(),
+        )
+        for b in mol.GetBonds()
+    )
+    return atoms, bonds
+
+
+def _graph(smiles: str):
+    from enumerator.model.smiles import read_graph
+
+    g = read_graph(smiles)
+    if g is None:
+        return None
+    atoms = [(a.symbol, a.isotope, a.map_number, a.aromatic) for a in g.atoms]
+    return atoms, sorted((min(a, b), max(a, b), o) for a, b, o in g.bonds)
+
+
+def test_smiles_reader_reads_every_builtin_smiles_as_rdkit_does():
+    entries = load_ligands(load_rules())
+    for name, e in entries.items():
+        got = _graph(e.smiles)
+        assert got is not None, (name, e.smiles)  # the catalogue stays within the reader's grammar
+        assert got == _rdkit_graph(e.smiles), (name, e.smiles)
+
+
+@pytest.mark.parametrize(
+    "smiles",
+    [
+        "c1ccccc1",  # aromatic ring closure: bonds 1.5 (OpenSMILES 3.5)
+        "C1=CC=CC=C1",
+        "C=1CC1",
+        "C%12CC%12",
+        "[13CH3:1]C(=O)[O-]",
+        "[Cl-].[Na+]",
+        "c1cc[nH]c1",
+        "N#[C:1]",
+        "C/C=C\\C",
+        "[se]1cccc1",
+        "[2H]C([2H])([2H])[C:1]#[N:2]",
+    ],
+)
+def test_smiles_reader_agrees_with_rdkit_on_syntax(smiles):
+    assert _graph(smiles) == _rdkit_graph(smiles)
+
+
+@pytest.mark.parametrize("smiles", ["C1CC", "C((C)", "C)C", "C==C", "[Xx]", "C.", "C{C}", ""])
+def test_smiles_reader_refuses_what_it_does_not_cover(smiles):
+    from enumerator.model.smiles import read_graph
+
+    assert read_graph(smiles) is None
+
+
+def test_oscillator_masses_without_rdkit_equal_rdkits_for_every_catalogue_donor():
+    from enumerator.model.smiles import read_graph
+    from enumerator.vibrations.model import _graph_oscillator, _rdkit_oscillator
+
+    for name, e in load_ligands(load_rules()).items():
+        graph = read_graph(e.smiles)
+        for k in range(1, e.bound_atoms + 1):
+            assert _graph_oscillator(graph, k) == _rdkit_oscillator(e.smiles, k), (name, k)
+
+
+def test_distinct_element_counts_imply_distinct_molecules_over_catalogue_pairs():
+    from enumerator.vibrations.model import _distinct_molecules, _isotope_free
+
+    smiles = sorted({e.smiles for e in load_ligands(load_rules()).values()})
+    told = 0
+    for a, b in itertools.combinations(smiles, 2):
+        if _distinct_molecules([a, b]):
+            assert _isotope_free(a) != _isotope_free(b), (a, b)
+            told += 1
+    assert told > 1000
+    # isotopologues share their element counts, so they go to RDKit's canonical SMILES
+    assert not _distinct_molecules(["[C-:1]#[O+]", "[13C-:1]#[O+]"])
