@@ -181,3 +181,35 @@ def test_distinct_element_counts_imply_distinct_molecules_over_catalogue_pairs()
     assert told > 1000
     # isotopologues share their element counts, so they go to RDKit's canonical SMILES
     assert not _distinct_molecules(["[C-:1]#[O+]", "[13C-:1]#[O+]"])
+
+
+# --------------------------------------------------------------------------
+# group tables and operation descriptions
+
+
+def test_multiplication_table_from_permutations_equals_matrix_products():
+    # reference: the product of the operation matrices (the definition of the group's multiplication)
+    import numpy as np
+
+    from enumerator.isomers.enumeration import _mult_by_matrices, _mult_by_perms, group_tables
+    from enumerator.model.geometry import derive_operations
+
+    faithful = 0
+    for sym, geo in load_rules().geometries.items():
+        ops = derive_operations(geo.vectors)
+        slow = _mult_by_matrices(ops)
+        assert (group_tables(geo).mult == slow).all(), sym
+        if len({op.perm for op in ops}) == len(ops):
+            assert (_mult_by_perms(np.array([op.perm for op in ops], dtype=np.int32)) == slow).all(), sym
+            faithful += 1
+    assert faithful >= 10
+
+
+def test_describe_is_the_same_for_an_equal_matrix_however_it_is_given():
+    import numpy as np
+
+    from enumerator.symmetry.operations import describe
+
+    c4 = [[0.0, -1.0, 0.0], [1.0, 0.0, 0.0], [0.0, 0.0, 1.0]]  # C4 about z, common practice
+    assert describe(c4) == describe(np.array(c4)) == describe(np.asfortranarray(c4))
+    assert (describe(c4).kind, describe(c4).order, describe(c4).power) == ("C", 4, 1)
