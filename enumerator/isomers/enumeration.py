@@ -35,6 +35,7 @@ from enumerator.caches import cached
 from enumerator.errors import InputError
 from enumerator.model.composition import Composition, LigandKind
 from enumerator.model.geometry import Geometry
+from enumerator.symmetry.dixon import compose_permutations
 from enumerator.symmetry.operations import SymOp, schoenflies
 
 __all__ = [
@@ -230,14 +231,9 @@ def _tables(vectors: tuple[tuple[float, float, float], ...]) -> GroupTables:
 def _mult_by_perms(perms: np.ndarray) -> np.ndarray:
     """The multiplication table from the site permutations, when no two operations permute the sites
     alike: the action on the sites is then faithful, and the permutation of ``a @ b`` (site ``i`` to
-    ``perms[a][perms[b][i]]``) names the product.  One array operation instead of g² matrix products."""
-    g, n = perms.shape
-    weights = np.int64(n) ** np.arange(n, dtype=np.int64)
-    codes = perms.astype(np.int64) @ weights
-    order = np.argsort(codes)
-    products = perms[:, perms].astype(np.int64) @ weights  # [a, b] = code of site i -> perms[a][perms[b][i]]
-    at = np.searchsorted(codes[order], products)
-    return order[at].astype(np.int32)
+    ``perms[a][perms[b][i]]``) names the product (:func:`enumerator.symmetry.dixon.compose_permutations`,
+    one array operation instead of g² matrix products)."""
+    return compose_permutations(perms).astype(np.int32)
 
 
 def _mult_by_matrices(ops) -> np.ndarray:
