@@ -213,3 +213,35 @@ def test_describe_is_the_same_for_an_equal_matrix_however_it_is_given():
     c4 = [[0.0, -1.0, 0.0], [1.0, 0.0, 0.0], [0.0, 0.0, 1.0]]  # C4 about z, common practice
     assert describe(c4) == describe(np.array(c4)) == describe(np.asfortranarray(c4))
     assert (describe(c4).kind, describe(c4).order, describe(c4).power) == ("C", 4, 1)
+
+
+@pytest.mark.parametrize(
+    "args",
+    [
+        ["isomers", "Ma6"],
+        ["isomers", "[RuCl2(CO)2(PPh3)2]"],
+        ["bands", "[Cr(CO)6]"],
+        ["match", "[Mo(CO)3(PPh3)3]", "--bands", "1950,1860,1840"],
+        ["route", "[PtCl4]2-", "--target", "cis-[PtCl2(NH3)2]"],
+    ],
+)
+def test_small_commands_import_neither_rdkit_nor_the_toml_parser(args):
+    import os
+    import subprocess
+    import sys
+    from pathlib import Path
+
+    root = Path(__file__).resolve().parent.parent
+    code = (
+        "import sys, io, contextlib\n"
+        "from enumerator.cli import main\n"
+        "with contextlib.redirect_stdout(io.StringIO()):\n"
+        "    try:\n"
+        f"        main({args!r})\n"
+        "    except SystemExit as e:\n"
+        "        assert not e.code, e.code\n"
+        "print(sorted(m for m in ('rdkit', 'tomllib', 'hashlib') if m in sys.modules))\n"
+    )
+    env = dict(os.environ, PYTHONPATH=str(root))
+    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, env=env, cwd=root, check=True)
+    assert out.stdout.strip() == "[]", out.stdout + out.stderr
