@@ -51,6 +51,7 @@ habit (common practice), not an IUPAC rule.
 
 from __future__ import annotations
 
+import re
 from collections.abc import Iterable, Mapping, Sequence
 from dataclasses import dataclass
 from types import MappingProxyType
@@ -70,6 +71,7 @@ __all__ = [
     "dense_ranks",
     "donor_priorities",
     "uses_letters",
+    "by_donor_element",
 ]
 
 #: Spheres of the hierarchical digraph explored from each ligating atom.
@@ -490,9 +492,77 @@ def donor_priorities(composition: Composition) -> dict[tuple[str, int], int]:
     return dict(_donor_priorities(composition))
 
 
+#: A bracket atom with an atom-map number: isotope, element symbol (aromatic in lower case), map number.
+_MAPPED_ATOM = re.compile(r"\[(\d*)([A-Z][a-z]?|[a-z][a-z]?)[^\]:]*:(\d+)\]")
+
+
+def _mapped_elements(smiles: str) -> dict[int, int]:
+    """Atom-map number -> atomic number of the mapped bracket atoms of a SMILES, read from its text
+    (an unknown symbol gives 0)."""
+    out: dict[int, int] = {}
+    for _, symbol, number in _MAPPED_ATOM.findall(smiles):
+        z = atomic_number(symbol if symbol[0].isupper() else symbol.capitalize())
+        out[int(number)] = max(z, 0) if int(number) not in out else 0
+    return out
+
+
+def by_donor_element(composition: Composition) -> tuple[tuple[tuple[str, int], int], ...] | None:
+    """The priority numbers from the ligating atoms' atomic numbers alone, when those differ pairwise.
+
+    Rule 1a compares the first sphere (the ligating atom) before anything
+    else, so when no two ligating atoms of the centre share an element the
+    ranking is settled there and the digraph (and RDKit) is not needed.  Used
+    only when every ligand is a chain ligand with a SMILES and no hapticity,
+    and each SMILES's mapped atom ``:k`` is the element ``donors[k-1]`` names;
+    otherwise None, and :func:`donor_priorities` builds the digraph.
+
+    >>> from enumerator.parse.formula import parse_formula
+    >>> from enumerator.rules.ruleset import load_rules
+    >>> by_donor_element(parse_formula("[PtCl2(NH3)2]", load_rules()))
+    ((('Cl', 0), 1), (('NH3', 0), 2))
+
+    Parameters
+    ----------
+    composition : Composition
+
+    Returns
+    -------
+    tuple or None
+        ((ligand name, donor index), priority number) pairs in the order of the composition's kinds,
+        as :func:`donor_priorities` gives them; None when the first sphere does not decide.
+    """
+    labels: list[tuple[str, int]] = []
+    zs: list[int] = []
+    for kind in composition.kinds:
+        smiles = kind.info("smiles")
+        if not isinstance(smiles, str) or not kind.chain or kind.info("hapticity") is not None:
+            return None
+        mapped = _mapped_elements(smiles)
+        if sorted(mapped) != list(range(1, kind.denticity + 1)):
+            return None
+        for i, d in enumerate(kind.donors):
+            z = atomic_number(d)
+            if z <= 0 or mapped[i + 1] != z:
+                return None
+            labels.append((kind.name, i))
+            zs.append(z)
+    if not zs or len(set(zs)) != len(zs):
+        return None
+    return tuple(zip(labels, dense_ranks(zs)))
+
+
 @cached(maxsize=1024)
 def _donor_priorities(composition: Composition) -> tuple[tuple[tuple[str, int], int], ...]:
     # keyed by the composition, whose ligand kinds compare their SMILES and other catalogue data too
+    if not uses_letters(composition):
+        quick = by_donor_element(composition)
+        if quick is not None:
+            return quick
+    return _digraph_priorities(composition)
+
+
+def _digraph_priorities(composition: Composition) -> tuple[tuple[tuple[str, int], int], ...]:
+    """:func:`donor_priorities` by the letter convention or the full digraph (no shortcut)."""
     labels: list[tuple[str, int]] = []
     values: list = []
     if uses_letters(composition):

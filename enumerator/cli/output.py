@@ -51,7 +51,6 @@ from __future__ import annotations
 import contextlib
 import errno
 import os
-import secrets
 import stat
 import warnings
 from collections.abc import Iterable, Sequence
@@ -319,6 +318,8 @@ def _write_all(fd: int, data: bytes) -> None:
 
 def _stage(target: Target, data: bytes) -> str:
     """Write ``data`` to a new temporary file beside the target; its name."""
+    import secrets  # here: it pulls in hashlib, which a command printing to the terminal never needs
+
     folder = os.path.dirname(target.real) or "."
     for _ in range(16):
         tmp = os.path.join(folder, f"{TEMP_PREFIX}{os.getpid()}-{secrets.token_hex(4)}.tmp")

@@ -35,6 +35,7 @@ from enumerator.caches import cached
 from enumerator.errors import InputError
 from enumerator.model.composition import Composition, LigandKind
 from enumerator.model.geometry import Geometry
+from enumerator.symmetry.dixon import compose_permutations
 from enumerator.symmetry.operations import SymOp, schoenflies
 
 __all__ = [
@@ -216,19 +217,35 @@ def _tables(vectors: tuple[tuple[float, float, float], ...]) -> GroupTables:
     from enumerator.model.geometry import derive_operations
 
     ops = derive_operations(vectors)
+    g = len(ops)
+    perms = np.array([op.perm for op in ops], dtype=np.int32)
+    mult = _mult_by_perms(perms) if len({op.perm for op in ops}) == g else _mult_by_matrices(ops)
+    ident = 0
+    inverse = np.array([int(np.nonzero(mult[a] == ident)[0][0]) for a in range(g)], dtype=np.int32)
+    proper = np.array([op.proper for op in ops], dtype=bool)
+    for table in (perms, mult, inverse, proper):
+        table.setflags(write=False)  # shared by every caller of the cache
+    return GroupTables(perms, mult, inverse, proper)
+
+
+def _mult_by_perms(perms: np.ndarray) -> np.ndarray:
+    """The multiplication table from the site permutations, when no two operations permute the sites
+    alike: the action on the sites is then faithful, and the permutation of ``a @ b`` (site ``i`` to
+    ``perms[a][perms[b][i]]``) names the product (:func:`enumerator.symmetry.dixon.compose_permutations`,
+    one array operation instead of g² matrix products)."""
+    return compose_permutations(perms).astype(np.int32)
+
+
+def _mult_by_matrices(ops) -> np.ndarray:
+    """The multiplication table from the operation matrices (for a planar geometry, whose reflection in
+    the plane permutes no site)."""
     keys = {tuple(np.round(op.array, 6).ravel()): k for k, op in enumerate(ops)}
     g = len(ops)
     mult = np.zeros((g, g), dtype=np.int32)
     for a, oa in enumerate(ops):
         for b, ob in enumerate(ops):
             mult[a, b] = keys[tuple(np.round(oa.array @ ob.array, 6).ravel())]
-    ident = 0
-    inverse = np.array([int(np.nonzero(mult[a] == ident)[0][0]) for a in range(g)], dtype=np.int32)
-    perms = np.array([op.perm for op in ops], dtype=np.int32)
-    proper = np.array([op.proper for op in ops], dtype=bool)
-    for table in (perms, mult, inverse, proper):
-        table.setflags(write=False)  # shared by every caller of the cache
-    return GroupTables(perms, mult, inverse, proper)
+    return mult
 
 
 def canonical_placement(kind: LigandKind, t: Placement) -> Placement:

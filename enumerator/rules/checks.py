@@ -24,7 +24,6 @@ from __future__ import annotations
 import contextlib
 import difflib
 import sys
-import tomllib
 from collections.abc import Callable, Iterable, Iterator, Mapping
 from pathlib import Path
 from typing import Any
@@ -88,6 +87,11 @@ def read_toml(path: Path | str, error: ErrorFactory = rule_error) -> dict[str, A
             raw = fh.read()
     except OSError as exc:
         raise error(path, f"cannot read ({exc.strerror})", "check the path and permissions") from None
+    from enumerator.rules.parsed import lookup
+
+    twin = lookup(raw)  # a built-in file's bytes, already parsed and checked (enumerator.rules.parsed)
+    if twin is not None:
+        return twin
     try:
         text = raw.decode("utf-8-sig")
     except UnicodeDecodeError as exc:
@@ -97,6 +101,8 @@ def read_toml(path: Path | str, error: ErrorFactory = rule_error) -> dict[str, A
             f"the file is not UTF-8 text (byte 0x{raw[exc.start]:02x} on line {line})",
             "save the file as UTF-8",
         ) from None
+    import tomllib  # here, not at the top: the built-in files come parsed from the twin
+
     try:
         data = tomllib.loads(text)
     except tomllib.TOMLDecodeError as exc:

@@ -31,8 +31,9 @@ from typing import Any
 
 from enumerator.caches import cached
 from enumerator.errors import InputError
-from enumerator.model.elements import is_element, isotope_mass
+from enumerator.model.elements import is_element
 from enumerator.rules.checks import check_keys, closest_names, quiet_rdkit, read_toml, rule_error
+from enumerator.rules.masses import mass_of
 from enumerator.rules.ruleset import RuleSet, load_rules
 
 __all__ = ["ClassField", "load_forcefields", "class_field", "atom_mass", "element_mass"]
@@ -99,7 +100,7 @@ def element_mass(symbol: str, isotope: int = 0, where: str = "") -> float:
     Returns
     -------
     float
-        Mass in u (RDKit's periodic table, through :mod:`enumerator.model.elements`).
+        Mass in u (RDKit's periodic table, from the built-in table :mod:`enumerator.rules.masses` where it holds it).
 
     Raises
     ------
@@ -108,7 +109,7 @@ def element_mass(symbol: str, isotope: int = 0, where: str = "") -> float:
     """
     if not is_element(symbol):
         raise rule_error(where, f"unknown element '{symbol}'", "use an element symbol such as C, N, O")
-    m = isotope_mass(symbol, isotope)
+    m = mass_of(symbol, isotope)
     if m is None:
         raise rule_error(where, f"no mass known for isotope {isotope}{symbol}", "check the mass number")
     return m

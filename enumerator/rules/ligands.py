@@ -45,7 +45,7 @@ from __future__ import annotations
 
 import re
 from collections.abc import Mapping
-from dataclasses import dataclass, replace
+from dataclasses import dataclass
 from functools import cached_property
 from pathlib import Path
 from types import MappingProxyType
@@ -403,7 +403,7 @@ def _smiles(data: Mapping[str, Any], where: str) -> str:
     return smiles.strip()
 
 
-def parse_entry(data: Mapping[str, Any], where: str, smiles_now: bool = True) -> LigandEntry:
+def parse_entry(data: Mapping[str, Any], where: str, smiles_now: bool = True, source: str | None = None) -> LigandEntry:
     """One validated catalogue entry from a ``[[ligand]]`` table.
 
     The keys are checked in the order of the catalogue schema (name, label
@@ -420,6 +420,8 @@ def parse_entry(data: Mapping[str, Any], where: str, smiles_now: bool = True) ->
     smiles_now : bool, optional
         Check the SMILES against the other keys now (default); False for the
         built-in catalogue, whose SMILES the test suite checks.
+    source : str, optional
+        The entry's ``source`` (the file it was read from); default: the table's own ``source`` key.
 
     Returns
     -------
@@ -459,7 +461,7 @@ def parse_entry(data: Mapping[str, Any], where: str, smiles_now: bool = True) ->
         reporter=reporter,
         nitrosyl=nitrosyl,
         note=note,
-        source=str(data.get("source", "")),
+        source=str(data.get("source", "")) if source is None else source,
         iupac=iupac,
         enclose=enclose,
         hapto_default=_flag(data, where, "hapto_default"),
@@ -736,11 +738,11 @@ def _file_entries(path: Path) -> list[LigandEntry]:
         where = f"{path} [[ligand]] #{k + 1}"
         if not isinstance(raw, dict):
             raise rule_error(where, "not a table", "write each entry under [[ligand]]")
-        e = parse_entry(raw, where, smiles_now=not builtin)
+        e = parse_entry(raw, where, smiles_now=not builtin, source=str(path))
         if e.name in seen:
             raise rule_error(where, f"ligand '{e.name}' is defined twice in this file", "keep one entry")
         seen.add(e.name)
-        out.append(replace(e, source=str(path)))
+        out.append(e)
     return out
 
 

@@ -176,6 +176,16 @@ def describe(m: np.ndarray) -> OpInfo:
         If the rotation angle is not k/n of a turn with n up to ``MAX_ROTATION_ORDER``.
     """
     m = np.asarray(m, dtype=float)
+    if m.shape != (3, 3):
+        raise ValueError(f"an operation is a 3x3 matrix, not {m.shape}")
+    return _describe(np.ascontiguousarray(m).tobytes())
+
+
+@cached(maxsize=8192)
+def _describe(raw: bytes) -> OpInfo:
+    """:func:`describe` of the 3x3 matrix whose float64 values (C order) are ``raw``: keyed by the exact
+    values, so an operation described by several callers is worked out once."""
+    m = np.frombuffer(raw, dtype=float).reshape(3, 3)
     det = float(np.linalg.det(m))
     tr = float(np.trace(m))
     if det > 0:

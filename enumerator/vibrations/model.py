@@ -51,7 +51,9 @@ import numpy as np
 from enumerator.caches import cached
 from enumerator.errors import InputError
 from enumerator.isomers.enumeration import Isomer, Site
+from enumerator.model.smiles import SmilesGraph, heavy_atoms, read_graph
 from enumerator.rules.forcefields import ClassField, atom_mass, class_field, element_mass
+from enumerator.rules.masses import mass_of, weight_of
 from enumerator.rules.ruleset import RuleSet, closest_names, load_rules
 
 __all__ = ["Oscillator", "StretchSet", "Model", "build_model", "reporter_classes"]
@@ -264,10 +266,51 @@ def build_model(isomer: Isomer, reporter_class: str, rules: RuleSet | None = Non
 # oscillator masses
 
 
+#: The oscillator of a SMILES the small reader does not cover: ask RDKit.
+_ASK_RDKIT = object()
+
+
 @cached(maxsize=256)
 def _smiles_oscillator(smiles: str, donor_map: int) -> tuple[str, float, str, float] | None:
     """(X label, m_X, Y label, m_Y) read from a catalogue SMILES: X is the atom
-    with map number ``donor_map``, Y its neighbour by the highest bond order."""
+    with map number ``donor_map``, Y its neighbour by the highest bond order
+    (then the larger mass, then the earlier atom).  Read by
+    :func:`enumerator.model.smiles.read_graph` with masses from the built-in
+    table (:mod:`enumerator.rules.masses`), RDKit only for what those lack;
+    both give RDKit's answer (tests/test_startup_shortcuts.py)."""
+    graph = read_graph(smiles)
+    got = _graph_oscillator(graph, donor_map) if graph is not None else _ASK_RDKIT
+    return _rdkit_oscillator(smiles, donor_map) if got is _ASK_RDKIT else got  # type: ignore[return-value]
+
+
+def _graph_oscillator(graph: SmilesGraph, donor_map: int) -> object:
+    donor = next((k for k, a in enumerate(graph.atoms) if a.map_number == donor_map), None)
+    if donor is None:
+        return None
+    best: tuple[tuple[float, float, int], int] | None = None
+    for other, order in graph.neighbours(donor):
+        a = graph.atoms[other]
+        mass = 0.0 if a.symbol == "*" else (mass_of(a.symbol, a.isotope) if a.isotope else weight_of(a.symbol))
+        if mass is None:
+            return _ASK_RDKIT
+        key = (order, mass, -other)
+        if best is None or key > best[0]:
+            best = (key, other)
+    if best is None:
+        return None
+    x, y = graph.atoms[donor], graph.atoms[best[1]]
+    if "*" in (x.symbol, y.symbol):
+        return _ASK_RDKIT
+    return (
+        f"{x.isotope}{x.symbol}" if x.isotope else x.symbol,
+        element_mass(x.symbol, x.isotope),
+        f"{y.isotope}{y.symbol}" if y.isotope else y.symbol,
+        element_mass(y.symbol, y.isotope),
+    )
+
+
+def _rdkit_oscillator(smiles: str, donor_map: int) -> tuple[str, float, str, float] | None:
+    """:func:`_smiles_oscillator` by RDKit's reading of the SMILES (unsanitised)."""
     from rdkit import Chem
 
     mol = Chem.MolFromSmiles(smiles, sanitize=False)
@@ -311,6 +354,18 @@ def _isotope_free(smiles: str) -> str:
     return Chem.MolToSmiles(mol)
 
 
+def _distinct_molecules(smiles: Sequence[str]) -> bool:
+    """Whether no two of these SMILES can be one molecule up to isotopes: their element counts without
+    hydrogen differ pairwise (isotopologues share them), read without RDKit; False when unsure."""
+    counts = []
+    for s in smiles:
+        graph = read_graph(s)
+        if graph is None:
+            return False
+        counts.append(heavy_atoms(graph))
+    return len(set(counts)) == len(counts)
+
+
 def _smiles(kind: object) -> str | None:
     """The catalogue SMILES of a ligand kind, if it has one."""
     for k, v in getattr(kind, "meta", ()) or ():
@@ -346,11 +401,12 @@ def _oscillators(isomer: Isomer, cf: ClassField, osc_sites: Sequence[Site]) -> t
 
 def _site_key(kinds: Mapping[str, object]) -> dict[str, object]:
     """Ligand identity up to isotopic labelling, per ligand name."""
-    keys: dict[str, object] = {}
-    for name, kind in kinds.items():
-        smi = _smiles(kind)
-        keys[name] = ("smiles", _isotope_free(smi)) if smi else ("name", name)
-    return keys
+    smiles = {name: _smiles(kind) for name, kind in kinds.items()}
+    written = [smi for smi in smiles.values() if smi]
+    if len(written) < 2 or _distinct_molecules(written):
+        # no two ligands can be one molecule: the name tells them apart as the canonical SMILES would
+        return {name: ("name", name) for name in kinds}
+    return {name: ("smiles", _isotope_free(smi)) if smi else ("name", name) for name, smi in smiles.items()}
 
 
 def _parent_stabiliser(isomer: Isomer, keys: Mapping[str, object]) -> tuple[int, ...]:

@@ -36,11 +36,8 @@ from typing import TYPE_CHECKING, Any
 
 from enumerator.analyses.descriptors import describe_isomer
 from enumerator.analyses.safety import cautions
-from enumerator.analyses.stretch.analysis import PATTERN_MAX_ISOMERS, StretchAnalysis, with_patterns
-from enumerator.analyses.stretch.analysis import stage as count_stage
-from enumerator.analyses.stretch.likelihood import PredictedBand, default_sigma
+from enumerator.analyses.stretch.likelihood import default_sigma
 from enumerator.analyses.stretch.modes import ModeSet, stretch_modes
-from enumerator.analyses.views import RequestView, ResultView
 from enumerator.errors import InputError, IsosieveError
 from enumerator.isomers.enumeration import Isomer, IsomerSet, enumerate_isomers
 from enumerator.model.composition import Composition
@@ -59,6 +56,7 @@ from enumerator.vibrations.matching import (
 )
 from enumerator.vibrations.model import build_model, reporter_classes
 from enumerator.vibrations.pattern import BandPattern, band_pattern
+from enumerator.workflow.bands_stage import stretch_stage
 from enumerator.workflow.pipeline import Request, prepare
 
 if TYPE_CHECKING:
@@ -565,56 +563,3 @@ def match_spectrum(
         window=window,
     )
     return MatchReport(comp.formula, iso_set.geometry.symbol, reason, res, cautions(comp))
-
-
-def stretch_stage(res: ResultView, req: RequestView) -> StretchAnalysis:
-    """Pipeline stage: the stretch counts, with every isomer's predicted IR bands for the pattern tier.
-
-    Parameters
-    ----------
-    res : Result
-        The result so far.
-    req : Request
-        Its request (rule folders).
-
-    Returns
-    -------
-    StretchAnalysis
-        From :func:`enumerator.analyses.stretch.analysis.stage`, with the
-        patterns of :func:`enumerator.vibrations.matching.predicted_bands`
-        attached (none above :data:`~enumerator.analyses.stretch.analysis.PATTERN_MAX_ISOMERS`
-        isomers, and none for an isomer the band model cannot predict, said in
-        the analysis's pattern status).
-
-    Raises
-    ------
-    InputError
-        What :func:`~enumerator.analyses.stretch.analysis.stage` raises.
-    """
-    a = count_stage(res, req)
-    if not a.classes:
-        return a
-    if len(a.ids) > PATTERN_MAX_ISOMERS:
-        return with_patterns(
-            a,
-            None,
-            f"IR patterns not judged: more than {PATTERN_MAX_ISOMERS} isomers (use --limit or --pick to judge fewer)",
-        )
-    rules = load_rules(req.rules)
-    patterns: list[tuple[tuple[PredictedBand, ...], ...] | None] = []
-    failed: list[str] = []
-    for iso in res.isomers:
-        try:
-            patterns.append(
-                tuple(
-                    predicted_bands(
-                        pattern_for(iso, c, rules=rules, composition=res.composition), stretch_modes(iso, c)
-                    )
-                    for c in a.classes
-                )
-            )
-        except IsosieveError as exc:
-            failed.append(f"{iso.id}: {exc.what}")
-            patterns.append(None)
-    note = f"IR patterns not judged for some isomers ({'; '.join(failed[:3])})" if failed else None
-    return with_patterns(a, patterns, note)

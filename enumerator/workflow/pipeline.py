@@ -65,7 +65,7 @@ STAGES: tuple[str, ...] = (
     "enumerator.analyses.centre.analysis:stage",
     "enumerator.analyses.safety:stage",
     "enumerator.analyses.descriptors.analysis:descriptor_stage",
-    "enumerator.workflow.bands:stretch_stage",
+    "enumerator.workflow.bands_stage:stretch_stage",
 )
 
 
@@ -226,7 +226,8 @@ def _result(req: Request, comp: Composition, geo: Geometry, reason: str, iso: Is
 
 
 def stage_name(stage: str) -> str:
-    """A stage of :data:`STAGES` as messages name it: 'enumerator.analyses.centre.analysis:stage' -> 'centre'.
+    """A stage of :data:`STAGES` as messages name it: 'enumerator.analyses.centre.analysis:stage' -> 'centre',
+    'enumerator.workflow.bands_stage:stretch_stage' -> 'bands'.
 
     Parameters
     ----------
@@ -238,7 +239,7 @@ def stage_name(stage: str) -> str:
     """
     module = stage.partition(":")[0]
     parts = module.split(".")
-    return parts[2] if len(parts) > 2 and parts[1] == "analyses" else parts[-1]
+    return parts[2] if len(parts) > 2 and parts[1] == "analyses" else parts[-1].removesuffix("_stage")
 
 
 def _analyse(

@@ -255,6 +255,7 @@ class PatternScore:
     reference: float = field(default=0.0, compare=False)
 
 
+@cached(maxsize=None)
 def _spurious_norm() -> float:
     """ln of the normaliser of the unexplained bands' intensity density over u = ln(x + ε), x in [0, 1]."""
     steps = 4000
@@ -264,15 +265,12 @@ def _spurious_norm() -> float:
     for i in range(steps):
         v = lo + (i + 0.5) * h
         total += math.exp(-(v - INTENSITY_FLOOR) / SPURIOUS_SCALE) / v * h
-    return math.log(total)
-
-
-_SPURIOUS_LOGNORM = _spurious_norm()
+    return math.log(total)  # worked out on first use (a 4000-step sum), not at import
 
 
 def _spurious_intensity(x: float) -> float:
     """ln density of an unexplained band of relative intensity ``x`` (module docstring)."""
-    return -min(max(x, 0.0), 1.0) / SPURIOUS_SCALE - _SPURIOUS_LOGNORM
+    return -min(max(x, 0.0), 1.0) / SPURIOUS_SCALE - _spurious_norm()
 
 
 def default_sigma(reporter_class: str) -> float:
