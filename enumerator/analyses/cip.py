@@ -51,7 +51,6 @@ habit (common practice), not an IUPAC rule.
 
 from __future__ import annotations
 
-import re
 from collections.abc import Iterable, Mapping, Sequence
 from dataclasses import dataclass
 from types import MappingProxyType
@@ -60,6 +59,7 @@ from enumerator.caches import cached
 from enumerator.errors import InputError
 from enumerator.model.composition import Composition, LigandKind
 from enumerator.model.elements import atomic_number, atomic_weight
+from enumerator.rules.parsed import smiles_graph
 
 __all__ = [
     "MAX_SPHERES",
@@ -493,16 +493,17 @@ def donor_priorities(composition: Composition) -> dict[tuple[str, int], int]:
 
 
 #: A bracket atom with an atom-map number: isotope, element symbol (aromatic in lower case), map number.
-_MAPPED_ATOM = re.compile(r"\[(\d*)([A-Z][a-z]?|[a-z][a-z]?)[^\]:]*:(\d+)\]")
-
-
-def _mapped_elements(smiles: str) -> dict[int, int]:
-    """Atom-map number -> atomic number of the mapped bracket atoms of a SMILES, read from its text
-    (an unknown symbol gives 0)."""
+def _mapped_elements(smiles: str) -> dict[int, int] | None:
+    """Atom-map number -> atomic number of the mapped atoms of a SMILES as RDKit reads it (kept for the built-in
+    catalogue, :func:`enumerator.rules.parsed.smiles_graph`); a number mapped twice or an unknown symbol gives 0;
+    None when RDKit cannot read the SMILES."""
+    graph = smiles_graph(smiles)
+    if graph is None:
+        return None
     out: dict[int, int] = {}
-    for _, symbol, number in _MAPPED_ATOM.findall(smiles):
-        z = atomic_number(symbol if symbol[0].isupper() else symbol.capitalize())
-        out[int(number)] = max(z, 0) if int(number) not in out else 0
+    for a in graph.atoms:
+        if a.map_number:
+            out[a.map_number] = max(atomic_number(a.symbol), 0) if a.map_number not in out else 0
     return out
 
 
@@ -538,7 +539,7 @@ def by_donor_element(composition: Composition) -> tuple[tuple[tuple[str, int], i
         if not isinstance(smiles, str) or not kind.chain or kind.info("hapticity") is not None:
             return None
         mapped = _mapped_elements(smiles)
-        if sorted(mapped) != list(range(1, kind.denticity + 1)):
+        if mapped is None or sorted(mapped) != list(range(1, kind.denticity + 1)):
             return None
         for i, d in enumerate(kind.donors):
             z = atomic_number(d)

@@ -22,6 +22,12 @@ After editing a built-in rule file, rewrite the twin with::
 
 (``tests/test_parsed_rules.py`` fails until then, and checks every document
 of the twin against :mod:`tomllib`'s parse, types included).
+
+The same command writes :data:`GRAPHS_NAME`: the atoms and bonds RDKit reads
+from every ``smiles`` string of the built-in files (the ligand catalogue),
+keyed by the SMILES text, so that the band model's oscillator atoms and
+masses need no RDKit for a built-in ligand (:func:`smiles_graph`; any other
+SMILES is read by RDKit then and there).
 """
 
 from __future__ import annotations
@@ -31,14 +37,19 @@ import os
 from collections.abc import Mapping
 from pathlib import Path
 from types import MappingProxyType
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 from enumerator.caches import cached
 
-__all__ = ["TWIN_NAME", "FORMAT", "lookup", "build", "write", "documents"]
+if TYPE_CHECKING:
+    from enumerator.model.smiles import SmilesGraph
+
+__all__ = ["TWIN_NAME", "GRAPHS_NAME", "FORMAT", "lookup", "build", "write", "documents", "build_graphs", "smiles_graph"]
 
 #: The twin's file name, in the built-in rules folder.
 TWIN_NAME = "parsed.twin"
+#: The SMILES graphs' file name, in the built-in rules folder.
+GRAPHS_NAME = "smiles_graphs.json"
 #: The twin's layout version; a twin of another version is not read.
 FORMAT = 1
 _MAGIC = "isosieve-parsed-rules"
@@ -172,6 +183,93 @@ def build(folder: Path) -> str:
     return "".join(parts)
 
 
+def _smiles_strings(doc: Any) -> list[str]:
+    """Every string value under a ``smiles`` key anywhere in a parsed document."""
+    out: list[str] = []
+    if isinstance(doc, dict):
+        for k, v in doc.items():
+            if k == "smiles" and isinstance(v, str):
+                out.append(v)
+            else:
+                out += _smiles_strings(v)
+    elif isinstance(doc, list):
+        for v in doc:
+            out += _smiles_strings(v)
+    return out
+
+
+def build_graphs(folder: Path) -> str:
+    """The SMILES graphs of every ``smiles`` string of the ``*.toml`` files under ``folder``, read by RDKit.
+
+    Parameters
+    ----------
+    folder : Path
+        The built-in rules folder.
+
+    Returns
+    -------
+    str
+        JSON text: an object from each SMILES (sorted) to its graph
+        (:func:`enumerator.model.smiles.graph_to_data`); a SMILES RDKit cannot read is left out.
+    """
+    import tomllib
+
+    from enumerator.model.smiles import graph_to_data, rdkit_graph
+
+    found: set[str] = set()
+    for path in sorted(folder.rglob("*.toml")):
+        try:
+            found.update(_smiles_strings(tomllib.loads(path.read_text(encoding="utf-8"))))
+        except (UnicodeDecodeError, tomllib.TOMLDecodeError):
+            continue
+    graphs = {s: rdkit_graph(s) for s in sorted(found)}
+    data = {s: graph_to_data(g) for s, g in graphs.items() if g is not None}
+    return json.dumps(data, ensure_ascii=False, separators=(",", ":"), sort_keys=True) + "\n"
+
+
+@cached(maxsize=1)
+def _graphs(path: str, stamp: tuple[int, int]) -> Mapping[str, Any]:
+    """SMILES -> graph data, from the file at ``path`` (keyed by its modification time and size too)."""
+    try:
+        with open(path, encoding="utf-8") as fh:
+            data = json.load(fh)
+    except (OSError, ValueError):
+        return MappingProxyType({})
+    return MappingProxyType(data if isinstance(data, dict) else {})
+
+
+@cached(maxsize=512)
+def smiles_graph(smiles: str) -> SmilesGraph | None:
+    """The atoms and bonds RDKit reads from ``smiles`` without sanitising it; None when it cannot read it.
+
+    A built-in catalogue SMILES is answered from :data:`GRAPHS_NAME` (written by RDKit with the twin, keyed
+    by the SMILES text); any other is read by RDKit now.
+
+    Parameters
+    ----------
+    smiles : str
+
+    Returns
+    -------
+    SmilesGraph or None
+    """
+    from enumerator.model.smiles import graph_from_data, rdkit_graph
+    from enumerator.rules.ruleset import BUILTIN_RULES
+
+    path = BUILTIN_RULES / GRAPHS_NAME
+    try:
+        st = os.stat(path)
+        data = _graphs(str(path), (st.st_mtime_ns, st.st_size)).get(smiles)
+    except OSError:
+        data = None
+    if data is not None:
+        try:
+            return graph_from_data(data)
+        except (TypeError, ValueError):
+            pass
+    return rdkit_graph(smiles)
+
+
 def write(folder: Path | None = None) -> Path:
     """Rewrite the twin of the built-in rules folder (or of ``folder``).
 
@@ -191,6 +289,8 @@ def write(folder: Path | None = None) -> Path:
     out = folder / TWIN_NAME
     with open(out, "w", encoding="utf-8", newline="") as fh:
         fh.write(build(folder))
+    with open(folder / GRAPHS_NAME, "w", encoding="utf-8", newline="") as fh:
+        fh.write(build_graphs(folder))
     return out
 
 

@@ -51,9 +51,10 @@ import numpy as np
 from enumerator.caches import cached
 from enumerator.errors import InputError
 from enumerator.isomers.enumeration import Isomer, Site
-from enumerator.model.smiles import SmilesGraph, heavy_atoms, read_graph
+from enumerator.model.smiles import SmilesGraph, heavy_atoms
 from enumerator.rules.forcefields import ClassField, atom_mass, class_field, element_mass
 from enumerator.rules.masses import mass_of, weight_of
+from enumerator.rules.parsed import smiles_graph
 from enumerator.rules.ruleset import RuleSet, closest_names, load_rules
 
 __all__ = ["Oscillator", "StretchSet", "Model", "build_model", "reporter_classes"]
@@ -266,7 +267,7 @@ def build_model(isomer: Isomer, reporter_class: str, rules: RuleSet | None = Non
 # oscillator masses
 
 
-#: The oscillator of a SMILES the small reader does not cover: ask RDKit.
+#: The oscillator of a SMILES RDKit cannot read, or with a mass the built-in table lacks: ask RDKit.
 _ASK_RDKIT = object()
 
 
@@ -275,10 +276,11 @@ def _smiles_oscillator(smiles: str, donor_map: int) -> tuple[str, float, str, fl
     """(X label, m_X, Y label, m_Y) read from a catalogue SMILES: X is the atom
     with map number ``donor_map``, Y its neighbour by the highest bond order
     (then the larger mass, then the earlier atom).  Read by
-    :func:`enumerator.model.smiles.read_graph` with masses from the built-in
-    table (:mod:`enumerator.rules.masses`), RDKit only for what those lack;
-    both give RDKit's answer (tests/test_startup_shortcuts.py)."""
-    graph = read_graph(smiles)
+    :func:`enumerator.rules.parsed.smiles_graph` (RDKit's reading, kept for the
+    built-in catalogue) with masses from the built-in table
+    (:mod:`enumerator.rules.masses`), RDKit only for what that lacks; both
+    give RDKit's answer (tests/test_startup_shortcuts.py)."""
+    graph = smiles_graph(smiles)
     got = _graph_oscillator(graph, donor_map) if graph is not None else _ASK_RDKIT
     return _rdkit_oscillator(smiles, donor_map) if got is _ASK_RDKIT else got  # type: ignore[return-value]
 
@@ -356,10 +358,10 @@ def _isotope_free(smiles: str) -> str:
 
 def _distinct_molecules(smiles: Sequence[str]) -> bool:
     """Whether no two of these SMILES can be one molecule up to isotopes: their element counts without
-    hydrogen differ pairwise (isotopologues share them), read without RDKit; False when unsure."""
+    hydrogen differ pairwise (isotopologues share them), from the kept graphs where it can; False when unsure."""
     counts = []
     for s in smiles:
-        graph = read_graph(s)
+        graph = smiles_graph(s)
         if graph is None:
             return False
         counts.append(heavy_atoms(graph))
