@@ -31,7 +31,7 @@ def report(ctx: click.Context, job: str, out_dir: str, title: str | None) -> Non
     and only when every one is written are they renamed into place.
 
     The 3D embeddings run in worker processes, one per CPU, when there are
-    four or more; the coordinates are the same as in one process, which
+    two or more; the coordinates are the same as in one process, which
     ISOSIEVE_EMBED_PROCESSES=1 in the environment forces.
 
     The page needs no network (inline CSS and SVG, no scripts).  JOB is a

@@ -62,7 +62,7 @@ def structures(
     The files are written all or nothing.
 
     The 3D embeddings run in worker processes, one per CPU, when there are
-    four or more; the coordinates are the same as in one process, which
+    two or more; the coordinates are the same as in one process, which
     ISOSIEVE_EMBED_PROCESSES=1 in the environment forces.
 
     \b

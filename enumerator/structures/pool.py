@@ -49,7 +49,7 @@ __all__ = ["EmbedAhead", "POOL_MIN_EMBEDDINGS", "ENV_PROCESSES", "available_proc
 
 #: Fewer distinct embeddings than this are worked out in this process (starting workers and sending the
 #: molecules would cost more than it saves; measured on the Ruthenium example, see DEVELOPERS.md).
-POOL_MIN_EMBEDDINGS = 4
+POOL_MIN_EMBEDDINGS = 2
 #: The environment variable that caps the processes (``1``: no workers).
 ENV_PROCESSES = "ISOSIEVE_EMBED_PROCESSES"
 
