@@ -61,9 +61,9 @@ def structures(
     DONOR-ONLY CORE.  These are starting geometries for an optimisation.
     The files are written all or nothing.
 
-    The 3D embeddings run in worker processes, one per CPU, when there are
-    two or more; the coordinates are the same as in one process, which
-    ISOSIEVE_EMBED_PROCESSES=1 in the environment forces.
+    On Linux the 3D embeddings run in worker processes, one per CPU, when
+    there are two or more; the coordinates are the same as in one process,
+    which ISOSIEVE_EMBED_PROCESSES=1 in the environment forces.
 
     \b
     Examples:

@@ -16,13 +16,16 @@ raised where the structure is built, so the donor-only core says the same as bef
 broken pool) costs nothing but time: the isomers it held are embedded again in this process.  On Ctrl-C the
 workers, which ignore SIGINT, are told to stop and the unstarted embeddings are cancelled.
 
-``ISOSIEVE_EMBED_PROCESSES=1`` in the environment keeps everything in one process (to check that a result
-does not depend on the pool); a larger number caps the worker count.
+The workers are forked, on Linux only (``spawn`` would import the caller's script again in each worker, and
+macOS does not fork safely); elsewhere everything runs in one process.  ``ISOSIEVE_EMBED_PROCESSES=1`` in the
+environment keeps one process (to check that a result does not depend on the pool); a larger number caps
+the worker count.
 """
 
 from __future__ import annotations
 
 import os
+import sys
 from collections.abc import Iterable, Mapping
 from concurrent.futures import Future
 from types import MappingProxyType, TracebackType
@@ -48,7 +51,8 @@ if TYPE_CHECKING:
 __all__ = ["EmbedAhead", "POOL_MIN_EMBEDDINGS", "ENV_PROCESSES", "available_processes"]
 
 #: Fewer distinct embeddings than this are worked out in this process (starting workers and sending the
-#: molecules would cost more than it saves; measured on the Ruthenium example, see DEVELOPERS.md).
+#: molecules would cost more than it saves for one; two already pay: measured on [RuCl2(CO)2(PMe2Ph)2], see
+#: DEVELOPERS.md, "How the structures are built").
 POOL_MIN_EMBEDDINGS = 2
 #: The environment variable that caps the processes (``1``: no workers).
 ENV_PROCESSES = "ISOSIEVE_EMBED_PROCESSES"
@@ -57,8 +61,8 @@ _NONE: Mapping[EmbedKey, Embedded] = MappingProxyType({})
 
 
 def available_processes() -> int:
-    """The processes the embeddings may use: the CPUs this process may run on, capped by
-    ``ISOSIEVE_EMBED_PROCESSES``.
+    """The processes the embeddings may use: on Linux the CPUs this process may run on
+    (``os.sched_getaffinity``), capped by ``ISOSIEVE_EMBED_PROCESSES``; elsewhere one.
 
     Returns
     -------
@@ -70,10 +74,10 @@ def available_processes() -> int:
     InputError
         ``ISOSIEVE_EMBED_PROCESSES`` is set but is not a whole number of at least 1.
     """
-    try:
-        cpus = len(os.sched_getaffinity(0))
-    except AttributeError:  # not on Linux
-        cpus = os.cpu_count() or 1
+    if not sys.platform.startswith("linux"):
+        # workers are forked (no re-import of the caller's script, as 'spawn' would do); only Linux forks safely
+        return 1
+    cpus = len(os.sched_getaffinity(0))
     text = os.environ.get(ENV_PROCESSES, "").strip()
     if not text:
         return max(cpus, 1)
@@ -129,10 +133,15 @@ class EmbedAhead:
         distinct = list(dict.fromkeys(k for k in keys.values() if k is not None))
         if len(distinct) < POOL_MIN_EMBEDDINGS:
             return self
+        import multiprocessing
         from concurrent.futures import ProcessPoolExecutor
 
         self._keys = keys
-        self._pool = ProcessPoolExecutor(max_workers=min(self._processes, len(distinct)), initializer=_quiet_worker)
+        self._pool = ProcessPoolExecutor(
+            max_workers=min(self._processes, len(distinct)),
+            mp_context=multiprocessing.get_context("fork"),
+            initializer=_quiet_worker,
+        )
         self._futures = {k: self._pool.submit(embed_or_message, *k) for k in distinct}
         return self
 
