@@ -267,8 +267,8 @@ def test_an_isotopologue_embeds_as_its_parent():
     # distance geometry reads no mass number (ETKDG: Riniker & Landrum, J. Chem. Inf. Model. 55 (2015) 2562), so
     # the embedding is memoised without it: checked here with each embedding done cold, then warm
     from enumerator.caches import clear
-    from enumerator.structures.build import _units
     from enumerator.structures.embed import assemble, embed
+    from enumerator.structures.embed import ligand_units as _units
     from enumerator.workflow.pipeline import analyse
 
     parent = analyse("[RuCl2(CO)2(PPh3)2]", geometry="OC-6")
@@ -284,3 +284,77 @@ def test_an_isotopologue_embeds_as_its_parent():
     assert np.array_equal(cold, cold13) and np.array_equal(cold13, warm13)
     warm13[0, 0] = 99.0  # the caller's copy: the memoised answer is not changed
     assert np.array_equal(embed(mol13, fixed13), cold13)
+
+
+def _die(binary, held):
+    """A worker that dies at once (as one killed for its memory would)."""
+    import os
+
+    os._exit(1)
+
+
+def _files(structures):
+    from enumerator.structures.formats import to_xyz
+
+    return [(s.isomer_id, to_xyz(s), s.molblock) for s in structures]
+
+
+def test_embeddings_in_worker_processes_give_the_same_bytes():
+    # ETKDG with a fixed random-number start is deterministic per molecule (RDKit's EmbedMolecule, randomSeed;
+    # Riniker & Landrum, J. Chem. Inf. Model. 55 (2015) 2562): the files of two worker processes equal those of
+    # one process byte for byte, in the same order (common practice for a seeded pool: compare the bytes)
+    from enumerator.caches import clear
+    from enumerator.structures.build import embed_ahead, structures_for
+    from enumerator.structures.pool import POOL_MIN_EMBEDDINGS
+    from enumerator.workflow.pipeline import analyse
+
+    res = analyse("[RuCl2(CO)2(PMe3)2]", geometry="OC-6")
+    assert len(res.isomers) >= POOL_MIN_EMBEDDINGS
+    clear()
+    with embed_ahead([res], processes=1) as one:
+        assert not one._futures  # one process: nothing worked out ahead
+        serial = _files(structures_for(res, ahead=one))
+    clear()
+    with embed_ahead([res], processes=2) as two:
+        assert len(two._futures) == len(res.isomers)
+        pooled = _files(structures_for(res, ahead=two))
+    assert pooled == serial and all(kind == "full" for kind in (s.kind for s in structures_for(res)))
+
+
+def test_a_dead_worker_costs_time_not_the_structure(monkeypatch):
+    # a worker that dies (a broken pool) leaves its isomers to be embedded in this process: same files
+    from enumerator.structures import pool
+    from enumerator.structures.build import embed_ahead, structures_for
+    from enumerator.workflow.pipeline import analyse
+
+    res = analyse("[RuCl2(CO)2(PMe3)2]", geometry="OC-6")
+    serial = _files(structures_for(res, ahead=pool.EmbedAhead([], processes=1)))
+    monkeypatch.setattr(pool, "embed_or_message", _die)
+    with embed_ahead([res], processes=2) as broken:
+        assert broken._futures
+        assert _files(structures_for(res, ahead=broken)) == serial
+
+
+def test_an_embedding_failure_sent_back_reads_as_before():
+    # a worker sends a failure back as its message; the builder raises it, so the donor-only core says why
+    from enumerator.structures.embed import EmbedFailed, assemble, embed, embed_key, ligand_units
+    from enumerator.workflow.pipeline import analyse
+
+    res = analyse("[RuCl2(CO)2(PMe3)2]", geometry="OC-6")
+    mol, fixed, _, _ = assemble(ligand_units(res.isomers[0]), res.composition)
+    with pytest.raises(EmbedFailed, match="^RDKit could not embed the ligands with the donor positions fixed$"):
+        embed(mol, fixed, {embed_key(mol, fixed): "RDKit could not embed the ligands with the donor positions fixed"})
+
+
+def test_the_process_count_from_the_environment(monkeypatch):
+    from enumerator.errors import InputError
+    from enumerator.structures.pool import ENV_PROCESSES, EmbedAhead, available_processes
+
+    monkeypatch.setenv(ENV_PROCESSES, "1")
+    assert available_processes() == 1
+    assert EmbedAhead([])._processes == 1
+    monkeypatch.setenv(ENV_PROCESSES, "0")
+    with pytest.raises(InputError, match="ISOSIEVE_EMBED_PROCESSES='0' is not a whole number of processes"):
+        available_processes()
+    monkeypatch.delenv(ENV_PROCESSES)
+    assert available_processes() >= 1

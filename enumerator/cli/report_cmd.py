@@ -30,6 +30,10 @@ def report(ctx: click.Context, job: str, out_dir: str, title: str | None) -> Non
     The files are written all or nothing: each is staged beside its place
     and only when every one is written are they renamed into place.
 
+    On Linux the 3D embeddings run in worker processes, one per CPU, when
+    there are two or more; the coordinates are the same as in one process,
+    which ISOSIEVE_EMBED_PROCESSES=1 in the environment forces.
+
     The page needs no network (inline CSS and SVG, no scripts).  JOB is a
     job file as for 'isosieve job'; a minimal one:
 

@@ -61,6 +61,10 @@ def structures(
     DONOR-ONLY CORE.  These are starting geometries for an optimisation.
     The files are written all or nothing.
 
+    On Linux the 3D embeddings run in worker processes, one per CPU, when
+    there are two or more; the coordinates are the same as in one process,
+    which ISOSIEVE_EMBED_PROCESSES=1 in the environment forces.
+
     \b
     Examples:
       isosieve structures "[RuCl2(CO)2(PPh3)2]" --out ru

@@ -28,7 +28,7 @@ True
 
 from __future__ import annotations
 
-from collections.abc import Callable, Mapping, Sequence
+from collections.abc import Callable, Iterable, Mapping, Sequence
 
 import numpy as np
 
@@ -36,13 +36,22 @@ from enumerator.analyses.views import ResultView
 from enumerator.isomers.enumeration import Isomer, Site
 from enumerator.model.composition import Composition
 from enumerator.model.elements import atomic_number
-from enumerator.structures.embed import EmbedFailed, assemble, embed, hydrogens_by_unit
+from enumerator.structures.embed import (
+    Embedded,
+    EmbedFailed,
+    EmbedKey,
+    assemble,
+    embed,
+    hydrogens_by_unit,
+    ligand_units,
+)
 from enumerator.structures.formats import molblock
 from enumerator.structures.placement import Vec, bond_length, element_or_none, round_coordinate
+from enumerator.structures.pool import EmbedAhead
 from enumerator.structures.relax import CLASH_FRACTION, closest_contact, relieve_clashes, uff_relax
 from enumerator.structures.structure import Structure
 
-__all__ = ["Structure", "build_structure", "structures_for"]
+__all__ = ["Structure", "build_structure", "embed_ahead", "structures_for"]
 
 _HOW = "RDKit ETKDG with donors fixed"
 
@@ -55,7 +64,13 @@ def _title(isomer: Isomer, comp: Composition, kind: str, note: str, extra: str =
     return f"{base}; full ligands, {_HOW}; idealised starting geometry, charge {comp.charge}"
 
 
-def build_structure(isomer: Isomer, composition: Composition, *, label: str = "") -> Structure:
+def build_structure(
+    isomer: Isomer,
+    composition: Composition,
+    *,
+    label: str = "",
+    ahead: Mapping[EmbedKey, Embedded] | None = None,
+) -> Structure:
     """The starting structure of one isomer: full ligands if possible, else the donor-only core.
 
     Parameters
@@ -66,6 +81,8 @@ def build_structure(isomer: Isomer, composition: Composition, *, label: str = ""
         Its composition (catalogue SMILES for full ligands).
     label : str, optional
         Added to the title line (e.g. the IUPAC descriptor).
+    ahead : Mapping, optional
+        Embeddings already worked out (:meth:`.pool.EmbedAhead.ready`); the same coordinates as without.
 
     Returns
     -------
@@ -74,7 +91,7 @@ def build_structure(isomer: Isomer, composition: Composition, *, label: str = ""
     reason = _why_not_full(composition)
     if not reason:
         try:
-            return _full(isomer, composition, label)
+            return _full(isomer, composition, label, ahead)
         except EmbedFailed as exc:
             reason = str(exc)
     return _core(isomer, composition, reason, label)
@@ -84,8 +101,12 @@ def structures_for(
     result: ResultView,
     labels: Mapping[str, str] | None = None,
     progress: Callable[[str, int, int], None] | None = None,
+    ahead: EmbedAhead | None = None,
 ) -> tuple[Structure, ...]:
     """One structure per isomer of a result, in listing order; ``labels`` by isomer id go into the titles.
+
+    The whole-complex embeddings are worked out ahead in worker processes when there are enough of them and
+    more than one CPU (:mod:`.pool`); the structures are the same as in one process.
 
     Parameters
     ----------
@@ -95,18 +116,44 @@ def structures_for(
         Isomer id -> text added to the title (e.g. the IUPAC descriptor).
     progress : callable, optional
         Called as ``progress(isomer id, done, total)`` after each structure (a progress bar).
+    ahead : EmbedAhead, optional
+        An open :class:`.pool.EmbedAhead` given these isomers among others (a report opens one for all its
+        complexes); default: one opened here for this result's isomers.
 
     Returns
     -------
     tuple of Structure
     """
+    if ahead is None:
+        with embed_ahead([result]) as own:
+            return structures_for(result, labels, progress, own)
     labels = labels or {}
+    comp = result.composition
     out = []
     for k, i in enumerate(result.isomers, 1):
-        out.append(build_structure(i, result.composition, label=labels.get(i.id, "")))
+        out.append(build_structure(i, comp, label=labels.get(i.id, ""), ahead=ahead.ready(i, comp)))
         if progress is not None:
             progress(i.id, k, len(result.isomers))
     return tuple(out)
+
+
+def embed_ahead(results: Iterable[ResultView], processes: int | None = None) -> EmbedAhead:
+    """An :class:`.pool.EmbedAhead` (a context manager) for the isomers of the results that can have full
+    structures (an element as metal, a SMILES for every ligand).
+
+    Parameters
+    ----------
+    results : iterable of Result
+        The results whose structures will be built.
+    processes : int, optional
+        The most processes (default: the CPUs available, capped by ``ISOSIEVE_EMBED_PROCESSES``).
+
+    Returns
+    -------
+    EmbedAhead
+    """
+    items = [(i, r.composition) for r in results if not _why_not_full(r.composition) for i in r.isomers]
+    return EmbedAhead(items, processes)
 
 
 def _why_not_full(comp: Composition) -> str:
@@ -145,14 +192,6 @@ def _core(isomer: Isomer, comp: Composition, reason: str, label: str) -> Structu
     return Structure(isomer.id, "core", title, tuple(symbols), tuple(coords), comp.charge, reason, block)
 
 
-def _units(isomer: Isomer) -> list[list[Site]]:
-    """The isomer's sites grouped by ligand unit (units in order, donors in chain order)."""
-    by_unit: dict[int, list[Site]] = {}
-    for s in isomer.sites:
-        by_unit.setdefault(s.unit, []).append(s)
-    return [sorted(by_unit[u], key=lambda s: s.donor_index) for u in sorted(by_unit)]
-
-
 def _embed_per_unit(mol, units: Sequence[Sequence[Site]], spans: Sequence[tuple[int, int]], comp: Composition):
     """Each ligand embedded on its own against the metal and its fixed donors, then put together."""
     pos = np.zeros((mol.GetNumAtoms(), 3))
@@ -167,11 +206,11 @@ def _embed_per_unit(mol, units: Sequence[Sequence[Site]], spans: Sequence[tuple[
     return pos
 
 
-def _positions(mol, units, fixed, spans, comp: Composition) -> tuple[np.ndarray, str]:
+def _positions(mol, units, fixed, spans, comp: Composition, ahead=None) -> tuple[np.ndarray, str]:
     """Embedded and clash-relieved positions, and how they were made (for the title)."""
     how = _HOW
     try:
-        pos = embed(mol, fixed)
+        pos = embed(mol, fixed, ahead)
     except EmbedFailed:
         pos = _embed_per_unit(mol, units, spans, comp)
         how = "RDKit ETKDG per ligand with donors fixed"
@@ -201,15 +240,15 @@ def _clash_note(mol, coords: Sequence[Vec], symbols: Sequence[str]) -> str:
     )
 
 
-def _full(isomer: Isomer, comp: Composition, label: str) -> Structure:
+def _full(isomer: Isomer, comp: Composition, label: str, ahead=None) -> Structure:
     """The whole complex embedded at once; if RDKit fails on that, each ligand embedded on its own against the
     metal and its fixed donors, then put together."""
     from rdkit import Chem
     from rdkit.Geometry import Point3D
 
-    units = _units(isomer)
+    units = ligand_units(isomer)
     mol, fixed, hapto, spans = assemble(units, comp)
-    pos, how = _positions(mol, units, fixed, spans, comp)
+    pos, how = _positions(mol, units, fixed, spans, comp, ahead)
     mol.RemoveAllConformers()
     mol.AddConformer(Chem.Conformer(mol.GetNumAtoms()), assignId=True)
     for i, p in fixed.items():  # exact ideal positions for the fixed atoms

@@ -29,14 +29,28 @@ from typing import TYPE_CHECKING
 import numpy as np
 
 from enumerator.caches import cached
-from enumerator.isomers.enumeration import Site
+from enumerator.isomers.enumeration import Isomer, Site
 from enumerator.model.composition import Composition, LigandKind
 from enumerator.structures.placement import Vec, bond_length, ring_positions
 
 if TYPE_CHECKING:  # RDKit is imported where it is used, so that importing this module stays cheap
     from rdkit import Chem
 
-__all__ = ["EmbedFailed", "RNG_START", "FIT_TOL", "ligand_mol", "ring_atoms", "assemble", "embed", "hydrogens_by_unit"]
+__all__ = [
+    "EmbedFailed",
+    "EmbedKey",
+    "Embedded",
+    "RNG_START",
+    "FIT_TOL",
+    "ligand_mol",
+    "ring_atoms",
+    "assemble",
+    "embed",
+    "embed_key",
+    "embed_or_message",
+    "hydrogens_by_unit",
+    "ligand_units",
+]
 
 #: Fixed start value of RDKit's random-number stream for the embedding.
 RNG_START = 61453
@@ -106,6 +120,24 @@ def ring_atoms(m, kind: LigandKind) -> list[int]:
         if (not size or len(ring) == size) and (not mapped or mapped <= set(ring) or mapped & set(ring)):
             return list(ring)
     raise EmbedFailed(f"no {size or ''}-membered ring found in the SMILES of '{kind.name}'")
+
+
+def ligand_units(isomer: Isomer) -> list[list[Site]]:
+    """The isomer's sites grouped by ligand unit (units in order, donors in chain order), as :func:`assemble`
+    takes them.
+
+    Parameters
+    ----------
+    isomer : Isomer
+
+    Returns
+    -------
+    list of list of Site
+    """
+    by_unit: dict[int, list[Site]] = {}
+    for s in isomer.sites:
+        by_unit.setdefault(s.unit, []).append(s)
+    return [sorted(by_unit[u], key=lambda s: s.donor_index) for u in sorted(by_unit)]
 
 
 def assemble(
@@ -189,14 +221,50 @@ def assemble(
     return mol, fixed, hapto, spans
 
 
-def embed(mol, fixed: Mapping[int, Vec]) -> np.ndarray:
+#: What :func:`embed` looks an embedding up by: the molecule's binary form (mass numbers cleared, no
+#: conformers) and the held positions, sorted by atom index.
+EmbedKey = tuple[bytes, tuple[tuple[int, Vec], ...]]
+#: An embedding worked out ahead (:mod:`.pool`): the read-only positions, or the :class:`EmbedFailed` message.
+Embedded = np.ndarray | str
+
+
+def embed_key(mol, fixed: Mapping[int, Vec]) -> EmbedKey:
+    """The value an embedding depends on: the molecule without mass numbers or conformers, and the held atoms.
+
+    Distance geometry reads no mass number, so an isotopologue (a ``13CO`` complex beside its ``CO`` parent)
+    has the key of its parent.
+
+    Parameters
+    ----------
+    mol : rdkit.Chem.Mol
+        The assembled complex (not changed).
+    fixed : Mapping[int, Vec]
+        Atom index -> position held.
+
+    Returns
+    -------
+    (bytes, tuple)
+        RDKit's binary form of the plain molecule, and the held (index, position) pairs by index.
+    """
+    from rdkit import Chem
+
+    plain = Chem.Mol(mol)
+    plain.RemoveAllConformers()
+    for a in plain.GetAtoms():
+        a.SetIsotope(0)
+    held = tuple(sorted((int(i), (float(p[0]), float(p[1]), float(p[2]))) for i, p in fixed.items()))
+    return plain.ToBinary(), held
+
+
+def embed(mol, fixed: Mapping[int, Vec], ahead: Mapping[EmbedKey, Embedded] | None = None) -> np.ndarray:
     """Embedded coordinates, aligned onto the fixed atoms.
 
-    The answer is memoised by value (:func:`_embedded`): the molecule exactly as RDKit stores it (its binary
+    The answer is memoised by value (:func:`embed_key`): the molecule exactly as RDKit stores it (its binary
     form: atoms and bonds in index order, charges, hydrogens, aromaticity, stereo flags) with mass numbers
     cleared, and the fixed positions.  Distance geometry reads no mass number, so an isotopologue (a
     ``13CO`` complex beside its ``CO`` parent) gets the same coordinates without a second embedding
-    (tests/test_structures.py holds both).
+    (tests/test_structures.py holds both).  An answer worked out ahead in worker processes (``ahead``, by
+    :mod:`.pool`) is taken as it is: the same function on the same key, so the same coordinates.
 
     Parameters
     ----------
@@ -204,6 +272,8 @@ def embed(mol, fixed: Mapping[int, Vec]) -> np.ndarray:
         The assembled complex (not changed).
     fixed : Mapping[int, Vec]
         Atom index -> position held (metal, donors, ring atoms).
+    ahead : Mapping, optional
+        Embeddings already worked out, by :func:`embed_key`: positions, or the message of the failure.
 
     Returns
     -------
@@ -215,14 +285,34 @@ def embed(mol, fixed: Mapping[int, Vec]) -> np.ndarray:
     EmbedFailed
         RDKit finds no embedding, or the fit to the fixed atoms is worse than :data:`FIT_TOL`.
     """
-    from rdkit import Chem
+    key = embed_key(mol, fixed)
+    done = ahead.get(key) if ahead else None
+    if isinstance(done, str):
+        raise EmbedFailed(done)
+    if done is not None:
+        return np.array(done)
+    return np.array(_embedded(*key))
 
-    plain = Chem.Mol(mol)
-    plain.RemoveAllConformers()
-    for a in plain.GetAtoms():
-        a.SetIsotope(0)
-    held = tuple(sorted((int(i), (float(p[0]), float(p[1]), float(p[2]))) for i, p in fixed.items()))
-    return np.array(_embedded(plain.ToBinary(), held))
+
+def embed_or_message(binary: bytes, held: tuple[tuple[int, Vec], ...]) -> Embedded:
+    """The embedding of one key, or the message of its :class:`EmbedFailed` (what a worker process sends back).
+
+    Parameters
+    ----------
+    binary : bytes
+        RDKit's binary form of the plain molecule (:func:`embed_key`).
+    held : tuple
+        The held (index, position) pairs.
+
+    Returns
+    -------
+    numpy.ndarray or str
+        The read-only positions, or why RDKit could not embed the complex.
+    """
+    try:
+        return _embedded(binary, held)
+    except EmbedFailed as exc:
+        return str(exc)
 
 
 @cached(maxsize=256)

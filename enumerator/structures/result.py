@@ -23,6 +23,7 @@ from typing import Any
 from enumerator.analyses.descriptors import DescriptorAnalysis
 from enumerator.analyses.views import ResultView
 from enumerator.structures.build import structures_for
+from enumerator.structures.pool import EmbedAhead
 from enumerator.structures.structure import Structure
 
 __all__ = ["StructureSet", "structure_set", "descriptor_labels"]
@@ -64,7 +65,9 @@ def descriptor_labels(result: ResultView) -> dict[str, str]:
     return {k: d.text for k, d in a.descriptors if d.text}
 
 
-def structure_set(result: ResultView, progress: Callable[[str, int, int], None] | None = None) -> StructureSet:
+def structure_set(
+    result: ResultView, progress: Callable[[str, int, int], None] | None = None, ahead: EmbedAhead | None = None
+) -> StructureSet:
     """Starting structures of every listed isomer of a result, descriptors in the titles.
 
     Parameters
@@ -73,9 +76,12 @@ def structure_set(result: ResultView, progress: Callable[[str, int, int], None] 
         An analysed formula.
     progress : callable, optional
         Called as ``progress(isomer id, done, total)`` after each structure (a progress bar).
+    ahead : EmbedAhead, optional
+        Embeddings worked out ahead for several results (:func:`.build.embed_ahead`); default: this result's.
 
     Returns
     -------
     StructureSet
     """
-    return StructureSet(result.composition.formula, structures_for(result, descriptor_labels(result), progress))
+    labels = descriptor_labels(result)
+    return StructureSet(result.composition.formula, structures_for(result, labels, progress, ahead))

@@ -31,6 +31,8 @@ from enumerator.errors import IsosieveError
 from enumerator.isomers.enumeration import Isomer
 from enumerator.model.composition import Composition
 from enumerator.rules.ruleset import RuleSet, load_rules
+from enumerator.structures.build import embed_ahead
+from enumerator.structures.pool import EmbedAhead
 from enumerator.structures.result import StructureSet, structure_set
 from enumerator.vibrations.model import reporter_classes
 from enumerator.vibrations.pattern import BandPattern, band_pattern
@@ -159,11 +161,11 @@ def _spectra(iso: Isomer, rules: RuleSet | None, comp: Composition | None = None
 Progress = Callable[[str, int, int], None]
 
 
-def _structures(res: Result) -> StructureSet | None:
+def _structures(res: Result, ahead: EmbedAhead) -> StructureSet | None:
     """The 3D starting structures of a real formula's isomers (None for letters)."""
     if res.composition.metal == "M":
         return None
-    return structure_set(res)
+    return structure_set(res, ahead=ahead)
 
 
 def build_report(
@@ -192,20 +194,22 @@ def build_report(
     """
     items = [r if isinstance(r, tuple) else ("", r) for r in results]
     complexes = []
-    for n, (label, res) in enumerate(items, 1):
-        complexes.append(
-            ReportComplex(
-                n,
-                res,
-                tuple(_spectra(i, rules, res.composition) for i in res.isomers),
-                tuple(cautions(res.composition)),
-                _stem(n, res.composition.formula),
-                label,
-                _structures(res),
+    # every complex's embeddings at once, in worker processes when that pays (structures/pool.py)
+    with embed_ahead(res for _, res in items if res.composition.metal != "M") as ahead:
+        for n, (label, res) in enumerate(items, 1):
+            complexes.append(
+                ReportComplex(
+                    n,
+                    res,
+                    tuple(_spectra(i, rules, res.composition) for i in res.isomers),
+                    tuple(cautions(res.composition)),
+                    _stem(n, res.composition.formula),
+                    label,
+                    _structures(res, ahead),
+                )
             )
-        )
-        if progress is not None:
-            progress(res.composition.formula, n, len(items))
+            if progress is not None:
+                progress(res.composition.formula, n, len(items))
     return Report(title, tuple(complexes), version())
 
 
