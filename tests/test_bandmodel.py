@@ -267,3 +267,17 @@ def test_user_kc_makes_interactions_uniform_and_shift_keeps_them():
         if (i, j) in {(a, b) for a, b, _ in uniform.model.pair_weights}
     )
     assert all(b.sigma is None for b in uniform.bands)
+
+
+def test_measured_readme_counts_are_computed():
+    # the size, count and coverage block of rules/measured/README.md is written by
+    # `python -m enumerator.vibrations.calibrate --summary`; it must equal what the data say today
+    from enumerator.rules.measured import MEASURED_FOLDER, file_counts
+    from enumerator.vibrations.calibrate import SUMMARY_BEGIN, SUMMARY_END, summary
+
+    text = (MEASURED_FOLDER / "README.md").read_text(encoding="utf-8")
+    a, b = text.index(SUMMARY_BEGIN), text.index(SUMMARY_END) + len(SUMMARY_END) + 1
+    assert text[a:b] == summary(), "rerun python -m enumerator.vibrations.calibrate --summary into the README"
+    total = file_counts()[-1]
+    assert total.file == "total" and total.rows == len(load_measured())
+    assert total.bands == sum(len(r.bands) for r in load_measured())

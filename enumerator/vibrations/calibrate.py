@@ -51,6 +51,7 @@ from enumerator.analyses.descriptors.select import find_by_descriptor
 from enumerator.errors import IsosieveError
 from enumerator.isomers.enumeration import Isomer, enumerate_isomers
 from enumerator.model.composition import Composition
+from enumerator.model.elements import atomic_number, group_of
 from enumerator.parse.formula import parse_formula
 from enumerator.rules.bandmodel import BANDMODEL_FILE, load_families, load_groups, load_substituents
 from enumerator.rules.measured import MEASURED_FOLDER, MeasuredComplex, load_measured
@@ -70,6 +71,7 @@ __all__ = [
     "cross_validate",
     "generic_residuals",
     "calibrate",
+    "summary",
     "REFERENCE_K",
     "PRIORS",
     "SCALE",
@@ -762,8 +764,6 @@ def dataset_figures(samples: Sequence[Sample], excluded: Sequence[tuple[str, str
     -------
     dict
     """
-    from enumerator.model.elements import atomic_number, group_of
-
     fit_s = [s for s in samples if s.row.fit]
     bands = [b for s in fit_s for b in s.row.bands]
     return {
@@ -780,6 +780,160 @@ def dataset_figures(samples: Sequence[Sample], excluded: Sequence[tuple[str, str
         "groups": sorted({g for s in fit_s if (g := group_of(atomic_number(s.centre.metal))[0]) is not None}),
         "geometries": sorted({s.isomer.geometry.symbol for s in fit_s}),
     }
+
+
+#: What the data set was asked to reach (fitted bands, fitted complexes); the summary says whether it is reached.
+REQUESTED_SIZE = (250, 120)
+#: The markers around the computed block of ``rules/measured/README.md``.
+SUMMARY_BEGIN = "<!-- BEGIN computed: python -m enumerator.vibrations.calibrate --summary (do not edit by hand) -->"
+SUMMARY_END = "<!-- END computed -->"
+
+
+def _tally(items: Sequence[Any]) -> str:
+    out: dict[Any, int] = {}
+    for x in items:
+        out[x] = out.get(x, 0) + 1
+    return ", ".join(f"{k}: {v}" for k, v in sorted(out.items()))
+
+
+def _metal_of(formula: str) -> str | None:
+    try:
+        return parse_formula(formula, load_rules()).metal
+    except IsosieveError:
+        return None
+
+
+def _counts_table() -> list[str]:
+    from enumerator.rules.measured import file_counts
+
+    def cls(c) -> str:
+        inner = ", ".join(f"{n + r} {k}" for k, n, r in c.classes)
+        return inner if len(c.classes) > 1 else f"({c.classes[0][0]})"
+
+    lines = [
+        "| file | rows | bands | IR | Raman | seen rows / bands | from memory rows / bands "
+        "| fit = false rows / bands |",
+        "|---|---|---|---|---|---|---|---|",
+    ]
+    counts = file_counts()
+    for c in counts:
+        b = (lambda x: f"**{x}**") if c.file == "total" else str
+        what = "" if c.file == "total" else (f" ({cls(c)})" if len(c.classes) > 1 else f" {cls(c)}")
+        lines.append(
+            f"| {b(c.file)} | {b(c.rows)} | {b(str(c.bands) + what) if not what else str(c.bands) + what} | "
+            f"{b(c.ir)} | {b(c.raman)} | {b(f'{c.seen[0]} / {c.seen[1]}')} | {b(f'{c.memory[0]} / {c.memory[1]}')} | "
+            f"{b(f'{c.off[0]} / {c.off[1]}')} |"
+        )
+    tot = counts[-1]
+    lines += [
+        "",
+        "By class: "
+        + ", ".join(f"{k} {n + r}" + (f" ({n} IR, {r} Raman)" if r else "") for k, n, r in tot.classes)
+        + ".",
+    ]
+    return lines
+
+
+def summary(samples: Sequence[Sample] | None = None, excluded: Sequence[tuple[str, str]] | None = None) -> str:
+    """The computed Markdown block of ``rules/measured/README.md``: size, counts per file and class, coverage.
+
+    Parameters
+    ----------
+    samples, excluded : optional
+        The resolved data set (default: :func:`resolved_dataset`).
+
+    Returns
+    -------
+    str
+        Between :data:`SUMMARY_BEGIN` and :data:`SUMMARY_END`, both included; tests/test_bandmodel.py holds the
+        README to it.
+    """
+    if samples is None or excluded is None:
+        samples, excluded = resolved_dataset()
+    rows = load_measured()
+    ds = dataset_figures(samples, excluded)
+    fit_s = [s for s in samples if s.row.fit]
+    n_off = sum(not r.fit for r in rows)
+    by_key = {r.key: r for r in rows}
+    unres_fit = [k for k, _ in excluded if by_key[k].fit]
+    want_b, want_c = REQUESTED_SIZE
+    reached = ds["fit_bands"] >= want_b and ds["fit_complexes"] >= want_c
+    bands_all = [b for r in rows for b in r.bands]
+    seen_all = sum(len(r.bands) for r in rows if not r.from_memory)
+    out = [
+        SUMMARY_BEGIN,
+        f"**Size: {len(rows)} rows (one complex in one medium each), {len(bands_all)} bands** "
+        f"({sum(b.technique == 'IR' for b in bands_all)} IR, {sum(b.technique == 'Raman' for b in bands_all)} Raman); "
+        f"{seen_all} bands seen in a source, {len(bands_all) - seen_all} from memory. "
+        f"The fit uses **{ds['fit_rows']} rows of {ds['fit_complexes']} complexes, {ds['fit_bands']} bands** "
+        f"({ds['fit_bands_seen']} seen, {ds['fit_bands_from_memory']} from memory): {n_off} rows are `fit = false` "
+        f"(reason in each note) and {len(excluded)} cannot be resolved to one isomer ({len(unres_fit)} of them with "
+        f"fit enabled: {', '.join(by_key[k].formula for k in unres_fit) or 'none'}). The requested {want_b} fitted "
+        f"bands from {want_c} complexes are " + ("reached." if reached else "**not reached**."),
+        "",
+        "## Counts",
+        "",
+        *_counts_table(),
+        "",
+        f"### Coverage of the fitted rows ({ds['fit_complexes']} complexes, {ds['fit_bands']} bands)",
+        "",
+    ]
+    cats: dict[str, list[int]] = {}
+    for s in fit_s:
+        for c in s.classes:
+            n = sum(len(m) for _, m in c.measured)
+            cats.setdefault(c.category, []).extend([s.centre.charge] * n)
+    parts = []
+    for cat in CATEGORIES:
+        z = cats.get(cat, [])
+        if not z:
+            continue
+        if cat.startswith("CO"):
+            parts.append(f"{cat} {len(z)}")
+        else:
+            sign = [("neutral", sum(x == 0 for x in z)), ("anionic", sum(x < 0 for x in z))]
+            sign.append(("cationic", sum(x > 0 for x in z)))
+            parts.append(f"{cat} {len(z)} (" + ", ".join(f"{n} {w}" for w, n in sign if n) + ")")
+    absent = [c for c in CATEGORIES if c not in cats]
+    few = [c for c in CATEGORIES if 0 < len(cats.get(c, [])) < MIN_SIGMA_BANDS]
+    out.append(
+        "Bands by category (charge of the complex): "
+        + ", ".join(parts)
+        + (f"; none: {', '.join(absent)}" if absent else "")
+        + (
+            f". Fewer than {MIN_SIGMA_BANDS} bands (too few to judge a model of them): {', '.join(few)}."
+            if few
+            else "."
+        )
+    )
+    keys = {s.complex_key: s for s in fit_s}
+    out += ["", "Charges (complexes): " + _tally([s.centre.charge for s in keys.values()]) + "."]
+    metals = [s.centre.metal for s in keys.values()]
+    zs = sorted(set(metals), key=atomic_number)
+    outside = sorted(
+        {m for r in rows if (m := _metal_of(r.formula)) and m not in set(metals) and m != "M"}, key=atomic_number
+    )
+    groups = [group_of(atomic_number(m))[0] for m in metals]
+    out += [
+        "",
+        "Groups (complexes): "
+        + _tally([g for g in groups if g is not None])
+        + ". Metals: "
+        + ", ".join(f"{m} {metals.count(m)}" for m in zs)
+        + (f"; {', '.join(outside)} only in rows outside the fit." if outside else "."),
+        "",
+        "Geometries (complexes, as resolved by the tool): "
+        + ", ".join(
+            f"{g} {n}"
+            for g, n in sorted(
+                {g: [s.isomer.geometry.symbol for s in keys.values()].count(g) for g in ds["geometries"]}.items(),
+                key=lambda kv: (-kv[1], kv[0]),
+            )
+        )
+        + ".",
+        SUMMARY_END,
+    ]
+    return "\n".join(out) + "\n"
 
 
 def calibrate(date: str = "not recorded", cv: bool = True, log=None) -> str:
@@ -841,7 +995,13 @@ def main(argv: Sequence[str] | None = None) -> int:
     ap.add_argument("--date", default="not recorded", help="the date written in the header (YYYY-MM-DD)")
     ap.add_argument("--out", default=str(BANDMODEL_FILE), help="where to write (default: rules/bandmodel.toml)")
     ap.add_argument("--no-cv", action="store_true", help="skip the cross-validation (trial runs only)")
+    ap.add_argument(
+        "--summary", action="store_true", help="print the computed block of rules/measured/README.md and stop"
+    )
     args = ap.parse_args(argv)
+    if args.summary:
+        print(summary(), end="")
+        return 0
     text = calibrate(args.date, not args.no_cv, log=lambda s: print(s, file=sys.stderr))
     Path(args.out).write_text(text, encoding="utf-8")
     print(f"wrote {args.out}", file=sys.stderr)
