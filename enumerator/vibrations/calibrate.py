@@ -658,6 +658,26 @@ def figures(v: Validation) -> dict[str, dict[str, dict[str, float | int]]]:
     return out
 
 
+def in_sample(problem: Problem, p: np.ndarray) -> dict[str, dict[str, float | int]]:
+    """Per category: n, MAE, max and RMS (cm-1) of the fit to every sample (no complex held out).
+
+    Printed beside the cross-validated figures so that a gap between the two (overfitting) is seen.
+
+    Parameters
+    ----------
+    problem : Problem
+    p : numpy.ndarray
+        The fit to every sample.
+
+    Returns
+    -------
+    dict
+        {category: stats}
+    """
+    res = [r for k in range(len(problem.samples)) for r in _residuals(problem, p, k)]
+    return {cat: _stats([pr - m for c, m, pr in res if c == cat]) for cat in CATEGORIES}
+
+
 def _rms(x: Sequence[float]) -> float:
     return float(np.sqrt(np.mean(np.square(x)))) if len(x) else float("nan")
 
@@ -722,14 +742,16 @@ def render_toml(problem: Problem, p: np.ndarray, meta: Mapping[str, str], cv: Ma
         "# constants), extended to CN, linear and bent NO, CS, CNR and N2; see enumerator/vibrations/additive.py.",
         f"# Fitted on: {meta['dataset']}",
         f"# Fitted: {meta['fitted']}. Regularisation: {meta['ridge']}",
-        "# Leave-one-complex-out cross-validation (cm-1; n bands, MAE, max) of this model | the generic constants:",
+        "# Leave-one-complex-out cross-validation (cm-1; n bands, MAE, max) of this model | the generic constants"
+        " | this model in-sample:",
     ]
     for cat in CATEGORIES:
         a, g = cv["additive"][cat], cv["generic"][cat]
+        i = cv.get("insample", {}).get(cat, {})
         if a.get("n"):
             lines.append(
                 f"#   {cat:<11} n={a['n']:<4} MAE {a['mae']:>6} max {a['max']:>6}   |   "
-                f"MAE {g['mae']:>6} max {g['max']:>6}"
+                f"MAE {g['mae']:>6} max {g['max']:>6}   |   MAE {i.get('mae', '-'):>6} max {i.get('max', '-'):>6}"
             )
         else:
             lines.append(f"#   {cat:<11} no measured bands in the fit")
@@ -741,9 +763,11 @@ def render_toml(problem: Problem, p: np.ndarray, meta: Mapping[str, str], cv: Ma
     lines.append("reference_k = { " + ", ".join(f"{k} = {_num(v)}" for k, v in sorted(REFERENCE_K.items())) + " }")
     lines += ["", "[sigma]"] + [f"{_q(k)} = {_num(v)}" for k, v in sorted(sigma.items())]
     lines += ["", "[widen]"] + [f"{k} = {_num(v)}" for k, v in sorted(widen.items())]
-    for model in ("additive", "generic"):
+    for model in ("additive", "generic", "insample"):
         for cat in CATEGORIES:
-            st = cv[model][cat]
+            st = cv.get(model, {}).get(cat)
+            if st is None:
+                continue
             lines += ["", f"[cv.{model}.{_q(cat)}]"] + [
                 f"{k} = {_num(float(v)) if k != 'n' else v}" for k, v in st.items()
             ]
@@ -965,6 +989,7 @@ def calibrate(date: str = "not recorded", cv: bool = True, log=None) -> str:
     else:
         v = Validation((), ())
     figs = figures(v)
+    figs["insample"] = in_sample(problem, p)
     sigma, widen, how = (
         uncertainty(v)
         if cv
