@@ -1,7 +1,8 @@
 """Calibration of the additive band model: fit to the measured set, cross-validate, write ``rules/bandmodel.toml``.
 
 Run ``python -m enumerator.vibrations.calibrate [--date YYYY-MM-DD] [--out FILE] [--no-cv]``.  The same data and
-arguments give the same bytes.
+arguments give the same bytes.  ``--summary`` prints instead the computed size, count and coverage block of
+``rules/measured/README.md`` (:func:`summary`; a test holds the README to it).
 
 * **Data.**  Every row of ``rules/measured`` (:func:`enumerator.rules.measured.load_measured`) is resolved to one
   geometric isomer (:func:`resolve_row`): the formula is parsed, the geometry chosen as ``isosieve`` chooses it
@@ -22,7 +23,8 @@ arguments give the same bytes.
 * **Cross-validation.**  Leave one complex out: every row of one formula and isomer (all its media) is held out,
   the parameters that only it touches are reset to their prior centre (no leakage), the rest refitted to
   convergence from the full fit, and the held-out bands predicted.  Per category the number of bands, MAE and
-  maximum error are reported for this model and for the generic constants of ``rules/forcefields.toml``.
+  maximum error are reported for this model and for the generic constants of ``rules/forcefields.toml``, with the
+  in-sample figures of the full fit beside them (:func:`in_sample`), so that overfitting shows as a gap.
 * **Uncertainty.** sigma of a category is the RMS of its cross-validated residuals over complexes all of whose
   parameters were seen elsewhere (categories with fewer than :data:`MIN_SIGMA_BANDS` such bands take the pooled
   value, or the RMS of all their cross-validated residuals where that is larger, so a class the model predicts badly
