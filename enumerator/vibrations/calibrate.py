@@ -860,6 +860,74 @@ def _counts_table() -> list[str]:
     return lines
 
 
+def _size_paragraph(samples: Sequence[Sample], excluded: Sequence[tuple[str, str]]) -> str:
+    rows = load_measured()
+    ds = dataset_figures(samples, excluded)
+    n_off = sum(not r.fit for r in rows)
+    by_key = {r.key: r for r in rows}
+    unres_fit = [by_key[k].formula for k, _ in excluded if by_key[k].fit]
+    want_b, want_c = REQUESTED_SIZE
+    reached = ds["fit_bands"] >= want_b and ds["fit_complexes"] >= want_c
+    bands = [b for r in rows for b in r.bands]
+    seen = sum(len(r.bands) for r in rows if not r.from_memory)
+    ir = sum(b.technique == "IR" for b in bands)
+    return (
+        f"**Size: {len(rows)} rows (one complex in one medium each), {len(bands)} bands** "
+        f"({ir} IR, {len(bands) - ir} Raman); {seen} bands seen in a source, {len(bands) - seen} from memory. "
+        f"The fit uses **{ds['fit_rows']} rows of {ds['fit_complexes']} complexes, {ds['fit_bands']} bands** "
+        f"({ds['fit_bands_seen']} seen, {ds['fit_bands_from_memory']} from memory): {n_off} rows are `fit = false` "
+        f"(reason in each note) and {len(excluded)} cannot be resolved to one isomer ({len(unres_fit)} of them with "
+        f"fit enabled: {', '.join(unres_fit) or 'none'}). The requested {want_b} fitted bands from {want_c} "
+        "complexes are " + ("reached." if reached else "**not reached**.")
+    )
+
+
+def _category_line(fit_s: Sequence[Sample]) -> str:
+    cats: dict[str, list[int]] = {}
+    for s in fit_s:
+        for c in s.classes:
+            cats.setdefault(c.category, []).extend([s.centre.charge] * sum(len(m) for _, m in c.measured))
+    parts = []
+    for cat in (c for c in CATEGORIES if c in cats):
+        z = cats[cat]
+        sign = [("neutral", sum(x == 0 for x in z)), ("anionic", sum(x < 0 for x in z))]
+        sign.append(("cationic", sum(x > 0 for x in z)))
+        words = "" if cat.startswith("CO") else " (" + ", ".join(f"{n} {w}" for w, n in sign if n) + ")"
+        parts.append(f"{cat} {len(z)}{words}")
+    absent = [c for c in CATEGORIES if c not in cats]
+    few = [c for c in CATEGORIES if 0 < len(cats.get(c, [])) < MIN_SIGMA_BANDS]
+    return (
+        "Bands by category (charge of the complex): "
+        + ", ".join(parts)
+        + (f"; none: {', '.join(absent)}" if absent else "")
+        + (
+            f". Fewer than {MIN_SIGMA_BANDS} bands (too few to judge a model of them): {', '.join(few)}."
+            if few
+            else "."
+        )
+    )
+
+
+def _coverage_lines(fit_s: Sequence[Sample]) -> list[str]:
+    keys = {s.complex_key: s for s in fit_s}
+    metals = [s.centre.metal for s in keys.values()]
+    outside = {m for r in load_measured() if (m := _metal_of(r.formula)) and m not in set(metals) and m != "M"}
+    groups = [g for m in metals if (g := group_of(atomic_number(m))[0]) is not None]
+    geos = [s.isomer.geometry.symbol for s in keys.values()]
+    by_geo = sorted({g: geos.count(g) for g in geos}.items(), key=lambda kv: (-kv[1], kv[0]))
+    return [
+        "Charges (complexes): " + _tally([s.centre.charge for s in keys.values()]) + ".",
+        "",
+        "Groups (complexes): "
+        + _tally(groups)
+        + ". Metals: "
+        + ", ".join(f"{m} {metals.count(m)}" for m in sorted(set(metals), key=atomic_number))
+        + (f"; {', '.join(sorted(outside, key=atomic_number))} only in rows outside the fit." if outside else "."),
+        "",
+        "Geometries (complexes, as resolved by the tool): " + ", ".join(f"{g} {n}" for g, n in by_geo) + ".",
+    ]
+
+
 def summary(samples: Sequence[Sample] | None = None, excluded: Sequence[tuple[str, str]] | None = None) -> str:
     """The computed Markdown block of ``rules/measured/README.md``: size, counts per file and class, coverage.
 
@@ -876,87 +944,22 @@ def summary(samples: Sequence[Sample] | None = None, excluded: Sequence[tuple[st
     """
     if samples is None or excluded is None:
         samples, excluded = resolved_dataset()
-    rows = load_measured()
-    ds = dataset_figures(samples, excluded)
     fit_s = [s for s in samples if s.row.fit]
-    n_off = sum(not r.fit for r in rows)
-    by_key = {r.key: r for r in rows}
-    unres_fit = [k for k, _ in excluded if by_key[k].fit]
-    want_b, want_c = REQUESTED_SIZE
-    reached = ds["fit_bands"] >= want_b and ds["fit_complexes"] >= want_c
-    bands_all = [b for r in rows for b in r.bands]
-    seen_all = sum(len(r.bands) for r in rows if not r.from_memory)
+    n_c = len({s.complex_key for s in fit_s})
+    n_b = sum(len(s.row.bands) for s in fit_s)
     out = [
         SUMMARY_BEGIN,
-        f"**Size: {len(rows)} rows (one complex in one medium each), {len(bands_all)} bands** "
-        f"({sum(b.technique == 'IR' for b in bands_all)} IR, {sum(b.technique == 'Raman' for b in bands_all)} Raman); "
-        f"{seen_all} bands seen in a source, {len(bands_all) - seen_all} from memory. "
-        f"The fit uses **{ds['fit_rows']} rows of {ds['fit_complexes']} complexes, {ds['fit_bands']} bands** "
-        f"({ds['fit_bands_seen']} seen, {ds['fit_bands_from_memory']} from memory): {n_off} rows are `fit = false` "
-        f"(reason in each note) and {len(excluded)} cannot be resolved to one isomer ({len(unres_fit)} of them with "
-        f"fit enabled: {', '.join(by_key[k].formula for k in unres_fit) or 'none'}). The requested {want_b} fitted "
-        f"bands from {want_c} complexes are " + ("reached." if reached else "**not reached**."),
+        _size_paragraph(samples, excluded),
         "",
         "## Counts",
         "",
         *_counts_table(),
         "",
-        f"### Coverage of the fitted rows ({ds['fit_complexes']} complexes, {ds['fit_bands']} bands)",
+        f"### Coverage of the fitted rows ({n_c} complexes, {n_b} bands)",
         "",
-    ]
-    cats: dict[str, list[int]] = {}
-    for s in fit_s:
-        for c in s.classes:
-            n = sum(len(m) for _, m in c.measured)
-            cats.setdefault(c.category, []).extend([s.centre.charge] * n)
-    parts = []
-    for cat in CATEGORIES:
-        z = cats.get(cat, [])
-        if not z:
-            continue
-        if cat.startswith("CO"):
-            parts.append(f"{cat} {len(z)}")
-        else:
-            sign = [("neutral", sum(x == 0 for x in z)), ("anionic", sum(x < 0 for x in z))]
-            sign.append(("cationic", sum(x > 0 for x in z)))
-            parts.append(f"{cat} {len(z)} (" + ", ".join(f"{n} {w}" for w, n in sign if n) + ")")
-    absent = [c for c in CATEGORIES if c not in cats]
-    few = [c for c in CATEGORIES if 0 < len(cats.get(c, [])) < MIN_SIGMA_BANDS]
-    out.append(
-        "Bands by category (charge of the complex): "
-        + ", ".join(parts)
-        + (f"; none: {', '.join(absent)}" if absent else "")
-        + (
-            f". Fewer than {MIN_SIGMA_BANDS} bands (too few to judge a model of them): {', '.join(few)}."
-            if few
-            else "."
-        )
-    )
-    keys = {s.complex_key: s for s in fit_s}
-    out += ["", "Charges (complexes): " + _tally([s.centre.charge for s in keys.values()]) + "."]
-    metals = [s.centre.metal for s in keys.values()]
-    zs = sorted(set(metals), key=atomic_number)
-    outside = sorted(
-        {m for r in rows if (m := _metal_of(r.formula)) and m not in set(metals) and m != "M"}, key=atomic_number
-    )
-    groups = [group_of(atomic_number(m))[0] for m in metals]
-    out += [
+        _category_line(fit_s),
         "",
-        "Groups (complexes): "
-        + _tally([g for g in groups if g is not None])
-        + ". Metals: "
-        + ", ".join(f"{m} {metals.count(m)}" for m in zs)
-        + (f"; {', '.join(outside)} only in rows outside the fit." if outside else "."),
-        "",
-        "Geometries (complexes, as resolved by the tool): "
-        + ", ".join(
-            f"{g} {n}"
-            for g, n in sorted(
-                {g: [s.isomer.geometry.symbol for s in keys.values()].count(g) for g in ds["geometries"]}.items(),
-                key=lambda kv: (-kv[1], kv[0]),
-            )
-        )
-        + ".",
+        *_coverage_lines(fit_s),
         SUMMARY_END,
     ]
     return "\n".join(out) + "\n"
