@@ -71,6 +71,7 @@ PARAMETER_KINDS = MappingProxyType(
         "ig": 1,
         "ir": 2,
         "iq": 1,
+        "io": 1,
     }
 )
 _NAME = re.compile(r"^[^:\s]+(:[^:\s]+)+$")

@@ -110,6 +110,7 @@ PRIORS: Mapping[str, tuple[float, float | None]] = {
     "ig": (0.0, 0.2),
     "ir": (0.0, 0.3),
     "iq": (0.0, 0.2),
+    "io": (0.0, 0.2),  # as iq: the interaction's term in the oxidation state
 }
 #: Widening factors written when the validation has too few bands to measure them.
 ASSUMED_WIDEN = {"group": 1.5, "generic": 2.0}
