@@ -32,9 +32,10 @@ the charge alone: their top band low, their lowest high; leave-one-complex-out
 MAE of neutral carbonyls 13.8 -> 13.0 cm-1, charged 23.2 -> 22.5, cyanides
 12.1 -> 12.4, measured 2026-12-03), ``ic`` a cos² term of the interactions
 (a trigonal bipyramid has three carbonyl–carbonyl angles, 90°, 120° and
-180°, and force fields of M(CO)5 carry one interaction constant per kind
-of pair, common practice; a line in cos θ fixes the 120° value from the
-other two: neutral carbonyls 13.0 -> 12.7, charged 22.5 -> 22.4,
+180°, and energy-factored fits of Fe(CO)5 give each its own interaction
+constant, L. H. Jones, R. S. McDowell, M. Goldblatt, B. I. Swanson, J. Chem.
+Phys. 1972 as cited in rules/measured; a line in cos θ fixes the 120° value
+from the other two: neutral carbonyls 13.0 -> 12.7, charged 22.5 -> 22.4,
 cyanides unchanged, measured 2026-12-03), ``qd`` lets the charge act differently on each d count (the d10
 and d6 isoelectronic series are not spaced alike), ``ox`` is a term in the
 metal's oxidation state (a neutral Au(I) carbonyl behaves like the cationic
