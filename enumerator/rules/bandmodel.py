@@ -72,7 +72,6 @@ PARAMETER_KINDS = MappingProxyType(
         "ir": 2,
         "iq": 1,
         "io": 1,
-        "ic": 1,
     }
 )
 _NAME = re.compile(r"^[^:\s]+(:[^:\s]+)+$")

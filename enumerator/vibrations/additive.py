@@ -15,8 +15,7 @@ class c on a centre of charge z and d count d:
 
     ε_b(θ) = fa[c, F_b] + fb[c, F_b]·cos θ + ea[c, G_b] + eb[c, G_b]·cos θ + la[c, L_b] + lb[c, L_b]·cos θ
 
-    F_ab = ia[c] + ib[c]·cos θ_ab + ic[c]·cos² θ_ab + ir[c, 4|5] + iq[c]·z + io[c]·(oxidation state)
-           + ig[c]·(k_ref[c] − (k_a + k_b)/2)
+    F_ab = ia[c] + ib[c]·cos θ_ab + ir[c, 4|5] + iq[c]·z + io[c]·(oxidation state) + ig[c]·(k_ref[c] − (k_a + k_b)/2)
 
 where the sum runs over every other occupied site b (a chelate counts once per
 donor site, an η-ring once), L_b is the ligand there, G_b its group and F_b
@@ -30,13 +29,7 @@ oxidation state (the band spread of the oxidised carbonyl halides M(CO)5X,
 [M(CO)2I2]-, CpFe(CO)2X and fac-M(CO)3(bpy)X was predicted too narrow with
 the charge alone: their top band low, their lowest high; leave-one-complex-out
 MAE of neutral carbonyls 13.8 -> 13.0 cm-1, charged 23.2 -> 22.5, cyanides
-12.1 -> 12.4, measured 2026-12-03), ``ic`` a cos² term of the interactions
-(a trigonal bipyramid has three carbonyl–carbonyl angles, 90°, 120° and
-180°, and energy-factored fits of Fe(CO)5 give each its own interaction
-constant, L. H. Jones, R. S. McDowell, M. Goldblatt, B. I. Swanson, J. Chem.
-Phys. 1972 as cited in rules/measured; a line in cos θ fixes the 120° value
-from the other two: neutral carbonyls 13.0 -> 12.7, charged 22.5 -> 22.4,
-cyanides unchanged, measured 2026-12-03), ``qd`` lets the charge act differently on each d count (the d10
+12.1 -> 12.4, measured 2026-12-03), ``qd`` lets the charge act differently on each d count (the d10
 and d6 isoelectronic series are not spaced alike), ``ox`` is a term in the
 metal's oxidation state (a neutral Au(I) carbonyl behaves like the cationic
 Cu(I) one, not like Ni(0)), ``phase`` an offset for gas-phase and matrix
@@ -223,7 +216,7 @@ class Design:
         out = {n for t in self.terms for n, _ in t}
         c = self.pclass
         if self.pairs:
-            out |= {f"ia:{c}", f"ib:{c}", f"ic:{c}", f"ig:{c}"} | {n for n, _ in self.pair_terms}
+            out |= {f"ia:{c}", f"ib:{c}", f"ig:{c}"} | {n for n, _ in self.pair_terms}
         if self.scale:
             out.add(self.scale)
         return tuple(sorted(out))
@@ -472,10 +465,10 @@ def f_matrix(design: Design, values: Mapping[str, float], k_ref: float) -> np.nd
     k = stretching_constants(design, values)
     f = np.diag(k)
     c = design.pclass
-    ia, ib, ic, ig = (float(values.get(f"{x}:{c}", 0.0)) for x in ("ia", "ib", "ic", "ig"))
+    ia, ib, ig = (float(values.get(f"{x}:{c}", 0.0)) for x in ("ia", "ib", "ig"))
     extra = sum(v * float(values.get(n, 0.0)) for n, v in design.pair_terms)
     for a, b, cos in design.pairs:
-        f[a, b] = f[b, a] = ia + ib * cos + ic * cos * cos + extra + ig * (k_ref - 0.5 * (k[a] + k[b]))
+        f[a, b] = f[b, a] = ia + ib * cos + extra + ig * (k_ref - 0.5 * (k[a] + k[b]))
     return f
 
 

@@ -111,7 +111,6 @@ PRIORS: Mapping[str, tuple[float, float | None]] = {
     "ir": (0.0, 0.3),
     "iq": (0.0, 0.2),
     "io": (0.0, 0.2),  # as iq: the interaction's term in the oxidation state
-    "ic": (0.0, 0.5),  # as ib: the interaction's term in cos² of the angle
 }
 #: Widening factors written when the validation has too few bands to measure them.
 ASSUMED_WIDEN = {"group": 1.5, "generic": 2.0}
@@ -353,8 +352,6 @@ class _Block:
     #: the ligand-effect part of ``d`` (scaled by 1 + p[scale]) and the index of the scale (-1: none)
     lig: np.ndarray | None = field(default=None, compare=False)
     scale: int = -1
-    #: index of the interaction's cos² term (-1: none)
-    ic: int = -1
 
 
 class Problem:
@@ -391,16 +388,7 @@ class Problem:
         extra = tuple((self.index[n], v) for n, v in c.design.pair_terms)
         scale = self.index[c.design.scale] if c.design.scale else -1
         return _Block(
-            c,
-            s.row.weight,
-            d,
-            c.design.pairs,
-            (iabg[0], iabg[1], iabg[2]),
-            REFERENCE_K[p],
-            extra,
-            lig,
-            scale,
-            self.index.get(f"ic:{p}", -1),
+            c, s.row.weight, d, c.design.pairs, (iabg[0], iabg[1], iabg[2]), REFERENCE_K[p], extra, lig, scale
         )
 
     def touched(self, k: int) -> set[int]:
@@ -413,7 +401,7 @@ class Problem:
             if b.scale >= 0:
                 out.add(b.scale)
             if b.pairs:
-                out |= {i for i in (*b.iabg, b.ic) if i >= 0} | {i for i, _ in b.extra}
+                out |= {i for i in b.iabg if i >= 0} | {i for i, _ in b.extra}
         return out
 
 
@@ -435,9 +423,8 @@ def _f(b: _Block, p: np.ndarray) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
     f = np.diag(k)
     ia, ib, ig = (p[i] if i >= 0 else 0.0 for i in b.iabg)
     extra = sum(p[i] * v for i, v in b.extra)
-    ic = p[b.ic] if b.ic >= 0 else 0.0
     for a, c, cos in b.pairs:
-        f[a, c] = f[c, a] = ia + ib * cos + ic * cos * cos + extra + ig * (b.k_ref - 0.5 * (k[a] + k[c]))
+        f[a, c] = f[c, a] = ia + ib * cos + extra + ig * (b.k_ref - 0.5 * (k[a] + k[c]))
     return f, k, dk
 
 
@@ -453,8 +440,6 @@ def _dlam(b: _Block, p: np.ndarray, k: np.ndarray, dk: np.ndarray, gy: np.ndarra
             out[ia] += w
             out[ib] += w * cos
             out[ig] += w * (b.k_ref - 0.5 * (k[a] + k[c]))
-            if b.ic >= 0:
-                out[b.ic] += w * cos * cos
             for i, v in b.extra:
                 out[i] += w * v
         out -= w * 0.5 * pig * (dk[a] + dk[c])
