@@ -31,7 +31,17 @@ from enumerator.caches import cached
 from enumerator.rules.checks import check_keys, read_toml, rule_error
 from enumerator.rules.ruleset import BUILTIN_RULES
 
-__all__ = ["BandModelRules", "load_bandmodel", "load_groups", "load_families", "load_substituents", "RING_ALKYL", "PARAMETER_KINDS", "BANDMODEL_FILE", "GROUPS_FILE"]
+__all__ = [
+    "BandModelRules",
+    "load_bandmodel",
+    "load_groups",
+    "load_families",
+    "load_substituents",
+    "RING_ALKYL",
+    "PARAMETER_KINDS",
+    "BANDMODEL_FILE",
+    "GROUPS_FILE",
+]
 
 BANDMODEL_FILE = BUILTIN_RULES / "bandmodel.toml"
 GROUPS_FILE = BUILTIN_RULES / "bandgroups.toml"
@@ -61,6 +71,7 @@ PARAMETER_KINDS = MappingProxyType(
         "ig": 1,
         "ir": 2,
         "iq": 1,
+        "io": 1,
     }
 )
 _NAME = re.compile(r"^[^:\s]+(:[^:\s]+)+$")

@@ -33,7 +33,15 @@ from enumerator.caches import cached
 from enumerator.rules.checks import check_keys, read_toml, rule_error
 from enumerator.rules.ruleset import BUILTIN_RULES
 
-__all__ = ["MeasuredBand", "MeasuredComplex", "load_measured", "MEASURED_FOLDER", "REPORTER_CLASSES"]
+__all__ = [
+    "MeasuredBand",
+    "MeasuredComplex",
+    "FileCounts",
+    "load_measured",
+    "file_counts",
+    "MEASURED_FOLDER",
+    "REPORTER_CLASSES",
+]
 
 #: The folder of the built-in data set.
 MEASURED_FOLDER = BUILTIN_RULES / "measured"
@@ -199,3 +207,70 @@ def load_measured(folder: Path | str | None = None) -> tuple[MeasuredComplex, ..
         raise rule_error(path, "no *.toml files", "point to the folder of the measured data set")
     stamp = tuple((f.name, f.stat().st_size, f.stat().st_mtime_ns) for f in files)
     return _load(path, stamp)
+
+
+@dataclass(frozen=True)
+class FileCounts:
+    """Row and band counts of one data-set file (or of the whole set, ``file`` = 'total').
+
+    ``classes`` is ((class, IR bands, Raman bands), ...) in :data:`REPORTER_CLASSES` order, classes with bands only;
+    ``seen`` / ``memory`` / ``off`` are (rows, bands) seen in a source, recalled, and kept out of the fit.
+    """
+
+    file: str
+    rows: int
+    bands: int
+    ir: int
+    raman: int
+    classes: tuple[tuple[str, int, int], ...]
+    seen: tuple[int, int]
+    memory: tuple[int, int]
+    off: tuple[int, int]
+
+
+def _count(name: str, rows: tuple[MeasuredComplex, ...]) -> FileCounts:
+    bands = [b for r in rows for b in r.bands]
+    classes = tuple(
+        (
+            c,
+            sum(b.technique == "IR" for b in bands if b.reporter == c),
+            sum(b.technique == "Raman" for b in bands if b.reporter == c),
+        )
+        for c in REPORTER_CLASSES
+        if any(b.reporter == c for b in bands)
+    )
+
+    def rb(sel: list[MeasuredComplex]) -> tuple[int, int]:
+        return len(sel), sum(len(r.bands) for r in sel)
+
+    return FileCounts(
+        name,
+        len(rows),
+        len(bands),
+        sum(b.technique == "IR" for b in bands),
+        sum(b.technique == "Raman" for b in bands),
+        classes,
+        rb([r for r in rows if not r.from_memory]),
+        rb([r for r in rows if r.from_memory]),
+        rb([r for r in rows if not r.fit]),
+    )
+
+
+def file_counts(folder: Path | str | None = None) -> tuple[FileCounts, ...]:
+    """The counts of every file of the data set, in file-name order, then the total (``file`` = 'total').
+
+    Parameters
+    ----------
+    folder : Path or str, optional
+        A folder of ``*.toml`` files (default: the built-in ``rules/measured``).
+
+    Returns
+    -------
+    tuple[FileCounts, ...]
+        What ``rules/measured/README.md`` tabulates under 'Counts' (written by
+        ``python -m enumerator.vibrations.calibrate --summary``).
+    """
+    rows = load_measured(folder)
+    names = sorted({r.key.split("#", 1)[0] for r in rows})
+    per = [_count(n, tuple(r for r in rows if r.key.split("#", 1)[0] == n)) for n in names]
+    return (*per, _count("total", rows))

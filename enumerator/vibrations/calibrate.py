@@ -1,7 +1,8 @@
 """Calibration of the additive band model: fit to the measured set, cross-validate, write ``rules/bandmodel.toml``.
 
 Run ``python -m enumerator.vibrations.calibrate [--date YYYY-MM-DD] [--out FILE] [--no-cv]``.  The same data and
-arguments give the same bytes.
+arguments give the same bytes.  ``--summary`` prints instead the computed size, count and coverage block of
+``rules/measured/README.md`` (:func:`summary`; a test holds the README to it).
 
 * **Data.**  Every row of ``rules/measured`` (:func:`enumerator.rules.measured.load_measured`) is resolved to one
   geometric isomer (:func:`resolve_row`): the formula is parsed, the geometry chosen as ``isosieve`` chooses it
@@ -22,7 +23,8 @@ arguments give the same bytes.
 * **Cross-validation.**  Leave one complex out: every row of one formula and isomer (all its media) is held out,
   the parameters that only it touches are reset to their prior centre (no leakage), the rest refitted to
   convergence from the full fit, and the held-out bands predicted.  Per category the number of bands, MAE and
-  maximum error are reported for this model and for the generic constants of ``rules/forcefields.toml``.
+  maximum error are reported for this model and for the generic constants of ``rules/forcefields.toml``, with the
+  in-sample figures of the full fit beside them (:func:`in_sample`), so that overfitting shows as a gap.
 * **Uncertainty.** sigma of a category is the RMS of its cross-validated residuals over complexes all of whose
   parameters were seen elsewhere (categories with fewer than :data:`MIN_SIGMA_BANDS` such bands take the pooled
   value, or the RMS of all their cross-validated residuals where that is larger, so a class the model predicts badly
@@ -51,6 +53,7 @@ from enumerator.analyses.descriptors.select import find_by_descriptor
 from enumerator.errors import IsosieveError
 from enumerator.isomers.enumeration import Isomer, enumerate_isomers
 from enumerator.model.composition import Composition
+from enumerator.model.elements import atomic_number, group_of
 from enumerator.parse.formula import parse_formula
 from enumerator.rules.bandmodel import BANDMODEL_FILE, load_families, load_groups, load_substituents
 from enumerator.rules.measured import MEASURED_FOLDER, MeasuredComplex, load_measured
@@ -70,6 +73,7 @@ __all__ = [
     "cross_validate",
     "generic_residuals",
     "calibrate",
+    "summary",
     "REFERENCE_K",
     "PRIORS",
     "SCALE",
@@ -106,6 +110,7 @@ PRIORS: Mapping[str, tuple[float, float | None]] = {
     "ig": (0.0, 0.2),
     "ir": (0.0, 0.3),
     "iq": (0.0, 0.2),
+    "io": (0.0, 0.2),  # as iq: the interaction's term in the oxidation state
 }
 #: Widening factors written when the validation has too few bands to measure them.
 ASSUMED_WIDEN = {"group": 1.5, "generic": 2.0}
@@ -656,6 +661,26 @@ def figures(v: Validation) -> dict[str, dict[str, dict[str, float | int]]]:
     return out
 
 
+def in_sample(problem: Problem, p: np.ndarray) -> dict[str, dict[str, float | int]]:
+    """Per category: n, MAE, max and RMS (cm-1) of the fit to every sample (no complex held out).
+
+    Printed beside the cross-validated figures so that a gap between the two (overfitting) is seen.
+
+    Parameters
+    ----------
+    problem : Problem
+    p : numpy.ndarray
+        The fit to every sample.
+
+    Returns
+    -------
+    dict
+        {category: stats}
+    """
+    res = [r for k in range(len(problem.samples)) for r in _residuals(problem, p, k)]
+    return {cat: _stats([pr - m for c, m, pr in res if c == cat]) for cat in CATEGORIES}
+
+
 def _rms(x: Sequence[float]) -> float:
     return float(np.sqrt(np.mean(np.square(x)))) if len(x) else float("nan")
 
@@ -720,14 +745,16 @@ def render_toml(problem: Problem, p: np.ndarray, meta: Mapping[str, str], cv: Ma
         "# constants), extended to CN, linear and bent NO, CS, CNR and N2; see enumerator/vibrations/additive.py.",
         f"# Fitted on: {meta['dataset']}",
         f"# Fitted: {meta['fitted']}. Regularisation: {meta['ridge']}",
-        "# Leave-one-complex-out cross-validation (cm-1; n bands, MAE, max) of this model | the generic constants:",
+        "# Leave-one-complex-out cross-validation (cm-1; n bands, MAE, max) of this model | the generic constants"
+        " | this model in-sample:",
     ]
     for cat in CATEGORIES:
         a, g = cv["additive"][cat], cv["generic"][cat]
+        i = cv.get("insample", {}).get(cat, {})
         if a.get("n"):
             lines.append(
                 f"#   {cat:<11} n={a['n']:<4} MAE {a['mae']:>6} max {a['max']:>6}   |   "
-                f"MAE {g['mae']:>6} max {g['max']:>6}"
+                f"MAE {g['mae']:>6} max {g['max']:>6}   |   MAE {i.get('mae', '-'):>6} max {i.get('max', '-'):>6}"
             )
         else:
             lines.append(f"#   {cat:<11} no measured bands in the fit")
@@ -739,9 +766,11 @@ def render_toml(problem: Problem, p: np.ndarray, meta: Mapping[str, str], cv: Ma
     lines.append("reference_k = { " + ", ".join(f"{k} = {_num(v)}" for k, v in sorted(REFERENCE_K.items())) + " }")
     lines += ["", "[sigma]"] + [f"{_q(k)} = {_num(v)}" for k, v in sorted(sigma.items())]
     lines += ["", "[widen]"] + [f"{k} = {_num(v)}" for k, v in sorted(widen.items())]
-    for model in ("additive", "generic"):
+    for model in ("additive", "generic", "insample"):
         for cat in CATEGORIES:
-            st = cv[model][cat]
+            st = cv.get(model, {}).get(cat)
+            if st is None:
+                continue
             lines += ["", f"[cv.{model}.{_q(cat)}]"] + [
                 f"{k} = {_num(float(v)) if k != 'n' else v}" for k, v in st.items()
             ]
@@ -762,8 +791,6 @@ def dataset_figures(samples: Sequence[Sample], excluded: Sequence[tuple[str, str
     -------
     dict
     """
-    from enumerator.model.elements import atomic_number, group_of
-
     fit_s = [s for s in samples if s.row.fit]
     bands = [b for s in fit_s for b in s.row.bands]
     return {
@@ -780,6 +807,163 @@ def dataset_figures(samples: Sequence[Sample], excluded: Sequence[tuple[str, str
         "groups": sorted({g for s in fit_s if (g := group_of(atomic_number(s.centre.metal))[0]) is not None}),
         "geometries": sorted({s.isomer.geometry.symbol for s in fit_s}),
     }
+
+
+#: What the data set was asked to reach (fitted bands, fitted complexes); the summary says whether it is reached.
+REQUESTED_SIZE = (250, 120)
+#: The markers around the computed block of ``rules/measured/README.md``.
+SUMMARY_BEGIN = "<!-- BEGIN computed: python -m enumerator.vibrations.calibrate --summary (do not edit by hand) -->"
+SUMMARY_END = "<!-- END computed -->"
+
+
+def _tally(items: Sequence[Any]) -> str:
+    out: dict[Any, int] = {}
+    for x in items:
+        out[x] = out.get(x, 0) + 1
+    return ", ".join(f"{k}: {v}" for k, v in sorted(out.items()))
+
+
+def _metal_of(formula: str) -> str | None:
+    try:
+        return parse_formula(formula, load_rules()).metal
+    except IsosieveError:
+        return None
+
+
+def _counts_table() -> list[str]:
+    from enumerator.rules.measured import file_counts
+
+    def cls(c) -> str:
+        inner = ", ".join(f"{n + r} {k}" for k, n, r in c.classes)
+        return inner if len(c.classes) > 1 else f"({c.classes[0][0]})"
+
+    lines = [
+        "| file | rows | bands | IR | Raman | seen rows / bands | from memory rows / bands "
+        "| fit = false rows / bands |",
+        "|---|---|---|---|---|---|---|---|",
+    ]
+    counts = file_counts()
+    for c in counts:
+        b = (lambda x: f"**{x}**") if c.file == "total" else str
+        what = "" if c.file == "total" else (f" ({cls(c)})" if len(c.classes) > 1 else f" {cls(c)}")
+        lines.append(
+            f"| {b(c.file)} | {b(c.rows)} | {b(str(c.bands) + what) if not what else str(c.bands) + what} | "
+            f"{b(c.ir)} | {b(c.raman)} | {b(f'{c.seen[0]} / {c.seen[1]}')} | {b(f'{c.memory[0]} / {c.memory[1]}')} | "
+            f"{b(f'{c.off[0]} / {c.off[1]}')} |"
+        )
+    tot = counts[-1]
+    lines += [
+        "",
+        "By class: "
+        + ", ".join(f"{k} {n + r}" + (f" ({n} IR, {r} Raman)" if r else "") for k, n, r in tot.classes)
+        + ".",
+    ]
+    return lines
+
+
+def _size_paragraph(samples: Sequence[Sample], excluded: Sequence[tuple[str, str]]) -> str:
+    rows = load_measured()
+    ds = dataset_figures(samples, excluded)
+    n_off = sum(not r.fit for r in rows)
+    by_key = {r.key: r for r in rows}
+    unres_fit = [by_key[k].formula for k, _ in excluded if by_key[k].fit]
+    want_b, want_c = REQUESTED_SIZE
+    reached = ds["fit_bands"] >= want_b and ds["fit_complexes"] >= want_c
+    bands = [b for r in rows for b in r.bands]
+    seen = sum(len(r.bands) for r in rows if not r.from_memory)
+    ir = sum(b.technique == "IR" for b in bands)
+    return (
+        f"**Size: {len(rows)} rows (one complex in one medium each), {len(bands)} bands** "
+        f"({ir} IR, {len(bands) - ir} Raman); {seen} bands seen in a source, {len(bands) - seen} from memory. "
+        f"The fit uses **{ds['fit_rows']} rows of {ds['fit_complexes']} complexes, {ds['fit_bands']} bands** "
+        f"({ds['fit_bands_seen']} seen, {ds['fit_bands_from_memory']} from memory): {n_off} rows are `fit = false` "
+        f"(reason in each note) and {len(excluded)} cannot be resolved to one isomer ({len(unres_fit)} of them with "
+        f"fit enabled: {', '.join(unres_fit) or 'none'}). The requested {want_b} fitted bands from {want_c} "
+        "complexes are " + ("reached." if reached else "**not reached**.")
+    )
+
+
+def _category_line(fit_s: Sequence[Sample]) -> str:
+    cats: dict[str, list[int]] = {}
+    for s in fit_s:
+        for c in s.classes:
+            cats.setdefault(c.category, []).extend([s.centre.charge] * sum(len(m) for _, m in c.measured))
+    parts = []
+    for cat in (c for c in CATEGORIES if c in cats):
+        z = cats[cat]
+        sign = [("neutral", sum(x == 0 for x in z)), ("anionic", sum(x < 0 for x in z))]
+        sign.append(("cationic", sum(x > 0 for x in z)))
+        words = "" if cat.startswith("CO") else " (" + ", ".join(f"{n} {w}" for w, n in sign if n) + ")"
+        parts.append(f"{cat} {len(z)}{words}")
+    absent = [c for c in CATEGORIES if c not in cats]
+    few = [c for c in CATEGORIES if 0 < len(cats.get(c, [])) < MIN_SIGMA_BANDS]
+    return (
+        "Bands by category (charge of the complex): "
+        + ", ".join(parts)
+        + (f"; none: {', '.join(absent)}" if absent else "")
+        + (
+            f". Fewer than {MIN_SIGMA_BANDS} bands (too few to judge a model of them): {', '.join(few)}."
+            if few
+            else "."
+        )
+    )
+
+
+def _coverage_lines(fit_s: Sequence[Sample]) -> list[str]:
+    keys = {s.complex_key: s for s in fit_s}
+    metals = [s.centre.metal for s in keys.values()]
+    outside = {m for r in load_measured() if (m := _metal_of(r.formula)) and m not in set(metals) and m != "M"}
+    groups = [g for m in metals if (g := group_of(atomic_number(m))[0]) is not None]
+    geos = [s.isomer.geometry.symbol for s in keys.values()]
+    by_geo = sorted({g: geos.count(g) for g in geos}.items(), key=lambda kv: (-kv[1], kv[0]))
+    return [
+        "Charges (complexes): " + _tally([s.centre.charge for s in keys.values()]) + ".",
+        "",
+        "Groups (complexes): "
+        + _tally(groups)
+        + ". Metals: "
+        + ", ".join(f"{m} {metals.count(m)}" for m in sorted(set(metals), key=atomic_number))
+        + (f"; {', '.join(sorted(outside, key=atomic_number))} only in rows outside the fit." if outside else "."),
+        "",
+        "Geometries (complexes, as resolved by the tool): " + ", ".join(f"{g} {n}" for g, n in by_geo) + ".",
+    ]
+
+
+def summary(samples: Sequence[Sample] | None = None, excluded: Sequence[tuple[str, str]] | None = None) -> str:
+    """The computed Markdown block of ``rules/measured/README.md``: size, counts per file and class, coverage.
+
+    Parameters
+    ----------
+    samples, excluded : optional
+        The resolved data set (default: :func:`resolved_dataset`).
+
+    Returns
+    -------
+    str
+        Between :data:`SUMMARY_BEGIN` and :data:`SUMMARY_END`, both included; tests/test_bandmodel.py holds the
+        README to it.
+    """
+    if samples is None or excluded is None:
+        samples, excluded = resolved_dataset()
+    fit_s = [s for s in samples if s.row.fit]
+    n_c = len({s.complex_key for s in fit_s})
+    n_b = sum(len(s.row.bands) for s in fit_s)
+    out = [
+        SUMMARY_BEGIN,
+        _size_paragraph(samples, excluded),
+        "",
+        "## Counts",
+        "",
+        *_counts_table(),
+        "",
+        f"### Coverage of the fitted rows ({n_c} complexes, {n_b} bands)",
+        "",
+        _category_line(fit_s),
+        "",
+        *_coverage_lines(fit_s),
+        SUMMARY_END,
+    ]
+    return "\n".join(out) + "\n"
 
 
 def calibrate(date: str = "not recorded", cv: bool = True, log=None) -> str:
@@ -811,6 +995,7 @@ def calibrate(date: str = "not recorded", cv: bool = True, log=None) -> str:
     else:
         v = Validation((), ())
     figs = figures(v)
+    figs["insample"] = in_sample(problem, p)
     sigma, widen, how = (
         uncertainty(v)
         if cv
@@ -841,7 +1026,13 @@ def main(argv: Sequence[str] | None = None) -> int:
     ap.add_argument("--date", default="not recorded", help="the date written in the header (YYYY-MM-DD)")
     ap.add_argument("--out", default=str(BANDMODEL_FILE), help="where to write (default: rules/bandmodel.toml)")
     ap.add_argument("--no-cv", action="store_true", help="skip the cross-validation (trial runs only)")
+    ap.add_argument(
+        "--summary", action="store_true", help="print the computed block of rules/measured/README.md and stop"
+    )
     args = ap.parse_args(argv)
+    if args.summary:
+        print(summary(), end="")
+        return 0
     text = calibrate(args.date, not args.no_cv, log=lambda s: print(s, file=sys.stderr))
     Path(args.out).write_text(text, encoding="utf-8")
     print(f"wrote {args.out}", file=sys.stderr)

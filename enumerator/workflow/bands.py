@@ -21,7 +21,7 @@ gives its species zero intensity
 
 >>> r = predict_spectra(Request("[Cr(CO)6]"))
 >>> [(b.species, round(b.wavenumber)) for b in r.isomers[0].patterns[0].pattern.ir_bands]
-[('T1u', 1985)]
+[('T1u', 1986)]
 >>> m = match_spectrum(Request("Ma4b2", reporters=(("a", "CO"),)), [1950.0])
 >>> m.match.candidates[0].point_group
 'D4h'
