@@ -111,6 +111,18 @@ def test_measured_row_without_source_is_refused(tmp_path):
         load_measured(tmp_path)
 
 
+def test_measured_row_with_a_misspelt_medium_is_refused(tmp_path):
+    # the band model gives gas and matrix rows terms of their own: 'gass' must not pass as a condensed phase
+    # (common practice: a data set's controlled vocabulary is checked at load)
+    (tmp_path / "x.toml").write_text(
+        '[[complex]]\ncompound = "x"\nformula = "[Cr(CO)6]"\nisomer = ""\ngeometry = ""\nphase = "gass"\n'
+        'source = "s"\nconfirmed = "from memory"\nnote = ""\n'
+        'bands = [ { cm1 = 2000.0, class = "CO", technique = "IR" } ]\n'
+    )
+    with pytest.raises(RuleError, match="phase 'gass'"):
+        load_measured(tmp_path)
+
+
 def test_band_model_file_with_unknown_parameter_kind_is_refused(tmp_path):
     from enumerator.rules.bandmodel import BANDMODEL_FILE
 

@@ -123,6 +123,30 @@ def _band(b: Any, where: str) -> MeasuredBand:
     return MeasuredBand(float(cm1), cls, b["technique"], species, intensity)
 
 
+#: The media a row may name (rules/measured/README.md, "Phase strings used"); the band model gives 'gas' and
+#: 'matrix' terms of their own and treats the rest as condensed phase, so a misspelt medium must not pass silently.
+PHASES = (
+    "hexane",
+    "heptane",
+    "cyclohexane",
+    "isopentane",
+    "CH2Cl2",
+    "CHCl3",
+    "MeCN",
+    "THF",
+    "aqueous",
+    "HSO3F",
+    "liquid ethane",
+    "liquid xenon",
+    "supercritical methane",
+    "solid",
+    "Nujol",
+    "gas",
+    "matrix",
+    "unspecified",
+)
+
+
 def _row(c: Any, where: str) -> MeasuredComplex:
     if not isinstance(c, Mapping):
         raise rule_error(where, "an entry is not a table", "write [[complex]] tables")
@@ -131,6 +155,12 @@ def _row(c: Any, where: str) -> MeasuredComplex:
         _text(c[key], where, key, empty_ok=False)
     for key in ("isomer", "geometry", "note"):
         _text(c[key], where, key)
+    if c["phase"] not in PHASES:
+        raise rule_error(
+            where,
+            f"phase '{c['phase']}' is not one of the media the data set uses",
+            f"use one of {', '.join(PHASES)} (or add it to PHASES and to rules/measured/README.md)",
+        )
     if not c["confirmed"].lower().startswith(("search", "from memory")):
         raise rule_error(
             where,
