@@ -73,6 +73,18 @@ def test_shortcut_keeps_the_missing_smiles_error():
 # masses and the kept SMILES graphs, against RDKit (the reference library)
 
 
+def test_builtin_mass_table_is_what_its_writer_gives_from_rdkit():
+    """rules/isotopes.toml is written from RDKit's periodic table (reference library), not typed:
+    ``python -m enumerator.rules.masses`` gives the same element tables (the header names the RDKit version)."""
+    from enumerator.rules.masses import TABLE_NAME, build_table
+    from enumerator.rules.ruleset import BUILTIN_RULES
+
+    def body(text: str) -> str:
+        return text[text.index("\n[element.") :]
+
+    assert body((BUILTIN_RULES / TABLE_NAME).read_text(encoding="utf-8")) == body(build_table())
+
+
 def test_every_mass_in_the_builtin_table_is_rdkits():
     from rdkit import Chem
 

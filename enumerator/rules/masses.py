@@ -6,7 +6,9 @@ occurring isotope; the file names the calls), so that the band model's
 oscillator masses do not import RDKit on every start.  A mass the table lacks
 (a radioactive isotope, say) is asked of RDKit through
 :mod:`enumerator.model.elements`, so every answer is RDKit's either way;
-``tests/test_startup_shortcuts.py`` holds each entry equal to RDKit's value.
+``tests/test_startup_shortcuts.py`` holds each entry equal to RDKit's value,
+and the file equal to what :func:`build_table` writes from the installed RDKit
+(rewrite it with ``python -m enumerator.rules.masses``).
 
 >>> mass_of("C", 13)
 13.00335484
@@ -22,7 +24,7 @@ from types import MappingProxyType
 from enumerator.caches import cached
 from enumerator.model.elements import SYMBOLS, atomic_number, atomic_weight, isotope_mass
 
-__all__ = ["TABLE_NAME", "mass_of", "weight_of", "table"]
+__all__ = ["TABLE_NAME", "mass_of", "weight_of", "table", "build_table", "write_table"]
 
 #: The table's file name in the built-in rules folder.
 TABLE_NAME = "isotopes.toml"
@@ -103,3 +105,62 @@ def weight_of(symbol: str) -> float:
         return row[0]
     z = atomic_number(symbol)
     return atomic_weight(z) if z > 0 else 0.0
+
+
+_HEADER = """# Masses of the elements and of their naturally occurring isotopes, in u.
+#
+# Source: RDKit {version}'s periodic table (rdkit.Chem.GetPeriodicTable()), the package's
+# reference library for masses: 'weight' is GetAtomicWeight (the standard atomic weight),
+# 'common' and 'common_mass' are GetMostCommonIsotope and GetMostCommonIsotopeMass, and
+# 'isotopes' lists GetMassForIsotope for every isotope with a non-zero GetAbundanceForIsotope.
+# Written out from those calls by `python -m enumerator.rules.masses`, not typed;
+# tests/test_startup_shortcuts.py holds every entry equal to RDKit's value.  Read so that a
+# command that needs a mass (the band model's oscillators) does not import RDKit; a mass not
+# listed here is asked of RDKit.
+"""
+
+
+def build_table() -> str:
+    """The text of ``isotopes.toml``, written from the installed RDKit's periodic table.
+
+    Returns
+    -------
+    str
+        One ``[element.X]`` table per element with a standard atomic weight (H to Og), in atomic-number order.
+    """
+    import rdkit
+    from rdkit import Chem
+
+    pt = Chem.GetPeriodicTable()
+    parts = [_HEADER.format(version=rdkit.__version__)]
+    for z in range(1, 119):
+        symbol = pt.GetElementSymbol(z)
+        iso = {
+            a: pt.GetMassForIsotope(z, a)
+            for a in range(1, 300)
+            if pt.GetAbundanceForIsotope(z, a) > 0
+        }
+        listed = ", ".join(f"{a} = {m!r}" for a, m in iso.items())
+        parts.append(
+            f"\n[element.{symbol}]\nweight = {pt.GetAtomicWeight(z)!r}\ncommon = {pt.GetMostCommonIsotope(z)}\n"
+            f"common_mass = {pt.GetMostCommonIsotopeMass(z)!r}\n" + (f"isotopes = {{ {listed} }}\n" if iso else "")
+        )
+    return "".join(parts)
+
+
+def write_table() -> str:
+    """Rewrite the built-in ``isotopes.toml`` from the installed RDKit; the path written.
+
+    Returns
+    -------
+    str
+    """
+    from enumerator.rules.ruleset import BUILTIN_RULES
+
+    path = BUILTIN_RULES / TABLE_NAME
+    path.write_text(build_table(), encoding="utf-8")
+    return str(path)
+
+
+if __name__ == "__main__":  # pragma: no cover
+    print(write_table())
