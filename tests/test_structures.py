@@ -358,3 +358,41 @@ def test_the_process_count_from_the_environment(monkeypatch):
         available_processes()
     monkeypatch.delenv(ENV_PROCESSES)
     assert available_processes() >= 1
+
+
+def test_isomers_handed_over_one_result_at_a_time_give_the_same_bytes():
+    # a report hands each complex to the workers as soon as it is analysed (EmbedAhead.add): the files equal
+    # those of one process byte for byte (seeded ETKDG: Riniker & Landrum 2015, as above); a key met again
+    # (a 13CO-labelled isomer placed as its parent is) is not submitted again
+    from enumerator.caches import clear
+    from enumerator.structures.build import embedding_items, structures_for
+    from enumerator.structures.pool import EmbedAhead
+    from enumerator.workflow.pipeline import analyse
+
+    first = analyse("[RuCl2(CO)2(PMe3)2]", geometry="OC-6")
+    label = analyse("[RuCl2(CO)(13CO)(PMe3)2]", geometry="OC-6")
+    clear()
+    serial = [_files(structures_for(r, ahead=EmbedAhead([], processes=1))) for r in (first, label)]
+    clear()
+    with EmbedAhead(processes=2) as ahead:
+        assert ahead._pool is None  # nothing handed over yet
+        ahead.add(embedding_items([first]))
+        submitted = len(ahead._futures)
+        assert submitted == len(first.isomers)
+        ahead.add(embedding_items([label]))
+        assert len(ahead._futures) - submitted < len(label.isomers)  # some labelled isomers reuse a parent's
+        pooled = [_files(structures_for(r, ahead=ahead)) for r in (first, label)]
+    assert pooled == serial
+
+
+def test_a_single_embedding_is_not_sent_to_a_worker():
+    # fewer than POOL_MIN_EMBEDDINGS distinct embeddings in all: no pool is started, the builder embeds here
+    from enumerator.structures.build import embedding_items
+    from enumerator.structures.pool import POOL_MIN_EMBEDDINGS, EmbedAhead
+    from enumerator.workflow.pipeline import analyse
+
+    res = analyse("[Cr(CO)5(PMe3)]")
+    assert len(res.isomers) == 1 < POOL_MIN_EMBEDDINGS
+    with EmbedAhead(processes=2) as ahead:
+        ahead.add(embedding_items([res]))
+        assert ahead._pool is None and ahead.ready(res.isomers[0], res.composition) == {}

@@ -51,7 +51,7 @@ from enumerator.structures.pool import EmbedAhead
 from enumerator.structures.relax import CLASH_FRACTION, closest_contact, relieve_clashes, uff_relax
 from enumerator.structures.structure import Structure
 
-__all__ = ["Structure", "build_structure", "embed_ahead", "structures_for"]
+__all__ = ["Structure", "build_structure", "embed_ahead", "embedding_items", "structures_for"]
 
 _HOW = "RDKit ETKDG with donors fixed"
 
@@ -152,8 +152,22 @@ def embed_ahead(results: Iterable[ResultView], processes: int | None = None) -> 
     -------
     EmbedAhead
     """
-    items = [(i, r.composition) for r in results if not _why_not_full(r.composition) for i in r.isomers]
-    return EmbedAhead(items, processes)
+    return EmbedAhead(embedding_items(results), processes)
+
+
+def embedding_items(results: Iterable[ResultView]) -> list[tuple[Isomer, Composition]]:
+    """The isomers of the results whose whole complex is embedded (an element as metal, a SMILES for every
+    ligand), with their compositions.
+
+    Parameters
+    ----------
+    results : iterable of Result
+
+    Returns
+    -------
+    list of (Isomer, Composition)
+    """
+    return [(i, r.composition) for r in results if not _why_not_full(r.composition) for i in r.isomers]
 
 
 def _why_not_full(comp: Composition) -> str:

@@ -108,44 +108,72 @@ def _quiet_worker() -> None:
 class EmbedAhead:
     """A context manager: the whole-complex embeddings of the given isomers, worked out ahead.
 
+    Isomers come in when it is opened (``items``) or later, a result at a time (:meth:`add`: a report hands
+    each complex over as soon as it is analysed, so the workers embed while the next one is analysed and the
+    tables are written).
+
     Parameters
     ----------
-    items : iterable of (Isomer, Composition)
+    items : iterable of (Isomer, Composition), optional
         The isomers whose full structures will be built (only those that can have one: an element as metal
         and a SMILES for every ligand), with their compositions.
     processes : int, optional
         The most processes (default: :func:`available_processes`); with 1, or fewer than
-        :data:`POOL_MIN_EMBEDDINGS` distinct embeddings, nothing is worked out ahead and :meth:`ready`
-        answers an empty mapping (the builder embeds in this process, as without it).
+        :data:`POOL_MIN_EMBEDDINGS` distinct embeddings in all, nothing is worked out ahead and :meth:`ready`
+        answers an empty mapping (the builder embeds in this process, as without it).  Isomers given at once
+        get as many workers as distinct embeddings, up to this; isomers fed by :meth:`add` get this many.
     """
 
-    def __init__(self, items: Iterable[tuple[Isomer, Composition]], processes: int | None = None) -> None:
+    def __init__(self, items: Iterable[tuple[Isomer, Composition]] = (), processes: int | None = None) -> None:
         self._keys: dict[tuple[int, str], EmbedKey | None] = {}
         self._items = list(items)
         self._processes = available_processes() if processes is None else processes
         self._futures: dict[EmbedKey, Future[Embedded]] = {}
+        # distinct keys not yet submitted (fewer than POOL_MIN_EMBEDDINGS so far), in order
+        self._waiting: dict[EmbedKey, None] = {}
         self._pool: ProcessPoolExecutor | None = None
+        self._open = False
+        # given all at once: as many workers as distinct embeddings (up to the processes); fed by add(): all
+        self._all_at_once = bool(self._items)
 
     def __enter__(self) -> EmbedAhead:
-        if self._processes < 2 or len(self._items) < POOL_MIN_EMBEDDINGS:
-            return self
-        keys = {(id(c), i.id): _key(i, c) for i, c in self._items}
-        distinct = list(dict.fromkeys(k for k in keys.values() if k is not None))
-        if len(distinct) < POOL_MIN_EMBEDDINGS:
-            return self
-        import multiprocessing
-        from concurrent.futures import ProcessPoolExecutor
-
-        self._keys = keys
-        self._pool = ProcessPoolExecutor(
-            max_workers=min(self._processes, len(distinct)),
-            mp_context=multiprocessing.get_context("fork"),
-            initializer=_quiet_worker,
-        )
-        self._futures = {k: self._pool.submit(embed_or_message, *k) for k in distinct}
+        self._open = True
+        items, self._items = self._items, []
+        self.add(items)
         return self
 
+    def add(self, items: Iterable[tuple[Isomer, Composition]]) -> None:
+        """Hand over more isomers (while open): their distinct new embeddings go to the workers.
+
+        Parameters
+        ----------
+        items : iterable of (Isomer, Composition)
+            As for the constructor.
+        """
+        if not self._open or self._processes < 2:
+            return
+        for i, c in items:
+            key = _key(i, c)
+            self._keys[(id(c), i.id)] = key
+            if key is not None and key not in self._futures and key not in self._waiting:
+                self._waiting[key] = None
+        if self._pool is None and len(self._waiting) < POOL_MIN_EMBEDDINGS:
+            return
+        if self._pool is None:
+            import multiprocessing
+            from concurrent.futures import ProcessPoolExecutor
+
+            self._pool = ProcessPoolExecutor(
+                max_workers=min(self._processes, len(self._waiting)) if self._all_at_once else self._processes,
+                mp_context=multiprocessing.get_context("fork"),
+                initializer=_quiet_worker,
+            )
+        for k in self._waiting:
+            self._futures[k] = self._pool.submit(embed_or_message, *k)
+        self._waiting = {}
+
     def __exit__(self, kind: type[BaseException] | None, exc: BaseException | None, tb: TracebackType | None) -> None:
+        self._open = False
         if self._pool is not None:
             self._pool.shutdown(wait=kind is None, cancel_futures=True)
             self._pool = None
