@@ -98,7 +98,11 @@ class JobResult:
         )
 
 
-def run_job(job: Job, progress: Callable[[str, int, int], None] | None = None) -> JobResult:
+def run_job(
+    job: Job,
+    progress: Callable[[str, int, int], None] | None = None,
+    each: Callable[[Result], None] | None = None,
+) -> JobResult:
     """Run every complex of a checked job.
 
     Parameters
@@ -106,6 +110,8 @@ def run_job(job: Job, progress: Callable[[str, int, int], None] | None = None) -
     job : Job
     progress : callable, optional
         Called as ``progress(label, done, total)`` after each complex (a progress bar).
+    each : callable, optional
+        Called with each complex's Result as soon as it is analysed (a report starts its 3D embeddings so).
 
     Returns
     -------
@@ -122,13 +128,18 @@ def run_job(job: Job, progress: Callable[[str, int, int], None] | None = None) -
             out.append(JobComplex(e.label, run(e.request)))
         except InputError as exc:
             raise InputError(f"complex '{e.label}': {exc.what}", exc.fix) from None
+        if each is not None:
+            each(out[-1].result)
         if progress is not None:
             progress(e.label, len(out), len(job.entries))
     return JobResult(job.title, tuple(out), job.outputs, job.folder)
 
 
 def run_job_file(
-    path: str, rules: Sequence[str] = (), progress: Callable[[str, int, int], None] | None = None
+    path: str,
+    rules: Sequence[str] = (),
+    progress: Callable[[str, int, int], None] | None = None,
+    each: Callable[[Result], None] | None = None,
 ) -> JobResult:
     """Read, check and run a job file.
 
@@ -138,7 +149,7 @@ def run_job_file(
         The TOML job file.
     rules : sequence of str
         Rule folders in force (``--rules DIR``).
-    progress : callable, optional
+    progress, each : callable, optional
         As for :func:`run_job`.
 
     Returns
@@ -151,4 +162,4 @@ def run_job_file(
         The file cannot be read or checked (:func:`enumerator.parse.job.load_job`), or a complex cannot be
         analysed.
     """
-    return run_job(load_job(path, rules), progress)
+    return run_job(load_job(path, rules), progress, each)
