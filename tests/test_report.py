@@ -177,6 +177,37 @@ def test_table_files_are_the_isomers_command_tables():
     assert "M<script>alert(1)</script>6" in tables.latex(_hostile())  # LaTeX needs no HTML escaping
 
 
+def test_tables_are_written_while_the_structures_are_embedded(tmp_path):
+    # pending_report: the head is the report without its structures, the tables made from it are the finished
+    # report's, and finishing gives what report_from_job gives (the page byte for byte; common practice)
+    from enumerator.render.report import render_report, table_files
+    from enumerator.workflow.report import pending_report, report_from_job
+
+    job = tmp_path / "job.toml"
+    job.write_text(
+        'title = "t"\n[[complex]]\nformula = "[RuCl2(CO)2(PMe3)2]"\n[[complex]]\nformula = "Ma4b2"\n'
+        'reporters = { a = "CO" }\n',
+        encoding="utf-8",
+    )
+    with pending_report(str(job)) as pending:
+        assert all(c.structures is None for c in pending.head.complexes)
+        early = table_files(pending.head)
+        done = pending.finish()
+    assert done.complexes[0].structures is not None and done.complexes[1].structures is None
+    assert early == table_files(done)
+    assert render_report(done) == render_report(report_from_job(str(job)))
+
+
+def test_each_complex_is_handed_over_as_soon_as_it_is_analysed(tmp_path):
+    from enumerator.workflow.job import run_job_file
+
+    job = tmp_path / "job.toml"
+    job.write_text('[[complex]]\nformula = "Ma4b2"\n[[complex]]\nformula = "Ma3b3"\n', encoding="utf-8")
+    seen = []
+    result = run_job_file(str(job), each=seen.append)
+    assert seen == list(result.results)
+
+
 def test_report_model_holds_what_the_page_shows():
     rep = build_report([analyse("[RuCl2(CO)2(PPh3)2]"), analyse("Ma4b2", geometry="OC-6")], title="t")
     ru, ab = rep.complexes

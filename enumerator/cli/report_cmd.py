@@ -52,16 +52,18 @@ def report(ctx: click.Context, job: str, out_dir: str, title: str | None) -> Non
     """
     from enumerator.cli.progress import bar
     from enumerator.parse.text import check_label_text
-    from enumerator.render.report import report_files
-    from enumerator.workflow.report import report_from_job
+    from enumerator.render.report import render_report, table_files
+    from enumerator.workflow.report import pending_report
 
     if title is not None:
         check_label_text(title, "--title")
     register_inputs(ctx, job)
     with bar("report") as progress:
-        built = report_from_job(job, rules_of(ctx), title, progress)
+        with pending_report(job, rules_of(ctx), title, progress) as pending:
+            files = table_files(pending.head)  # written while the workers embed the 3D structures
+            built = pending.finish()
         progress("writing the page", 0, 1)
-        files = report_files(built)
+        files.append(("report.html", render_report(built)))
         progress("writing the page", 1, 1)
     folder = Path(out_dir)
     write_files([(folder / name, text) for name, text in files], folder=folder)

@@ -58,7 +58,7 @@ from enumerator.structures.structure import Structure
 from enumerator.workflow.report import ClassSpectrum, Report, ReportComplex
 from enumerator.workflow.result import Result
 
-__all__ = ["render_report", "report_files", "polyhedron_svg", "pair_grid_html", "report_readme"]
+__all__ = ["render_report", "report_files", "table_files", "polyhedron_svg", "pair_grid_html", "report_readme"]
 
 #: Fill colours for ligand kinds, chosen to differ in lightness too.
 _PALETTE = (
@@ -687,12 +687,13 @@ def report_readme(report: Report) -> str:
     return "\n".join(lines) + "\n"
 
 
-def report_files(report: Report) -> list[tuple[str, str]]:
-    """Every file of the report: each complex's CSV (with its sidecar) and LaTeX table, README.txt, then
-    ``report.html``.
+def table_files(report: Report) -> list[tuple[str, str]]:
+    """Every file of the report but the page: each complex's CSV (with its sidecar) and LaTeX table, then
+    README.txt.  None of them shows a 3D structure, so a report whose structures are still being embedded
+    (:func:`enumerator.workflow.report.pending_report`) gives the same files.
 
     The tables are the ones ``isosieve isomers --format csv|latex`` writes
-    (:func:`enumerator.render.tables.csv`, :func:`enumerator.render.tables.latex`).
+    (:func:`enumerator.render.tables.csv`, :func:`enumerator.render.tables.latex`), from one frame per complex.
 
     Parameters
     ----------
@@ -707,15 +708,30 @@ def report_files(report: Report) -> list[tuple[str, str]]:
     for c in report.complexes:
         csv_name, tex_name = c.files
         res = c.result
+        df = tables.frame(res)
         meta = tables.csv_metadata(
-            res.to_dataframe(),
+            df,
             csv_name,
             title=f"{report.title}: {res.composition.formula}" + (f" ({c.label})" if c.label else ""),
             cautions=c.cautions,
             notes=[res.geometry_reason, *res.notes],
             version=report.version,
         )
-        out += [(csv_name, tables.csv(res)), (f"{csv_name}-metadata.json", meta), (tex_name, tables.latex(res))]
+        out += [(csv_name, tables.csv(res, df)), (f"{csv_name}-metadata.json", meta), (tex_name, tables.latex(res, df))]
     out.append(("README.txt", report_readme(report)))
-    out.append(("report.html", render_report(report)))
     return out
+
+
+def report_files(report: Report) -> list[tuple[str, str]]:
+    """Every file of the report: :func:`table_files`, then ``report.html`` (:func:`render_report`).
+
+    Parameters
+    ----------
+    report : Report
+
+    Returns
+    -------
+    list of (str, str)
+        File name and text, in the order to write them.
+    """
+    return [*table_files(report), ("report.html", render_report(report))]

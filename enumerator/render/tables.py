@@ -211,18 +211,20 @@ def csv_text(df: pd.DataFrame) -> str:
     return write_csv(list(df.columns), df.itertuples(index=False, name=None))
 
 
-def csv(res: Result) -> str:
+def csv(res: Result, df: pd.DataFrame | None = None) -> str:
     """The isomer table of one result as plain CSV (:func:`csv_text`).
 
     Parameters
     ----------
     res : Result
+    df : pandas.DataFrame, optional
+        Its frame (:func:`frame`) when the caller has it already.
 
     Returns
     -------
     str
     """
-    return csv_text(frame(res))
+    return csv_text(frame(res) if df is None else df)
 
 
 _DESCRIBE: tuple[tuple[str, str], ...] = (
@@ -511,19 +513,21 @@ def result_caption(res: Result) -> str:
     )
 
 
-def latex(res: Result) -> str:
+def latex(res: Result, df: pd.DataFrame | None = None) -> str:
     """One result's LaTeX tables (:func:`latex_table`) with a comment naming the packages they need.
 
     Parameters
     ----------
     res : Result
+    df : pandas.DataFrame, optional
+        Its frame (:func:`frame`) when the caller has it already.
 
     Returns
     -------
     str
     """
     body = latex_table(
-        frame(res),
+        frame(res) if df is None else df,
         result_caption(res),
         f"tab:isosieve-{slug(res.composition.formula)}",
         cautions=safety_lines(res),

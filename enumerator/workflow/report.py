@@ -7,8 +7,9 @@ Cotton--Kraihanzel force field solved by Wilson's GF method), the safety
 cautions of its composition (:func:`enumerator.analyses.safety.cautions`),
 and the names of its table files; for the whole page the title and the
 isosieve version.  :func:`build_report` builds it from results,
-:func:`report_from_job` from a job file in one call;
-:mod:`enumerator.render.report` only formats it.
+:func:`report_from_job` from a job file in one call, and :func:`pending_report`
+from a job file with the 3D embeddings going on in worker processes while the
+caller writes the tables; :mod:`enumerator.render.report` only formats it.
 
 >>> from enumerator.workflow.pipeline import analyse
 >>> rep = build_report([analyse("[Cr(CO)5(PPh3)]")], title="SI")
@@ -21,8 +22,9 @@ isosieve version.  :func:`build_report` builds it from results,
 from __future__ import annotations
 
 import re
-from collections.abc import Callable, Iterable, Sequence
-from dataclasses import dataclass
+from collections.abc import Callable, Iterable, Iterator, Sequence
+from contextlib import contextmanager
+from dataclasses import dataclass, replace
 from pathlib import Path
 from typing import Any
 
@@ -31,7 +33,7 @@ from enumerator.errors import IsosieveError
 from enumerator.isomers.enumeration import Isomer
 from enumerator.model.composition import Composition
 from enumerator.rules.ruleset import RuleSet, load_rules
-from enumerator.structures.build import embed_ahead
+from enumerator.structures.build import embed_ahead, embedding_items
 from enumerator.structures.pool import EmbedAhead
 from enumerator.structures.result import StructureSet, structure_set
 from enumerator.vibrations.model import reporter_classes
@@ -39,7 +41,17 @@ from enumerator.vibrations.pattern import BandPattern, band_pattern
 from enumerator.workflow.job import run_job_file
 from enumerator.workflow.result import Result
 
-__all__ = ["ClassSpectrum", "IsomerSpectra", "ReportComplex", "Report", "build_report", "report_from_job", "version"]
+__all__ = [
+    "ClassSpectrum",
+    "IsomerSpectra",
+    "PendingReport",
+    "ReportComplex",
+    "Report",
+    "build_report",
+    "pending_report",
+    "report_from_job",
+    "version",
+]
 
 
 @dataclass(frozen=True)
@@ -168,6 +180,26 @@ def _structures(res: Result, ahead: EmbedAhead) -> StructureSet | None:
     return structure_set(res, ahead=ahead)
 
 
+def _complexes(
+    items: Sequence[tuple[str, Result]], rules: RuleSet | None, progress: Progress | None
+) -> tuple[ReportComplex, ...]:
+    """Every complex's part of the report but its 3D structures."""
+    out = []
+    for n, (label, res) in enumerate(items, 1):
+        spectra = tuple(_spectra(i, rules, res.composition) for i in res.isomers)
+        out.append(
+            ReportComplex(n, res, spectra, tuple(cautions(res.composition)), _stem(n, res.composition.formula), label)
+        )
+        if progress is not None:
+            progress(res.composition.formula, n, len(items))
+    return tuple(out)
+
+
+def _with_structures(head: Report, ahead: EmbedAhead) -> Report:
+    """The report with every real formula's 3D structures (waits for the embeddings worked out ahead)."""
+    return replace(head, complexes=tuple(replace(c, structures=_structures(c.result, ahead)) for c in head.complexes))
+
+
 def build_report(
     results: Iterable[Result | tuple[str, Result]],
     *,
@@ -193,24 +225,64 @@ def build_report(
     Report
     """
     items = [r if isinstance(r, tuple) else ("", r) for r in results]
-    complexes = []
     # every complex's embeddings at once, in worker processes when that pays (structures/pool.py)
-    with embed_ahead(res for _, res in items if res.composition.metal != "M") as ahead:
-        for n, (label, res) in enumerate(items, 1):
-            complexes.append(
-                ReportComplex(
-                    n,
-                    res,
-                    tuple(_spectra(i, rules, res.composition) for i in res.isomers),
-                    tuple(cautions(res.composition)),
-                    _stem(n, res.composition.formula),
-                    label,
-                    _structures(res, ahead),
-                )
-            )
-            if progress is not None:
-                progress(res.composition.formula, n, len(items))
-    return Report(title, tuple(complexes), version())
+    with embed_ahead(res for _, res in items) as ahead:
+        head = Report(title, _complexes(items, rules, progress), version())
+        return _with_structures(head, ahead)
+
+
+@dataclass(frozen=True)
+class PendingReport:
+    """A report whose 3D structures are still being embedded (:func:`pending_report`).
+
+    ``head`` is the whole report but the structures (every complex's ``structures`` is None): enough for the
+    table files, which show no structure.  :meth:`finish` waits for the embeddings and gives the whole report.
+    """
+
+    head: Report
+    ahead: EmbedAhead
+
+    def finish(self) -> Report:
+        """The whole report, with the 3D structures (waits for them).
+
+        Returns
+        -------
+        Report
+        """
+        return _with_structures(self.head, self.ahead)
+
+
+@contextmanager
+def pending_report(
+    path: str, rules: Sequence[str] = (), title: str | None = None, progress: Progress | None = None
+) -> Iterator[PendingReport]:
+    """Run a job file and start its report's 3D embeddings in worker processes: the embeddings of each
+    complex start as soon as it is analysed, and go on while the caller writes the tables from ``head``.
+
+    The report is the one :func:`report_from_job` gives (it is this, finished at once).
+
+    Parameters
+    ----------
+    path, rules, title, progress
+        As for :func:`report_from_job`.
+
+    Yields
+    ------
+    PendingReport
+        Valid inside the ``with`` block only (leaving it stops the workers).
+
+    Raises
+    ------
+    InputError
+        The job file cannot be read or checked, or a complex cannot be analysed.
+    """
+    with EmbedAhead() as ahead:
+        job = run_job_file(path, rules, progress, each=lambda res: ahead.add(embedding_items([res])))
+        items = [(c.label, c.result) for c in job.complexes]
+        head = Report(
+            title or job.title or Path(path).stem, _complexes(items, load_rules(tuple(rules)), progress), version()
+        )
+        yield PendingReport(head, ahead)
 
 
 def report_from_job(
@@ -238,10 +310,5 @@ def report_from_job(
     InputError
         The job file cannot be read or checked, or a complex cannot be analysed.
     """
-    job = run_job_file(path, rules, progress)
-    return build_report(
-        [(c.label, c.result) for c in job.complexes],
-        title=title or job.title or Path(path).stem,
-        rules=load_rules(tuple(rules)),
-        progress=progress,
-    )
+    with pending_report(path, rules, title, progress) as pending:
+        return pending.finish()
