@@ -94,6 +94,8 @@ class Run:
     peak_rss_mb: float
     output_bytes: int
     status: int
+    #: user + system CPU seconds of the process and every process it waited for (its worker processes)
+    cpu_seconds: float = float("nan")
 
 
 def run_command(tree: Path, args: Sequence[str]) -> Run:
@@ -114,13 +116,23 @@ def run_command(tree: Path, args: Sequence[str]) -> Run:
     with tempfile.TemporaryDirectory() as tmp:
         out, rss = Path(tmp) / "out", Path(tmp) / "rss"
         with open(out, "wb") as fh:
+            before = _children_cpu()
             t = time.perf_counter()
             p = subprocess.run(
                 [sys.executable, str(RUNNER), str(rss), *args], stdout=fh, stderr=subprocess.DEVNULL, cwd=tree, env=env
             )
             seconds = time.perf_counter() - t
+            cpu = _children_cpu() - before
         peak = float(rss.read_text()) if rss.exists() else float("nan")
-        return Run(seconds, peak, out.stat().st_size, p.returncode)
+        return Run(seconds, peak, out.stat().st_size, p.returncode, cpu)
+
+
+def _children_cpu() -> float:
+    """User + system CPU seconds of the waited-for child processes so far (their own children included)."""
+    import resource
+
+    use = resource.getrusage(resource.RUSAGE_CHILDREN)
+    return use.ru_utime + use.ru_stime
 
 
 def interleaved(variants: dict[str, Callable[[], Run]], rounds: int) -> dict[str, list[Run]]:
@@ -135,6 +147,11 @@ def interleaved(variants: dict[str, Callable[[], Run]], rounds: int) -> dict[str
 def median_s(runs: Sequence[Run]) -> float:
     """The median wall time of some runs."""
     return statistics.median(r.seconds for r in runs)
+
+
+def median_cpu_s(runs: Sequence[Run]) -> float:
+    """The median CPU time (user + system, worker processes included) of some runs."""
+    return statistics.median(r.cpu_seconds for r in runs)
 
 
 def scaled(figure_per_s: float, calib_s: float) -> float:

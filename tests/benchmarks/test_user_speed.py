@@ -20,6 +20,7 @@ the baseline's.
 from __future__ import annotations
 
 import math
+import os
 import statistics
 import subprocess
 import sys
@@ -34,6 +35,7 @@ from .paired import (
     baseline_tree,
     calibration,
     current_tree,
+    median_cpu_s,
     median_s,
     run_command,
 )
@@ -197,6 +199,12 @@ def test_report_against_job(benchmark, tmp_path):
     info["report_median_s"] = median_s(runs["main"])
     info["job_median_s"] = median_s(runs["job"])
     info["report_over_job"] = info["report_median_s"] / info["job_median_s"]
+    # the CPU seconds behind those wall times (worker processes included), and the best ratio this host's CPUs
+    # allow: the report's CPU spread over every CPU without loss, against job's wall time
+    info["report_cpu_s"] = median_cpu_s(runs["main"])
+    info["job_cpu_s"] = median_cpu_s(runs["job"])
+    info["cpus"] = len(os.sched_getaffinity(0)) if hasattr(os, "sched_getaffinity") else os.cpu_count()
+    info["report_over_job_bound"] = info["report_cpu_s"] / info["cpus"] / info["job_median_s"]
     if base is not None:
         info["baseline_report_median_s"] = median_s(runs["baseline_report"])
         info["report_over_baseline_report"] = info["report_median_s"] / info["baseline_report_median_s"]
