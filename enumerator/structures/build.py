@@ -9,7 +9,13 @@ optimised structures: the donors sit on the ideal polyhedron
   is built as one RDKit molecule and embedded with the metal and donors held
   (:mod:`.embed`); if that fails, each ligand alone, then put together.
   Close contacts between ligands are relieved (:mod:`.relax`); what is left
-  goes into the note, the title and the SDF ``warning`` field.
+  goes into the note, the title and the SDF ``warning`` field.  The second
+  enantiomer of a chiral pair ('1b' after '1a' in the same call of
+  :func:`structures_for`) is not embedded: it is the exact mirror image of its
+  partner's finished coordinates (:mod:`.mirror`), atom for atom, and its title
+  says so ("mirror image of isomer 1a"); where the two do not correspond
+  exactly (an η-ring, say) or the partner is not in the call, it is embedded
+  on its own.  :func:`embedding_items` lists the isomers still to embed.
 * ``core`` -- otherwise (abstract letters, a ligand without SMILES, an
   embedding failure): the metal and the donor atoms only.  The title/comment
   line then begins ``DONOR-ONLY CORE`` and says why.  Labels that are not
@@ -118,7 +124,9 @@ def structures_for(
     """One structure per isomer of a result, in listing order; ``labels`` by isomer id go into the titles.
 
     The whole-complex embeddings are worked out ahead in worker processes when there are enough of them and
-    more than one CPU (:mod:`.pool`); the structures are the same as in one process.
+    more than one CPU (:mod:`.pool`); the structures are the same as in one process.  An enantiomer listed after
+    its partner is that partner's finished structure reflected (:func:`.mirror.mirror_of`), where the two
+    correspond atom for atom; otherwise it is embedded as any other isomer.
 
     Parameters
     ----------
