@@ -20,8 +20,16 @@ from enumerator.workflow.pipeline import analyse
 
 # [RuCl2(CO)2(PPh3)2] and its dppe chelate: one chiral (all-cis) isomer each (M(a2)(b2)(c2), M(AA)b2c2; common
 # practice).  [Pt(py)(NH3)(NO2)ClBrI]: the classic Mabcdef complex, 15 geometric isomers, all chiral, 15 pairs
-# (from memory: the Pt(IV) complex of Essen and Gel'man, 1956, prepared to test that count).
-PAIRS = {"[RuCl2(CO)2(PPh3)2]": 1, "[RuCl2(CO)2(dppe)]": 1, "[Pt(py)(NH3)(NO2)ClBrI]": 15}
+# (from memory: the Pt(IV) complex of Essen and Gel'man, 1956, prepared to test that count).  [Co(en)3]3+ and
+# [Ru(bpy)3]2+: the textbook Delta/Lambda pairs (common practice), whose chelates the enumeration spells from
+# the other end in the image, so the mirror relabels each ligand by its symmetry.
+PAIRS = {
+    "[RuCl2(CO)2(PPh3)2]": 1,
+    "[RuCl2(CO)2(dppe)]": 1,
+    "[Pt(py)(NH3)(NO2)ClBrI]": 15,
+    "[Co(en)3]3+": 1,
+    "[Ru(bpy)3]2+": 1,
+}
 
 
 def _block_positions(structure) -> tuple[list[str], np.ndarray]:
@@ -81,15 +89,20 @@ def test_the_second_enantiomer_is_the_exact_mirror_image_of_the_first(formula):
         src = [mirror.source[j] for j in heavy]
         _, rmsd = KabschMatcher(_pmg([el_a[k] for k in src], pa[src])).fit(_pmg([el_b[j] for j in heavy], pb[heavy]))
         assert rmsd > 0.1
-        # ... and the donor cores (metal and donors, each donor standing for its ligand) under every relabelling
-        # of like ligands, while the core of 'b' does fit the core of 'a' turned inside out (x -> -x): they are
-        # enantiomers, not the same isomer written twice
-        core_a = _pmg(*_core(sa, fa, a))
-        sym_b, xyz_b = _core(sb, fb, b)
+        # ... and the donor cores (metal and donors, each ligand unit's donors standing for that unit, so that a
+        # chelate's links count) under every relabelling of like units and like donors, while the core of 'b'
+        # does fit the core of 'a' turned inside out (x -> -x): they are enantiomers, not one isomer written twice
+        core_a = _pmg(*_core(sa, fa, a, _units_in_order(a)))
         with warnings.catch_warnings():
             warnings.simplefilter("ignore")
-            assert BruteForceOrderMatcher(core_a).fit(_pmg(sym_b, xyz_b))[1] > 0.1
-            assert BruteForceOrderMatcher(core_a).fit(_pmg(sym_b, -np.array(xyz_b)))[1] < 1e-3
+            fits = [
+                (
+                    BruteForceOrderMatcher(core_a).fit(_pmg(*_core(sb, fb, b, order)))[1],
+                    BruteForceOrderMatcher(core_a).fit(_pmg(*_core(sb, fb, b, order, -1.0)))[1],
+                )
+                for order in _like_orders(b)
+            ]
+        assert min(f for f, _ in fits) > 0.1 and min(g for _, g in fits) < 1e-3
 
 
 def _same_atoms(el_a, pa, el_b, pb, tol) -> bool:
@@ -103,20 +116,34 @@ def _same_atoms(el_a, pa, el_b, pb, tol) -> bool:
     return len(used) == len(el_a)
 
 
-#: Stand-in elements for the ligands of a donor core (a ligand's donors share one, so like ligands may be
-#: relabelled but unlike ones not; three nitrogen donors of three different ligands stay apart)
+#: Stand-in elements for the ligand units of a donor core (a unit's donors share one)
 _STAND_INS = ("He", "Ne", "Ar", "Kr", "Xe", "Rn")
 
 
-def _core(structure, fixed, isomer):
-    """The metal and the held donor atoms of a written structure, each donor as its ligand's stand-in."""
-    names = sorted({s.ligand for s in isomer.sites})
+def _units_in_order(isomer) -> list[int]:
+    return sorted({s.unit for s in isomer.sites})
+
+
+def _like_orders(isomer):
+    """Every order of the isomer's units that only exchanges units of the same ligand."""
+    import itertools
+
+    units = _units_in_order(isomer)
+    ligand = {s.unit: s.ligand for s in isomer.sites}
+    for order in itertools.permutations(units):
+        if all(ligand[u] == ligand[v] for u, v in zip(units, order)):
+            yield list(order)
+
+
+def _core(structure, fixed, isomer, order, sign=1.0):
+    """The metal and the held donor atoms of a written structure, each donor as the stand-in of its unit's place
+    in ``order``; ``sign`` -1 turns the core inside out."""
     symbols, coords = [structure.symbols[0]], [structure.coords[0]]
     for k in sorted(fixed)[1:]:
         p = np.array(structure.coords[k])
         site = max(isomer.sites, key=lambda s: float(np.dot(s.position, p)))  # the site in its direction
-        symbols.append(_STAND_INS[names.index(site.ligand)])
-        coords.append(structure.coords[k])
+        symbols.append(_STAND_INS[order.index(site.unit)])
+        coords.append(tuple(sign * x for x in structure.coords[k]))
     return symbols, coords
 
 
@@ -165,7 +192,7 @@ def test_an_eta_ring_is_not_mirrored_and_its_enantiomer_is_embedded():
     # mirror image of the other enantiomer's: the held ring atoms do not correspond, so '1b' is embedded
     res = analyse("[CpFe(CO)(PPh3)I]")
     a, b = _pairs(res)[0]
-    assert unit_images(a, b) is not None  # the donor sites themselves do map
+    assert unit_images(a, b)  # the donor sites themselves do map
     comp = res.composition
     ma, fa, _, spa = assemble(ligand_units(a), comp)
     mb, fb, _, spb = assemble(ligand_units(b), comp)
@@ -178,8 +205,8 @@ def test_an_eta_ring_is_not_mirrored_and_its_enantiomer_is_embedded():
 def test_a_pair_is_only_mirrored_onto_its_own_partner():
     res = analyse("[Pt(py)(NH3)(NO2)ClBrI]", geometry="OC-6")
     one, other = _pairs(res)[:2]
-    assert unit_images(one[0], other[1]) is None  # 1a and 2b are not enantiomers
-    assert unit_images(one[1], one[0]) is not None  # the relation is symmetric
+    assert unit_images(one[0], other[1]) == ()  # 1a and 2b are not enantiomers
+    assert unit_images(one[1], one[0])  # the relation is symmetric
 
 
 def _count_embeddings(monkeypatch, results) -> int:
@@ -219,3 +246,24 @@ def test_the_ruthenium_example_needs_fewer_embeddings(monkeypatch):
     assert distinct(every) == 18
     assert distinct(embedding_items(results)) == 14
     assert _count_embeddings(monkeypatch, results) == 14
+
+
+def test_a_chelate_without_the_symmetry_or_with_a_configuration_is_embedded():
+    # acac as the catalogue writes it (one resonance form, CC(=O)C=C([O-])C) has no symmetry that swaps its
+    # oxygens, which the mirror of Delta-[Cr(acac)3] would need; a diamine with set stereocentres
+    # ((R,R)-cyclohexane-1,2-diamine, SMILES written from its structure) would come out as its own enantiomer
+    from enumerator.isomers.enumeration import enumerate_isomers
+    from enumerator.model.composition import Composition, LigandKind
+    from enumerator.rules.ruleset import load_rules
+
+    res = analyse("[Cr(acac)3]", geometry="OC-6")
+    a, b = _pairs(res)[0]
+    assert unit_images(a, b) and [i.id for i, _ in embedding_items([res])] == ["1a", "1b"]
+    oc = load_rules().geometry("OC-6")
+    for smiles, mirrored in (("[NH2:1]C1CCCCC1[NH2:2]", True), ("[NH2:1][C@@H]1CCCC[C@H]1[NH2:2]", False)):
+        chxn = LigandKind("chxn", ("N", "N"), meta=(("smiles", smiles),))
+        comp = Composition("[Co(chxn)3]3+", ((chxn, 3),), metal="Co", charge=3)
+        a, b = enumerate_isomers(comp, oc).isomers
+        ma, fa, _, spa = assemble(ligand_units(a), comp)
+        mb, fb, _, spb = assemble(ligand_units(b), comp)
+        assert (mirror_of(a, b, (ma, fa, spa), (mb, fb, spb)) is not None) is mirrored

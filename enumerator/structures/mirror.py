@@ -6,15 +6,19 @@ expects their starting structures to be that too, ligand conformations included;
 of 'a''s finished coordinates gives exactly that, and saves its embedding.
 
 :func:`mirror_of` finds, for the assembled molecules of the two (:func:`.embed.assemble`), the first improper
-operation whose matrix takes every donor site of 'a' onto a site of 'b' of the same ligand, donor number and
-unit (checked on the site vectors, not read from the enumeration), and the atom correspondence that goes with
-it: metal onto metal, each ligand unit onto its image unit (heavy atoms by their offset in the unit, so in
-SMILES order; hydrogens by :func:`.embed.hydrogens_by_unit`, in order).  It answers None, and the caller
-embeds 'b' on its own, whenever anything does not correspond exactly: no such operation (a palindromic chelate
-or a tripod whose image is spelled with its donors the other way round), different atom counts, elements,
-mass numbers, charges or bonds, or a held atom whose image is not 'b''s held position within
-:data:`MIRROR_TOL` (an η-ring, which :func:`.placement.ring_positions` turns to keep clear of the other
-ligands and need not turn into the mirror image of the other ring).
+operation whose matrix takes every donor site of 'a' onto a site of 'b' of the same ligand, all donors of a
+unit onto one unit (checked on the site vectors, not read from the enumeration), and the atom correspondence
+that goes with it: metal onto metal, each ligand unit onto its image unit -- heavy atoms by their offset in the
+unit (SMILES order) where the donors keep their numbers, else by a symmetry of the ligand's graph that takes
+each donor onto the one it becomes (a palindromic chelate such as en or bpy, whose image the enumeration
+spells from its other end: RDKit's substructure search of the ligand on itself), hydrogens in order on
+corresponding atoms.  It answers None, and the caller embeds 'b' on its own, whenever anything does not
+correspond exactly: no such operation or ligand symmetry (acac written as one resonance form has none that
+swaps its two oxygens), different atom counts, elements, mass numbers, charges or bonds, a stereocentre or
+chiral axis set in a ligand's SMILES (its mirror image would be the other configuration of the ligand), or a
+held atom whose image is not 'b''s held position within :data:`MIRROR_TOL` (an η-ring, which
+:func:`.placement.ring_positions` turns to keep clear of the other ligands and need not turn into the mirror
+image of the other ring).
 """
 
 from __future__ import annotations
@@ -25,15 +29,18 @@ from dataclasses import dataclass
 import numpy as np
 
 from enumerator.isomers.enumeration import Isomer
-from enumerator.structures.embed import hydrogens_by_unit, ligand_units
+from enumerator.model.composition import LigandKind
+from enumerator.structures.embed import ligand_mol, ligand_units
 from enumerator.structures.placement import Vec
 
-__all__ = ["MIRROR_TOL", "Mirror", "unit_images", "mirror_of"]
+__all__ = ["MIRROR_TOL", "Mirror", "UnitImage", "unit_images", "mirror_of"]
 
 #: Largest distance (A) between the image of a held atom of 'a' and the held position of its partner in 'b'.
 MIRROR_TOL = 1e-6
 #: Largest distance between the image of a site vector (unit length) and the site it is taken for.
 _SITE_TOL = 1e-6
+#: The most automorphisms of one ligand searched for a relabelling (PPh3 has 48, dppe 128).
+_AUTOMORPHISMS = 10000
 
 
 @dataclass(frozen=True)
@@ -65,8 +72,13 @@ class Mirror:
         return np.asarray(positions, dtype=float)[list(self.source)] @ m.T
 
 
-def unit_images(a: Isomer, b: Isomer) -> tuple[np.ndarray, tuple[int, ...]] | None:
-    """The first improper operation of the polyhedron that takes 'a''s ligand units onto 'b''s, donor order kept.
+#: One unit's image: the index of the image unit in ``ligand_units(b)``, and for each donor of the unit (in
+#: donor order) the donor number it takes in the image unit.
+UnitImage = tuple[int, tuple[int, ...]]
+
+
+def unit_images(a: Isomer, b: Isomer) -> tuple[tuple[np.ndarray, tuple[UnitImage, ...]], ...]:
+    """The improper operations of the polyhedron that take 'a''s ligand units onto 'b''s.
 
     Parameters
     ----------
@@ -75,46 +87,50 @@ def unit_images(a: Isomer, b: Isomer) -> tuple[np.ndarray, tuple[int, ...]] | No
 
     Returns
     -------
-    (numpy.ndarray, tuple of int) or None
-        The operation's 3 x 3 matrix and, for each unit of ``ligand_units(a)``, the index of its image in
-        ``ligand_units(b)``; None when the two are not a pair or no improper operation maps every donor site
-        of 'a' (ligand, unit, donor number) onto the matching site of 'b'.
+    tuple of (numpy.ndarray, tuple of UnitImage)
+        In the order of ``geometry.operations``: each operation's 3 x 3 matrix and, for each unit of
+        ``ligand_units(a)``, its image unit in ``ligand_units(b)`` and where its donors go there; empty when
+        the two are not a pair or no improper operation takes every donor site of 'a' onto a site of 'b' of
+        the same ligand (all donors of one unit onto one unit).
     """
     if a.geometry != b.geometry or a.enantiomer != b.id or b.enantiomer != a.id or len(a.sites) != len(b.sites):
-        return None
+        return ()
     units_a, units_b = ligand_units(a), ligand_units(b)
     if len(units_a) != len(units_b):
-        return None
+        return ()
     where_b = {s.index: (k, s) for k, unit in enumerate(units_b) for s in unit}
     vectors = np.array(a.geometry.vectors, dtype=float)
+    found = []
     for op in a.geometry.operations:
         if op.proper:
             continue
-        m = op.array
-        images = _images(units_a, units_b, where_b, vectors, m)
+        images = _images(units_a, units_b, where_b, vectors, op.array)
         if images is not None:
-            return m, images
-    return None
+            found.append((op.array, images))
+    return tuple(found)
 
 
-def _images(units_a, units_b, where_b, vectors: np.ndarray, m: np.ndarray) -> tuple[int, ...] | None:
-    """Each unit of 'a''s image unit of 'b' under the matrix ``m``, or None where one does not match."""
-    out: list[int] = []
+def _images(units_a, units_b, where_b, vectors: np.ndarray, m: np.ndarray) -> tuple[UnitImage, ...] | None:
+    """Each unit of 'a''s image unit of 'b' under the matrix ``m`` and its donors' numbers there, or None."""
+    images = vectors @ m.T
+    out: list[UnitImage] = []
     for unit in units_a:
         target: int | None = None
+        donors: list[int] = []
         for s in unit:
-            image = m @ np.array(s.position, dtype=float)
-            hits = [k for k, v in enumerate(vectors) if float(np.linalg.norm(v - image)) <= _SITE_TOL]
-            if len(hits) != 1 or hits[0] not in where_b:
+            dist = np.linalg.norm(vectors - images[s.index], axis=1)
+            hits = np.flatnonzero(dist <= _SITE_TOL)
+            if len(hits) != 1 or int(hits[0]) not in where_b:
                 return None
-            k, t = where_b[hits[0]]
-            if t.ligand != s.ligand or t.donor_index != s.donor_index or target not in (None, k):
+            k, t = where_b[int(hits[0])]
+            if t.ligand != s.ligand or target not in (None, k):
                 return None
             target = k
-        if target is None or len(units_b[target]) != len(unit):
+            donors.append(t.donor_index)
+        if target is None or sorted(donors) != [t.donor_index for t in units_b[target]]:
             return None
-        out.append(target)
-    return tuple(out) if sorted(out) == list(range(len(units_b))) else None
+        out.append((target, tuple(donors)))
+    return tuple(out) if sorted(k for k, _ in out) == list(range(len(units_b))) else None
 
 
 def mirror_of(
@@ -136,47 +152,98 @@ def mirror_of(
     Returns
     -------
     Mirror or None
-        None means: embed 'b' on its own.
+        The first improper operation (in the order of ``geometry.operations``) under which every atom
+        corresponds; None means: embed 'b' on its own.
     """
-    found = unit_images(a, b)
-    if found is None:
-        return None
-    m, images = found
     mol_a, fixed_a, spans_a = built_a
     mol_b, fixed_b, spans_b = built_b
-    source = _atom_map(mol_a, spans_a, mol_b, spans_b, images)
-    if source is None or not _same_molecule(mol_a, mol_b, source):
+    if _has_configuration(mol_a) or _has_configuration(mol_b):
         return None
+    kinds = {k.name: k for k, _ in a.placements}
+    units_a = ligand_units(a)
+    for m, images in unit_images(a, b):
+        source = _atom_map(mol_a, spans_a, mol_b, spans_b, images, [kinds[u[0].ligand] for u in units_a])
+        if source is None or not _same_molecule(mol_a, mol_b, source) or not _held(m, source, fixed_a, fixed_b):
+            continue
+        matrix = tuple(tuple(float(x) for x in row) for row in m)
+        return Mirror(a.id, matrix, source)  # type: ignore[arg-type]  # three rows of three, as built
+    return None
+
+
+def _has_configuration(mol) -> bool:
+    """A stereocentre or chiral axis set in a SMILES: its mirror image would be the other configuration."""
+    from rdkit import Chem
+
+    unset = Chem.ChiralType.CHI_UNSPECIFIED
+    if any(atom.GetChiralTag() != unset for atom in mol.GetAtoms()):
+        return True
+    return any("ATROP" in str(bond.GetStereo()) for bond in mol.GetBonds())
+
+
+def _held(m: np.ndarray, source: Sequence[int], fixed_a: Mapping[int, Vec], fixed_b: Mapping[int, Vec]) -> bool:
+    """Every held atom of 'b' is the image of a held atom of 'a' within :data:`MIRROR_TOL`, and no other."""
     if {source[j] for j in fixed_b} != set(fixed_a):
-        return None
+        return False
     for j, p in fixed_b.items():
         image = m @ np.array(fixed_a[source[j]], dtype=float)
         if float(np.linalg.norm(image - np.array(p, dtype=float))) > MIRROR_TOL:
-            return None
-    matrix = tuple(tuple(float(x) for x in row) for row in m)
-    return Mirror(a.id, matrix, source)  # type: ignore[arg-type]  # three rows of three, as built
+            return False
+    return True
 
 
-def _atom_map(mol_a, spans_a, mol_b, spans_b, images: Sequence[int]) -> tuple[int, ...] | None:
-    """For each atom of 'b', its atom of 'a': metal to metal, unit to image unit (heavy atoms by offset,
-    hydrogens in order); None when the counts differ or some atom of 'b' is left without one."""
+def _relabelling(kind: LigandKind, donors: tuple[int, ...], n: int) -> tuple[int, ...] | None:
+    """A symmetry of the ligand's heavy-atom graph (elements, charges, bond orders) that takes donor ``d`` onto
+    donor ``donors[d]`` (atom maps ``d + 1``): the identity when the donor order is kept, else the first such
+    automorphism RDKit's substructure search finds (a palindromic chelate read the other way), or None."""
+    if donors == tuple(range(len(donors))):
+        return tuple(range(n))
+    m = ligand_mol(kind)
+    by_map = {a.GetAtomMapNum(): a.GetIdx() for a in m.GetAtoms() if a.GetAtomMapNum()}
+    want = {by_map[d + 1]: by_map[e + 1] for d, e in enumerate(donors) if d + 1 in by_map and e + 1 in by_map}
+    if len(want) != len(donors):
+        return None
+    for match in m.GetSubstructMatches(m, uniquify=False, useChirality=True, maxMatches=_AUTOMORPHISMS):
+        if all(match[i] == j for i, j in want.items()):
+            return tuple(int(j) for j in match)
+    return None
+
+
+def _atom_map(
+    mol_a, spans_a, mol_b, spans_b, images: Sequence[UnitImage], kinds: Sequence[LigandKind]
+) -> tuple[int, ...] | None:
+    """For each atom of 'b', its atom of 'a': metal to metal, unit to image unit (heavy atoms by offset, or by
+    the ligand's relabelling where the donors are read the other way; hydrogens in order on corresponding
+    atoms); None when the counts differ or some atom of 'b' is left without one."""
     n = mol_b.GetNumAtoms()
-    if mol_a.GetNumAtoms() != n or len(spans_a) != len(images) or len(spans_b) != len(images):
+    if mol_a.GetNumAtoms() != n or not len(spans_a) == len(spans_b) == len(images) == len(kinds):
         return None
     source = [-1] * n
     source[0] = 0
-    h_a, h_b = hydrogens_by_unit(mol_a, spans_a), hydrogens_by_unit(mol_b, spans_b)
-    for k, j in enumerate(images):
+    h_a, h_b = _hydrogens(mol_a), _hydrogens(mol_b)
+    for k, (j, donors) in enumerate(images):
         (off_a, n_a), (off_b, n_b) = spans_a[k], spans_b[j]
-        if n_a != n_b or len(h_a[k]) != len(h_b[j]):
+        sigma = _relabelling(kinds[k], donors, n_a)
+        if n_a != n_b or sigma is None or len(sigma) != n_a:
             return None
         for t in range(n_a):
-            source[off_b + t] = off_a + t
-        for ha, hb in zip(h_a[k], h_b[j]):
-            source[hb] = ha
+            ha, hb = h_a.get(off_a + t, []), h_b.get(off_b + sigma[t], [])
+            if len(ha) != len(hb):
+                return None
+            source[off_b + sigma[t]] = off_a + t
+            for x, y in zip(ha, hb):
+                source[y] = x
     if sorted(source) != list(range(n)):
         return None
     return tuple(source)
+
+
+def _hydrogens(mol) -> dict[int, list[int]]:
+    """The added hydrogens (``Chem.AddHs`` appends them) by the heavy atom they sit on, in index order."""
+    out: dict[int, list[int]] = {}
+    for atom in mol.GetAtoms():
+        if atom.GetAtomicNum() == 1 and atom.GetDegree() == 1:
+            out.setdefault(atom.GetNeighbors()[0].GetIdx(), []).append(atom.GetIdx())
+    return out
 
 
 def _same_molecule(mol_a, mol_b, source: Sequence[int]) -> bool:
