@@ -149,7 +149,7 @@ def structures_for(
             return structures_for(result, labels, progress, own)
     labels = labels or {}
     comp = result.composition
-    built: dict[str, _Full] = {}  # the full builds so far, by isomer id: the sources of their mirror images
+    built: dict[str, _Full] = {}  # the chiral full builds so far, by isomer id: sources of their mirror images
     out = []
     for k, i in enumerate(result.isomers, 1):
         label = labels.get(i.id, "")
@@ -157,7 +157,7 @@ def structures_for(
         s = _mirrored(i, comp, label, source) if source is not None else None
         if s is None:
             s, full = _build(i, comp, label, ahead.ready(i, comp))
-            if full is not None:
+            if full is not None and i.enantiomer:
                 built[i.id] = full
         out.append(s)
         if progress is not None:
