@@ -8,6 +8,7 @@ One job per module:
   donors held;
 * :mod:`.relax`: relieving close contacts between ligands (rotor search,
   UFF) and reporting what is left;
+* :mod:`.mirror`: one enantiomer's coordinates as the mirror image of the other's;
 * :mod:`.build`: one isomer's :class:`Structure`, full or donor-only core;
 * :mod:`.formats`: XYZ and SDF text;
 * :mod:`.result`: the structures of a whole result (:class:`StructureSet`).

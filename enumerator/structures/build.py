@@ -9,7 +9,13 @@ optimised structures: the donors sit on the ideal polyhedron
   is built as one RDKit molecule and embedded with the metal and donors held
   (:mod:`.embed`); if that fails, each ligand alone, then put together.
   Close contacts between ligands are relieved (:mod:`.relax`); what is left
-  goes into the note, the title and the SDF ``warning`` field.
+  goes into the note, the title and the SDF ``warning`` field.  The second
+  enantiomer of a chiral pair ('1b' after '1a' in the same call of
+  :func:`structures_for`) is not embedded: it is the exact mirror image of its
+  partner's finished coordinates (:mod:`.mirror`), atom for atom, and its title
+  says so ("mirror image of isomer 1a"); where the two do not correspond
+  exactly (an η-ring, say) or the partner is not in the call, it is embedded
+  on its own.  :func:`embedding_items` lists the isomers still to embed.
 * ``core`` -- otherwise (abstract letters, a ligand without SMILES, an
   embedding failure): the metal and the donor atoms only.  The title/comment
   line then begins ``DONOR-ONLY CORE`` and says why.  Labels that are not
@@ -29,6 +35,8 @@ True
 from __future__ import annotations
 
 from collections.abc import Callable, Iterable, Mapping, Sequence
+from dataclasses import dataclass
+from typing import Any
 
 import numpy as np
 
@@ -46,6 +54,7 @@ from enumerator.structures.embed import (
     ligand_units,
 )
 from enumerator.structures.formats import molblock
+from enumerator.structures.mirror import Mirror, mirror_of
 from enumerator.structures.placement import Vec, bond_length, element_or_none, round_coordinate
 from enumerator.structures.pool import EmbedAhead
 from enumerator.structures.relax import CLASH_FRACTION, closest_contact, relieve_clashes, uff_relax
@@ -88,13 +97,22 @@ def build_structure(
     -------
     Structure
     """
-    reason = _why_not_full(composition)
+    return _build(isomer, composition, label, ahead)[0]
+
+
+def _build(
+    isomer: Isomer, comp: Composition, label: str, ahead: Mapping[EmbedKey, Embedded] | None
+) -> tuple[Structure, _Full | None]:
+    """The structure as :func:`build_structure` makes it, and its full build (None for a core)."""
+    reason = _why_not_full(comp)
     if not reason:
         try:
-            return _full(isomer, composition, label, ahead)
+            full = _embedded_full(isomer, comp, ahead)
         except EmbedFailed as exc:
             reason = str(exc)
-    return _core(isomer, composition, reason, label)
+        else:
+            return _finish(isomer, comp, label, full), full
+    return _core(isomer, comp, reason, label), None
 
 
 def structures_for(
@@ -106,7 +124,9 @@ def structures_for(
     """One structure per isomer of a result, in listing order; ``labels`` by isomer id go into the titles.
 
     The whole-complex embeddings are worked out ahead in worker processes when there are enough of them and
-    more than one CPU (:mod:`.pool`); the structures are the same as in one process.
+    more than one CPU (:mod:`.pool`); the structures are the same as in one process.  An enantiomer listed after
+    its partner is that partner's finished structure reflected (:func:`.mirror.mirror_of`), where the two
+    correspond atom for atom; otherwise it is embedded as any other isomer.
 
     Parameters
     ----------
@@ -129,17 +149,55 @@ def structures_for(
             return structures_for(result, labels, progress, own)
     labels = labels or {}
     comp = result.composition
+    built: dict[str, _Full] = {}  # the chiral full builds so far, by isomer id: sources of their mirror images
     out = []
     for k, i in enumerate(result.isomers, 1):
-        out.append(build_structure(i, comp, label=labels.get(i.id, ""), ahead=ahead.ready(i, comp)))
+        label = labels.get(i.id, "")
+        source = built.get(i.enantiomer) if i.enantiomer else None
+        s = _mirrored(i, comp, label, source) if source is not None else None
+        if s is None:
+            s, full = _build(i, comp, label, ahead.ready(i, comp))
+            if full is not None and i.enantiomer:
+                built[i.id] = full
+        out.append(s)
         if progress is not None:
             progress(i.id, k, len(result.isomers))
     return tuple(out)
 
 
+def embedding_items(results: Iterable[ResultView]) -> list[tuple[Isomer, Composition]]:
+    """The isomers whose whole complexes :func:`structures_for` will embed, with their compositions.
+
+    Those that can have full structures (an element as metal, a SMILES for every ligand), less each
+    enantiomer listed after its partner when it is built as that partner's mirror image (:mod:`.mirror`).
+
+    Parameters
+    ----------
+    results : iterable of Result
+        The results whose structures will be built.
+
+    Returns
+    -------
+    list of (Isomer, Composition)
+        In listing order, result by result.
+    """
+    items: list[tuple[Isomer, Composition]] = []
+    for r in results:
+        comp = r.composition
+        if _why_not_full(comp):
+            continue
+        seen: dict[str, Isomer] = {}
+        for i in r.isomers:
+            partner = seen.get(i.enantiomer) if i.enantiomer else None
+            seen[i.id] = i
+            if partner is None or _pair_mirror(partner, i, comp) is None:
+                items.append((i, comp))
+    return items
+
+
 def embed_ahead(results: Iterable[ResultView], processes: int | None = None) -> EmbedAhead:
-    """An :class:`.pool.EmbedAhead` (a context manager) for the isomers of the results that can have full
-    structures (an element as metal, a SMILES for every ligand).
+    """An :class:`.pool.EmbedAhead` (a context manager) for the isomers of the results whose whole complexes
+    will be embedded (:func:`embedding_items`).
 
     Parameters
     ----------
@@ -153,21 +211,6 @@ def embed_ahead(results: Iterable[ResultView], processes: int | None = None) -> 
     EmbedAhead
     """
     return EmbedAhead(embedding_items(results), processes)
-
-
-def embedding_items(results: Iterable[ResultView]) -> list[tuple[Isomer, Composition]]:
-    """The isomers of the results whose whole complex is embedded (an element as metal, a SMILES for every
-    ligand), with their compositions.
-
-    Parameters
-    ----------
-    results : iterable of Result
-
-    Returns
-    -------
-    list of (Isomer, Composition)
-    """
-    return [(i, r.composition) for r in results if not _why_not_full(r.composition) for i in r.isomers]
 
 
 def _why_not_full(comp: Composition) -> str:
@@ -254,18 +297,68 @@ def _clash_note(mol, coords: Sequence[Vec], symbols: Sequence[str]) -> str:
     )
 
 
-def _full(isomer: Isomer, comp: Composition, label: str, ahead=None) -> Structure:
-    """The whole complex embedded at once; if RDKit fails on that, each ligand embedded on its own against the
-    metal and its fixed donors, then put together."""
-    from rdkit import Chem
-    from rdkit.Geometry import Point3D
+@dataclass(frozen=True)
+class _Full:
+    """A full structure's making: the isomer, the assembled molecule (before the η-ring bonds), its held
+    atoms, η-ring atoms still to bond and unit spans (:func:`.embed.assemble`), the final positions and how
+    they were made."""
 
+    isomer: Isomer
+    mol: Any
+    fixed: Mapping[int, Vec]
+    hapto: tuple[int, ...]
+    spans: tuple[tuple[int, int], ...]
+    positions: np.ndarray
+    how: str
+
+
+def _embedded_full(isomer: Isomer, comp: Composition, ahead=None) -> _Full:
+    """The whole complex embedded at once; if RDKit fails on that, each ligand embedded on its own against the
+    metal and its fixed donors, then put together; contacts relieved."""
     units = ligand_units(isomer)
     mol, fixed, hapto, spans = assemble(units, comp)
     pos, how = _positions(mol, units, fixed, spans, comp, ahead)
+    pos.setflags(write=False)
+    return _Full(isomer, mol, fixed, tuple(hapto), tuple(spans), pos, how)
+
+
+def _pair_mirror(a: Isomer, b: Isomer, comp: Composition) -> Mirror | None:
+    """How 'b' is 'a''s mirror image atom for atom, or None (either cannot be assembled, or they do not
+    correspond exactly)."""
+    try:
+        mol_a, fixed_a, _, spans_a = assemble(ligand_units(a), comp)
+        mol_b, fixed_b, _, spans_b = assemble(ligand_units(b), comp)
+    except EmbedFailed:
+        return None
+    return mirror_of(a, b, (mol_a, fixed_a, spans_a), (mol_b, fixed_b, spans_b))
+
+
+def _mirrored(isomer: Isomer, comp: Composition, label: str, source: _Full) -> Structure | None:
+    """The structure of ``isomer`` as the exact mirror image of its enantiomer's finished one, or None when the
+    two do not correspond exactly (:func:`.mirror.mirror_of`; the caller then embeds it)."""
+    try:
+        mol, fixed, hapto, spans = assemble(ligand_units(isomer), comp)
+    except EmbedFailed:
+        return None
+    mirror = mirror_of(source.isomer, isomer, (source.mol, source.fixed, source.spans), (mol, fixed, spans))
+    if mirror is None:
+        return None
+    pos = mirror.apply(source.positions)
+    how = f"{source.how}, mirror image of isomer {source.isomer.id}"
+    return _finish(isomer, comp, label, _Full(isomer, mol, fixed, tuple(hapto), tuple(spans), pos, how))
+
+
+def _finish(isomer: Isomer, comp: Composition, label: str, full: _Full) -> Structure:
+    """The structure from its final positions: held atoms at their exact ideal places, coordinates rounded as
+    written, η-ring bonds added, the remaining worst contact in the note and title."""
+    from rdkit import Chem
+    from rdkit.Geometry import Point3D
+
+    mol = Chem.Mol(full.mol)
+    pos = np.array(full.positions, dtype=float)
     mol.RemoveAllConformers()
     mol.AddConformer(Chem.Conformer(mol.GetNumAtoms()), assignId=True)
-    for i, p in fixed.items():  # exact ideal positions for the fixed atoms
+    for i, p in full.fixed.items():  # exact ideal positions for the fixed atoms
         pos[i] = p
     conf = mol.GetConformer(0)
     coords: list[Vec] = []
@@ -273,13 +366,13 @@ def _full(isomer: Isomer, comp: Composition, label: str, ahead=None) -> Structur
         c = (round_coordinate(pos[k][0]), round_coordinate(pos[k][1]), round_coordinate(pos[k][2]))
         coords.append(c)
         conf.SetAtomPosition(k, Point3D(*c))
-    if hapto:
+    if full.hapto:
         rw2 = Chem.RWMol(mol)
-        for a in hapto:
+        for a in full.hapto:
             rw2.AddBond(a, 0, Chem.BondType.DATIVE)
         mol = rw2.GetMol()
     symbols = tuple(a.GetSymbol() for a in mol.GetAtoms())
-    title = _title(isomer, comp, "full", "", label).replace(_HOW, how)
+    title = _title(isomer, comp, "full", "", label).replace(_HOW, full.how)
     note = _clash_note(mol, coords, symbols)
     if note:
         title += f"; WARNING {note}"
