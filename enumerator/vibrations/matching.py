@@ -63,7 +63,7 @@ from __future__ import annotations
 import math
 import re
 from collections.abc import Mapping, Sequence
-from dataclasses import dataclass, field, replace
+from dataclasses import field, replace
 from types import MappingProxyType
 from typing import Any
 
@@ -83,6 +83,7 @@ from enumerator.analyses.stretch.likelihood import (
 )
 from enumerator.analyses.stretch.modes import ModeSet, stretch_modes
 from enumerator.errors import InputError
+from enumerator.frozen import frozen_dataclass
 from enumerator.isomers.enumeration import Isomer, IsomerSet
 from enumerator.model.composition import Composition
 from enumerator.rules.reporters import load_reporters
@@ -385,7 +386,7 @@ def check_window(
 # the result
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class Candidate:
     """One geometric isomer's agreement with the measured bands.
 
@@ -520,7 +521,7 @@ class Candidate:
         }
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class MatchResult:
     """The ranked candidates for one set of measured bands of one reporter class.
 
@@ -639,7 +640,7 @@ def _full_fit(iso: Isomer, reporter_class: str, it: Interpretation, obs: Observe
         return None, f"no full fit: {exc.what}"
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class _Settings:
     reporter_class: str
     tolerance: float
@@ -648,7 +649,7 @@ class _Settings:
     composition: Composition | None = None
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class _Prediction:
     """One geometric isomer's predicted pattern, its stretch species and the bands as the likelihood reads them."""
 

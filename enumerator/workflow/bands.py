@@ -30,7 +30,6 @@ gives its species zero intensity
 from __future__ import annotations
 
 from collections.abc import Callable, Mapping, Sequence
-from dataclasses import dataclass
 from types import MappingProxyType
 from typing import TYPE_CHECKING, Any
 
@@ -39,6 +38,7 @@ from enumerator.analyses.safety import cautions
 from enumerator.analyses.stretch.likelihood import default_sigma
 from enumerator.analyses.stretch.modes import ModeSet, stretch_modes
 from enumerator.errors import InputError, IsosieveError
+from enumerator.frozen import frozen_dataclass
 from enumerator.isomers.enumeration import Isomer, IsomerSet, enumerate_isomers
 from enumerator.model.composition import Composition
 from enumerator.rules.ruleset import RuleSet, load_rules
@@ -73,7 +73,7 @@ __all__ = [
 ]
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class ClassBands:
     """The bands of one reporter class on one isomer, with the fit when one was asked for.
 
@@ -124,7 +124,7 @@ class ClassBands:
         return doc
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class IsomerBands:
     """The predicted bands of one isomer.
 
@@ -148,7 +148,7 @@ class IsomerBands:
         }
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class BandsResult:
     """The answer of ``isosieve bands``: every isomer's predicted bands.
 
@@ -215,7 +215,7 @@ class BandsResult:
         return _html(f"{self.formula} on {self.geometry}: predicted bands", self.to_dataframe(), self.safety)
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class MatchReport:
     """The answer of ``isosieve match``: the ranking with the formula it is for."""
 
