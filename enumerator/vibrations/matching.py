@@ -65,7 +65,7 @@ import re
 from collections.abc import Mapping, Sequence
 from dataclasses import field, replace
 from types import MappingProxyType
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 from enumerator.analyses.stretch.likelihood import (
     DECIDE_ODDS,
@@ -88,10 +88,12 @@ from enumerator.isomers.enumeration import Isomer, IsomerSet
 from enumerator.model.composition import Composition
 from enumerator.rules.reporters import load_reporters
 from enumerator.rules.ruleset import RuleSet, load_rules
-from enumerator.vibrations.fitting import FitResult, Observation, dicarbonyl_angle, fit_constants
 from enumerator.vibrations.model import reporter_classes
 from enumerator.vibrations.pattern import BandPattern, band_pattern
 from enumerator.vibrations.solver import WAVENUMBER_FACTOR, Band
+
+if TYPE_CHECKING:
+    from enumerator.vibrations.fitting import FitResult
 
 __all__ = [
     "Candidate",
@@ -623,6 +625,8 @@ def _oc_angle(iso, pattern, it: Interpretation, obs: Observed, pred) -> float | 
     i_sym, i_asym = obs.intensity(by_pred[0][0]), obs.intensity(by_pred[1][0])
     if i_sym is None or i_asym is None:
         return None
+    from enumerator.vibrations.fitting import dicarbonyl_angle  # the fit: only where bands are matched
+
     return dicarbonyl_angle(i_sym, i_asym)
 
 
@@ -630,6 +634,8 @@ def _full_fit(iso: Isomer, reporter_class: str, it: Interpretation, obs: Observe
     """The full force-constant fit (kt = 2 kc) of the same assignment, or why there is none."""
     if it.extra or not it.pairs:
         return None, None
+    from enumerator.vibrations.fitting import Observation, fit_constants  # only where bands are matched
+
     labels = [
         Observation(obs.wavenumbers[j], pred[k].name if not pred[k].name.startswith("mode") else None)
         for j, k in it.pairs
