@@ -42,7 +42,6 @@ from enumerator.frozen import frozen_dataclass
 from enumerator.isomers.enumeration import Isomer, IsomerSet, enumerate_isomers
 from enumerator.model.composition import Composition
 from enumerator.rules.ruleset import RuleSet, load_rules
-from enumerator.vibrations.fitting import FitResult, Observation, check_constants, fit_constants
 from enumerator.vibrations.matching import (
     DEFAULT_TOLERANCE,
     DEFAULT_WEAK,
@@ -61,6 +60,8 @@ from enumerator.workflow.pipeline import Request, prepare
 
 if TYPE_CHECKING:
     import pandas as pd
+
+    from enumerator.vibrations.fitting import FitResult, Observation
 
 __all__ = [
     "ClassBands",
@@ -365,6 +366,8 @@ def _class_bands(
         return ClassBands(cls, pattern, None, modes)
     if len(others) > 1:
         raise InputError("--fit needs one isomer", f"add --isomer, one of {', '.join(others)}")
+    from enumerator.vibrations.fitting import fit_constants  # only when bands are fitted
+
     fit = fit_constants(iso, cls, measured, fixed=fixed, tie_ck=tie_ck, start=constants, rules=rules)
     return ClassBands(cls, pattern, fit, modes)
 
@@ -399,6 +402,8 @@ def _check_fit_inputs(
     """Bound what was typed: the constants to their physical ranges, fitted bands to the class's window (reaching
     out to the band model's predictions for the isomers shown)."""
     if constants:
+        from enumerator.vibrations.fitting import check_constants  # the fit's module: only with typed-in constants
+
         check_constants(constants, "--constants")
     if not measured:
         return
