@@ -223,7 +223,8 @@ def test_describe_is_the_same_for_an_equal_matrix_however_it_is_given():
 #: What each small command must not import: the heavy libraries (RDKit, the TOML parser, hashlib) and
 #: every part of the package it does not use (the band fit, the route planner, the structures and the
 #: report), and modules only an error, another output or a type checker needs (difflib: the nearest
-#: names of a misspelling; csv: CSV output; numpy.typing: annotations).  Common practice: import what the command runs, nothing else.
+#: names of a misspelling; csv: CSV output; numpy.typing: annotations).  Common practice: import what
+#: the command runs, nothing else.
 _NOT_FOR_ANY = {
     "rdkit",
     "tomllib",
