@@ -10,6 +10,7 @@ bands (Levenberg–Marquardt); :mod:`~enumerator.vibrations.matching` ranks the
 isomers of a formula against a measured spectrum.  The default constants are
 read by :mod:`enumerator.rules.forcefields`.
 
+>>> from enumerator.vibrations import predict_bands
 >>> from enumerator.workflow.pipeline import analyse
 >>> iso = analyse("[Cr(CO)6]").isomers[0]
 >>> [(b.species, round(b.wavenumber)) for b in predict_bands(iso, "CO") if b.ir_active]
