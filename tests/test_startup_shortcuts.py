@@ -220,33 +220,76 @@ def test_describe_is_the_same_for_an_equal_matrix_however_it_is_given():
     assert (describe(c4).kind, describe(c4).order, describe(c4).power) == ("C", 4, 1)
 
 
-@pytest.mark.parametrize(
-    "args",
-    [
-        ["isomers", "Ma6"],
+#: What each small command must not import: the heavy libraries (RDKit, the TOML parser, hashlib) and
+#: every part of the package it does not use (the band fit, the route planner, the structures and the
+#: report), and modules only an error, another output or a type checker needs (difflib: the nearest
+#: names of a misspelling; csv: CSV output; numpy.typing: annotations).  Common practice: import what
+#: the command runs, nothing else.
+_NOT_FOR_ANY = {
+    "rdkit",
+    "tomllib",
+    "hashlib",
+    "difflib",
+    "csv",
+    "numpy.typing",
+    "matplotlib",
+    "pandas",
+    "scipy",
+    "networkx",
+    "enumerator.structures",
+    "enumerator.workflow.report",
+    "enumerator.workflow.job",
+    "enumerator.render.report",
+}
+_SMALL_COMMANDS = {
+    "isomers Ma6": (["isomers", "Ma6"], {"enumerator.vibrations", "enumerator.routes", "enumerator.workflow.bands"}),
+    "isomers Ru": (
         ["isomers", "[RuCl2(CO)2(PPh3)2]"],
-        ["bands", "[Cr(CO)6]"],
-        ["match", "[Mo(CO)3(PPh3)3]", "--bands", "1950,1860,1840"],
+        {"enumerator.vibrations.fitting", "enumerator.routes", "enumerator.workflow.bands"},
+    ),
+    "bands": (["bands", "[Cr(CO)6]"], {"enumerator.vibrations.fitting", "enumerator.routes"}),
+    "match": (["match", "[Mo(CO)3(PPh3)3]", "--bands", "1950,1860,1840"], {"enumerator.routes"}),
+    "route": (
         ["route", "[PtCl4]2-", "--target", "cis-[PtCl2(NH3)2]"],
-    ],
-)
-def test_small_commands_import_neither_rdkit_nor_the_toml_parser(args):
+        {"enumerator.vibrations", "enumerator.workflow.bands", "enumerator.workflow.pipeline"},
+    ),
+}
+
+
+@pytest.mark.parametrize("name", list(_SMALL_COMMANDS))
+def test_small_commands_import_only_what_they_use(name, tmp_path):
+    """Per command: none of its forbidden modules (or their submodules) is imported, and with the kept
+    dataclass code written once (:mod:`enumerator.frozen`) no dataclass method is compiled afresh."""
     import os
     import subprocess
     import sys
     from pathlib import Path
 
+    args, not_here = _SMALL_COMMANDS[name]
     root = Path(__file__).resolve().parent.parent
     code = (
         "import sys, io, contextlib\n"
+        "from pathlib import Path\n"
+        "import enumerator.frozen as kept\n"
+        f"kept.STORE.path = Path({str(tmp_path / 'kept.marshal')!r})\n"
         "from enumerator.cli import main\n"
         "with contextlib.redirect_stdout(io.StringIO()):\n"
         "    try:\n"
         f"        main({args!r})\n"
         "    except SystemExit as e:\n"
         "        assert not e.code, e.code\n"
-        "print(sorted(m for m in ('rdkit', 'tomllib', 'hashlib') if m in sys.modules))\n"
+        "kept.STORE.save(force=True)\n"
+        "print(kept.STORE.cache_info().misses)\n"
+        "print(' '.join(sorted(sys.modules)))\n"
     )
     env = dict(os.environ, PYTHONPATH=str(root))
-    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, env=env, cwd=root, check=True)
-    assert out.stdout.strip() == "[]", out.stdout + out.stderr
+    runs = [
+        subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, env=env, cwd=root, check=True)
+        for _ in range(2)
+    ]
+    misses, loaded = runs[1].stdout.splitlines()
+    assert int(runs[0].stdout.splitlines()[0]) > 0  # the first run compiled the methods and kept them
+    assert misses == "0", runs[1].stderr
+    forbidden = _NOT_FOR_ANY | not_here
+    found = sorted(m for m in loaded.split() if m in forbidden or any(m.startswith(f + ".") for f in forbidden))
+    assert not found, found

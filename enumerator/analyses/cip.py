@@ -52,11 +52,11 @@ habit (common practice), not an IUPAC rule.
 from __future__ import annotations
 
 from collections.abc import Iterable, Mapping, Sequence
-from dataclasses import dataclass
 from types import MappingProxyType
 
 from enumerator.caches import cached
 from enumerator.errors import InputError
+from enumerator.frozen import frozen_dataclass
 from enumerator.model.composition import Composition, LigandKind
 from enumerator.model.elements import atomic_number, atomic_weight
 from enumerator.rules.parsed import smiles_graph
@@ -82,7 +82,7 @@ MAX_NODES = 60000
 _WIDTH = 6
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class BranchKey:
     """The comparable value of one branch: larger = higher CIP priority.
 

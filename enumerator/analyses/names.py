@@ -43,10 +43,10 @@ metal gets no name, with the reason.
 from __future__ import annotations
 
 import re
-from dataclasses import dataclass
 
 from enumerator.analyses.centre.electrons import count_electrons, roman
 from enumerator.errors import IsosieveError
+from enumerator.frozen import frozen_dataclass
 from enumerator.model.composition import Composition
 from enumerator.rules.element_names import element_names
 from enumerator.rules.ruleset import RuleSet
@@ -90,7 +90,7 @@ _FRONT = re.compile(
 _KAPPA_END = re.compile(r"κ\d*[A-Z][a-z]?\d*[′″']*(?:,κ?\d*[A-Z][a-z]?\d*[′″']*)*$")
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class ComplexName:
     """An additive name, or why there is none."""
 

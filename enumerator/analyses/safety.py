@@ -17,11 +17,11 @@ True
 from __future__ import annotations
 
 from collections.abc import Mapping
-from dataclasses import dataclass
 from types import MappingProxyType
 from typing import Any
 
 from enumerator.analyses.views import RequestView, ResultView
+from enumerator.frozen import frozen_dataclass
 from enumerator.model.composition import Composition
 
 __all__ = ["cautions", "hazard_classes", "SafetyAnalysis", "stage", "GENERAL", "TEXT", "README_TEXT"]
@@ -130,7 +130,7 @@ def cautions(comp: Composition) -> tuple[str, ...]:
     return tuple(TEXT[c] for c in classes) + (GENERAL,)
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class SafetyAnalysis:
     """The caution lines of a result; adds top-level JSON ``"safety": [str]``."""
 

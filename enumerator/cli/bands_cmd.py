@@ -96,7 +96,6 @@ def bands(
     from enumerator.cli.match_cmd import parse_window
     from enumerator.render.bands import bands_plot, bands_text
     from enumerator.render.jsonout import dumps
-    from enumerator.vibrations.fitting import parse_bands
     from enumerator.vibrations.pattern import parse_constants
     from enumerator.workflow.bands import predict_spectra
     from enumerator.workflow.pipeline import Request
@@ -115,7 +114,7 @@ def bands(
             reporter_class=klass,
             isomer_id=isomer_id,
             constants=parse_constants(constants) if constants else None,
-            measured=parse_bands(fit, "--fit") if fit else None,
+            measured=_fit_bands(fit),
             fixed=_fixed(fixes) if fit else None,
             tie_ck=ck,
             window=parse_window(window),
@@ -140,3 +139,12 @@ def _fixed(fixes: tuple[str, ...]) -> dict[str, float]:
             raise InputError(f"--fix '{name}={value}' is not NAME=NUMBER", "write e.g. --fix kt=0.6 (mdyn/Å)")
         out[name] = number
     return out
+
+
+def _fit_bands(fit: str | None):
+    """The ``--fit`` bands read (None without the option; the fitting module is imported only then)."""
+    if not fit:
+        return None
+    from enumerator.vibrations.fitting import parse_bands
+
+    return parse_bands(fit, "--fit")

@@ -54,12 +54,12 @@ import os
 import stat
 import warnings
 from collections.abc import Iterable, Sequence
-from dataclasses import dataclass
 from pathlib import Path
 
 import click
 
 from enumerator.errors import InputError, shorten
+from enumerator.frozen import frozen_dataclass
 
 __all__ = [
     "STDOUT",
@@ -219,7 +219,7 @@ if hasattr(os, "register_at_fork"):
 # --------------------------------------------------------------------------- targets
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class Target:
     """Where one output goes.
 

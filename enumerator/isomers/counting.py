@@ -36,12 +36,12 @@ the counts as a :class:`CountResult` (what ``isosieve count`` prints):
 from __future__ import annotations
 
 from collections.abc import Callable, Iterable, Mapping
-from dataclasses import dataclass
 from types import MappingProxyType
 from typing import Any
 
 from enumerator.caches import cached
 from enumerator.errors import CapacityError
+from enumerator.frozen import frozen_dataclass
 from enumerator.isomers.enumeration import canonical_placement, generate, placements_for
 from enumerator.limits import SIZE_CAP
 from enumerator.model.composition import Composition, LigandKind
@@ -66,7 +66,7 @@ Progress = Callable[[int, int], None]
 METHOD = "Burnside's lemma"
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class GeometryCount:
     """The counts of one composition on one geometry."""
 
@@ -91,7 +91,7 @@ class GeometryCount:
         }
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class CountResult:
     """Up-front counts of a formula: one row per geometry tried.
 

@@ -27,12 +27,13 @@ from __future__ import annotations
 
 import itertools
 from collections.abc import Iterable, Iterator, Sequence
-from dataclasses import dataclass, field
+from dataclasses import field
 
 import numpy as np
 
 from enumerator.caches import cached
 from enumerator.errors import InputError
+from enumerator.frozen import frozen_dataclass
 from enumerator.model.composition import Composition, LigandKind
 from enumerator.model.geometry import Geometry
 from enumerator.symmetry.dixon import compose_permutations
@@ -56,7 +57,7 @@ Placement = tuple[int, ...]
 Piece = tuple[Placement, ...]
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class Site:
     """One occupied coordination site of an isomer."""
 
@@ -70,7 +71,7 @@ class Site:
     reporter: str | None = None
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class Isomer:
     """One stereoisomer.
 
@@ -139,7 +140,7 @@ class Isomer:
         return tuple(s.index for s in self.sites if s.ligand == ligand)
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class IsomerSet:
     """Every isomer of one composition on one geometry (or the first
     ``limit`` of them, with ``complete`` False)."""
@@ -182,7 +183,7 @@ class IsomerSet:
         raise InputError(f"no isomer '{isomer_id}'", f"ids here: {', '.join(i.id for i in self.isomers)}")
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class GroupTables:
     """A geometry's group as index tables (read-only arrays), for fast orbit work.
 

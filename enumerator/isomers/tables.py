@@ -19,9 +19,9 @@ collects the tables of a whole isomer set (or of one isomer) as an
 
 from __future__ import annotations
 
-from dataclasses import dataclass
 from typing import Any
 
+from enumerator.frozen import frozen_dataclass
 from enumerator.isomers.enumeration import Isomer, IsomerSet
 from enumerator.symmetry.chartable import CharacterTable, character_table
 
@@ -71,7 +71,7 @@ def isomer_ranks(isomer: Isomer) -> tuple[int, ...]:
     return tuple(ranks)
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class IsomerTables:
     """The character tables of a formula's isomers on one geometry.
 

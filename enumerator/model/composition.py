@@ -35,11 +35,12 @@ data included), so they can key a cache.
 from __future__ import annotations
 
 from collections.abc import Iterable, Mapping
-from dataclasses import dataclass, replace
+from dataclasses import replace
 from types import MappingProxyType
 from typing import Any
 
 from enumerator.errors import InputError
+from enumerator.frozen import frozen_dataclass
 from enumerator.model.geometry import SPANS
 
 __all__ = ["LigandKind", "Composition", "ARRANGEMENTS", "TOPOLOGIES"]
@@ -50,7 +51,7 @@ ARRANGEMENTS = ("fac", "mer")
 TOPOLOGIES = ("chain", "tripod", "ring")
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class LigandKind:
     """One kind of ligand, as it occupies coordination sites.
 
@@ -232,7 +233,7 @@ class LigandKind:
         return replace(self, arrangements=chosen)
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class Composition:
     """The ligands on one metal centre, in formula order.
 

@@ -18,12 +18,12 @@ chemists read off it (cis/trans, chelate spans, the site graph).
 from __future__ import annotations
 
 import itertools
-from dataclasses import dataclass
 from functools import cached_property
 from typing import Any
 
 import numpy as np
 
+from enumerator.frozen import frozen_dataclass
 from enumerator.symmetry.derive import Vec, derive_operations, is_collinear, polyhedron_edges
 from enumerator.symmetry.operations import SymOp, schoenflies
 from enumerator.tolerances import TRANS_ANGLE_DEG
@@ -37,7 +37,7 @@ TRANS_ANGLE = TRANS_ANGLE_DEG
 SPANS = ("edge", "cis", "trans", "any")
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class Geometry:
     """An ideal coordination polyhedron.
 

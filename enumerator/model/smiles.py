@@ -18,13 +18,14 @@ True
 
 from __future__ import annotations
 
-from dataclasses import dataclass
 from typing import Any
+
+from enumerator.frozen import frozen_dataclass
 
 __all__ = ["SmilesAtom", "SmilesGraph", "rdkit_graph", "graph_to_data", "graph_from_data", "heavy_atoms"]
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class SmilesAtom:
     """One atom: element symbol (capitalised), mass number (0: none written), map number (0: none), aromatic."""
 
@@ -34,7 +35,7 @@ class SmilesAtom:
     aromatic: bool
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class SmilesGraph:
     """Atoms in order of appearance; bonds as (atom index, atom index, order), order 1.5 aromatic."""
 

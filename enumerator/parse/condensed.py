@@ -75,11 +75,11 @@ from __future__ import annotations
 
 import re
 from collections.abc import Mapping
-from dataclasses import dataclass
 from types import MappingProxyType
 
 from enumerator.caches import cached
 from enumerator.errors import InputError
+from enumerator.frozen import frozen_dataclass
 from enumerator.limits import MAX_CHARGE, MAX_SITES
 from enumerator.model.composition import Composition, LigandKind
 from enumerator.model.elements import element_symbols, is_metal
@@ -111,7 +111,7 @@ _ALNUM = re.compile(r"[A-Za-z0-9]*")
 _BREAKS = frozenset("()[] \t")
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class LigandSpan:
     """One ligand as written: where its spelling sits in the text and its multiplier.
 
@@ -131,7 +131,7 @@ class LigandSpan:
     group: tuple[int, int] | None = None
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class CondensedReading:
     """A condensed formula as read: the metal, the charge and every ligand with its text span.
 
@@ -158,7 +158,7 @@ class CondensedReading:
         return tuple(counts.items())
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class _Classes:
     """How rule 2 sees the catalogue: hydrido/organyl and halido names, and the head spellings."""
 
@@ -216,7 +216,7 @@ def _err(text: str, pos: int, what: str, fix: str, after: str = "") -> InputErro
     return InputError(f"formula '{echo(text)}': {what} at position {pos + 1}{after}", fix)
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class _Metal:
     symbol: str
     start: int

@@ -27,12 +27,13 @@ enumerator.errors.InputError: span 'across' is not one of edge, cis, trans, any;
 from __future__ import annotations
 
 from collections.abc import Mapping
-from dataclasses import dataclass, fields
+from dataclasses import fields
 from os import PathLike, fspath
 from types import MappingProxyType
 from typing import Any
 
 from enumerator.errors import InputError
+from enumerator.frozen import frozen_dataclass
 from enumerator.model.composition import ARRANGEMENTS
 from enumerator.model.geometry import SPANS
 from enumerator.rules.ruleset import closest_names
@@ -43,7 +44,7 @@ __all__ = ["Option", "OPTIONS", "Request", "make_request", "check_option", "unkn
 TEXT, COUNT, TABLE, FOLDERS = "text", "positive integer", "table of ligand = text", "list of folders"
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class Option:
     """One request option.
 
@@ -237,7 +238,7 @@ def check_option(name: str, value: Any, where: str = "") -> Any:
     return value
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class Request:
     """Everything one analysis needs, as plain hashable values; each option checked against :data:`OPTIONS`.
 

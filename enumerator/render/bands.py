@@ -10,13 +10,16 @@ results' own ``to_dict()``; nothing here computes chemistry.
 from __future__ import annotations
 
 from collections.abc import Sequence
+from typing import TYPE_CHECKING
 
 from enumerator.render.text import table
-from enumerator.vibrations.fitting import FitResult
 from enumerator.vibrations.matching import MatchResult
 from enumerator.vibrations.pattern import BandPattern
 from enumerator.vibrations.solver import Band
 from enumerator.workflow.bands import BandsResult, ClassBands, IsomerBands, MatchReport
+
+if TYPE_CHECKING:
+    from enumerator.vibrations.fitting import FitResult
 
 __all__ = ["bands_text", "match_text", "bands_plot", "match_plot", "bands_panels", "match_panels"]
 

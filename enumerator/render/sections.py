@@ -18,13 +18,13 @@ every table comes from the result's DataFrame
 
 from __future__ import annotations
 
-from dataclasses import dataclass
 from functools import singledispatch
 
 from enumerator.analyses.centre import CentreAnalysis
 from enumerator.analyses.descriptors import DescriptorAnalysis
 from enumerator.analyses.safety import SafetyAnalysis
 from enumerator.analyses.stretch import MAX_LISTED_PAIRS, StretchAnalysis
+from enumerator.frozen import frozen_dataclass
 from enumerator.workflow.result import Result
 
 __all__ = [
@@ -37,7 +37,7 @@ __all__ = [
 ]
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class Section:
     """A titled block of text shown after the isomer table."""
 

@@ -30,7 +30,6 @@ formula,geometry,isomer,point group,chiral,enantiomer,descriptor,NMR environment
 
 from __future__ import annotations
 
-import csv as _csv
 import io
 import json
 import re
@@ -189,6 +188,8 @@ def write_csv(header: Sequence[str], records: Iterable[Sequence[Any]]) -> str:
     str
     """
     buf = io.StringIO()
+    import csv as _csv  # only for CSV output
+
     w = _csv.writer(buf, lineterminator="\r\n", quoting=_csv.QUOTE_MINIMAL)
     w.writerow([neutralise(str(h)) for h in header])
     for r in records:

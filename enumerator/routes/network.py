@@ -24,10 +24,10 @@ from __future__ import annotations
 
 import itertools
 from collections.abc import Iterator, Mapping, Sequence
-from dataclasses import dataclass
 from fractions import Fraction
 from typing import Any
 
+from enumerator.frozen import frozen_dataclass
 from enumerator.isomers.enumeration import Isomer
 from enumerator.isomers.occupancy import occupancy
 from enumerator.routes.naming import name_isomer
@@ -45,7 +45,7 @@ Attributes = tuple[tuple[str, Any], ...]
 _STATISTICAL = SubstitutionRules("statistical", "", "", ("*",), "none", (), "statistical")
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class Network:
     """Every isomer of every composition between a start and a target, and
     one edge per single replacement.

@@ -18,10 +18,10 @@ is the target's geometric isomer; an undecided step ends the order.
 from __future__ import annotations
 
 from collections.abc import Iterator, Mapping, Sequence
-from dataclasses import dataclass
 from typing import TYPE_CHECKING, Any
 
 from enumerator.errors import CapacityError
+from enumerator.frozen import frozen_dataclass
 from enumerator.isomers.enumeration import Isomer
 from enumerator.routes.keys import enumerate_isomers_cached
 from enumerator.routes.naming import resolve_species
@@ -45,7 +45,7 @@ _RACEMATE = (
 )
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class Step:
     """One addition of a route: the prediction and what it led to."""
 
@@ -63,7 +63,7 @@ class Step:
         return {"step": self.number, "entering": self.entering, **self.prediction.step_dict()}
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class Route:
     """One order of addition followed through the predicted major products."""
 
@@ -82,7 +82,7 @@ class Route:
         }
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class RoutePlan:
     """Every order of addition from the start isomer, and which of them end
     on the target isomer under the rule set."""
@@ -181,7 +181,7 @@ def _orders(entering: Mapping[str, int], names: Sequence[str]) -> Iterator[tuple
     yield from rec()
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class _Ends:
     """The start and target species and the isomers their descriptors name."""
 

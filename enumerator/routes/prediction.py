@@ -36,12 +36,13 @@ from __future__ import annotations
 import re
 from collections import Counter
 from collections.abc import Iterable, Mapping, Sequence
-from dataclasses import dataclass, replace
+from dataclasses import replace
 from fractions import Fraction
 from typing import Any
 
 from enumerator.analyses.centre import choose_geometry
 from enumerator.errors import InputError
+from enumerator.frozen import frozen_dataclass
 from enumerator.isomers.enumeration import Isomer
 from enumerator.model.composition import Composition, LigandKind
 from enumerator.model.geometry import Geometry
@@ -74,7 +75,7 @@ _MONODENTATE_ONLY = "only one-for-one replacement of monodentate ligands is mode
 # ---------------------------------------------------------------- value objects
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class Product:
     """One isomer met along a route: a step's start or one of its products."""
 
@@ -126,7 +127,7 @@ def product_of(species: Species, isomer_id: str) -> Product:
     return Product(species.formula, iso.id, iso.number, iso.point_group, iso.chiral, prefix, desc)
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class SiteChoice:
     """One replaceable site of the starting isomer: what leaves, which
     ligands decide its lability under the rule (strongest first), the
@@ -143,7 +144,7 @@ def _share_dicts(shares: Iterable[tuple[Product, Fraction]]) -> list[dict[str, A
     return [dict(prod.to_dict(), share=str(s)) for prod, s in shares]
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class Prediction:
     """The outcome of adding ``entering`` to one isomer under one rule set.
 

@@ -25,12 +25,12 @@ from __future__ import annotations
 import re
 from collections import Counter
 from collections.abc import Iterable, Mapping, Sequence
-from dataclasses import dataclass
 from types import MappingProxyType
 
 from enumerator.analyses.centre import choose_geometry
 from enumerator.analyses.safety import cautions
 from enumerator.errors import InputError
+from enumerator.frozen import frozen_dataclass
 from enumerator.isomers.enumeration import IsomerSet
 from enumerator.model.composition import Composition, LigandKind
 from enumerator.model.geometry import Geometry
@@ -104,7 +104,7 @@ def _condensed_formula(metal: str, parts: Sequence[tuple[LigandKind, int]], char
     return f"[{metal}{''.join(out)}]{_charge_text(charge)}"
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class Species:
     """A composition with its isomers on the chosen geometry."""
 
@@ -228,7 +228,7 @@ class Space:
         return Species(comp, enumerate_isomers_cached(comp, self.geometry))
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class Endpoints:
     """A start and a target read into one :class:`Space`.
 

@@ -22,12 +22,13 @@ from __future__ import annotations
 import math
 import re
 from collections.abc import Mapping
-from dataclasses import dataclass, field
+from dataclasses import field
 from pathlib import Path
 from types import MappingProxyType
 from typing import Any
 
 from enumerator.caches import cached
+from enumerator.frozen import frozen_dataclass
 from enumerator.rules.checks import check_keys, read_toml, rule_error
 from enumerator.rules.ruleset import BUILTIN_RULES
 
@@ -78,7 +79,7 @@ _NAME = re.compile(r"^[^:\s]+(:[^:\s]+)+$")
 _MODEL_KEYS = ("name", "method", "dataset", "fitted", "command", "reference_k", "ridge")
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class BandModelRules:
     """The fitted parameters, their validation and the ligand groups (read-only mappings).
 

@@ -22,7 +22,6 @@ enumerator.errors.RuleError: user.toml: unknown key 'nmae'; did you mean 'name'?
 from __future__ import annotations
 
 import contextlib
-import difflib
 import sys
 from collections.abc import Callable, Iterable, Iterator, Mapping
 from pathlib import Path
@@ -205,5 +204,7 @@ def closest_names(name: str, names: Iterable[str], n: int = 3) -> list[str]:
     """
     pool = list(names)
     lower = {p.lower(): p for p in pool}
+    import difflib  # only for a misspelt name
+
     hits = difflib.get_close_matches(name.lower(), list(lower), n=n, cutoff=0.5)
     return [lower[h] for h in hits]

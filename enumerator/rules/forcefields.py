@@ -24,13 +24,13 @@ from __future__ import annotations
 import math
 import re
 from collections.abc import Mapping
-from dataclasses import dataclass
 from pathlib import Path
 from types import MappingProxyType
 from typing import Any
 
 from enumerator.caches import cached
 from enumerator.errors import InputError
+from enumerator.frozen import frozen_dataclass
 from enumerator.model.elements import is_element
 from enumerator.rules.checks import check_keys, closest_names, quiet_rdkit, read_toml, rule_error
 from enumerator.rules.masses import mass_of
@@ -46,7 +46,7 @@ _INTERACTION = ("kc", "kt")
 _ATOM = re.compile(r"^(\d{0,3})([A-Z][a-z]?)$")
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class ClassField:
     """Default constants of one reporter class (one ``[class.NAME]`` table).
 

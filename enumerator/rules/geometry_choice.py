@@ -26,12 +26,12 @@ from __future__ import annotations
 import re
 from collections.abc import Mapping
 from functools import cached_property
-from dataclasses import dataclass
 from pathlib import Path
 from types import MappingProxyType
 from typing import Any
 
 from enumerator.caches import cached
+from enumerator.frozen import frozen_dataclass
 from enumerator.model.elements import element_symbols
 from enumerator.rules.checks import check_keys, read_toml, rule_error
 from enumerator.rules.ligands import all_spellings
@@ -61,7 +61,7 @@ _CENTRE = re.compile(r"^([A-Z][a-z]?)\((-?)(0|I|II|III|IV|V|VI|VII|VIII|IX|X)\)$
 _ROMAN = {"0": 0, "I": 1, "II": 2, "III": 3, "IV": 4, "V": 5, "VI": 6, "VII": 7, "VIII": 8, "IX": 9, "X": 10}
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class CentreFacts:
     """What a rule may test about a centre.
 
@@ -81,7 +81,7 @@ class CentreFacts:
     abstract: bool = False
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class GeometryRule:
     """One rule of the file: its conditions (None: any) and its answer."""
 
@@ -128,7 +128,7 @@ class GeometryRule:
         return self.any_ligand_in is None or bool(facts.ligands & self.any_ligand_in)
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class GeometryChoice:
     """The rules in force, in the order they are tried, and the ligand classes they use."""
 

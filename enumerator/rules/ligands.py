@@ -45,7 +45,6 @@ from __future__ import annotations
 
 import re
 from collections.abc import Mapping
-from dataclasses import dataclass
 from functools import cached_property
 from pathlib import Path
 from types import MappingProxyType
@@ -53,6 +52,7 @@ from typing import Any
 
 from enumerator.caches import cached
 from enumerator.errors import InputError
+from enumerator.frozen import frozen_dataclass
 from enumerator.limits import MAX_SMILES_ATOMS, MAX_SMILES_CHARS
 from enumerator.model.composition import ARRANGEMENTS, TOPOLOGIES, LigandKind
 from enumerator.model.elements import element_symbols
@@ -98,7 +98,7 @@ _OPTIONAL = (
 _NAME = re.compile(r"^[^\s\[\]]{1,32}$")
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class LigandEntry:
     """One catalogued ligand: one ``[[ligand]]`` table, checked.
 
@@ -594,7 +594,7 @@ def split_hapto(text: str, start: int = 0, end: int | None = None) -> tuple[int 
     return int(m.group(1).translate(_SUPERSCRIPT)), m.end()
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class Reading:
     """One catalogue entry a spelling can stand for.
 
@@ -608,7 +608,7 @@ class Reading:
     prefixed: bool
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class SpellingIndex:
     """Every spelling of a catalogue, indexed for look-up by the formula parser.
 
@@ -709,7 +709,7 @@ class SpellingIndex:
         )
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class _Catalogue:
     """The ligands of one rule set, read-only: by canonical name, by spelling, by lower-case spelling, indexed."""
 

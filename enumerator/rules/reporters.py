@@ -19,11 +19,11 @@ A later file's entry replaces an earlier one of the same name.
 from __future__ import annotations
 
 from collections.abc import Mapping
-from dataclasses import dataclass
 from pathlib import Path
 from typing import Any
 
 from enumerator.caches import cached
+from enumerator.frozen import frozen_dataclass
 from enumerator.rules.checks import check_keys, read_toml, rule_error
 from enumerator.rules.ruleset import RuleSet
 
@@ -32,7 +32,7 @@ __all__ = ["ReporterClass", "Reporters", "load_reporters"]
 _REQUIRED = ("name", "bond", "nucleus", "ir_window_cm1", "window_source")
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class ReporterClass:
     """One reporter class from a ``reporters.toml``.
 
@@ -49,7 +49,7 @@ class ReporterClass:
     caution: str = ""
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class Reporters:
     """Every reporter class in force (sorted by key) and the donor-element nuclei."""
 

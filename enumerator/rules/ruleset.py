@@ -32,13 +32,13 @@ from __future__ import annotations
 
 import os
 from collections.abc import Iterable, Mapping
-from dataclasses import dataclass
 from functools import cached_property
 from pathlib import Path
 from types import MappingProxyType
 
 from enumerator.caches import cached
 from enumerator.errors import InputError
+from enumerator.frozen import frozen_dataclass
 from enumerator.model.geometry import Geometry
 from enumerator.rules.checks import check_keys, closest_names, read_toml, rule_error
 from enumerator.rules.geometries import load_geometries
@@ -92,7 +92,7 @@ def _files_in(folder: Path, relative: str) -> list[Path]:
     return [p] if p.is_file() else []
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class RuleSet:
     """Every rule folder in force, built-in first.
 

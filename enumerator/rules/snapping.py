@@ -41,10 +41,9 @@ geometry loader reports them (``Geometry.adjusted``).
 
 from __future__ import annotations
 
-from dataclasses import dataclass
-
 import numpy as np
 
+from enumerator.frozen import frozen_dataclass
 from enumerator.symmetry.derive import Vec, derive_operations, is_collinear
 from enumerator.tolerances import SITE_AMBIGUITY_TOL, SITE_SNAP_TOL
 
@@ -60,7 +59,7 @@ class Ambiguous(ValueError):
     """The vectors are near two different symmetries, or near a set of maps that is not a group."""
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class Snap:
     """Vectors made exactly symmetric.
 

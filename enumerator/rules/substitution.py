@@ -35,7 +35,7 @@ from __future__ import annotations
 
 import re
 from collections.abc import Iterable, Mapping
-from dataclasses import dataclass, field, replace
+from dataclasses import field, replace
 from functools import cached_property
 from pathlib import Path
 from types import MappingProxyType
@@ -43,6 +43,7 @@ from typing import Any
 
 from enumerator.caches import cached
 from enumerator.errors import InputError
+from enumerator.frozen import frozen_dataclass
 from enumerator.rules.checks import check_keys, closest_names, read_toml, rule_error
 from enumerator.rules.ligands import all_spellings
 from enumerator.rules.ruleset import RuleSet
@@ -64,7 +65,7 @@ TIES = ("statistical", "undecided")
 _NAME = re.compile(r"^[A-Za-z0-9][A-Za-z0-9_.+-]*$")
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class SubstitutionRules:
     """One substitution rule set (one TOML file under ``substitution/``).
 

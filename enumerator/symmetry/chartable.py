@@ -35,13 +35,13 @@ from __future__ import annotations
 
 import math
 from collections.abc import Mapping, Sequence
-from dataclasses import dataclass
 from typing import Any, Protocol
 
 import numpy as np
 
 from enumerator.caches import cached
 from enumerator.errors import InputError
+from enumerator.frozen import frozen_dataclass
 from enumerator.symmetry.derive import Vec, derive_operations
 from enumerator.symmetry.dixon import burnside_dixon, conjugacy_classes, multiplication_table, real_species
 from enumerator.symmetry.frames import AXIS_RULE, axes_note, choose_frame
@@ -67,7 +67,7 @@ __all__ = [
 ]
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class ConjugacyClass:
     """One class: its label ('2C3', '3sigma_v', 'i'), size and member op indices."""
 
@@ -76,7 +76,7 @@ class ConjugacyClass:
     members: tuple[int, ...]
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class Irrep:
     """One (real) irreducible species.
 
@@ -103,7 +103,7 @@ class Irrep:
         return any(f[0] in "xyz2" and f not in ("x", "y", "z") for f in self.functions)
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class CharacterTable:
     """A computed character table.  ``op_indices`` are the caller's indices of
     the operations (e.g. into ``geometry.operations``); ``class_of`` gives the

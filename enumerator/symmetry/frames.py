@@ -18,10 +18,10 @@ and :func:`axes_note` says in words where the axes went.
 from __future__ import annotations
 
 from collections.abc import Mapping, Sequence
-from dataclasses import dataclass
 
 import numpy as np
 
+from enumerator.frozen import frozen_dataclass
 from enumerator.symmetry.operations import ExactOp
 from enumerator.tolerances import (
     AXIS_KEY_DECIMALS,
@@ -50,7 +50,7 @@ AXIS_RULE = (
 _EX, _EY, _EZ = np.eye(3)
 
 
-@dataclass(frozen=True, eq=False)
+@frozen_dataclass(eq=False)
 class Frame:
     """The axes chosen by the rule.
 

@@ -34,6 +34,7 @@ from types import MappingProxyType
 
 import numpy as np
 
+from enumerator.frozen import frozen_dataclass
 from enumerator.symmetry.frames import along_z
 from enumerator.symmetry.operations import ExactOp, GroupIdentificationError
 from enumerator.tolerances import ELEMENT_TOL
@@ -44,7 +45,7 @@ _LETTERS = "ABETGH"
 _DIMENSION_LETTER = MappingProxyType({1: "A", 2: "E", 3: "T", 4: "G", 5: "H"})
 
 
-@dataclass(frozen=True, eq=False)
+@frozen_dataclass(eq=False)
 class GroupView:
     """A group as the labelling sees it: its classes and its operations
     described in the chosen frame (z the principal axis, x as the rule says).
@@ -105,7 +106,7 @@ class GroupView:
         return None
 
 
-@dataclass(frozen=True, eq=False)
+@frozen_dataclass(eq=False)
 class Species:
     """A labelled species: Mulliken label, dimension, real characters (one per
     class, in the view's class order) and parts (2 for a joined complex pair)."""
@@ -252,7 +253,7 @@ def class_labels(view: GroupView) -> tuple[tuple[str, tuple], ...]:
 # --- Mulliken labels --------------------------------------------------------------
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class _KeyClasses:
     """The classes whose characters decide the parts of a Mulliken label."""
 

@@ -15,11 +15,11 @@ from __future__ import annotations
 
 import math
 from collections.abc import Iterable, Sequence
-from dataclasses import dataclass
 
 import numpy as np
 
 from enumerator.caches import cached
+from enumerator.frozen import frozen_dataclass
 from enumerator.tolerances import (
     ANGLE_TOL,
     KEY_DECIMALS,
@@ -49,7 +49,7 @@ class GroupIdentificationError(RuntimeError):
     """The operations given do not form a recognisable point group (an internal error)."""
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class SymOp:
     """One symmetry operation of a geometry: its Cartesian matrix and the
     permutation it induces on the coordination sites (site ``i`` goes to
@@ -71,7 +71,7 @@ class SymOp:
         return describe(self.array)
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class OpInfo:
     """A geometric description of an orthogonal 3x3 matrix.
 
@@ -219,7 +219,7 @@ def _describe(raw: bytes) -> OpInfo:
     return OpInfo("S", n, k, key)
 
 
-@dataclass(frozen=True, eq=False)
+@frozen_dataclass(eq=False)
 class ExactOp:
     """:class:`OpInfo` with the axis as an unrounded unit vector (an array), for
     geometric work where the rounded key would lose precision.  The axis points

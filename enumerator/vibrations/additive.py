@@ -65,13 +65,13 @@ parameter values; :func:`coverage` says which ligands fall back.
 from __future__ import annotations
 
 from collections.abc import Mapping
-from dataclasses import dataclass
 
 import numpy as np
 
 from enumerator.analyses.centre.electrons import count_electrons
 from enumerator.caches import cached
 from enumerator.errors import IsosieveError
+from enumerator.frozen import frozen_dataclass
 from enumerator.isomers.enumeration import Isomer
 from enumerator.model.composition import Composition
 from enumerator.model.elements import atomic_number
@@ -99,7 +99,7 @@ CONDENSED = "condensed"
 _PHASES = {"gas": "gas", "matrix": "matrix"}
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class Centre:
     """What the model needs of the metal: symbol, complex charge, d count (None when unknown), row 3/4/5."""
 
@@ -188,7 +188,7 @@ def category(pclass: str, charge: int) -> str:
     return pclass
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class Design:
     """The stretching constants of one reporter class on one isomer as a linear function of the parameters.
 
@@ -472,7 +472,7 @@ def f_matrix(design: Design, values: Mapping[str, float], k_ref: float) -> np.nd
     return f
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class Coverage:
     """Which parts of a design have fitted parameters.
 

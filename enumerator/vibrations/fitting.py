@@ -46,13 +46,14 @@ import itertools
 import math
 import re
 from collections.abc import Mapping, Sequence
-from dataclasses import dataclass, field
+from dataclasses import field
 from types import MappingProxyType
 from typing import Any
 
 import numpy as np
 
 from enumerator.errors import InputError
+from enumerator.frozen import frozen_dataclass
 from enumerator.isomers.enumeration import Isomer
 from enumerator.rules.ruleset import RuleSet
 from enumerator.vibrations.model import Model, build_model
@@ -159,7 +160,7 @@ def dicarbonyl_angle(i_sym: float, i_asym: float) -> float:
     return math.degrees(2.0 * math.atan(math.sqrt(i_asym / i_sym)))
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class Observation:
     """One measured band (cm-1); ``label`` optionally assigns it ('A1', 'A1(2)', 'E')."""
 
@@ -211,7 +212,7 @@ def parse_bands(text: str, option: str = "--bands") -> tuple[Observation, ...]:
     return tuple(sorted(out, key=lambda o: (-o.wavenumber, o.label or "")))
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class FitResult:
     """A fitted force field.
 
@@ -262,7 +263,7 @@ class FitResult:
 # the generic linear-parameter fit
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class _Problem:
     """F = f0 + Σ v_p mats[p] on one model, with its symmetry blocks."""
 
@@ -487,7 +488,7 @@ def _screen(problem: _Problem, start: np.ndarray, cands, observed: np.ndarray, n
 # the user-facing fit
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class _Free:
     """The free parameters of a fit: F = f0 + Σ v_p mats[p], starting at v0."""
 

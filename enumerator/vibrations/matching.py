@@ -63,9 +63,9 @@ from __future__ import annotations
 import math
 import re
 from collections.abc import Mapping, Sequence
-from dataclasses import dataclass, field, replace
+from dataclasses import field, replace
 from types import MappingProxyType
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 from enumerator.analyses.stretch.likelihood import (
     DECIDE_ODDS,
@@ -83,14 +83,17 @@ from enumerator.analyses.stretch.likelihood import (
 )
 from enumerator.analyses.stretch.modes import ModeSet, stretch_modes
 from enumerator.errors import InputError
+from enumerator.frozen import frozen_dataclass
 from enumerator.isomers.enumeration import Isomer, IsomerSet
 from enumerator.model.composition import Composition
 from enumerator.rules.reporters import load_reporters
 from enumerator.rules.ruleset import RuleSet, load_rules
-from enumerator.vibrations.fitting import FitResult, Observation, dicarbonyl_angle, fit_constants
 from enumerator.vibrations.model import reporter_classes
 from enumerator.vibrations.pattern import BandPattern, band_pattern
 from enumerator.vibrations.solver import WAVENUMBER_FACTOR, Band
+
+if TYPE_CHECKING:
+    from enumerator.vibrations.fitting import FitResult
 
 __all__ = [
     "Candidate",
@@ -385,7 +388,7 @@ def check_window(
 # the result
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class Candidate:
     """One geometric isomer's agreement with the measured bands.
 
@@ -520,7 +523,7 @@ class Candidate:
         }
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class MatchResult:
     """The ranked candidates for one set of measured bands of one reporter class.
 
@@ -622,6 +625,8 @@ def _oc_angle(iso, pattern, it: Interpretation, obs: Observed, pred) -> float | 
     i_sym, i_asym = obs.intensity(by_pred[0][0]), obs.intensity(by_pred[1][0])
     if i_sym is None or i_asym is None:
         return None
+    from enumerator.vibrations.fitting import dicarbonyl_angle  # the fit: only where bands are matched
+
     return dicarbonyl_angle(i_sym, i_asym)
 
 
@@ -629,6 +634,8 @@ def _full_fit(iso: Isomer, reporter_class: str, it: Interpretation, obs: Observe
     """The full force-constant fit (kt = 2 kc) of the same assignment, or why there is none."""
     if it.extra or not it.pairs:
         return None, None
+    from enumerator.vibrations.fitting import Observation, fit_constants  # only where bands are matched
+
     labels = [
         Observation(obs.wavenumbers[j], pred[k].name if not pred[k].name.startswith("mode") else None)
         for j, k in it.pairs
@@ -639,7 +646,7 @@ def _full_fit(iso: Isomer, reporter_class: str, it: Interpretation, obs: Observe
         return None, f"no full fit: {exc.what}"
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class _Settings:
     reporter_class: str
     tolerance: float
@@ -648,7 +655,7 @@ class _Settings:
     composition: Composition | None = None
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class _Prediction:
     """One geometric isomer's predicted pattern, its stretch species and the bands as the likelihood reads them."""
 

@@ -43,13 +43,13 @@ times :meth:`Model.derivative`, which is what the fits use.
 from __future__ import annotations
 
 from collections.abc import Mapping, Sequence
-from dataclasses import dataclass
 from typing import Any
 
 import numpy as np
 
 from enumerator.caches import cached
 from enumerator.errors import InputError
+from enumerator.frozen import frozen_dataclass
 from enumerator.isomers.enumeration import Isomer, Site
 from enumerator.model.smiles import SmilesGraph, heavy_atoms
 from enumerator.rules.forcefields import ClassField, atom_mass, class_field, element_mass
@@ -60,7 +60,7 @@ from enumerator.rules.ruleset import RuleSet, closest_names, load_rules
 __all__ = ["Oscillator", "StretchSet", "Model", "build_model", "reporter_classes"]
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class Oscillator:
     """One X–Y stretch at a coordination site (0-based ``site``); masses in u."""
 
@@ -82,7 +82,7 @@ class Oscillator:
         return f"{self.x}{self.y}"
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class StretchSet:
     """One symmetry-distinct set of oscillators sharing a stretching constant.
 
@@ -109,7 +109,7 @@ class StretchSet:
         return f"{reporter_class} at site{'s' if len(self.sites) > 1 else ''} {where} ({t})"
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class Model:
     """The energy-factored force field of one reporter class on one isomer."""
 

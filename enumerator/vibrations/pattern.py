@@ -37,12 +37,13 @@ from __future__ import annotations
 
 import math
 from collections.abc import Mapping, Sequence
-from dataclasses import dataclass, replace
+from dataclasses import replace
 from typing import Any
 
 import numpy as np
 
 from enumerator.errors import InputError
+from enumerator.frozen import frozen_dataclass
 from enumerator.isomers.enumeration import Isomer
 from enumerator.model.composition import Composition
 from enumerator.rules.bandmodel import load_bandmodel
@@ -54,7 +55,7 @@ from enumerator.vibrations.solver import Band, Mode, solve_modes
 __all__ = ["BandPattern", "band_pattern", "predict_bands", "parse_constants"]
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class BandPattern:
     """Predicted bands of one reporter class on one isomer.
 
@@ -154,7 +155,7 @@ _GENERIC_NOTE = {
 }
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class _Additive:
     """The additive model's values for one pattern: the model with pair weights, defaults, sigma per band, notes."""
 

@@ -32,13 +32,14 @@ from __future__ import annotations
 
 import math
 from collections.abc import Mapping, Sequence
-from dataclasses import dataclass, field
+from dataclasses import field
 from typing import Any
 
 import numpy as np
 
 from enumerator.caches import cached
 from enumerator.errors import InputError, IsosieveError
+from enumerator.frozen import frozen_dataclass
 from enumerator.isomers.enumeration import Isomer
 from enumerator.vibrations.model import Model
 
@@ -76,7 +77,7 @@ def _frozen(a: np.ndarray) -> np.ndarray:
 # symmetry blocks
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class SymmetryBlock:
     """The oscillator subspace of one symmetry species.
 
@@ -93,7 +94,7 @@ class SymmetryBlock:
     raman_allowed: bool | None = None
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class SymmetryBlocks:
     """The split of an oscillator space into species.
 
@@ -216,7 +217,7 @@ def symmetry_blocks(isomer: Isomer, sites: tuple[int, ...]) -> SymmetryBlocks:
 # solving
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class Band:
     """One predicted band (a normal mode, or a degenerate set of them).
 
@@ -277,7 +278,7 @@ class Band:
         }
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class Mode:
     """A band with its eigenvectors in y-space (n x d, read-only; d = degeneracy)."""
 
@@ -285,7 +286,7 @@ class Mode:
     vectors: np.ndarray = field(compare=False)
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class NormalModes:
     """The solution of one GF problem: modes highest first, with the species
     string and the note of :class:`SymmetryBlocks`."""

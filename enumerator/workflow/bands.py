@@ -30,7 +30,6 @@ gives its species zero intensity
 from __future__ import annotations
 
 from collections.abc import Callable, Mapping, Sequence
-from dataclasses import dataclass
 from types import MappingProxyType
 from typing import TYPE_CHECKING, Any
 
@@ -39,10 +38,10 @@ from enumerator.analyses.safety import cautions
 from enumerator.analyses.stretch.likelihood import default_sigma
 from enumerator.analyses.stretch.modes import ModeSet, stretch_modes
 from enumerator.errors import InputError, IsosieveError
+from enumerator.frozen import frozen_dataclass
 from enumerator.isomers.enumeration import Isomer, IsomerSet, enumerate_isomers
 from enumerator.model.composition import Composition
 from enumerator.rules.ruleset import RuleSet, load_rules
-from enumerator.vibrations.fitting import FitResult, Observation, check_constants, fit_constants
 from enumerator.vibrations.matching import (
     DEFAULT_TOLERANCE,
     DEFAULT_WEAK,
@@ -62,6 +61,8 @@ from enumerator.workflow.pipeline import Request, prepare
 if TYPE_CHECKING:
     import pandas as pd
 
+    from enumerator.vibrations.fitting import FitResult, Observation
+
 __all__ = [
     "ClassBands",
     "IsomerBands",
@@ -73,7 +74,7 @@ __all__ = [
 ]
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class ClassBands:
     """The bands of one reporter class on one isomer, with the fit when one was asked for.
 
@@ -124,7 +125,7 @@ class ClassBands:
         return doc
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class IsomerBands:
     """The predicted bands of one isomer.
 
@@ -148,7 +149,7 @@ class IsomerBands:
         }
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class BandsResult:
     """The answer of ``isosieve bands``: every isomer's predicted bands.
 
@@ -215,7 +216,7 @@ class BandsResult:
         return _html(f"{self.formula} on {self.geometry}: predicted bands", self.to_dataframe(), self.safety)
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class MatchReport:
     """The answer of ``isosieve match``: the ranking with the formula it is for."""
 
@@ -365,6 +366,8 @@ def _class_bands(
         return ClassBands(cls, pattern, None, modes)
     if len(others) > 1:
         raise InputError("--fit needs one isomer", f"add --isomer, one of {', '.join(others)}")
+    from enumerator.vibrations.fitting import fit_constants  # only when bands are fitted
+
     fit = fit_constants(iso, cls, measured, fixed=fixed, tie_ck=tie_ck, start=constants, rules=rules)
     return ClassBands(cls, pattern, fit, modes)
 
@@ -399,6 +402,8 @@ def _check_fit_inputs(
     """Bound what was typed: the constants to their physical ranges, fitted bands to the class's window (reaching
     out to the band model's predictions for the isomers shown)."""
     if constants:
+        from enumerator.vibrations.fitting import check_constants  # the fit's module: only with typed-in constants
+
         check_constants(constants, "--constants")
     if not measured:
         return

@@ -20,10 +20,11 @@ are rounded so that the same input gives byte-identical output.
 from __future__ import annotations
 
 from collections.abc import Mapping
-from dataclasses import dataclass, field
+from dataclasses import field
 from typing import TYPE_CHECKING, Any, Protocol, runtime_checkable
 
 from enumerator.caches import cached
+from enumerator.frozen import frozen_dataclass
 from enumerator.isomers.enumeration import Isomer, IsomerSet
 from enumerator.model.composition import Composition
 from enumerator.model.geometry import Geometry
@@ -113,7 +114,7 @@ def isomer_to_dict(iso: Isomer, seen: dict[int, dict[str, Any]] | None = None) -
     }
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class Result:
     """One formula's answer."""
 

@@ -33,13 +33,13 @@ A new analysis stage adds its columns by registering a function for its type:
 from __future__ import annotations
 
 from collections.abc import Iterable, Mapping
-from dataclasses import dataclass
 from functools import singledispatch
 from types import MappingProxyType
 from typing import TYPE_CHECKING, Any
 
 from enumerator.analyses.descriptors import DescriptorAnalysis
 from enumerator.analyses.stretch import StretchAnalysis
+from enumerator.frozen import frozen_dataclass
 from enumerator.isomers.occupancy import occupancy
 from enumerator.workflow.result import Result
 
@@ -55,7 +55,7 @@ KINDS = ("text", "id", "formula", "symbol", "species", "descriptor", "count", "n
 Cell = str | int | None
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class TableColumn:
     """One column of the isomer table: header, kind (one of :data:`KINDS`) and a cell per isomer id.
 

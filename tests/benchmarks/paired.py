@@ -15,7 +15,9 @@ round:
 
 Both trees get their bytecode compiled first (an installed package has it;
 a checkout run with ``PYTHONDONTWRITEBYTECODE`` would otherwise compile every
-module on every start).
+module on every start), and a tree with :mod:`enumerator.frozen` its
+dataclasses' kept method code (``python -m enumerator.frozen``), which a first
+run writes where bytecode may be written.
 """
 
 from __future__ import annotations
@@ -57,6 +59,9 @@ def calibration() -> float:
 
 def _compile(tree: Path) -> None:
     compileall.compile_dir(str(tree / "enumerator"), quiet=1, workers=1)
+    if (tree / "enumerator" / "frozen.py").exists():  # the dataclasses' kept method code, as bytecode
+        env = dict(os.environ, PYTHONPATH=str(tree))
+        subprocess.run([sys.executable, "-m", "enumerator.frozen"], cwd=tree, env=env, check=True, capture_output=True)
 
 
 @cache

@@ -22,7 +22,7 @@ with a linear NO.
 from __future__ import annotations
 
 from collections.abc import Mapping
-from dataclasses import dataclass, field
+from dataclasses import field
 from typing import Any
 
 from enumerator.analyses.centre.departures import CountCheck, check_count
@@ -30,13 +30,14 @@ from enumerator.analyses.centre.electrons import ElectronCount, count_electrons
 from enumerator.analyses.centre.geometry import geometry_decision
 from enumerator.analyses.views import RequestView, ResultView
 from enumerator.errors import InputError
+from enumerator.frozen import frozen_dataclass
 from enumerator.model.composition import Composition
 from enumerator.rules.ruleset import load_rules
 
 __all__ = ["CentreAnalysis", "centre_notes", "stage"]
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class CentreAnalysis:
     """The centre's electron counts, their check against the 18-electron rule and its usual exceptions,
     and the geometry choice; adds the top-level JSON ``centre``."""

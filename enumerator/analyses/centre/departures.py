@@ -53,11 +53,12 @@ from __future__ import annotations
 
 import re
 from collections.abc import Callable, Sequence
-from dataclasses import dataclass, replace
+from dataclasses import replace
 from typing import Any
 
 from enumerator.analyses.centre.electrons import ElectronCount, count_electrons
 from enumerator.errors import IsosieveError
+from enumerator.frozen import frozen_dataclass
 from enumerator.model.composition import Composition
 from enumerator.parse.formula import parse_formula
 from enumerator.rules.ligands import load_ligands
@@ -82,7 +83,7 @@ _MAX_CHARGE_STEP = 2
 _MAX_SUGGESTIONS = 3
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class Suggestion:
     """A formula one change away that counts 18, and the change in words ('CO 5 -> 4')."""
 
@@ -94,7 +95,7 @@ class Suggestion:
         return {"formula": self.formula, "change": self.change}
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class CountCheck:
     """The verdict on one centre's valence-electron count.
 
@@ -133,7 +134,7 @@ class CountCheck:
         }
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class _Centre:
     """What the usual counts are judged on."""
 
@@ -144,7 +145,7 @@ class _Centre:
     sandwich: bool
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class UsualCount:
     """One usual count: when it applies, the count it expects, the words and the source."""
 

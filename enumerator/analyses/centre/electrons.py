@@ -30,11 +30,11 @@ periodic table); nothing per element is typed in.
 
 from __future__ import annotations
 
-from dataclasses import dataclass
 from typing import NamedTuple
 
 from enumerator.caches import cached
 from enumerator.errors import InputError
+from enumerator.frozen import frozen_dataclass
 from enumerator.model.composition import Composition
 from enumerator.model.elements import atomic_number, group_of
 
@@ -101,7 +101,7 @@ class NitrosylBinding(NamedTuple):
     binding: str
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class ElectronCount:
     """Both electron counts of one mononuclear centre (None where a count does not apply)."""
 

@@ -35,10 +35,9 @@ it relates to the default.
 
 from __future__ import annotations
 
-from dataclasses import dataclass
-
 from enumerator.analyses.centre.electrons import ElectronCount, count_electrons
 from enumerator.errors import InputError
+from enumerator.frozen import frozen_dataclass
 from enumerator.model.composition import Composition
 from enumerator.rules.geometry_choice import CentreFacts, GeometryRule, load_geometry_choice
 from enumerator.rules.ruleset import RuleSet
@@ -46,7 +45,7 @@ from enumerator.rules.ruleset import RuleSet
 __all__ = ["default_geometry", "choose_geometry", "geometry_decision", "GeometryDecision", "centre_facts"]
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class GeometryDecision:
     """The default geometry of a centre with the rule behind it.
 

@@ -21,7 +21,7 @@ the result down to them.
 from __future__ import annotations
 
 from collections.abc import Mapping
-from dataclasses import dataclass, replace
+from dataclasses import replace
 from functools import cached_property
 from typing import Any, TypeVar
 
@@ -31,6 +31,7 @@ from enumerator.analyses.descriptors.select import picked_ids
 from enumerator.analyses.names import additive_name
 from enumerator.analyses.views import RequestView, ResultView
 from enumerator.errors import IsosieveError
+from enumerator.frozen import frozen_dataclass
 from enumerator.isomers.enumeration import IsomerSet
 from enumerator.rules.ruleset import load_rules
 
@@ -42,7 +43,7 @@ SOURCE = "IUPAC Nomenclature of Inorganic Chemistry (2005), IR-9.3"
 SHARED_LIST_MAX = 50
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class DescriptorAnalysis:
     """Per-isomer IUPAC descriptors and names of a result; adds JSON ``descriptor``, ``priorities``,
     ``descriptor_detail`` and ``name`` per isomer and ``descriptor_rules`` at the top."""

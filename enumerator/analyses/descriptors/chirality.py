@@ -26,13 +26,16 @@ from __future__ import annotations
 
 import itertools
 from collections.abc import Mapping
+from typing import TYPE_CHECKING
 
 import numpy as np
-from numpy.typing import ArrayLike
 
 from enumerator.analyses.descriptors.ranks import Rank, site_vector
 from enumerator.isomers.enumeration import Isomer
 from enumerator.model.geometry import Geometry
+
+if TYPE_CHECKING:
+    from numpy.typing import ArrayLike  # annotations only: numpy.typing is not imported at run time
 
 __all__ = ["SYMBOL_TEXT", "rs_symbol", "skew_lines_sense", "tetrahedral_rs", "skew_lines_symbol"]
 

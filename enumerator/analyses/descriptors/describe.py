@@ -21,7 +21,6 @@ the first :data:`~.priming.PRIMING_SCAN` isomers).
 from __future__ import annotations
 
 from collections.abc import Mapping, Sequence
-from dataclasses import dataclass
 
 from enumerator.analyses.descriptors.chirality import SYMBOL_TEXT, skew_lines_symbol, tetrahedral_rs
 from enumerator.analyses.descriptors.prefixes import everyday_prefixes, prefix_text
@@ -29,6 +28,7 @@ from enumerator.analyses.descriptors.priming import PRIMING_SCAN, base_ranks, ha
 from enumerator.analyses.descriptors.ranks import Rank, format_rank
 from enumerator.analyses.descriptors.rules import RULE_TEXT, RULES, SUPPORTED
 from enumerator.caches import cached
+from enumerator.frozen import frozen_dataclass
 from enumerator.isomers.enumeration import Isomer, IsomerSet, generate
 from enumerator.model.composition import Composition
 from enumerator.model.geometry import Geometry
@@ -36,7 +36,7 @@ from enumerator.model.geometry import Geometry
 __all__ = ["Descriptor", "describe_isomer", "describe_set"]
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class Descriptor:
     """The IUPAC stereodescriptor of one isomer.
 

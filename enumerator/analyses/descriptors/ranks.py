@@ -15,10 +15,10 @@ by fixed indices: user rule files may order sites differently.
 from __future__ import annotations
 
 from collections.abc import Mapping, Sequence
-from dataclasses import dataclass
 
 import numpy as np
 
+from enumerator.frozen import frozen_dataclass
 from enumerator.model.geometry import Geometry
 
 __all__ = ["Rank", "Sequences", "Choice", "format_rank", "trans_partners", "site_vector", "ring_sequences"]
@@ -29,7 +29,7 @@ Rank = tuple[int, int]
 Sequences = tuple[tuple[tuple[Rank, ...], str], ...]
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class Choice:
     """One admissible choice of reference atoms under a rule.
 

@@ -26,7 +26,7 @@ judged here (:mod:`.pairs`, :mod:`.likelihood`), for up to
 from __future__ import annotations
 
 from collections.abc import Mapping, Sequence
-from dataclasses import dataclass, replace
+from dataclasses import replace
 from functools import cached_property
 from typing import Any
 
@@ -44,6 +44,7 @@ from enumerator.analyses.stretch.pairs import (
 from enumerator.analyses.views import RequestView, ResultView
 from enumerator.caches import cached
 from enumerator.errors import InputError
+from enumerator.frozen import frozen_dataclass
 from enumerator.isomers.enumeration import Isomer
 from enumerator.isomers.tables import table_for_isomer
 from enumerator.model.composition import Composition, LigandKind
@@ -91,7 +92,7 @@ VERDICT_RULE = (
 LINEAR_AXES = "linear: z along the molecular axis; D∞h / C∞v species by correlation from the finite D2h / C2v proxy"
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class LigandNMR:
     """One ligand's environments in one isomer; ``observable``: counted in the NMR signature."""
 
@@ -101,7 +102,7 @@ class LigandNMR:
     observable: bool
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class StretchAnalysis:
     """Stretch modes per isomer and class, NMR environments per ligand, and the pairwise
     distinguishability; adds JSON ``modes``, ``nmr_environments`` and ``axes`` per isomer and the pairs,

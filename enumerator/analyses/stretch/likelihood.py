@@ -83,12 +83,13 @@ from __future__ import annotations
 import itertools
 import math
 from collections.abc import Mapping, Sequence
-from dataclasses import dataclass, field
+from dataclasses import field
 from types import MappingProxyType
 
 import numpy as np
 
 from enumerator.caches import cached
+from enumerator.frozen import frozen_dataclass
 
 __all__ = [
     "DEFAULT_SIGMA_CM1",
@@ -168,7 +169,7 @@ _PRUNE_SIGMA = 6.0
 _LOG_2PI = math.log(2.0 * math.pi)
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class PredictedBand:
     """One IR-allowed predicted band: ``wavenumber`` and ``sigma`` in cm-1, ``intensity`` relative to the
     strongest (bond-dipole model); ``weak`` marks a band of a species the bond-dipole model makes silent;
@@ -182,7 +183,7 @@ class PredictedBand:
     weak: bool = False
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class Observed:
     """Measured bands: ``wavenumbers`` (cm-1, highest first) and ``intensities`` (relative, None where not
     given; empty: none given)."""
@@ -195,7 +196,7 @@ class Observed:
         return self.intensities[j] if self.intensities else None
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class Terms:
     """The natural-log likelihood of one assignment, term by term."""
 
@@ -210,7 +211,7 @@ class Terms:
         return self.position + self.count + self.extra + self.intensity
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class Interpretation:
     """The best assignment of measured to predicted bands, as the likelihood reads it.
 
@@ -241,7 +242,7 @@ class Interpretation:
         return any(a > b for a, b in zip(ks, ks[1:]))
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class PatternScore:
     """The evidence of one predicted pattern for a measured spectrum: ``log_evidence`` (natural log, summed
     over assignments), the ``best`` assignment, the shift prior ``shift_sigma`` (cm-1), how many assignments
@@ -291,7 +292,7 @@ def default_sigma(reporter_class: str) -> float:
 # what does not depend on the assignment
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class _Setup:
     """Per-pattern quantities: slopes, variances, weak probabilities, hosts, hiding probabilities and which
     unobserved bands add their intensity to their host."""

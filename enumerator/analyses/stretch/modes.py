@@ -47,13 +47,13 @@ a predicted weak band everywhere: the isomer table, the pair verdicts,
 from __future__ import annotations
 
 from collections.abc import Mapping, Sequence
-from dataclasses import dataclass
 from typing import Any
 
 import numpy as np
 
 from enumerator.caches import cached
 from enumerator.errors import InputError
+from enumerator.frozen import frozen_dataclass
 from enumerator.isomers.enumeration import Isomer
 from enumerator.isomers.tables import table_for_isomer
 from enumerator.symmetry.chartable import table_from_matrices
@@ -65,7 +65,7 @@ __all__ = ["ModeSet", "stretch_modes", "environments"]
 _LINEAR_ORDER = ("Sigma_g+", "Sigma+", "Sigma_u+")
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class ModeSet:
     """The stretches of one reporter class in one isomer.
 

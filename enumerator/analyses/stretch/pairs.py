@@ -34,8 +34,9 @@ Enantiomers share every count in achiral media and are never marked distinct.
 from __future__ import annotations
 
 from collections.abc import Collection, Hashable, Sequence
-from dataclasses import dataclass
 from typing import Any
+
+from enumerator.frozen import frozen_dataclass
 
 __all__ = [
     "COST_ORDER",
@@ -83,7 +84,7 @@ def counts_tell_ir(ir_a: int, ir_b: int, dipole_a: int, dipole_b: int) -> bool:
     return ir_a != ir_b and dipole_a != dipole_b
 
 
-@dataclass(frozen=True)
+@frozen_dataclass
 class Pair:
     """Whether IR, Raman and NMR tell two isomers apart; ``note`` says 'enantiomers' for those.
 
