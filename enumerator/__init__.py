@@ -35,9 +35,8 @@ Every name but the errors loads on first use, so that ``import enumerator``
 
 from __future__ import annotations
 
-from typing import Any
-
 from enumerator.errors import CapacityError, InputError, IsosieveError, RuleError
+from enumerator.lazy import lazy_names
 
 __version__ = "0.1.0"
 
@@ -76,13 +75,4 @@ _LAZY = {
 }
 
 
-def __getattr__(name: str) -> Any:
-    if name in _LAZY:
-        import importlib
-
-        return getattr(importlib.import_module(f".{_LAZY[name]}", __name__), name)
-    raise AttributeError(f"module 'enumerator' has no attribute {name!r}")
-
-
-def __dir__() -> list[str]:
-    return sorted(set(globals()) | set(_LAZY))
+__getattr__, __dir__ = lazy_names(__name__, _LAZY, globals())

@@ -19,7 +19,9 @@ read by :mod:`enumerator.rules.forcefields`.
 
 from __future__ import annotations
 
-from typing import TYPE_CHECKING, Any
+from typing import TYPE_CHECKING
+
+from enumerator.lazy import lazy_names
 
 if TYPE_CHECKING:
     from enumerator.vibrations.fitting import FitResult, Observation, fit_constants, parse_bands
@@ -77,13 +79,4 @@ __all__ = [
 ]
 
 
-def __getattr__(name: str) -> Any:
-    if name in _LAZY:
-        import importlib
-
-        return getattr(importlib.import_module(f".{_LAZY[name]}", __name__), name)
-    raise AttributeError(f"module {__name__!r} has no attribute {name!r}")
-
-
-def __dir__() -> list[str]:
-    return sorted(set(globals()) | set(_LAZY))
+__getattr__, __dir__ = lazy_names(__name__, _LAZY, globals())
