@@ -44,7 +44,17 @@ from enumerator.caches import cached
 if TYPE_CHECKING:
     from enumerator.model.smiles import SmilesGraph
 
-__all__ = ["TWIN_NAME", "GRAPHS_NAME", "FORMAT", "lookup", "build", "write", "documents", "build_graphs", "smiles_graph"]
+__all__ = [
+    "TWIN_NAME",
+    "GRAPHS_NAME",
+    "FORMAT",
+    "lookup",
+    "build",
+    "write",
+    "documents",
+    "build_graphs",
+    "smiles_graph",
+]
 
 #: The twin's file name, in the built-in rules folder.
 TWIN_NAME = "parsed.twin"
@@ -291,6 +301,9 @@ def write(folder: Path | None = None) -> Path:
         fh.write(build(folder))
     with open(folder / GRAPHS_NAME, "w", encoding="utf-8", newline="") as fh:
         fh.write(build_graphs(folder))
+    from enumerator.rules import derived  # the built-in geometries' symmetry, derived from the files just read
+
+    derived.write(folder)
     return out
 
 
