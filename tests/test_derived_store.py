@@ -53,7 +53,7 @@ def test_store_rebuilds_to_the_committed_one():
 def test_every_builtin_geometry_is_stored_and_equals_a_fresh_derivation():
     # reference: the derivation code run now (not cached, never from the store)
     geos = _builtin_geometries()
-    assert len(geos) == len(json.loads(STORE.read_text(encoding="utf-8"))["geometries"])
+    assert len(geos) == len(_lines(STORE.read_text(encoding="utf-8"))[1])
     for g in geos:
         stored = SOURCE.operations(g.vectors)
         assert stored is not None, g.symbol
@@ -105,37 +105,53 @@ def _with_store(monkeypatch, tmp_path: Path, text: str) -> None:
     caches.clear()
 
 
-@pytest.mark.parametrize(
-    "damage",
-    [
-        lambda doc: "{not json",
-        lambda doc: json.dumps({**doc, "format": FORMAT + 1}),
-        lambda doc: json.dumps({**doc, "store": "something else"}),
-        lambda doc: json.dumps(
-            {**doc, "geometries": [{**e, "operations": [[[[1, 0, 0]] * 3, [0]]]} for e in doc["geometries"]]}
-        ),
-        lambda doc: json.dumps({**doc, "geometries": [{**e, "tables": [{"ranks": None}]} for e in doc["geometries"]]}),
-    ],
-    ids=["not-json", "other-format", "other-store", "bad-operation", "bad-table"],
-)
-def test_a_damaged_store_costs_time_not_answers(monkeypatch, tmp_path, damage, request):
-    damage_id = request.node.callspec.id
-    doc = json.loads(STORE.read_text(encoding="utf-8"))
+def _lines(text: str) -> tuple[dict[str, Any], list[tuple[str, dict[str, Any]]]]:
+    head, *rest = text.splitlines()
+    return json.loads(head), [(k, json.loads(e)) for k, _, e in (line.partition("\t") for line in rest)]
+
+
+def _text(head: dict[str, Any], entries: list[tuple[str, Any]]) -> str:
+    return "".join([json.dumps(head) + "\n", *(f"{k}\t{json.dumps(e)}\n" for k, e in entries)])
+
+
+_DAMAGE = {
+    "not-json": lambda h, es: "{not json\n" + _text(h, es).partition("\n")[2],
+    "other-format": lambda h, es: _text({**h, "format": FORMAT + 1}, es),
+    "other-store": lambda h, es: _text({**h, "store": "something else"}, es),
+    "cut-entry": lambda h, es: _text(h, []) + "".join(f"{k}\t{json.dumps(e)[:-9]}\n" for k, e in es),
+    "bad-operation": lambda h, es: _text(h, [(k, {**e, "operations": [[[[1, 0, 0]] * 3, [0]]]}) for k, e in es]),
+    "bad-table": lambda h, es: _text(h, [(k, {**e, "tables": [{"ranks": None}]}) for k, e in es]),
+}
+
+
+@pytest.mark.parametrize("damage_id", list(_DAMAGE))
+def test_a_damaged_store_costs_time_not_answers(monkeypatch, tmp_path, damage_id):
+    head, entries = _lines(STORE.read_text(encoding="utf-8"))
     oc = load_rules().geometry("OC-6")
     fresh_ops = derive_operations_afresh(oc.vectors)
     fresh_table = geometry_table_afresh(oc.vectors, tuple(range(48)), None)
-    _with_store(monkeypatch, tmp_path, damage(doc))
+    _with_store(monkeypatch, tmp_path, _DAMAGE[damage_id](head, entries))
     try:
         # a damaged part is not served; what is served is right
         ops, table = SOURCE.operations(oc.vectors), SOURCE.table(oc.vectors, tuple(range(48)), None)
         assert ops is None or _same(ops, fresh_ops)
         assert table is None or _same(table, fresh_table)
-        if damage_id in ("not-json", "other-format", "other-store"):
+        if damage_id in ("not-json", "other-format", "other-store", "cut-entry"):
             assert (ops, table) == (None, None)
         else:  # one part damaged: that part alone is derived again
             assert (ops is None) == (damage_id == "bad-operation") and (table is None) == (damage_id == "bad-table")
         assert _same(derive_operations(oc.vectors), fresh_ops)
         assert _same(character_table(oc, tuple(range(48))), fresh_table)
+    finally:
+        caches.clear()
+
+
+def test_an_intact_copy_of_the_store_is_served(monkeypatch, tmp_path):
+    head, entries = _lines(STORE.read_text(encoding="utf-8"))
+    oc = load_rules().geometry("OC-6")
+    _with_store(monkeypatch, tmp_path, _text(head, entries))
+    try:
+        assert _same(SOURCE.operations(oc.vectors), derive_operations_afresh(oc.vectors))
     finally:
         caches.clear()
 
