@@ -177,3 +177,20 @@ def test_installing_twice_keeps_one_source():
     derived.install()
     derived.install()
     assert sum(1 for s in known.installed() if s is SOURCE) == 1
+
+
+def test_a_users_geometry_of_a_builtin_shape_is_derived_from_its_own_vectors(tmp_path):
+    # the octahedron with sites 2 and 3 swapped: same shape and group, other site order, so other permutations
+    text = (BUILTIN_RULES / "geometries" / "OC-6.toml").read_text(encoding="utf-8")
+    swapped = text.replace("[1.0, 0.0, 0.0],\n  [0.0, 1.0, 0.0],", "[0.0, 1.0, 0.0],\n  [1.0, 0.0, 0.0],")
+    assert swapped != text
+    (tmp_path / "geometries").mkdir()
+    (tmp_path / "geometries" / "OC-6.toml").write_text(swapped, encoding="utf-8")
+    user = load_rules([tmp_path]).geometry("OC-6")
+    builtin = load_rules().geometry("OC-6")
+    assert user.vectors != builtin.vectors and SOURCE.operations(user.vectors) is None
+    fresh = derive_operations_afresh(user.vectors)
+    assert _same(user.operations, fresh) and [op.perm for op in fresh] != [op.perm for op in builtin.operations]
+    every = tuple(range(len(fresh)))
+    assert SOURCE.table(user.vectors, every, None) is None
+    assert _same(character_table(user, every), geometry_table_afresh(user.vectors, every, None))
