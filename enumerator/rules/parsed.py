@@ -27,7 +27,8 @@ The same command writes :data:`GRAPHS_NAME`: the atoms and bonds RDKit reads
 from every ``smiles`` string of the built-in files (the ligand catalogue),
 keyed by the SMILES text, so that the band model's oscillator atoms and
 masses need no RDKit for a built-in ligand (:func:`smiles_graph`; any other
-SMILES is read by RDKit then and there).
+SMILES is read by RDKit then and there), and :data:`enumerator.rules.derived.STORE_NAME`: the
+built-in geometries' symmetry operations and whole-group character tables (:mod:`enumerator.rules.derived`).
 """
 
 from __future__ import annotations
