@@ -35,6 +35,7 @@ from typing import Any
 from enumerator.limits import MAX_SITES
 from enumerator.model.geometry import SPANS, Geometry
 from enumerator.rules.checks import check_keys, read_toml, rule_error
+from enumerator.rules.derived import install as install_stored_symmetry
 from enumerator.rules.snapping import Ambiguous, Snap, snap_sites
 from enumerator.symmetry.derive import Vec
 from enumerator.symmetry.operations import GroupIdentificationError
@@ -223,6 +224,7 @@ def load_geometries(paths: Iterable[Path], builtin: Path | None = None) -> Mappi
         symbol to another shape (other site count or point group), which the naming rules of that symbol
         would misread; two geometries of one coordination number are both marked ``default_for_abstract``.
     """
+    install_stored_symmetry()  # the built-in geometries' operations and tables, read on first use
     geos: dict[str, Geometry] = {}
     builtins: dict[str, Geometry] = {}
     users: dict[str, Geometry] = {}

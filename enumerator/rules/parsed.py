@@ -27,7 +27,8 @@ The same command writes :data:`GRAPHS_NAME`: the atoms and bonds RDKit reads
 from every ``smiles`` string of the built-in files (the ligand catalogue),
 keyed by the SMILES text, so that the band model's oscillator atoms and
 masses need no RDKit for a built-in ligand (:func:`smiles_graph`; any other
-SMILES is read by RDKit then and there).
+SMILES is read by RDKit then and there), and :data:`enumerator.rules.derived.STORE_NAME`: the
+built-in geometries' symmetry operations and whole-group character tables (:mod:`enumerator.rules.derived`).
 """
 
 from __future__ import annotations
@@ -44,7 +45,17 @@ from enumerator.caches import cached
 if TYPE_CHECKING:
     from enumerator.model.smiles import SmilesGraph
 
-__all__ = ["TWIN_NAME", "GRAPHS_NAME", "FORMAT", "lookup", "build", "write", "documents", "build_graphs", "smiles_graph"]
+__all__ = [
+    "TWIN_NAME",
+    "GRAPHS_NAME",
+    "FORMAT",
+    "lookup",
+    "build",
+    "write",
+    "documents",
+    "build_graphs",
+    "smiles_graph",
+]
 
 #: The twin's file name, in the built-in rules folder.
 TWIN_NAME = "parsed.twin"
@@ -291,6 +302,9 @@ def write(folder: Path | None = None) -> Path:
         fh.write(build(folder))
     with open(folder / GRAPHS_NAME, "w", encoding="utf-8", newline="") as fh:
         fh.write(build_graphs(folder))
+    from enumerator.rules import derived  # the built-in geometries' symmetry, derived from the files just read
+
+    derived.write(folder)
     return out
 
 

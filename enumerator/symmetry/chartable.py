@@ -42,13 +42,14 @@ import numpy as np
 from enumerator.caches import cached
 from enumerator.errors import InputError
 from enumerator.frozen import frozen_dataclass
-from enumerator.symmetry.derive import Vec, derive_operations
+from enumerator.symmetry import known
+from enumerator.symmetry.derive import Vec, derive_operations, derive_operations_afresh
 from enumerator.symmetry.dixon import burnside_dixon, conjugacy_classes, multiplication_table, real_species
 from enumerator.symmetry.frames import AXIS_RULE, axes_note, choose_frame
 from enumerator.symmetry.functions import function_sets
 from enumerator.symmetry.groups import GROUP_NAME, group_generators, group_matrices
 from enumerator.symmetry.labels import GroupView, class_labels, mulliken_labels
-from enumerator.symmetry.operations import describe_exact, schoenflies
+from enumerator.symmetry.operations import SymOp, describe_exact, schoenflies
 from enumerator.tolerances import CHARACTER_TOL, FINE_DECIMALS
 
 __all__ = [
@@ -58,6 +59,7 @@ __all__ = [
     "SiteGeometry",
     "character_table",
     "table_from_matrices",
+    "geometry_table_afresh",
     "named_table",
     "format_character",
     # re-exported from the modules that define them
@@ -264,7 +266,35 @@ def character_table(
 def _geometry_table(
     vectors: tuple[Vec, ...], op_indices: tuple[int, ...], ranks: tuple[int, ...] | None
 ) -> CharacterTable:
-    ops = derive_operations(vectors)
+    stored = known.table(vectors, op_indices, ranks)
+    return _table_of(derive_operations(vectors), vectors, op_indices, ranks) if stored is None else stored
+
+
+def geometry_table_afresh(
+    vectors: tuple[Vec, ...], op_indices: tuple[int, ...], ranks: tuple[int, ...] | None
+) -> CharacterTable:
+    """The table :func:`character_table` gives for these site vectors, computed now from operations derived now
+    (never from a store, not cached): what the built-in geometries' store is written from.
+
+    Parameters
+    ----------
+    vectors : tuple of (x, y, z)
+        The geometry's site vectors (not collinear).
+    op_indices : tuple of int
+        The subgroup, as indices into :func:`enumerator.symmetry.derive.derive_operations_afresh` of the vectors.
+    ranks : tuple of int or None
+        As :func:`character_table` passes them on (None for groups of order 1 or 2).
+
+    Returns
+    -------
+    CharacterTable
+    """
+    return _table_of(derive_operations_afresh(vectors), vectors, op_indices, ranks)
+
+
+def _table_of(
+    ops: Sequence[SymOp], vectors: tuple[Vec, ...], op_indices: tuple[int, ...], ranks: tuple[int, ...] | None
+) -> CharacterTable:
     mats = [ops[k].array for k in op_indices]
     pts = np.array(vectors, dtype=float)
     # sites that span space fix each operation by its permutation: compose those

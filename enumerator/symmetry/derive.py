@@ -25,6 +25,7 @@ import math
 import numpy as np
 
 from enumerator.caches import cached
+from enumerator.symmetry import known
 from enumerator.symmetry.operations import SymOp
 from enumerator.tolerances import (
     DEGENERATE_FACE_TOL,
@@ -35,7 +36,7 @@ from enumerator.tolerances import (
     VECTOR_TOL,
 )
 
-__all__ = ["derive_operations", "polyhedron_edges", "is_collinear", "Vec"]
+__all__ = ["derive_operations", "derive_operations_afresh", "polyhedron_edges", "is_collinear", "Vec"]
 
 #: One site direction (a unit vector from the metal).
 Vec = tuple[float, float, float]
@@ -134,6 +135,25 @@ def derive_operations(vectors: tuple[Vec, ...]) -> tuple[SymOp, ...]:
     tuple of SymOp
         Every operation once, the identity first, then proper before improper
         operations, each group sorted by kind, order, power and permutation.
+        Vectors a stored source holds (:mod:`enumerator.symmetry.known`: the built-in geometries) are
+        answered from it; the store's test holds it equal to :func:`derive_operations_afresh`.
+    """
+    stored = known.operations(vectors)
+    return derive_operations_afresh(vectors) if stored is None else stored
+
+
+def derive_operations_afresh(vectors: tuple[Vec, ...]) -> tuple[SymOp, ...]:
+    """:func:`derive_operations` derived now, never from a store and not cached (what the store is written from).
+
+    Parameters
+    ----------
+    vectors : tuple of (x, y, z)
+        Unit site directions.
+
+    Returns
+    -------
+    tuple of SymOp
+        As :func:`derive_operations`.
     """
     v = np.array(vectors, dtype=float)
     n = len(v)
