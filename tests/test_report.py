@@ -189,11 +189,14 @@ def test_tables_are_written_while_the_structures_are_embedded(tmp_path):
         'reporters = { a = "CO" }\n',
         encoding="utf-8",
     )
-    with pending_report(str(job)) as pending:
+    heard: list[tuple[str, int, int]] = []
+    with pending_report(str(job), progress=lambda *a: heard.append(a)) as pending:
         assert all(c.structures is None for c in pending.head.complexes)
         early = table_files(pending.head)
         done = pending.finish()
     assert done.complexes[0].structures is not None and done.complexes[1].structures is None
+    # the progress bar hears of the analyses, the report parts, then each complex's structures
+    assert heard[-2:] == [("3D structures of [RuCl2(CO)2(PMe3)2]", 1, 2), ("3D structures of Ma4b2", 2, 2)]
     assert early == table_files(done)
     assert render_report(done) == render_report(report_from_job(str(job)))
 

@@ -195,9 +195,15 @@ def _complexes(
     return tuple(out)
 
 
-def _with_structures(head: Report, ahead: EmbedAhead) -> Report:
-    """The report with every real formula's 3D structures (waits for the embeddings worked out ahead)."""
-    return replace(head, complexes=tuple(replace(c, structures=_structures(c.result, ahead)) for c in head.complexes))
+def _with_structures(head: Report, ahead: EmbedAhead, progress: Progress | None = None) -> Report:
+    """The report with every real formula's 3D structures (waits for the embeddings worked out ahead); the
+    progress callback hears of each complex as its structures come in."""
+    out = []
+    for c in head.complexes:
+        out.append(replace(c, structures=_structures(c.result, ahead)))
+        if progress is not None:
+            progress(f"3D structures of {c.result.composition.formula}", c.number, len(head.complexes))
+    return replace(head, complexes=tuple(out))
 
 
 def build_report(
@@ -228,7 +234,7 @@ def build_report(
     # every complex's embeddings at once, in worker processes when that pays (structures/pool.py)
     with embed_ahead(res for _, res in items) as ahead:
         head = Report(title, _complexes(items, rules, progress), version())
-        return _with_structures(head, ahead)
+        return _with_structures(head, ahead, progress)
 
 
 @dataclass(frozen=True)
@@ -236,11 +242,13 @@ class PendingReport:
     """A report whose 3D structures are still being embedded (:func:`pending_report`).
 
     ``head`` is the whole report but the structures (every complex's ``structures`` is None): enough for the
-    table files, which show no structure.  :meth:`finish` waits for the embeddings and gives the whole report.
+    table files, which show no structure.  :meth:`finish` waits for the embeddings and gives the whole report,
+    telling ``progress`` (if any) of each complex as its structures come in.
     """
 
     head: Report
     ahead: EmbedAhead
+    progress: Progress | None = None
 
     def finish(self) -> Report:
         """The whole report, with the 3D structures (waits for them).
@@ -249,7 +257,7 @@ class PendingReport:
         -------
         Report
         """
-        return _with_structures(self.head, self.ahead)
+        return _with_structures(self.head, self.ahead, self.progress)
 
 
 @contextmanager
@@ -282,7 +290,7 @@ def pending_report(
         head = Report(
             title or job.title or Path(path).stem, _complexes(items, load_rules(tuple(rules)), progress), version()
         )
-        yield PendingReport(head, ahead)
+        yield PendingReport(head, ahead, progress)
 
 
 def report_from_job(
