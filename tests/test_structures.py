@@ -393,7 +393,7 @@ def test_a_single_embedding_is_not_sent_to_a_worker():
     from enumerator.workflow.pipeline import analyse
 
     res = analyse("[Cr(CO)5(PMe3)]")
-    assert len(res.isomers) == 1 < POOL_MIN_EMBEDDINGS
+    assert len(res.isomers) == 1 < POOL_MIN_EMBEDDINGS  # M(CO)5L has one isomer (common practice)
     with EmbedAhead(processes=2) as ahead:
         ahead.add(embedding_items([res]))
         assert ahead._pool is None and ahead.ready(res.isomers[0], res.composition) == {}
